@@ -1,0 +1,168 @@
+"""Command line: ``casedepth carburize …`` and friends.
+
+``main(argv)`` returns the exit code (0 fine, 2 bad input) so it can run in-process. Bad input
+prints one line naming the argument and the allowed range; never a traceback.
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import math
+import sys
+
+from . import __version__, api
+from .carburizing import CarburizingSetup, carburize, soak_time_for_case_depth
+from .diffusivity import METHODS as DIFFUSIVITY_METHODS
+from .errors import InputError
+from .geometry import SHAPES
+from .hardness import HARDNESS_RELATIONS
+from .steels import library
+from .surface import DEFAULT_BETA
+from .units import celsius, fahrenheit, format_duration, parse_length, parse_time, parse_velocity
+
+
+class _UsageError(Exception):
+    pass
+
+
+class _Parser(argparse.ArgumentParser):
+    def error(self, message):  # argparse would print usage and exit; we want one line and exit code 2
+        raise _UsageError(message)
+
+
+def _build_parser() -> argparse.ArgumentParser:
+    parser = _Parser(prog="casedepth", description="Turn a case-depth callout into a furnace cycle.")
+    parser.add_argument("--version", action="version", version=f"casedepth {__version__}")
+    commands = parser.add_subparsers(dest="command", parser_class=_Parser)
+
+    c = commands.add_parser("carburize", help="soak time for a target effective case depth, or the case a soak gives",
+                            description="Soak time at temperature for a target effective case depth (--target), "
+                                        "or the case depth a soak of given length gives (--time).")
+    c.add_argument("--steel", required=True, help='grade from the library (8620, 16MnCr5, …) or "C=0.20 Mn=0.80 Cr=0.50" (wt %%)')
+    c.add_argument("--temperature", required=True, help="furnace temperature: 925C, 1700F or 1198K")
+    c.add_argument("--potential", required=True, help="carbon potential of the atmosphere, wt %% C (e.g. 1.00)")
+    goal = c.add_mutually_exclusive_group(required=True)
+    goal.add_argument("--target", help="effective case depth wanted: 1.0mm, 0.040in")
+    goal.add_argument("--time", help="soak length instead of a target: 6h, 90min, 5h30min")
+    c.add_argument("--at", default="0.40%C", help="threshold: 0.40%%C, 550HV or 50HRC (default 0.40%%C)")
+    c.add_argument("--carbon-at", help="with --time: also report the carbon at this depth (0.5mm)")
+    c.add_argument("--diffusivity", default="tibbetts", choices=list(DIFFUSIVITY_METHODS), help="carbon diffusivity model")
+    c.add_argument("--d0", help="arrhenius only: D0 in m2/s (default 2.3e-5)")
+    c.add_argument("--q", help="arrhenius only: activation energy in kJ/mol (default 148)")
+    c.add_argument("--d-multiplier", default="1", help="calibration factor on D (default 1)")
+    c.add_argument("--beta", default=f"{DEFAULT_BETA * 100:g}cm/s", help="mass-transfer coefficient: 1.5e-5cm/s, or inf for a surface held at equilibrium")
+    c.add_argument("--alloy-factor", default="on", choices=["on", "off"], help="apply the Gunnarson alloy factor (default on)")
+    c.add_argument("--hardness-relation", default="tempered", choices=list(HARDNESS_RELATIONS),
+                   help="carbon-to-hardness relation for HV/HRC thresholds (default tempered)")
+    c.add_argument("--geometry", default="plate", choices=list(SHAPES), help="plate (default), cylinder, bore or sphere")
+    c.add_argument("--diameter", help="cylinder, sphere or bore diameter: 40mm")
+    c.add_argument("--thickness", help="plate thickness, carburized from both faces: 10mm (default: thick section)")
+    c.add_argument("--units", default="metric", choices=["metric", "imperial"], help="units of the printed result")
+    c.add_argument("--json", action="store_true", help="print one JSON object instead of text")
+
+    commands.add_parser("steels", help="list the steel library")
+    return parser
+
+
+# library field name -> the flag a command-line user typed
+FLAGS = {
+    "steel": "--steel", "temperature": "--temperature", "carbon potential": "--potential", "target": "--target",
+    "time": "--time", "threshold": "--at", "carbon at": "--carbon-at", "diffusivity": "--diffusivity",
+    "D0": "--d0", "Q": "--q", "diffusivity multiplier": "--d-multiplier", "beta": "--beta",
+    "hardness relation": "--hardness-relation", "geometry": "--geometry", "diameter": "--diameter",
+    "thickness": "--thickness",
+}
+
+
+def setup_from_args(args) -> CarburizingSetup:
+    """The :class:`CarburizingSetup` the ``carburize`` arguments describe."""
+    return api.setup(
+        args.steel, args.temperature, args.potential, at=args.at, diffusivity=args.diffusivity,
+        beta=parse_velocity(args.beta, "beta"), alloy_factor=args.alloy_factor == "on", geometry=args.geometry,
+        diameter=args.diameter, thickness=args.thickness, hardness_relation=args.hardness_relation,
+        d0=args.d0, q=args.q, d_multiplier=args.d_multiplier,
+    )
+
+
+def _format(result, imperial: bool) -> str:
+    s = result.setup
+
+    def length(m):
+        return f"{m / 0.0254:.4f} in" if imperial else f"{m * 1e3:.3f} mm"
+
+    temp = f"{fahrenheit(s.temperature):.0f} °F" if imperial else f"{celsius(s.temperature):.0f} °C"
+    lines = []
+    if result.target_depth is not None:
+        lines.append(f"Soak time: {format_duration(result.soak_time)} ({result.soak_time / 3600:.2f} h) at {temp}, "
+                     f"carbon potential {s.carbon_potential:.2f} %C")
+    else:
+        lines.append(f"Soak of {format_duration(result.soak_time)} at {temp}, carbon potential {s.carbon_potential:.2f} %C")
+    lines.append(f"  effective case depth  {length(result.case_depth)} at {s.threshold}"
+                 + (f" (= {s.threshold_carbon:.3f} %C)" if s.threshold.kind != "carbon" else ""))
+    lines.append(f"  surface carbon        {result.surface_carbon:.3f} %C at the end "
+                 f"(equilibrium {s.equilibrium_carbon:.3f} %C, saturation {s.saturation_carbon:.2f} %C)")
+    lines.append(f"  steel                 {s.steel.name} ({s.steel.standard}), core {s.steel.carbon:.3f} %C, "
+                 f"alloy factor {s.alloy_factor:.3f}" + ("" if s.alloy_factor_on else " (off)"))
+    beta = "inf (surface held at equilibrium)" if math.isinf(s.beta) else f"{s.beta * 100:.3g} cm/s"
+    lines.append(f"  models                D: {s.diffusivity.display}; β = {beta}; {s.geometry.describe()}")
+    if result.carbon_at_depth is not None:
+        lines.append(f"  carbon at {length(result.probe_depth):<11} {result.carbon_at_depth:.3f} %C")
+    if result.target_depth is None:
+        lines.append(f"  diffusion length √(Dt) {length(result.diffusion_length)} (D at the threshold carbon; "
+                     f"a length scale, not a depth where the carbon stops)")
+    for w in result.warnings:
+        lines.append(f"Warning: {w}")
+    return "\n".join(lines)
+
+
+def _carburize(args) -> int:
+    setup = setup_from_args(args)
+    if args.target is not None:
+        if args.carbon_at:
+            raise InputError("carbon at", "only used with --time")
+        result = soak_time_for_case_depth(setup, parse_length(args.target, "target"))
+    else:
+        probe = parse_length(args.carbon_at, "carbon at") if args.carbon_at else None
+        result = carburize(setup, parse_time(args.time, "time"), probe)
+    if args.json:
+        out = result.to_dict()
+        if args.time is not None:
+            out["diffusion_length_note"] = ("sqrt(D t) with D at the threshold carbon: a length scale, "
+                                            "not a depth at which all carbon stops")
+        print(json.dumps(out))
+    else:
+        print(_format(result, args.units == "imperial"))
+    return 0
+
+
+def _steels(_args) -> int:
+    for steel in library():
+        print(f"{steel.name:<13} {steel.standard:<32} {steel.composition_text()}")
+    return 0
+
+
+def main(argv: list[str] | None = None) -> int:
+    """Run the command line; returns the exit code."""
+    argv = sys.argv[1:] if argv is None else list(argv)
+    parser = _build_parser()
+    try:
+        args = parser.parse_args(argv)
+        if args.command == "carburize":
+            return _carburize(args)
+        if args.command == "steels":
+            return _steels(args)
+        parser.print_help()
+        return 0
+    except SystemExit as stop:  # --help and --version
+        return int(stop.code or 0)
+    except _UsageError as error:
+        print(f"casedepth: error: {error}", file=sys.stderr)
+        return 2
+    except InputError as error:
+        print(f"casedepth: error: {FLAGS.get(error.field, error.field)}: {error.message}", file=sys.stderr)
+        return 2
+
+
+if __name__ == "__main__":
+    sys.exit(main())

@@ -1,0 +1,121 @@
+"""Shapes of carburized parts and the graded grid the solver uses on them.
+
+Depth ``x`` is measured from the carburized surface into the part. Areas and volumes are
+per unit of carburized surface, so carbon uptake comes out per m² of surface whatever the shape.
+
+================  ==================================================  =====================
+shape             what it is                                          size
+================  ==================================================  =====================
+``plate``         flat surface; semi-infinite, or a plate carburized  thickness (optional)
+                  from both faces (mid-plane is a symmetry plane)
+``cylinder``      solid round (shaft, pin), carburized on its         diameter
+                  outside: convex, carbon converges toward the axis
+``bore``          round hole in a thick body, carburized from the     bore diameter
+                  inside: concave, carbon spreads into a growing area
+``sphere``        solid ball                                          diameter
+================  ==================================================  =====================
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from .errors import InputError
+
+SHAPES = ("plate", "cylinder", "bore", "sphere")
+MIN_SIZE = 0.1e-3  # m
+MAX_SIZE = 2.0  # m
+
+
+@dataclass(frozen=True)
+class Geometry:
+    """A carburized shape.
+
+    Parameters
+    ----------
+    shape : str
+        One of :data:`SHAPES`.
+    size : float or None
+        Plate thickness, cylinder or sphere diameter, or bore diameter, [m]. ``None`` for a
+        plate means semi-infinite (a section much thicker than the case).
+    """
+
+    shape: str = "plate"
+    size: float | None = None
+
+    def __post_init__(self):
+        if self.shape not in SHAPES:
+            raise InputError("geometry", f"unknown shape {self.shape!r}; choose one of {', '.join(SHAPES)}")
+        if self.size is None:
+            if self.shape != "plate":
+                name = "diameter"
+                raise InputError(name, f"a {self.shape} needs its diameter ({MIN_SIZE * 1e3:g}–{MAX_SIZE * 1e3:g} mm)")
+            return
+        if not (math.isfinite(self.size) and MIN_SIZE <= self.size <= MAX_SIZE):
+            name = "thickness" if self.shape == "plate" else "diameter"
+            raise InputError(name, f"{self.size * 1e3:g} mm is outside {MIN_SIZE * 1e3:g}–{MAX_SIZE * 1e3:g} mm")
+
+    @property
+    def half_section(self) -> float:
+        """Depth from the surface to the centre (mid-plane or axis), [m]; ``inf`` for a semi-infinite body."""
+        if self.shape == "bore" or self.size is None:
+            return math.inf
+        return self.size / 2.0
+
+    @property
+    def finite(self) -> bool:
+        return math.isfinite(self.half_section)
+
+    def area(self, x):
+        """Area of the surface at depth ``x`` [m] per unit carburized surface, [-]."""
+        x = np.asarray(x, dtype=float)
+        if self.shape == "plate":
+            return np.ones_like(x)
+        if self.shape == "bore":
+            return 1.0 + x / (self.size / 2.0)
+        fraction = np.maximum(1.0 - x / (self.size / 2.0), 0.0)
+        return fraction if self.shape == "cylinder" else fraction**2
+
+    def volume(self, x_from, x_to):
+        """Volume between depths ``x_from`` < ``x_to`` [m] per unit carburized surface, [m]."""
+        x_from = np.asarray(x_from, dtype=float)
+        x_to = np.asarray(x_to, dtype=float)
+        if self.shape == "plate":
+            return x_to - x_from
+        a = self.size / 2.0
+        if self.shape == "bore":
+            return ((a + x_to) ** 2 - (a + x_from) ** 2) / (2.0 * a)
+        r_out, r_in = a - x_from, np.maximum(a - x_to, 0.0)
+        if self.shape == "cylinder":
+            return (r_out**2 - r_in**2) / (2.0 * a)
+        return (r_out**3 - r_in**3) / (3.0 * a**2)
+
+    def describe(self) -> str:
+        if self.shape == "plate":
+            return "flat surface, thick section" if self.size is None else f"plate {self.size * 1e3:g} mm thick, both faces"
+        return f"{self.shape}, diameter {self.size * 1e3:g} mm"
+
+
+def graded_nodes(depth: float, surface_cell: float, growth: float, finite: bool) -> np.ndarray:
+    """Node depths [m] from the surface, cells growing geometrically by ``growth`` from ``surface_cell``.
+
+    For a semi-infinite body the nodes are nested: a deeper grid with the same ``surface_cell`` and
+    ``growth`` has the same nodes near the surface plus more beyond, so the domain can be extended
+    mid-run and runs to different end times share their grid. For a finite section the last node
+    is put exactly at ``depth`` (the centre).
+    """
+    if growth == 1.0:
+        n = int(math.ceil(depth / surface_cell))
+        nodes = surface_cell * np.arange(n + 1)
+    else:
+        n = int(math.ceil(math.log1p(depth * (growth - 1.0) / surface_cell) / math.log(growth)))
+        nodes = surface_cell * (growth ** np.arange(n + 1) - 1.0) / (growth - 1.0)
+    if finite:
+        nodes = nodes[nodes < depth]
+        if len(nodes) >= 2 and depth - nodes[-1] < 0.5 * (nodes[-1] - nodes[-2]):
+            nodes = nodes[:-1]
+        nodes = np.append(nodes, depth)
+    return nodes

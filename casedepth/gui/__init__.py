@@ -1,0 +1,1 @@
+"""The window (PySide6). The only package of casedepth that imports Qt."""

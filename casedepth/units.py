@@ -1,0 +1,138 @@
+"""Units at the edges: parse what people type ("925C", "0.040in", "6h") into SI and format SI back.
+
+Inside the library everything is SI: kelvin, metre, second, metre per second. Carbon and
+alloy contents stay in mass percent (wt %), the unit every carburizing model is written in.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from dataclasses import dataclass
+
+from .errors import InputError
+
+ZERO_CELSIUS = 273.15
+
+_NUMBER = r"[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?"
+
+_TEMPERATURE_UNITS = {
+    "c": lambda v: v + ZERO_CELSIUS,
+    "°c": lambda v: v + ZERO_CELSIUS,
+    "degc": lambda v: v + ZERO_CELSIUS,
+    "f": lambda v: (v - 32.0) * 5.0 / 9.0 + ZERO_CELSIUS,
+    "°f": lambda v: (v - 32.0) * 5.0 / 9.0 + ZERO_CELSIUS,
+    "degf": lambda v: (v - 32.0) * 5.0 / 9.0 + ZERO_CELSIUS,
+    "k": lambda v: v,
+}
+
+LENGTH_UNITS = {"m": 1.0, "cm": 1e-2, "mm": 1e-3, "um": 1e-6, "µm": 1e-6, "μm": 1e-6, "in": 0.0254, '"': 0.0254}
+TIME_UNITS = {"s": 1.0, "sec": 1.0, "min": 60.0, "h": 3600.0, "hr": 3600.0, "hrs": 3600.0}
+VELOCITY_UNITS = {"m/s": 1.0, "cm/s": 1e-2, "mm/s": 1e-3, "um/s": 1e-6, "µm/s": 1e-6, "in/s": 0.0254}
+
+
+def _split(text: str, field: str) -> tuple[float, str]:
+    text = str(text).strip()
+    match = re.fullmatch(rf"\s*({_NUMBER})\s*(.*?)\s*", text)
+    if not match:
+        raise InputError(field, f"cannot read {text!r}; expected a number followed by a unit")
+    value = float(match.group(1))
+    if not math.isfinite(value):
+        raise InputError(field, f"{text!r} is not a finite number")
+    return value, match.group(2).lower()
+
+
+def parse_temperature(text: str | float, field: str = "temperature", default_unit: str = "c") -> float:
+    """Read a temperature such as ``925C``, ``1700F`` or ``1198K``; returns kelvin.
+
+    A bare number is read in ``default_unit`` (°C unless told otherwise).
+    """
+    if isinstance(text, (int, float)):
+        value, unit = float(text), default_unit
+    else:
+        value, unit = _split(text, field)
+        unit = unit or default_unit
+    if unit not in _TEMPERATURE_UNITS:
+        raise InputError(field, f"unknown temperature unit {unit!r}; use C, F or K (e.g. 925C, 1700F, 1198K)")
+    kelvin = _TEMPERATURE_UNITS[unit](value)
+    if kelvin <= 0:
+        raise InputError(field, f"{text!r} is below absolute zero")
+    return kelvin
+
+
+def _parse_scaled(text, field, units, default_unit, kind, example):
+    if isinstance(text, (int, float)):
+        value, unit = float(text), default_unit
+    else:
+        value, unit = _split(text, field)
+        unit = unit or default_unit
+    if unit not in units:
+        raise InputError(field, f"unknown {kind} unit {unit!r}; use one of {', '.join(sorted(set(units)))} (e.g. {example})")
+    return value * units[unit]
+
+
+def parse_length(text: str | float, field: str = "length", default_unit: str = "mm") -> float:
+    """Read a length such as ``1.0mm``, ``0.040in`` or ``800um``; returns metres."""
+    return _parse_scaled(text, field, LENGTH_UNITS, default_unit, "length", "1.0mm or 0.040in")
+
+
+def parse_time(text: str | float, field: str = "time", default_unit: str = "h") -> float:
+    """Read a duration such as ``6h``, ``90min``, ``5h30min`` or ``3600s``; returns seconds."""
+    if isinstance(text, str):
+        parts = re.findall(rf"({_NUMBER})\s*([a-zA-Z]*)", text.strip())
+        joined = "".join(f"{n}{u}" for n, u in parts)
+        if len(parts) > 1 and joined == re.sub(r"\s+", "", text.strip()):
+            return sum(_parse_scaled(f"{n}{u}", field, TIME_UNITS, default_unit, "time", "6h") for n, u in parts)
+    return _parse_scaled(text, field, TIME_UNITS, default_unit, "time", "6h or 90min")
+
+
+def parse_velocity(text: str | float, field: str = "beta", default_unit: str = "cm/s") -> float:
+    """Read a mass-transfer coefficient such as ``1.5e-5cm/s`` or ``inf``; returns m/s (``math.inf`` for inf)."""
+    if isinstance(text, str) and text.strip().lower() in ("inf", "infinite", "infinity"):
+        return math.inf
+    return _parse_scaled(text, field, VELOCITY_UNITS, default_unit, "velocity", "1.5e-5cm/s or inf")
+
+
+@dataclass(frozen=True)
+class Threshold:
+    """A case-depth threshold as written on a drawing: a carbon content or a hardness."""
+
+    value: float
+    kind: str  # "carbon" (wt %), "HV" or "HRC"
+
+    def __str__(self) -> str:
+        if self.kind == "carbon":
+            return f"{self.value:.2f} %C"
+        return f"{self.value:g} {self.kind}"
+
+
+def parse_threshold(text: str | float, field: str = "threshold") -> Threshold:
+    """Read a threshold: ``0.40%C`` (carbon, wt %), ``550HV`` or ``50HRC``; a bare number is carbon."""
+    if isinstance(text, (int, float)):
+        return Threshold(float(text), "carbon")
+    value, unit = _split(text, field)
+    unit = unit.replace(" ", "")
+    if unit in ("", "%c", "%", "c", "wt%c", "wt%"):
+        return Threshold(value, "carbon")
+    if unit.startswith("hv"):
+        return Threshold(value, "HV")
+    if unit == "hrc":
+        return Threshold(value, "HRC")
+    raise InputError(field, f"cannot read threshold {text!r}; write a carbon content (0.40%C) or a hardness (550HV, 50HRC)")
+
+
+def celsius(kelvin: float) -> float:
+    return kelvin - ZERO_CELSIUS
+
+
+def fahrenheit(kelvin: float) -> float:
+    return (kelvin - ZERO_CELSIUS) * 9.0 / 5.0 + 32.0
+
+
+def format_duration(seconds: float) -> str:
+    """``19080`` -> ``"5 h 18 min"`` (rounded to the minute)."""
+    minutes = int(round(seconds / 60.0))
+    hours, minutes = divmod(minutes, 60)
+    if hours == 0:
+        return f"{minutes} min"
+    return f"{hours} h {minutes:02d} min"
