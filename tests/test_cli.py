@@ -1,0 +1,126 @@
+"""The command line contract of ``casedepth carburize`` (issue: solver library and command line)."""
+
+import json
+import subprocess
+import sys
+
+import pytest
+
+from casedepth.cli import main
+
+BASE = ["carburize", "--steel", "8620", "--temperature", "925C", "--potential", "1.00"]
+
+
+def run(capsys, *args):
+    code = main([*BASE, *args])
+    out, err = capsys.readouterr()
+    return code, out, err
+
+
+def test_inverse_json_fields(capsys):
+    code, out, _ = run(capsys, "--target", "1.0mm", "--json")
+    assert code == 0
+    data = json.loads(out)
+    for key in ("soak_time_h", "surface_carbon_pct", "case_depth_mm", "threshold_carbon_pct", "warnings", "profile"):
+        assert key in data
+    assert data["case_depth_mm"] == pytest.approx(1.0, rel=1e-6)
+    assert len(data["profile"]["depth_mm"]) == len(data["profile"]["carbon_pct"]) > 50
+    assert 4.0 < data["soak_time_h"] < 10.0
+
+
+def test_forward_json_fields_and_round_trip(capsys):
+    _, out, _ = run(capsys, "--target", "1.0mm", "--json")
+    hours = json.loads(out)["soak_time_h"]
+    code, out, _ = run(capsys, "--time", f"{hours!r}h", "--carbon-at", "0.5mm", "--json")
+    assert code == 0
+    data = json.loads(out)
+    assert data["case_depth_mm"] == pytest.approx(1.0, rel=1e-6)
+    assert data["carbon_at_pct"] > 0.4
+    assert data["diffusion_length_mm"] > 0
+    assert "length scale" in data["diffusion_length_note"]
+
+
+def test_units_in_and_out(capsys):
+    code, out, _ = run(capsys, "--target", "0.040in", "--at", "550HV", "--units", "imperial")
+    assert code == 0
+    assert "0.0400 in at 550 HV" in out
+    assert "°F" in out
+
+
+def test_hardness_threshold_reports_its_carbon(capsys):
+    _, out, _ = run(capsys, "--target", "1.0mm", "--at", "50HRC", "--json")
+    data = json.loads(out)
+    assert 0.35 <= data["threshold_carbon_pct"] <= 0.40
+    assert any("50 HRC is taken as" in w for w in data["warnings"])
+
+
+@pytest.mark.parametrize("args", [
+    ["--geometry", "cylinder", "--diameter", "30mm"], ["--geometry", "bore", "--diameter", "30mm"],
+    ["--geometry", "sphere", "--diameter", "30mm"], ["--thickness", "10mm"],
+    ["--diffusivity", "agren"], ["--diffusivity", "arrhenius", "--d0", "2.3e-5", "--q", "148"],
+    ["--beta", "inf"], ["--alloy-factor", "off"], ["--hardness-relation", "as-quenched", "--at", "550HV"],
+])
+def test_options_accepted(capsys, args):
+    code, out, err = run(capsys, "--target", "0.8mm", *args)
+    assert code == 0, err
+    assert "Soak time" in out
+
+
+def test_steel_list_and_help(capsys):
+    assert main(["steels"]) == 0
+    assert "16MnCr5" in capsys.readouterr().out
+    assert main(["carburize", "--help"]) == 0
+    assert main(["--version"]) == 0
+
+
+BAD = [
+    (["carburize"], "required"),
+    ([*BASE], "--target --time"),
+    ([*BASE, "--target", "1mm", "--time", "6h"], "not allowed with"),
+    (["carburize", "--steel", "unobtainium", "--temperature", "925C", "--potential", "1", "--target", "1mm"], "--steel"),
+    (["carburize", "--steel", "C=0.2 Zz=1", "--temperature", "925C", "--potential", "1", "--target", "1mm"], "--steel"),
+    (["carburize", "--steel", "8620", "--temperature", "600C", "--potential", "1", "--target", "1mm"], "--temperature"),
+    (["carburize", "--steel", "8620", "--temperature", "warm", "--potential", "1", "--target", "1mm"], "--temperature"),
+    (["carburize", "--steel", "8620", "--temperature", "925C", "--potential", "9", "--target", "1mm"], "--potential"),
+    ([*BASE, "--target", "-1mm"], "--target"),
+    ([*BASE, "--target", "1 parsec"], "--target"),
+    ([*BASE, "--time", "-2h"], "--time"),
+    ([*BASE, "--time", "soon"], "--time"),
+    ([*BASE, "--target", "1mm", "--at", "0.1%C"], "--at"),
+    ([*BASE, "--target", "1mm", "--at", "99HRC"], "--at"),
+    ([*BASE, "--target", "1mm", "--carbon-at", "0.5mm"], "--carbon-at"),
+    ([*BASE, "--time", "6h", "--carbon-at", "-1mm"], "--carbon-at"),
+    ([*BASE, "--target", "1mm", "--diffusivity", "magic"], "--diffusivity"),
+    ([*BASE, "--target", "1mm", "--d0", "1e-5"], "--d0"),
+    ([*BASE, "--target", "1mm", "--diffusivity", "arrhenius", "--q", "5"], "--q"),
+    ([*BASE, "--target", "1mm", "--d-multiplier", "0"], "--d-multiplier"),
+    ([*BASE, "--target", "1mm", "--beta", "-1cm/s"], "--beta"),
+    ([*BASE, "--target", "1mm", "--alloy-factor", "maybe"], "--alloy-factor"),
+    ([*BASE, "--target", "1mm", "--hardness-relation", "x"], "--hardness-relation"),
+    ([*BASE, "--target", "1mm", "--geometry", "cube"], "--geometry"),
+    ([*BASE, "--target", "1mm", "--geometry", "cylinder"], "--diameter"),
+    ([*BASE, "--target", "1mm", "--geometry", "cylinder", "--diameter", "5km"], "--diameter"),
+    ([*BASE, "--target", "1mm", "--thickness", "0mm"], "--thickness"),
+    ([*BASE, "--target", "1mm", "--geometry", "cylinder", "--diameter", "10mm", "--thickness", "3mm"], "--thickness"),
+    ([*BASE, "--target", "1mm", "--units", "furlongs"], "--units"),
+    ([*BASE, "--target", "1mm", "--frobnicate"], "--frobnicate"),
+]
+
+
+@pytest.mark.parametrize("argv,names", BAD, ids=[" ".join(b[0][-2:]) for b in BAD])
+def test_bad_input_gives_one_line_and_exit_2(capsys, argv, names):
+    code = main(argv)
+    out, err = capsys.readouterr()
+    assert code == 2
+    assert out == ""
+    lines = err.strip().splitlines()
+    assert len(lines) == 1, err
+    assert "Traceback" not in err
+    assert names.split()[0] in lines[0]
+
+
+def test_installed_module_entry_point():
+    done = subprocess.run([sys.executable, "-m", "casedepth", *BASE, "--target", "0.5mm", "--json"],
+                          capture_output=True, text=True, timeout=60)
+    assert done.returncode == 0, done.stderr
+    assert json.loads(done.stdout)["case_depth_mm"] == pytest.approx(0.5, rel=1e-6)
