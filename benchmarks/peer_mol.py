@@ -37,7 +37,7 @@ def graded_grid(depth: float, n_cells: int, growth: float) -> np.ndarray:
 def domain_depth(setup, horizon: float) -> float:
     """Domain depth [m]: eight diffusion lengths at the largest D of the case, for a soak of ``horizon`` [s].
 
-    At 8 sqrt(D t) the erfc tail is erfc(4) ~ 2e-8 of the surface rise, so the no-flux far end
+    At 8 sqrt(D t) the erfc tail is erfc(4) ≈ 1.5e-8 of the surface rise, so the no-flux far end
     does not feel the carbon; this is the same rule casedepth uses to size its first domain.
     """
     c = np.linspace(setup.steel.carbon, setup.equilibrium_carbon, 21)
@@ -99,7 +99,6 @@ class MolPeer:
         self.n = n
         # Tibbetts (1980): ln D = const - 1.6 C + 6600 C / (R T), so dD/dC = D (6600/(R T) - 1.6).
         self.dlnD_dC = 6600.0 / (R_CAL * self.T) - 1.6
-        self._ones = np.ones(n - 1)
         self.pattern = sp.diags([np.ones(n - 1), np.ones(n), np.ones(n - 1)], [-1, 0, 1], format="csc")
         # CSC of a tridiagonal matrix stores, column by column, (upper, main, lower) entries;
         # the index arrays below let jac() refill .data without rebuilding the matrix.

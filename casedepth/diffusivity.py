@@ -225,7 +225,14 @@ class Diffusivity:
         return self.multiplier * self._function(carbon, T)
 
     def with_derivative(self, carbon: np.ndarray, T: float, step: float = 1e-5):
-        """D and dD/dC [m²/s per wt %] by a central difference (used for Newton's Jacobian only)."""
+        """D and dD/dC [m²/s per wt %] (used for Newton's Jacobian only).
+
+        Exact for the Arrhenius and Tibbetts forms, a central difference otherwise.
+        """
+        if self.method == "tibbetts":  # Tibbetts_1980 in one exponential; d ln D / dC = -1.6 + 6600 / (R T)
+            slope = -1.6 + 6600.0 / (R_CAL * T)
+            D = (self.multiplier * 0.47e-4) * np.exp(slope * carbon - 37000.0 / (R_CAL * T))
+            return D, D * slope
         D = self(carbon, T)
         if self.method == "arrhenius":
             return D, np.zeros_like(D)

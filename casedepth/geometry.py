@@ -99,23 +99,37 @@ class Geometry:
         return f"{self.shape}, diameter {self.size * 1e3:g} mm"
 
 
-def graded_nodes(depth: float, surface_cell: float, growth: float, finite: bool) -> np.ndarray:
-    """Node depths [m] from the surface, cells growing geometrically by ``growth`` from ``surface_cell``.
+def graded_nodes(depth: float, cells: int, stretch: float, section: float = math.inf) -> np.ndarray:
+    """Node depths [m] from the surface: ``cells`` cells over ``depth``, each wider than the last,
+    the last ``stretch`` times the first.
 
-    For a semi-infinite body the nodes are nested: a deeper grid with the same ``surface_cell`` and
-    ``growth`` has the same nodes near the surface plus more beyond, so the domain can be extended
-    mid-run and runs to different end times share their grid. For a finite section the last node
-    is put exactly at ``depth`` (the centre).
+    If the section (depth to the centre, ``section``) lies deeper than ``depth``, cells keep
+    growing at the same ratio until the centre, where the last node is placed exactly; a last
+    cell of under half its neighbour is merged into it. With ``section = inf`` the result is the
+    grid of a semi-infinite body over ``depth``; :func:`extend_nodes` continues it.
     """
-    if growth == 1.0:
-        n = int(math.ceil(depth / surface_cell))
-        nodes = surface_cell * np.arange(n + 1)
-    else:
-        n = int(math.ceil(math.log1p(depth * (growth - 1.0) / surface_cell) / math.log(growth)))
-        nodes = surface_cell * (growth ** np.arange(n + 1) - 1.0) / (growth - 1.0)
-    if finite:
-        nodes = nodes[nodes < depth]
-        if len(nodes) >= 2 and depth - nodes[-1] < 0.5 * (nodes[-1] - nodes[-2]):
-            nodes = nodes[:-1]
-        nodes = np.append(nodes, depth)
+    span = min(depth, section)
+    ratio = stretch ** (1.0 / max(cells - 1, 1))
+    widths = ratio ** np.arange(cells)
+    nodes = np.concatenate(([0.0], np.cumsum(widths) * (span / widths.sum())))
+    if math.isfinite(section) and section > span:
+        nodes = extend_nodes(nodes, section, ratio, finite=True)
     return nodes
+
+
+def extend_nodes(nodes: np.ndarray, depth: float, ratio: float, finite: bool) -> np.ndarray:
+    """Continue a grid whose cells grow by ``ratio`` until ``depth`` [m] (exactly, if ``finite``)."""
+    width = nodes[-1] - nodes[-2]
+    added = []
+    x = nodes[-1]
+    while x < depth:
+        width *= ratio
+        x += width
+        added.append(x)
+    out = np.concatenate((nodes, added))
+    if finite:
+        out = out[out < depth]
+        if depth - out[-1] < 0.5 * (out[-1] - out[-2]):
+            out = out[:-1]
+        out = np.append(out, depth)
+    return out

@@ -2,21 +2,21 @@
 
 The part is cut into control volumes around nodes on a grid graded toward the surface
 (:func:`casedepth.geometry.graded_nodes`); node 0 sits on the surface. Fluxes between nodes use D
-at the mean carbon of the two nodes. Time integration is the TR-BDF2 scheme (Bank et al. 1985)
-written as a three-stage ESDIRK method: second order, L-stable (no ringing after the sudden
-start of a carburizing step) and, as a Runge–Kutta method, exactly conservative: the carbon
-added to the part equals the quadrature of the surface flux over the stages. Each implicit
-stage is solved by Newton's method with the exact tridiagonal Jacobian (dD/dC included), so
-the carbon dependence of D is not lagged. Time steps grow geometrically, matching the √t
-growth of a diffusion case.
+at the mean carbon of the two nodes. Time integration is the two-stage Rosenbrock method ROS2
+(Verwer et al. 1999) with γ = 1 − 1/√2: second order and L-stable (no ringing after the sudden
+start of a carburizing step). It is linearly implicit: each stage is one tridiagonal solve with
+the exact Jacobian of the discrete fluxes, dD/dC included, evaluated at the start of the step.
+The carbon dependence of D is therefore not lagged (a lagged D would make the scheme first
+order), and no Newton iterations are needed. The stages are sums of conservative flux
+differences, so the carbon added to the part equals the surface flux integrated by the same
+scheme, to round-off. Time steps grow geometrically, matching the √t growth of a case.
 
 References
 ----------
-.. [1] Bank, R. E., W. M. Coughran, W. Fichtner, E. H. Grosse, D. J. Rose, R. K. Smith.
-   "Transient simulation of silicon devices and circuits." IEEE Trans. Computer-Aided Design
-   4 (1985): 436–451 (the TR-BDF2 scheme).
-.. [2] Hosea, M. E., and L. F. Shampine. "Analysis and implementation of TR-BDF2."
-   Applied Numerical Mathematics 20 (1996): 21–37 (TR-BDF2 as an ESDIRK method).
+.. [1] Verwer, J. G., E. J. Spee, J. G. Blom, W. Hundsdorfer. "A second-order Rosenbrock method
+   applied to photochemical dispersion problems." SIAM J. Sci. Comput. 20 (1999): 1456–1480.
+.. [2] Hairer, E., and G. Wanner. Solving Ordinary Differential Equations II: Stiff and
+   Differential-Algebraic Problems, 2nd ed., Springer, 1996, §IV.7 (Rosenbrock methods).
 .. [3] Patankar, S. V. Numerical Heat Transfer and Fluid Flow. Hemisphere, 1980
    (finite-volume discretisation on non-uniform grids).
 """
@@ -28,15 +28,14 @@ from dataclasses import dataclass
 from typing import Callable
 
 import numpy as np
-from scipy.linalg import solve_banded
+from scipy.linalg.lapack import dgtsv
 
 from .diffusivity import Diffusivity
-from .geometry import Geometry, graded_nodes
+from .geometry import Geometry, extend_nodes, graded_nodes
 
-# TR-BDF2 as ESDIRK: c = (0, 2d, 1), b = (w, w, d), d = 1 - 1/sqrt(2), w = sqrt(2)/4.
-_D = 1.0 - 1.0 / math.sqrt(2.0)
-_W = math.sqrt(2.0) / 4.0
-_C2 = 2.0 * _D
+# ROS2: both roots of 2γ² - 4γ + 1 = 0 give an L-stable method; the smaller has the much smaller
+# error constant at the moderate step ratios used here (1 + 1/√2 is chosen in [1] for positivity).
+_GAMMA = 1.0 - 1.0 / math.sqrt(2.0)
 
 
 @dataclass(frozen=True)
@@ -60,19 +59,25 @@ class SurfaceCondition:
 
 @dataclass(frozen=True)
 class Accuracy:
-    """Discretisation settings. The defaults give effective case depth to better than 0.1 %
-    (see tests/test_convergence.py); halve ``cell_growth - 1`` and ``step_growth - 1`` to check."""
+    """Discretisation settings, relative to the problem's own scales.
 
-    surface_cell: float = 1e-6  # m, width of the first cell
-    cell_growth: float = 1.03  # ratio of neighbouring cell widths
-    first_step: float = 1.0  # s, first time step of each furnace step
-    step_growth: float = 1.15  # ratio of neighbouring time steps
-    max_step: float = 1800.0  # s
+    The grid spans ``domain`` length scales with ``cells`` cells growing from the surface; time
+    steps start at ``first_step`` of the time scale and grow by ``step_growth``. The length scale
+    is about half the expected case depth and the time scale the soak (or its estimate), so the
+    same settings resolve a 0.2 mm case and a 3 mm case alike. The defaults give effective case
+    depth to better than 0.1 % (tests/test_convergence.py).
+    """
+
+    cells: int = 160
+    stretch: float = 8.0  # last cell over first cell within the domain
+    domain: float = 8.0  # domain depth in length scales (semi-infinite bodies)
+    first_step: float = 1e-3  # first time step over the time scale
+    step_growth: float = 1.2  # ratio of neighbouring time steps
 
     def refined(self, factor: int = 2) -> "Accuracy":
         """Settings with cells and time steps about ``factor`` times finer."""
-        return Accuracy(self.surface_cell / factor, 1.0 + (self.cell_growth - 1.0) / factor,
-                        self.first_step / factor, 1.0 + (self.step_growth - 1.0) / factor, self.max_step / factor)
+        return Accuracy(self.cells * factor, self.stretch, self.domain, self.first_step / factor,
+                        1.0 + (self.step_growth - 1.0) / factor)
 
 
 @dataclass
@@ -95,21 +100,46 @@ class Profile:
         """Depth [m] where carbon first falls to ``carbon`` [wt %] going inward.
 
         Zero if the surface is already below it; the half-section (centre) if it is never reached.
-        Linear interpolation between the two nodes that bracket it.
+        Between nodes, the depth is read from the quadratic through the three nearest nodes
+        (second-order accurate, like the discretisation), falling back to a straight line where
+        the quadratic is not monotone.
         """
-        c = self.carbon
-        below = np.flatnonzero(c < carbon)
-        if len(below) == 0:
-            return float(min(self.depth[-1], self.half_section))
-        i = int(below[0])
-        if i == 0:
-            return 0.0
-        x0, x1, c0, c1 = self.depth[i - 1], self.depth[i], c[i - 1], c[i]
-        return float(x0 + (c0 - carbon) / (c0 - c1) * (x1 - x0))
+        return threshold_depth(self.depth, self.carbon, carbon, self.half_section)
 
     def carbon_at(self, depth: float) -> float:
         """Carbon [wt %] at ``depth`` [m] (linear between nodes)."""
         return float(np.interp(depth, self.depth, self.carbon))
+
+
+def _tridiagonal(below: np.ndarray, diagonal: np.ndarray, above: np.ndarray, rhs: np.ndarray) -> np.ndarray:
+    """Solve a tridiagonal system (LAPACK dgtsv, Gaussian elimination with partial pivoting); inputs are kept."""
+    _, _, _, x, info = dgtsv(below, diagonal, above, rhs, 0, 0, 0, 0)
+    if info != 0:
+        raise ArithmeticError("singular matrix in the carbon solver; the furnace step may be outside the models' range")
+    return x
+
+
+def threshold_depth(depth: np.ndarray, c: np.ndarray, carbon: float, half_section: float = math.inf) -> float:
+    """Depth [m] where the profile ``c`` on nodes ``depth`` first falls to ``carbon``; see :meth:`Profile.depth_at`."""
+    under = c < carbon
+    i = int(under.argmax())
+    if not under[i]:
+        return float(min(depth[-1], half_section))
+    if i == 0:
+        return 0.0
+    x0, x1, c0, c1 = depth[i - 1], depth[i], c[i - 1], c[i]
+    linear = x0 + (c0 - carbon) / (c0 - c1) * (x1 - x0)
+    j = i - 1 if i + 1 >= len(c) or (i >= 2 and abs(c[i - 2] - carbon) < abs(c[i + 1] - carbon)) else i
+    if j < 1 or j + 1 >= len(c):
+        return float(linear)
+    # inverse quadratic interpolation x(c) through three nodes around the crossing
+    xs, cs = depth[j - 1:j + 2], c[j - 1:j + 2]
+    if not (cs[0] > cs[1] > cs[2]):
+        return float(linear)
+    x = (xs[0] * (carbon - cs[1]) * (carbon - cs[2]) / ((cs[0] - cs[1]) * (cs[0] - cs[2]))
+         + xs[1] * (carbon - cs[0]) * (carbon - cs[2]) / ((cs[1] - cs[0]) * (cs[1] - cs[2]))
+         + xs[2] * (carbon - cs[0]) * (carbon - cs[1]) / ((cs[2] - cs[0]) * (cs[2] - cs[1])))
+    return float(x) if x0 <= x <= x1 else float(linear)
 
 
 class CarbonSolver:
@@ -123,27 +153,38 @@ class CarbonSolver:
         D(carbon, T).
     core_carbon : float
         Uniform starting carbon, [wt %].
-    depth : float
-        For a semi-infinite body, the starting domain depth [m]; it is extended automatically
-        while carbon reaches its far end. Ignored for finite sections.
+    length_scale : float
+        About half the case depth expected, [m]; sets the grid. For a semi-infinite body the
+        domain is ``accuracy.domain`` length scales deep and is extended automatically if carbon
+        reaches its far end.
+    time_scale : float
+        About the length of the soak, [s]; sets the first time step.
     accuracy : Accuracy
         Grid and time-step settings.
     """
 
     #: the far end counts as untouched while its carbon change is below this share of the surface's
     FAR_FIELD_TOLERANCE = 1e-9
+    #: linearly implicit Euler steps at the start of each furnace step, before ROS2
+    SMOOTHING_STEPS = 2
 
     def __init__(self, geometry: Geometry, diffusivity: Diffusivity, core_carbon: float,
-                 depth: float = 5e-3, accuracy: Accuracy = Accuracy()):
+                 length_scale: float, time_scale: float, accuracy: Accuracy = Accuracy()):
         self.geometry = geometry
         self.diffusivity = diffusivity
         self.core_carbon = float(core_carbon)
         self.accuracy = accuracy
+        self.time_scale = float(time_scale)
         self.time = 0.0
         self.flux_integral = 0.0  # carbon that crossed the surface, wt % · m (per unit surface)
-        span = geometry.half_section if geometry.finite else depth
-        self._set_grid(graded_nodes(span, accuracy.surface_cell, accuracy.cell_growth, geometry.finite))
+        self._set_grid(graded_nodes(accuracy.domain * length_scale, accuracy.cells, accuracy.stretch,
+                                    geometry.half_section))
+        self._ratio = accuracy.stretch ** (1.0 / max(accuracy.cells - 1, 1))
+        self._evaluations: list = []
         self.carbon = np.full(len(self.nodes), self.core_carbon)
+        self.history_time: list[float] = [0.0]
+        self.history_carbon: list[np.ndarray] = [self.carbon]
+        self._history_steps: list[tuple[SurfaceCondition, bool]] = []
 
     # -- grid -------------------------------------------------------------------------------
     def _set_grid(self, nodes: np.ndarray) -> None:
@@ -152,140 +193,196 @@ class CarbonSolver:
         faces = 0.5 * (nodes[1:] + nodes[:-1])
         self.spacing = np.diff(nodes)
         self.face_area = g.area(faces)
+        self.conductance = self.face_area / self.spacing
         bounds = np.concatenate(([0.0], faces, [nodes[-1]]))
         self.volume = g.volume(bounds[:-1], bounds[1:])
         self.surface_area = float(g.area(0.0))
 
     def _extend(self) -> None:
         old = len(self.nodes)
-        acc = self.accuracy
-        self._set_grid(graded_nodes(1.5 * self.nodes[-1], acc.surface_cell, acc.cell_growth, False))
+        self._set_grid(extend_nodes(self.nodes, 1.5 * self.nodes[-1], self._ratio, finite=False))
         self.carbon = np.concatenate((self.carbon, np.full(len(self.nodes) - old, self.core_carbon)))
+        self._evaluations = []
 
-    def _far_end_touched(self) -> bool:
+    def _plausible(self, carbon: np.ndarray, cond: SurfaceCondition, old_range: tuple[float, float]) -> bool:
+        """True if the new carbon stays within the range spanned by the old profile and the atmosphere
+        (NaN fails both comparisons, so a blown-up step is caught too)."""
+        low = min(old_range[0], cond.equilibrium_carbon)
+        high = max(old_range[1], cond.equilibrium_carbon)
+        slack = 1e-3 * max(high - low, 1e-3)
+        return bool(carbon.min() >= low - slack and carbon.max() <= high + slack)
+
+    def _far_end_touched(self, cond: SurfaceCondition) -> bool:
         if self.geometry.finite:
             return False
-        change = np.abs(self.carbon - self.core_carbon)
-        return change[-1] > self.FAR_FIELD_TOLERANCE * max(change.max(), 1e-12)
+        scale = max(abs(cond.equilibrium_carbon - self.core_carbon), abs(self.carbon[0] - self.core_carbon), 1e-12)
+        return abs(self.carbon[-1] - self.core_carbon) > self.FAR_FIELD_TOLERANCE * scale
 
     # -- physics ----------------------------------------------------------------------------
+    def _inflow_only(self, c: np.ndarray, cond: SurfaceCondition) -> np.ndarray:
+        """Net carbon inflow into each control volume (no Jacobian)."""
+        flow = -self.conductance * self.diffusivity(0.5 * (c[1:] + c[:-1]), cond.temperature) * (c[1:] - c[:-1])
+        inflow = np.empty_like(c)
+        inflow[0] = 0.0
+        inflow[1:] = flow
+        inflow[:-1] -= flow
+        if math.isfinite(cond.beta):
+            inflow[0] += self.surface_area * cond.beta * (cond.equilibrium_carbon - c[0])
+        return inflow
+
     def _inflow(self, c: np.ndarray, cond: SurfaceCondition):
         """Net carbon inflow into each control volume and the three diagonals of its Jacobian."""
-        cf = 0.5 * (c[1:] + c[:-1])
-        D, dD = self.diffusivity.with_derivative(cf, cond.temperature)
-        grad = (c[1:] - c[:-1]) / self.spacing
-        flow = -self.face_area * D * grad  # carbon through each internal face, inward positive
-        d_left = self.face_area * (-0.5 * dD * grad + D / self.spacing)  # d flow / d c[i]
-        d_right = self.face_area * (-0.5 * dD * grad - D / self.spacing)  # d flow / d c[i+1]
-        inflow = np.zeros_like(c)
+        D, dD = self.diffusivity.with_derivative(0.5 * (c[1:] + c[:-1]), cond.temperature)
+        step = c[1:] - c[:-1]
+        k = self.conductance
+        flow = -k * D * step  # carbon through each internal face, inward positive
+        half_slope = 0.5 * dD * step
+        d_left = k * (D - half_slope)  # d flow / d c[i]
+        d_right = -k * (D + half_slope)  # d flow / d c[i+1]
+        inflow = np.empty_like(c)
+        inflow[0] = 0.0
+        inflow[1:] = flow
         inflow[:-1] -= flow
-        inflow[1:] += flow
-        main = np.zeros_like(c)
-        main[:-1] -= d_left
+        main = np.empty_like(c)
+        main[-1] = 0.0
+        main[:-1] = -d_left
         main[1:] += d_right
-        upper = -d_right  # d inflow[i] / d c[i+1]
-        lower = d_left  # d inflow[i+1] / d c[i]
-        surface_flow = 0.0
         if math.isfinite(cond.beta):
-            surface_flow = self.surface_area * cond.beta * (cond.equilibrium_carbon - c[0])
-            inflow[0] += surface_flow
+            inflow[0] += self.surface_area * cond.beta * (cond.equilibrium_carbon - c[0])
             main[0] -= self.surface_area * cond.beta
-        else:
-            surface_flow = flow[0]  # what leaves the surface node inward; the node itself is held
-        return inflow, main, upper, lower, surface_flow
+        return inflow, main, -d_right, d_left
 
-    def _stage(self, base: np.ndarray, h: float, guess: np.ndarray, cond: SurfaceCondition):
-        """Solve V (y - base) = h F(y) for y by Newton's method; ``base`` already holds the explicit part."""
-        y = guess.copy()
-        dirichlet = not math.isfinite(cond.beta)
-        if dirichlet:
-            y[0] = cond.equilibrium_carbon
-        scale = max(abs(cond.equilibrium_carbon - self.core_carbon), 1e-3)
-        band = np.empty((3, len(y)))
-        for _ in range(30):
-            inflow, main, upper, lower, surface_flow = self._inflow(y, cond)
-            residual = self.volume * (y - base) - h * inflow
-            band[0, 1:] = -h * upper
-            band[1] = self.volume - h * main
-            band[2, :-1] = -h * lower
-            if dirichlet:
-                residual[0] = 0.0
-                band[1, 0] = 1.0
-                band[0, 1] = 0.0
-            delta = solve_banded((1, 1), band, residual, overwrite_ab=False, check_finite=False)
-            y -= delta
-            if np.max(np.abs(delta)) < 1e-12 * scale:
-                inflow, _, _, _, surface_flow = self._inflow(y, cond)
-                return y, inflow, surface_flow
-        raise ArithmeticError("Newton iterations did not converge; the furnace step may be outside the models' range")
+    def _evaluate(self, c: np.ndarray, cond: SurfaceCondition):
+        """Inflow, Jacobian diagonals, surface flow and its slope at ``c``; cached for the last two states."""
+        for key, value in self._evaluations:
+            if key[0] is c and key[1] == cond:
+                return value
+        inflow, main, upper, lower = self._inflow(c, cond)
+        if math.isfinite(cond.beta):
+            surface = self.surface_area * cond.beta * (cond.equilibrium_carbon - c[0])
+            slope = (0, -self.surface_area * cond.beta)  # d surface / d c[0]
+        else:  # held surface: what crosses the first face inward, and its slope in c[1]
+            surface = float(np.sum(inflow[1:]))
+            slope = (1, -upper[0])
+        value = (inflow, main, upper, lower, surface, slope)
+        self._evaluations = [((c, cond), value), *self._evaluations[:1]]
+        return value
 
-    def _step(self, dt: float, cond: SurfaceCondition, inflow0=None):
-        """One TR-BDF2 step from the present state; returns (carbon, flux_added, last inflow)."""
-        c0 = self.carbon
-        if inflow0 is None:
-            inflow0, _, _, _, flow0 = self._inflow(c0, cond)
-            if not math.isfinite(cond.beta) and c0[0] != cond.equilibrium_carbon:
-                # a sudden change of a held surface: the first stage starts from the new surface value
-                start = c0.copy()
-                start[0] = cond.equilibrium_carbon
-                inflow0, _, _, _, flow0 = self._inflow(start, cond)
+    def _step(self, dt: float, cond: SurfaceCondition, euler: bool = False, start: np.ndarray | None = None):
+        """One ROS2 step from the present state (or ``start``): returns (carbon, carbon through the surface).
+
+        With M = diag(V) and J the Jacobian at y_n:
+        (M - γ dt J) k1 = dt F(y_n);  (M - γ dt J) k2 = dt F(y_n + k1) - 2 M k1;
+        y_(n+1) = y_n + 3/2 k1 + 1/2 k2.
+        """
+        c0 = self.carbon if start is None else start
+        flux = 0.0
+        held = not math.isfinite(cond.beta)
+        if held and c0[0] != cond.equilibrium_carbon:
+            # a held surface jumps to its new value at once; that carbon enters at once
+            flux += self.volume[0] * (cond.equilibrium_carbon - c0[0])
+            c0 = c0.copy()
+            c0[0] = cond.equilibrium_carbon
+        inflow0, main, upper, lower, surface0, (j, slope) = self._evaluate(c0, cond)
+        g = (1.0 if euler else _GAMMA) * dt
+        diagonal = self.volume - g * main
+        above = -g * upper
+        below = -g * lower
+        rhs1 = dt * inflow0
+        if held:
+            diagonal[0], above[0], rhs1[0] = 1.0, 0.0, 0.0
+        k1 = _tridiagonal(below, diagonal, above, rhs1)
+        if euler:
+            # linearly implicit Euler, (M - dt J) k = dt F: first order, but its amplification
+            # 1/(1 - z) is positive for every mode, so it smooths a sudden change at the surface
+            # before ROS2 (whose internal stage overshoots on rough data) takes over
+            return c0 + k1, flux + dt * surface0 + g * slope * k1[j]
+        mid = c0 + k1
+        inflow1 = self._inflow_only(mid, cond)
+        rhs2 = dt * inflow1 - 2.0 * self.volume * k1
+        if held:
+            rhs2[0] = 0.0
+            surface1 = float(np.sum(inflow1[1:]))
         else:
-            inflow0, flow0 = inflow0
-        v = self.volume
-        base2 = c0 + dt * _D * inflow0 / v
-        y2, f2, flow2 = self._stage(base2, dt * _D, c0, cond)
-        base3 = c0 + dt * _W * (inflow0 + f2) / v
-        y3, f3, flow3 = self._stage(base3, dt * _D, y2 + (y2 - c0) * (1 - _C2) / _C2, cond)
-        flux = dt * (_W * flow0 + _W * flow2 + _D * flow3)
-        if not math.isfinite(cond.beta):
-            # the held surface node's own change counts as carbon that crossed the surface
-            flux += self.volume[0] * (y3[0] - c0[0])
-        return y3, flux, (f3, flow3)
+            surface1 = self.surface_area * cond.beta * (cond.equilibrium_carbon - mid[0])
+        k2 = _tridiagonal(below, diagonal, above, rhs2)
+        carbon = c0 + 1.5 * k1 + 0.5 * k2
+        # the same combination of the two stage equations, summed over all volumes (internal
+        # fluxes cancel), gives the carbon that crossed the surface
+        flux += 0.5 * (dt * surface0 + g * slope * k1[j]) + 0.5 * (dt * surface1 + g * slope * k2[j])
+        return carbon, flux
 
     # -- public -----------------------------------------------------------------------------
-    def trial(self, dt: float, cond: SurfaceCondition) -> Profile:
-        """The profile one step of ``dt`` [s] ahead, without changing the state."""
-        carbon, _, _ = self._step(dt, cond)
-        return Profile(self.nodes, carbon, self.time + dt, self.geometry.half_section)
-
     def advance(self, duration: float, cond: SurfaceCondition,
                 on_step: Callable[["CarbonSolver"], bool] | None = None) -> None:
         """March ``duration`` [s] under one surface condition.
 
-        ``on_step(solver)`` is called after every step; if it returns True the march stops there
-        (the caller reads ``solver.time``). Steps start at ``first_step`` and grow by ``step_growth``.
+        Every step is kept in the history (:attr:`history_time`, :attr:`history_carbon`).
+        ``on_step(solver)`` is called after every step; if it returns True the march stops there.
+        Steps start at ``first_step`` of the time scale and grow by ``step_growth``; the first
+        ``SMOOTHING_STEPS`` of each call are linearly implicit Euler steps.
         """
         acc = self.accuracy
         end = self.time + duration
-        dt = acc.first_step
-        carried = None
+        dt = acc.first_step * self.time_scale
+        smoothing = self.SMOOTHING_STEPS
+        carbon_range = (float(self.carbon.min()), float(self.carbon.max()))
         while self.time < end * (1 - 1e-12):
             h = min(dt, end - self.time)
-            state = (self.carbon, self.time, self.flux_integral)
-            carbon, flux, carried = self._step(h, cond, carried)
-            self.carbon, self.time, self.flux_integral = carbon, self.time + h, self.flux_integral + flux
-            if self._far_end_touched():
-                self.carbon, self.time, self.flux_integral = state
-                self._extend()
-                carried = None
+            euler = smoothing > 0
+            carbon, flux = self._step(h, cond, euler)
+            if not self._plausible(carbon, cond, carbon_range):
+                # carbon outside the range the surface and the part allow: the step was too
+                # long for the data (a maximum principle holds for diffusion); take half of it
+                if h < 1e-9 * max(self.time_scale, 1.0):
+                    raise ArithmeticError("the carbon solver cannot find a stable step; the inputs may be outside the models' range")
+                dt = h / 2
+                smoothing = max(smoothing, 1)
                 continue
-            self.last_step = (state, h)
+            state = (self.carbon, self.flux_integral)
+            self.carbon, self.flux_integral = carbon, self.flux_integral + flux
+            if self._far_end_touched(cond):
+                self.carbon, self.flux_integral = state
+                self._extend()
+                continue
+            smoothing -= 1
+            carbon_range = (min(carbon_range[0], float(carbon.min())), max(carbon_range[1], float(carbon.max())))
+            self.time += h
+            self.history_time.append(self.time)
+            self.history_carbon.append(carbon)
+            self._history_steps.append((cond, euler))
             if on_step is not None and on_step(self):
                 return
-            dt = min(dt * acc.step_growth, acc.max_step)
+            dt *= acc.step_growth
 
-    def restore_last_step(self) -> float:
-        """Undo the last step of :meth:`advance`; returns its length [s]."""
-        (carbon, time, flux), h = self.last_step
+    def snapshot(self, index: int) -> np.ndarray:
+        """Carbon [wt %] after step ``index`` of the history (0 = the start), on the present grid."""
+        carbon = self.history_carbon[index]
         if len(carbon) < len(self.nodes):
             carbon = np.concatenate((carbon, np.full(len(self.nodes) - len(carbon), self.core_carbon)))
-        self.carbon, self.time, self.flux_integral = carbon, time, flux
-        return h
+        return carbon
 
-    def commit(self, dt: float, cond: SurfaceCondition) -> None:
-        """Take one step of exactly ``dt`` [s]."""
-        carbon, flux, _ = self._step(dt, cond)
-        self.carbon, self.time, self.flux_integral = carbon, self.time + dt, self.flux_integral + flux
+    def retake(self, index: int, dt: float) -> Profile:
+        """Step ``index`` of the history taken again, but only ``dt`` [s] long; the state is not changed."""
+        cond, euler = self._history_steps[index - 1]
+        carbon, _ = self._step(dt, cond, euler, start=self.snapshot(index - 1))
+        return Profile(self.nodes, carbon, self.history_time[index - 1] + dt, self.geometry.half_section)
+
+    def profile_at(self, time: float) -> Profile:
+        """The profile at ``time`` [s] within the history, linear in time between steps (for display)."""
+        times = self.history_time
+        k = int(np.searchsorted(times, time))
+        if k == 0:
+            return Profile(self.nodes, self.snapshot(0), times[0], self.geometry.half_section)
+        if k >= len(times):
+            return Profile(self.nodes, self.snapshot(len(times) - 1), times[-1], self.geometry.half_section)
+        w = (time - times[k - 1]) / (times[k] - times[k - 1])
+        carbon = (1 - w) * self.snapshot(k - 1) + w * self.snapshot(k)
+        return Profile(self.nodes, carbon, time, self.geometry.half_section)
+
+    def threshold_depth(self, carbon: float) -> float:
+        """Depth [m] where the present profile falls to ``carbon`` [wt %]."""
+        return threshold_depth(self.nodes, self.carbon, carbon, self.geometry.half_section)
 
     def profile(self) -> Profile:
         return Profile(self.nodes.copy(), self.carbon.copy(), self.time, self.geometry.half_section)
