@@ -44,7 +44,7 @@ SOAK = 8 * 3600.0  # s, forward soak
 TARGET = 1.0e-3  # m, inverse target ECD
 TOLERANCE = 0.1  # %, accuracy both codes must meet
 GOAL = 5.0  # the project's goal: casedepth's inverse this many times faster than the peer
-REPEATS = 7
+REPEATS = 15
 
 # Peer settings: 100 cells growing by 1.5 % from the surface over the domain; rtol 3e-4 and
 # atol 1e-6 %C. Chosen from a scan of 40-120 cells and rtol 1e-3 to 1e-4 as the fewest BDF steps

@@ -14,10 +14,10 @@ __version__ = "0.1.0"
 from .api import setup  # noqa: E402
 from .carburizing import (CarburizingResult, CarburizingSetup, carburize, soak_time_for_case_depth,  # noqa: E402
                           soak_times_for_case_depths)
-from .errors import InputError, NotReachableError  # noqa: E402
+from .errors import InputError, NotReachableError, SolverError  # noqa: E402
 from .units import parse_length, parse_temperature, parse_threshold, parse_time  # noqa: E402
 
 __all__ = [
     "setup", "CarburizingSetup", "CarburizingResult", "carburize", "soak_time_for_case_depth", "soak_times_for_case_depths",
-    "InputError", "NotReachableError", "parse_length", "parse_temperature", "parse_threshold", "parse_time",
+    "InputError", "NotReachableError", "SolverError", "parse_length", "parse_temperature", "parse_threshold", "parse_time",
 ]

@@ -14,7 +14,7 @@ import sys
 from . import __version__, api
 from .carburizing import CarburizingSetup, carburize, soak_time_for_case_depth
 from .diffusivity import METHODS as DIFFUSIVITY_METHODS
-from .errors import InputError
+from .errors import InputError, SolverError
 from .geometry import SHAPES
 from .hardness import HARDNESS_RELATIONS
 from .steels import library
@@ -162,6 +162,9 @@ def main(argv: list[str] | None = None) -> int:
     except InputError as error:
         print(f"casedepth: error: {FLAGS.get(error.field, error.field)}: {error.message}", file=sys.stderr)
         return 2
+    except SolverError as error:
+        print(f"casedepth: the solver stopped: {error}", file=sys.stderr)
+        return 1
 
 
 if __name__ == "__main__":

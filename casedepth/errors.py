@@ -26,3 +26,7 @@ class InputError(ValueError):
 
 class NotReachableError(InputError):
     """The target cannot be reached with the given furnace step (e.g. a threshold above the surface carbon)."""
+
+
+class SolverError(ArithmeticError):
+    """The numerical solver could not continue (a step that stays unstable however short it is)."""

@@ -31,6 +31,7 @@ import numpy as np
 from scipy.linalg.lapack import dgtsv
 
 from .diffusivity import Diffusivity
+from .errors import SolverError
 from .geometry import Geometry, extend_nodes, graded_nodes
 
 # ROS2: both roots of 2γ² - 4γ + 1 = 0 give an L-stable method; the smaller has the much smaller
@@ -62,10 +63,10 @@ class Accuracy:
     """Discretisation settings, relative to the problem's own scales.
 
     The grid spans ``domain`` length scales with ``cells`` cells growing from the surface; time
-    steps start at ``first_step`` of the time scale and grow by ``step_growth``. The length scale
-    is about half the expected case depth and the time scale the soak (or its estimate), so the
-    same settings resolve a 0.2 mm case and a 3 mm case alike. The defaults give effective case
-    depth to better than 0.1 % (tests/test_convergence.py).
+    steps start at ``first_step`` of the time scale and grow by ``step_growth``. The time scale is
+    the soak (or a first estimate of it) and the length scale √(D_max × time scale), so the same
+    settings resolve a 0.2 mm case and a 3 mm case alike. The defaults give effective case depth
+    to better than 0.1 % (tests/test_convergence.py, tests/test_solver_analytic.py).
     """
 
     cells: int = 160
@@ -115,7 +116,7 @@ def _tridiagonal(below: np.ndarray, diagonal: np.ndarray, above: np.ndarray, rhs
     """Solve a tridiagonal system (LAPACK dgtsv, Gaussian elimination with partial pivoting); inputs are kept."""
     _, _, _, x, info = dgtsv(below, diagonal, above, rhs, 0, 0, 0, 0)
     if info != 0:
-        raise ArithmeticError("singular matrix in the carbon solver; the furnace step may be outside the models' range")
+        raise SolverError("singular matrix in the carbon solver; the furnace step may be outside the models' range")
     return x
 
 
@@ -335,7 +336,7 @@ class CarbonSolver:
                 # carbon outside the range the surface and the part allow: the step was too
                 # long for the data (a maximum principle holds for diffusion); take half of it
                 if h < 1e-9 * max(self.time_scale, 1.0):
-                    raise ArithmeticError("the carbon solver cannot find a stable step; the inputs may be outside the models' range")
+                    raise SolverError("the carbon solver cannot find a stable step; the inputs may be outside the models' range")
                 dt = h / 2
                 smoothing = max(smoothing, 1)
                 continue
