@@ -26,7 +26,7 @@ from .hardness import HARDNESS_RELATIONS, threshold_carbon
 from .solver import Accuracy, CarbonSolver, Profile, SurfaceCondition, threshold_depth
 from .steels import Steel
 from .surface import DEFAULT_BETA, Gunnarson_alloy_factor, equilibrium_surface_carbon, steel_saturation_carbon
-from .units import ZERO_CELSIUS, Threshold
+from .units import ZERO_CELSIUS, Threshold, celsius, fahrenheit
 
 MAX_TEMPERATURE = 1100.0 + ZERO_CELSIUS  # K; top of the range the diffusivity and Acm data cover
 GRAIN_GROWTH_TEMPERATURE = 980.0 + ZERO_CELSIUS  # K; common practice, see warnings()
@@ -34,6 +34,14 @@ POTENTIAL_RANGE = (0.05, 2.0)  # wt % C
 BETA_RANGE = (1e-9, 1e-4)  # m/s
 TARGET_RANGE = (0.01e-3, 10e-3)  # m
 SOAK_RANGE = (60.0, 500 * 3600.0)  # s
+
+
+def _both(kelvin: float) -> str:
+    return f"{celsius(kelvin):.0f} °C ({fahrenheit(kelvin):.0f} °F)"
+
+
+def _range(low: float, high: float) -> str:
+    return f"{celsius(low):.0f}–{celsius(high):.0f} °C ({fahrenheit(low):.0f}–{fahrenheit(high):.0f} °F)"
 
 
 @dataclass(frozen=True)
@@ -79,12 +87,11 @@ class CarburizingSetup:
         ac3 = Andrews_1965_Ac3(self.steel.composition)
         T = self.temperature
         if not math.isfinite(T) or T < ac3:
-            raise InputError("temperature", f"{T - ZERO_CELSIUS:.0f} °C is below the Ac3 of this steel "
-                             f"({ac3 - ZERO_CELSIUS:.0f} °C, Andrews 1965): it would not be fully austenitic; "
-                             f"allowed {ac3 - ZERO_CELSIUS:.0f}–{MAX_TEMPERATURE - ZERO_CELSIUS:.0f} °C")
+            raise InputError("temperature", f"{_both(T)} is below the Ac3 of this steel ({_both(ac3)}, Andrews "
+                             f"1965): it would not be fully austenitic; allowed {_range(ac3, MAX_TEMPERATURE)}")
         if T > MAX_TEMPERATURE:
-            raise InputError("temperature", f"{T - ZERO_CELSIUS:.0f} °C is above the carburizing range the models "
-                             f"cover; allowed {ac3 - ZERO_CELSIUS:.0f}–{MAX_TEMPERATURE - ZERO_CELSIUS:.0f} °C")
+            raise InputError("temperature", f"{_both(T)} is above the carburizing range the models cover; "
+                             f"allowed {_range(ac3, MAX_TEMPERATURE)}")
         lo, hi = POTENTIAL_RANGE
         if not (math.isfinite(self.carbon_potential) and lo <= self.carbon_potential <= hi):
             raise InputError("carbon potential", f"{self.carbon_potential:g} %C is outside {lo:g}–{hi:g} %C")
@@ -349,11 +356,14 @@ def _check_target(setup: CarburizingSetup, target: float, field: str = "target")
         raise InputError(field, f"{target * 1e3:g} mm is outside {lo * 1e3:g}–{limit * 1e3:g} mm{what}")
 
 
-def soak_times_for_case_depths(setup: CarburizingSetup, targets: list[float]) -> list[CarburizingResult]:
+def soak_times_for_case_depths(setup: CarburizingSetup, targets: list[float],
+                               size_for: float | None = None) -> list[CarburizingResult]:
     """Soaks [s] for several effective case depths [m] (e.g. a drawing's minimum, aim and maximum) from one march.
 
     The march records every step and stops once the deepest target is passed; for each target the
-    step that crossed it is re-taken with the length that lands on it.
+    step that crossed it is re-taken with the length that lands on it. The grid and steps are sized
+    for ``size_for`` [m] (default: the middle target), so the answer for that depth is exactly what
+    :func:`soak_time_for_case_depth` gives for it alone.
     """
     for target in targets:
         _check_target(setup, target)
@@ -362,7 +372,7 @@ def soak_times_for_case_depths(setup: CarburizingSetup, targets: list[float]) ->
         raise NotReachableError("threshold", f"the threshold {thr:.3f} %C is not below the surface carbon this atmosphere "
                                 f"gives ({setup.equilibrium_carbon:.3f} %C); raise the carbon potential or lower the threshold")
     deepest = max(targets)
-    solver = setup.solver(case_depth=deepest)
+    solver = setup.solver(case_depth=size_for if size_for is not None else sorted(targets)[len(targets) // 2])
     cond = setup.surface_condition
     solver.advance(SOAK_RANGE[1], cond, lambda s: np.interp(deepest, s.nodes, s.carbon) >= thr)
     reached = solver.threshold_depth(thr)

@@ -19,7 +19,7 @@ from .geometry import SHAPES
 from .hardness import HARDNESS_RELATIONS
 from .steels import library
 from .surface import DEFAULT_BETA
-from .units import celsius, fahrenheit, format_duration, parse_length, parse_time, parse_velocity
+from .units import DisplayUnits, format_duration, parse_length, parse_time, parse_velocity
 
 
 class _UsageError(Exception):
@@ -62,6 +62,7 @@ def _build_parser() -> argparse.ArgumentParser:
     c.add_argument("--json", action="store_true", help="print one JSON object instead of text")
 
     commands.add_parser("steels", help="list the steel library")
+    commands.add_parser("gui", help="open the window: casedepth gui [PLAN.json] [--screenshot OUT.png]", add_help=False)
     return parser
 
 
@@ -85,13 +86,10 @@ def setup_from_args(args) -> CarburizingSetup:
     )
 
 
-def _format(result, imperial: bool) -> str:
+def _format(result, units: DisplayUnits) -> str:
     s = result.setup
-
-    def length(m):
-        return f"{m / 0.0254:.4f} in" if imperial else f"{m * 1e3:.3f} mm"
-
-    temp = f"{fahrenheit(s.temperature):.0f} °F" if imperial else f"{celsius(s.temperature):.0f} °C"
+    length = units.format_length
+    temp = units.format_temperature(s.temperature)
     lines = []
     if result.target_depth is not None:
         lines.append(f"Soak time: {format_duration(result.soak_time)} ({result.soak_time / 3600:.2f} h) at {temp}, "
@@ -132,7 +130,7 @@ def _carburize(args) -> int:
                                             "not a depth at which all carbon stops")
         print(json.dumps(out))
     else:
-        print(_format(result, args.units == "imperial"))
+        print(_format(result, DisplayUnits(args.units)))
     return 0
 
 
@@ -145,6 +143,10 @@ def _steels(_args) -> int:
 def main(argv: list[str] | None = None) -> int:
     """Run the command line; returns the exit code."""
     argv = sys.argv[1:] if argv is None else list(argv)
+    if not argv or argv[0] == "gui":  # the window; Qt is imported only here
+        from .gui.app import main as window_main
+
+        return window_main(argv[1:])
     parser = _build_parser()
     try:
         args = parser.parse_args(argv)

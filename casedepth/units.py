@@ -136,3 +136,44 @@ def format_duration(seconds: float) -> str:
     if hours == 0:
         return f"{minutes} min"
     return f"{hours} h {minutes:02d} min"
+
+
+@dataclass(frozen=True)
+class DisplayUnits:
+    """How values are shown to a person: metric (°C, mm) or imperial (°F, in). SI stays inside."""
+
+    system: str = "metric"
+
+    @property
+    def imperial(self) -> bool:
+        return self.system == "imperial"
+
+    @property
+    def temperature_unit(self) -> str:
+        return "°F" if self.imperial else "°C"
+
+    @property
+    def length_unit(self) -> str:
+        return "in" if self.imperial else "mm"
+
+    def temperature(self, kelvin: float) -> float:
+        return fahrenheit(kelvin) if self.imperial else celsius(kelvin)
+
+    def temperature_si(self, shown: float) -> float:
+        return (shown - 32.0) * 5.0 / 9.0 + ZERO_CELSIUS if self.imperial else shown + ZERO_CELSIUS
+
+    def length(self, metres: float) -> float:
+        return metres / 0.0254 if self.imperial else metres * 1e3
+
+    def length_si(self, shown: float) -> float:
+        return shown * 0.0254 if self.imperial else shown * 1e-3
+
+    @property
+    def length_decimals(self) -> int:
+        return 4 if self.imperial else 3
+
+    def format_length(self, metres: float) -> str:
+        return f"{self.length(metres):.{self.length_decimals}f} {self.length_unit}"
+
+    def format_temperature(self, kelvin: float) -> str:
+        return f"{self.temperature(kelvin):.0f} {self.temperature_unit}"

@@ -1,0 +1,73 @@
+"""Start the window: ``casedepth``, ``casedepth gui [PLAN] [--screenshot OUT.png]`` or ``casedepth-gui``."""
+
+from __future__ import annotations
+
+import argparse
+import os
+import sys
+
+
+def main(argv: list[str] | None = None) -> int:
+    argv = sys.argv[1:] if argv is None else list(argv)
+    parser = argparse.ArgumentParser(prog="casedepth gui", description="Open the planning window.")
+    parser.add_argument("plan", nargs="?", help="a plan file to open")
+    parser.add_argument("--screenshot", metavar="OUT.png",
+                        help="render the window offscreen after the first result, save it as PNG and exit")
+    parser.add_argument("--units", choices=["metric", "imperial"], help="show metric or imperial units")
+    try:
+        args = parser.parse_args(argv)
+    except SystemExit as stop:
+        return int(stop.code or 0)
+    if args.screenshot:
+        os.environ["QT_QPA_PLATFORM"] = "offscreen"
+
+    from PySide6.QtCore import QSettings, QTimer
+    from PySide6.QtWidgets import QApplication
+
+    from ..plan import Plan, PlanFileError
+    from .window import MainWindow
+
+    app = QApplication.instance() or QApplication(sys.argv[:1])
+    app.setApplicationName("casedepth")
+    app.setOrganizationName("casedepth")
+    plan = None
+    if args.plan:
+        try:
+            plan = Plan.load(args.plan)
+        except PlanFileError as error:
+            print(f"casedepth: error: {args.plan}: {error.message}", file=sys.stderr)
+            return 2
+    settings = QSettings("casedepth", "casedepth")
+    if args.screenshot:  # a fixed look for pictures, whatever this user's saved layout
+        settings = QSettings(os.path.join(os.path.dirname(os.path.abspath(args.screenshot)), ".casedepth-shot.ini"),
+                             QSettings.IniFormat)
+        settings.clear()
+    if args.units:
+        settings.setValue("units", args.units)
+    window = MainWindow(plan, settings, args.plan)
+    if args.screenshot:
+        window.resize(1320, 860)
+        outcome = {"code": 1}
+
+        def shoot():
+            window.grab().save(args.screenshot)
+            outcome["code"] = 0
+            app.quit()
+
+        window.result_shown.connect(lambda: QTimer.singleShot(150, shoot))
+        QTimer.singleShot(30000, app.quit)
+        window.show()
+        app.exec()
+        window.plan.modified = False
+        window.close()
+        try:
+            os.unlink(settings.fileName())
+        except OSError:
+            pass
+        return outcome["code"]
+    window.show()
+    return app.exec()
+
+
+if __name__ == "__main__":
+    sys.exit(main())

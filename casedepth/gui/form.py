@@ -1,0 +1,412 @@
+"""The input side of the window: steel, part, furnace step, drawing callout, model settings.
+
+Every widget is a thin view of one :class:`casedepth.plan.Plan` field: editing the widget sets the
+field (one undoable edit), and any change of the field (undo, open, units switch) is shown back.
+"""
+
+from __future__ import annotations
+
+import math
+
+from PySide6.QtCore import Qt, Signal
+from PySide6.QtWidgets import (QCheckBox, QComboBox, QCompleter, QDoubleSpinBox, QFormLayout, QGroupBox, QHBoxLayout,
+                               QLabel, QLineEdit, QSlider, QToolButton, QVBoxLayout, QWidget)
+
+from .. import steels
+from ..austenite import Andrews_1965_Ac3
+from ..diffusivity import METHODS
+from ..errors import InputError
+from ..hardness import HARDNESS_RELATIONS
+from ..plan import Plan
+from ..surface import Gunnarson_alloy_factor
+from ..units import DisplayUnits, parse_velocity
+
+# (label, shape, has a size, default size [m])
+SHAPE_CHOICES = [
+    ("Flat surface, thick section", "plate", False, None),
+    ("Plate, carburized on both faces", "plate", True, 10e-3),
+    ("Shaft or pin (solid round)", "cylinder", True, 30e-3),
+    ("Bore (hole in a thick body)", "bore", True, 30e-3),
+    ("Ball (sphere)", "sphere", True, 20e-3),
+]
+THRESHOLD_KINDS = [("%C", "carbon", 2, 0.05, 1.5), ("HV", "HV", 0, 100.0, 1000.0), ("HRC", "HRC", 1, 10.0, 70.0)]
+
+INVALID_STYLE = "border: 2px solid #d1495b; background: #fdecee;"
+
+
+def _spin(decimals: int, low: float, high: float, step: float, suffix: str = "") -> QDoubleSpinBox:
+    spin = QDoubleSpinBox()
+    spin.setDecimals(decimals)
+    spin.setRange(low, high)
+    spin.setSingleStep(step)
+    spin.setSuffix(suffix)
+    spin.setKeyboardTracking(False)  # one edit per committed value (Enter, Tab, arrows), not per keystroke
+    spin.setAccelerated(True)
+    return spin
+
+
+class PlanForm(QWidget):
+    """The form bound to a plan. ``units`` sets how lengths and temperatures are shown."""
+
+    input_problem = Signal(str, str)  # field, message: an entry the form itself cannot read
+
+    def __init__(self, plan: Plan, units: DisplayUnits, parent=None):
+        super().__init__(parent)
+        self.plan = plan
+        self.units = units
+        self._showing = False
+        self._invalid: set[str] = set()
+        layout = QVBoxLayout(self)
+        layout.setContentsMargins(6, 6, 6, 6)
+        layout.addWidget(self._steel_group())
+        layout.addWidget(self._part_group())
+        layout.addWidget(self._furnace_group())
+        layout.addWidget(self._callout_group())
+        layout.addWidget(self._model_group())
+        layout.addStretch(1)
+        self.plan_replaced(plan)
+
+    # -- building ----------------------------------------------------------------------------------
+    def _steel_group(self) -> QGroupBox:
+        box = QGroupBox("Steel")
+        form = QFormLayout(box)
+        self.steel = QComboBox()
+        self.steel.setEditable(True)
+        self.steel.setInsertPolicy(QComboBox.NoInsert)
+        self.steel.setSizeAdjustPolicy(QComboBox.AdjustToMinimumContentsLengthWithIcon)
+        self.steel.setMinimumContentsLength(16)
+        for grade in steels.library():
+            self.steel.addItem(f"{grade.name}  —  {grade.standard}", grade.name)
+        completer = QCompleter(self.steel.model(), self.steel)
+        completer.setFilterMode(Qt.MatchContains)
+        completer.setCaseSensitivity(Qt.CaseInsensitive)
+        completer.setCompletionMode(QCompleter.PopupCompletion)
+        self.steel.setCompleter(completer)
+        self.steel.setToolTip("Type to filter the steel library (name or standard number)")
+        self.steel.activated.connect(self._steel_picked)
+        self.steel.lineEdit().editingFinished.connect(self._steel_typed)
+        form.addRow("Grade", self.steel)
+        self.composition = QLineEdit()
+        self.composition.setToolTip("Composition in wt %, e.g. C=0.20 Mn=0.80 Cr=0.50 — edit to match the heat's certificate")
+        self.composition.editingFinished.connect(self._composition_edited)
+        form.addRow("Composition, wt %", self.composition)
+        self.steel_facts = QLabel()
+        self.steel_facts.setWordWrap(True)
+        self.steel_facts.setStyleSheet("color: #555;")
+        form.addRow(self.steel_facts)
+        return box
+
+    def _part_group(self) -> QGroupBox:
+        box = QGroupBox("Part")
+        form = QFormLayout(box)
+        self.shape = QComboBox()
+        self.shape.setSizeAdjustPolicy(QComboBox.AdjustToMinimumContentsLengthWithIcon)
+        self.shape.setMinimumContentsLength(16)
+        for label, *_ in SHAPE_CHOICES:
+            self.shape.addItem(label)
+        self.shape.activated.connect(self._shape_picked)
+        form.addRow("Surface", self.shape)
+        self.size_label = QLabel("Diameter")
+        self.size = _spin(3, 0.001, 5000.0, 1.0)
+        self.size.valueChanged.connect(lambda v: self._set("size", self.units.length_si(v)))
+        form.addRow(self.size_label, self.size)
+        return box
+
+    def _furnace_group(self) -> QGroupBox:
+        box = QGroupBox("Furnace step")
+        form = QFormLayout(box)
+        self.temperature = _spin(0, -300.0, 3000.0, 5.0)
+        self.temperature.valueChanged.connect(lambda v: self._set("temperature", self.units.temperature_si(v)))
+        form.addRow("Temperature", self.temperature)
+        self.carbon_potential = _spin(2, 0.0, 3.0, 0.05, " %C")
+        self.carbon_potential.valueChanged.connect(lambda v: self._set("carbon_potential", v))
+        self.carbon_potential.setToolTip("Carbon potential of the atmosphere (carbon of plain carbon steel in equilibrium with it)")
+        form.addRow("Carbon potential", self.carbon_potential)
+        return box
+
+    def _callout_group(self) -> QGroupBox:
+        box = QGroupBox("Drawing callout: effective case depth")
+        form = QFormLayout(box)
+        row = QHBoxLayout()
+        self.case_min = _spin(3, 0.0, 60.0, 0.05)
+        self.case_max = _spin(3, 0.0, 60.0, 0.05)
+        self.case_min.valueChanged.connect(lambda v: self._set("case_min", self.units.length_si(v)))
+        self.case_max.valueChanged.connect(lambda v: self._set("case_max", self.units.length_si(v)))
+        row.addWidget(self.case_min)
+        row.addWidget(QLabel("to"))
+        row.addWidget(self.case_max)
+        form.addRow("Depth", row)
+        aim_row = QHBoxLayout()
+        self.aim = QSlider(Qt.Horizontal)
+        self.aim.setRange(0, 100)
+        self.aim.setToolTip("Where in the window to aim: 50 % is the middle")
+        self.aim.valueChanged.connect(lambda v: self._set("aim", v / 100.0, coalesce=True))
+        self.aim_value = QLabel()
+        self.aim_value.setMinimumWidth(120)
+        aim_row.addWidget(self.aim)
+        aim_row.addWidget(self.aim_value)
+        form.addRow("Aim", aim_row)
+        threshold_row = QHBoxLayout()
+        self.threshold_value = _spin(2, 0.0, 1000.0, 0.01)
+        self.threshold_value.valueChanged.connect(lambda v: self._set("threshold_value", v))
+        self.threshold_kind = QComboBox()
+        for label, *_ in THRESHOLD_KINDS:
+            self.threshold_kind.addItem(label)
+        self.threshold_kind.activated.connect(self._threshold_kind_picked)
+        threshold_row.addWidget(self.threshold_value)
+        threshold_row.addWidget(self.threshold_kind)
+        form.addRow("At", threshold_row)
+        return box
+
+    def _model_group(self) -> QWidget:
+        outer = QWidget()
+        layout = QVBoxLayout(outer)
+        layout.setContentsMargins(0, 0, 0, 0)
+        self.model_toggle = QToolButton()
+        self.model_toggle.setText("Model settings")
+        self.model_toggle.setCheckable(True)
+        self.model_toggle.setToolButtonStyle(Qt.ToolButtonTextBesideIcon)
+        self.model_toggle.setArrowType(Qt.RightArrow)
+        self.model_toggle.setStyleSheet("QToolButton { border: none; font-weight: bold; }")
+        layout.addWidget(self.model_toggle)
+        self.model_box = QGroupBox()
+        form = QFormLayout(self.model_box)
+        self.diffusivity = QComboBox()
+        self.diffusivity.setSizeAdjustPolicy(QComboBox.AdjustToMinimumContentsLengthWithIcon)
+        self.diffusivity.setMinimumContentsLength(16)
+        for key, method in METHODS.items():
+            self.diffusivity.addItem(method.display, key)
+            self.diffusivity.setItemData(self.diffusivity.count() - 1, f"{method.reference}; {method.validity}",
+                                         Qt.ToolTipRole)
+        self.diffusivity.activated.connect(lambda i: self._set("diffusivity", self.diffusivity.itemData(i)))
+        form.addRow("Carbon diffusivity", self.diffusivity)
+        self.d_multiplier = _spin(2, 0.1, 10.0, 0.05, " ×")
+        self.d_multiplier.setToolTip("Calibration factor on D (1 = the published model)")
+        self.d_multiplier.valueChanged.connect(lambda v: self._set("d_multiplier", v))
+        form.addRow("D multiplier", self.d_multiplier)
+        self.d0 = QLineEdit()
+        self.d0.setToolTip("Arrhenius pre-exponential factor, m²/s")
+        self.d0.editingFinished.connect(self._d0_edited)
+        form.addRow("D0 [m²/s]", self.d0)
+        self.q = _spin(1, 50.0, 400.0, 1.0, " kJ/mol")
+        self.q.valueChanged.connect(lambda v: self._set("q", v * 1e3))
+        form.addRow("Activation energy Q", self.q)
+        self.beta = QLineEdit()
+        self.beta.setToolTip("Mass-transfer coefficient of the atmosphere, cm/s (about 1–3e-5 in endothermic gas)")
+        self.beta.editingFinished.connect(self._beta_edited)
+        form.addRow("β [cm/s]", self.beta)
+        self.beta_held = QCheckBox("Surface held at equilibrium (β = ∞)")
+        self.beta_held.toggled.connect(lambda on: self._set("beta_held", bool(on)))
+        form.addRow(self.beta_held)
+        self.alloy_factor = QCheckBox("Alloy factor (Gunnarson)")
+        self.alloy_factor.toggled.connect(lambda on: self._set("alloy_factor", bool(on)))
+        form.addRow(self.alloy_factor)
+        self.hardness_relation = QComboBox()
+        self.hardness_relation.setSizeAdjustPolicy(QComboBox.AdjustToMinimumContentsLengthWithIcon)
+        self.hardness_relation.setMinimumContentsLength(16)
+        for key, relation in HARDNESS_RELATIONS.items():
+            self.hardness_relation.addItem(relation.display, key)
+            self.hardness_relation.setItemData(self.hardness_relation.count() - 1, relation.assumptions, Qt.ToolTipRole)
+        self.hardness_relation.activated.connect(
+            lambda i: self._set("hardness_relation", self.hardness_relation.itemData(i)))
+        form.addRow("Carbon → hardness", self.hardness_relation)
+        layout.addWidget(self.model_box)
+        self.model_toggle.toggled.connect(self.show_model_settings)
+        self.show_model_settings(False)
+        return outer
+
+    # -- widget -> plan --------------------------------------------------------------------------------
+    def _set(self, name: str, value, coalesce: bool = False) -> None:
+        if not self._showing:
+            self.clear_mark(name)
+            self.plan.set(name, value, coalesce=coalesce)
+
+    def _steel_picked(self, index: int) -> None:
+        self.clear_mark("composition")
+        self.plan.choose_steel(self.steel.itemData(index))
+
+    def _steel_typed(self) -> None:
+        text = self.steel.currentText().split("—")[0].strip()
+        if not text or self._showing:
+            return
+        try:
+            grade = steels.find(text)
+        except InputError as error:
+            self.mark("composition", error.message)
+            return
+        if grade.name != self.plan.steel:
+            self.plan.choose_steel(grade.name)
+
+    def _composition_edited(self) -> None:
+        if self._showing:
+            return
+        try:
+            composition = steels.parse_composition(self.composition.text(), "composition")
+        except InputError as error:
+            self.mark("composition", error.message)
+            return
+        self._set("composition", composition)
+
+    def _shape_picked(self, index: int) -> None:
+        _, shape, sized, default = SHAPE_CHOICES[index]
+        size = self.plan.size if sized else None
+        if sized and (size is None or shape != self.plan.shape and self.plan.shape == "plate"):
+            size = size or default
+        self.clear_mark("size")
+        self.clear_mark("shape")
+        self.plan.update(shape=shape, size=size)
+
+    def _threshold_kind_picked(self, index: int) -> None:
+        _, kind, _, _, _ = THRESHOLD_KINDS[index]
+        if kind == self.plan.threshold_kind:
+            return
+        usual = {"carbon": 0.40, "HV": 550.0, "HRC": 50.0}[kind]  # ISO 18203 550 HV, SAE J423 50 HRC
+        self.clear_mark("threshold_value")
+        self.plan.update(threshold_kind=kind, threshold_value=usual)
+
+    def _d0_edited(self) -> None:
+        try:
+            value = float(self.d0.text())
+            if not math.isfinite(value) or value <= 0:
+                raise ValueError
+        except ValueError:
+            self.mark("d0", f"cannot read {self.d0.text()!r}; write a number such as 2.3e-5")
+            return
+        self._set("d0", value)
+
+    def _beta_edited(self) -> None:
+        text = self.beta.text().strip()
+        try:
+            value = parse_velocity(text, "beta")
+        except InputError as error:
+            self.mark("beta", error.message)
+            return
+        if math.isinf(value):
+            self.plan.update(beta_held=True)
+            return
+        self._set("beta", value)
+
+    # -- plan -> widgets -------------------------------------------------------------------------------
+    def plan_replaced(self, plan: Plan) -> None:
+        self.plan = plan
+        plan.subscribe(lambda name, value: self.show_plan())
+        self._invalid.clear()
+        self.show_plan()
+
+    def set_units(self, units: DisplayUnits) -> None:
+        self.units = units
+        self.show_plan()
+
+    def show_plan(self) -> None:
+        """Show every field of the plan (signals from the widgets are ignored meanwhile)."""
+        p, u = self.plan, self.units
+        self._showing = True
+        try:
+            index = self.steel.findData(p.steel)
+            if index >= 0:
+                self.steel.setCurrentIndex(index)
+            else:
+                self.steel.setEditText(p.steel)
+            if "composition" not in self._invalid:
+                self.composition.setText(" ".join(f"{el}={val:g}" for el, val in p.composition.items()))
+            self._show_steel_facts()
+            choice = next(i for i, (_, shape, sized, _) in enumerate(SHAPE_CHOICES)
+                          if shape == p.shape and (sized == (p.size is not None) or shape != "plate"))
+            self.shape.setCurrentIndex(choice)
+            sized = SHAPE_CHOICES[choice][2]
+            self.size.setVisible(sized)
+            self.size_label.setVisible(sized)
+            self.size_label.setText("Thickness" if p.shape == "plate" else "Diameter")
+            self._length_spin(self.size, p.size if p.size is not None else SHAPE_CHOICES[choice][3] or 0.0, big=True)
+            self.temperature.setSuffix(f" {u.temperature_unit}")
+            self.temperature.setValue(u.temperature(p.temperature))
+            self.carbon_potential.setValue(p.carbon_potential)
+            self._length_spin(self.case_min, p.case_min)
+            self._length_spin(self.case_max, p.case_max)
+            self.aim.setValue(int(round(p.aim * 100)))
+            try:
+                aim = p.targets()[1]
+                self.aim_value.setText(f"{p.aim * 100:.0f} % → {u.format_length(aim)}")
+            except InputError:
+                self.aim_value.setText(f"{p.aim * 100:.0f} %")
+            kind_index = next(i for i, k in enumerate(THRESHOLD_KINDS) if k[1] == p.threshold_kind)
+            self.threshold_kind.setCurrentIndex(kind_index)
+            _, _, decimals, _, _ = THRESHOLD_KINDS[kind_index]
+            self.threshold_value.setDecimals(decimals)
+            self.threshold_value.setSingleStep(10 ** -decimals if decimals else 10.0)
+            self.threshold_value.setValue(p.threshold_value)
+            self.diffusivity.setCurrentIndex(self.diffusivity.findData(p.diffusivity))
+            self.d_multiplier.setValue(p.d_multiplier)
+            arrhenius = p.diffusivity == "arrhenius"
+            self.d0.setEnabled(arrhenius)
+            self.q.setEnabled(arrhenius)
+            if "d0" not in self._invalid:
+                self.d0.setText(f"{p.d0:.3g}")
+            self.q.setValue(p.q / 1e3)
+            if "beta" not in self._invalid:
+                self.beta.setText(f"{p.beta * 100:.3g}")
+            self.beta.setEnabled(not p.beta_held)
+            self.beta_held.setChecked(bool(p.beta_held))
+            self.alloy_factor.setChecked(bool(p.alloy_factor))
+            self.hardness_relation.setCurrentIndex(self.hardness_relation.findData(p.hardness_relation))
+        finally:
+            self._showing = False
+
+    def _length_spin(self, spin: QDoubleSpinBox, metres: float, big: bool = False) -> None:
+        u = self.units
+        spin.setDecimals(u.length_decimals)
+        spin.setSuffix(f" {u.length_unit}")
+        top = 5000.0 if big else 60.0
+        spin.setRange(u.length(1e-6), u.length(top * 1e-3))
+        spin.setSingleStep(0.002 if u.imperial else 0.05)
+        spin.setValue(u.length(metres))
+
+    def _show_steel_facts(self) -> None:
+        try:
+            steel = self.plan.steel_object()
+        except InputError:
+            self.steel_facts.setText("")
+            return
+        ac3 = Andrews_1965_Ac3(steel.composition)
+        factor = Gunnarson_alloy_factor(steel.composition)
+        self.steel_facts.setText(f"{steel.standard}. Core {steel.carbon:.3f} %C · alloy factor {factor:.3f} · "
+                                 f"Ac3 ≈ {self.units.format_temperature(ac3)} (Andrews 1965)")
+
+    # -- marking bad input ------------------------------------------------------------------------------
+    def widget_for(self, field: str) -> QWidget | None:
+        return {"steel": self.steel, "composition": self.composition, "shape": self.shape, "size": self.size,
+                "temperature": self.temperature, "carbon_potential": self.carbon_potential,
+                "case_min": self.case_min, "case_max": self.case_max, "aim": self.aim,
+                "threshold_value": self.threshold_value, "threshold_kind": self.threshold_kind,
+                "diffusivity": self.diffusivity, "d_multiplier": self.d_multiplier, "d0": self.d0, "q": self.q,
+                "beta": self.beta, "hardness_relation": self.hardness_relation}.get(field)
+
+    def mark(self, field: str, message: str) -> None:
+        widget = self.widget_for(field)
+        self._invalid.add(field)
+        if widget is not None:
+            widget.setStyleSheet(INVALID_STYLE)
+            widget.setToolTip(message)
+        self.input_problem.emit(field, message)
+
+    def clear_mark(self, field: str) -> None:
+        if field in self._invalid:
+            self._invalid.discard(field)
+            widget = self.widget_for(field)
+            if widget is not None:
+                widget.setStyleSheet("")
+                widget.setToolTip("")
+
+    def clear_marks(self, keep: set[str] = frozenset()) -> None:
+        for field in list(self._invalid - set(keep)):
+            self.clear_mark(field)
+
+    def has_unread_entry(self) -> bool:
+        """True while a text entry the form could not read is marked (the plan keeps its old value)."""
+        return bool(self._invalid & {"composition", "d0", "beta"})
+
+    def show_model_settings(self, shown: bool) -> None:
+        self.model_box.setVisible(shown)
+        self.model_toggle.setArrowType(Qt.DownArrow if shown else Qt.RightArrow)
+        if self.model_toggle.isChecked() != shown:
+            self.model_toggle.setChecked(shown)

@@ -1,0 +1,415 @@
+"""The main window: the plan form on the left, the answer and the profiles on the right, cautions below."""
+
+from __future__ import annotations
+
+import csv
+import io
+import os
+import tempfile
+from pathlib import Path
+
+from PySide6.QtCore import QSettings, Qt, Signal
+from PySide6.QtGui import QAction, QActionGroup, QKeySequence
+from PySide6.QtWidgets import (QFileDialog, QHBoxLayout, QLabel, QMainWindow, QMessageBox, QScrollArea, QSlider,
+                               QSplitter, QVBoxLayout, QWidget)
+
+from .. import __version__, safety
+from ..diffusivity import METHODS
+from ..errors import InputError
+from ..hardness import HARDNESS_RELATIONS, ASTM_E140_hv_to_hrc
+from ..plan import Plan, PlanFileError
+from ..units import DisplayUnits, format_duration
+from .cautions import CautionPanel
+from .form import PlanForm
+from .plots import ProfilePlots
+from .results import ResultPanel
+from .worker import Calculator
+
+FIELD_LABELS = {
+    "steel": "Steel", "composition": "Composition", "shape": "Surface", "size": "Part size",
+    "temperature": "Temperature", "carbon_potential": "Carbon potential", "case_min": "Minimum case depth",
+    "case_max": "Maximum case depth", "aim": "Aim", "threshold_value": "Threshold", "threshold_kind": "Threshold",
+    "diffusivity": "Diffusivity model", "d_multiplier": "D multiplier", "d0": "D0", "q": "Q", "beta": "β",
+    "hardness_relation": "Carbon → hardness",
+}
+PLAN_FILTER = "casedepth plans (*.cdplan.json *.json);;All files (*)"
+MAX_RECENT = 8
+
+
+def _atomic_write(path: Path, text: str) -> None:
+    handle, temporary = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=path.parent)
+    try:
+        with os.fdopen(handle, "w", encoding="utf-8", newline="") as stream:
+            stream.write(text)
+        os.replace(temporary, path)
+    except BaseException:
+        if os.path.exists(temporary):
+            os.unlink(temporary)
+        raise
+
+
+class MainWindow(QMainWindow):
+    """The planning window. ``settings`` (a QSettings) keeps units, layout and recent files between runs."""
+
+    result_shown = Signal()
+
+    def __init__(self, plan: Plan | None = None, settings: QSettings | None = None, path: str | None = None):
+        super().__init__()
+        self.settings = settings if settings is not None else QSettings("casedepth", "casedepth")
+        self.units = DisplayUnits(str(self.settings.value("units", "metric")))
+        self.plan = plan if plan is not None else Plan()
+        self.path: Path | None = Path(path) if path else None
+        self.outcome = None
+        self.calculator = Calculator(parent=self)
+        self.calculator.finished.connect(self._show_outcome)
+        self.calculator.failed.connect(self._show_failure)
+        self._build()
+        self._build_menus()
+        self._attach(self.plan)
+        geometry = self.settings.value("window/geometry")
+        if geometry is not None:
+            self.restoreGeometry(geometry)
+        else:
+            self.resize(1280, 820)
+        splitter = self.settings.value("window/splitter")
+        if splitter is not None:
+            self.splitter.restoreState(splitter)
+        self.form.show_model_settings(self.settings.value("window/model_settings", False) in (True, "true"))
+        self.calculate()
+
+    # -- layout ------------------------------------------------------------------------------------
+    def _build(self) -> None:
+        self.form = PlanForm(self.plan, self.units)
+        self.form.input_problem.connect(self._input_problem)
+        self.form.model_toggle.toggled.connect(lambda on: self.settings.setValue("window/model_settings", on))
+        scroll = QScrollArea()
+        scroll.setWidget(self.form)
+        scroll.setWidgetResizable(True)
+        scroll.setHorizontalScrollBarPolicy(Qt.ScrollBarAlwaysOff)
+        scroll.setMinimumWidth(self.form.sizeHint().width() + 24)
+        self.results = ResultPanel()
+        self.plots = ProfilePlots()
+        slider_row = QHBoxLayout()
+        slider_row.addWidget(QLabel("Time in the soak"))
+        self.time_slider = QSlider(Qt.Horizontal)
+        self.time_slider.setRange(0, 1000)
+        self.time_slider.setValue(1000)
+        self.time_slider.setToolTip("Drag to watch the profile grow during the soak")
+        self.time_slider.valueChanged.connect(self._time_moved)
+        slider_row.addWidget(self.time_slider, 1)
+        self.time_label = QLabel("end of soak")
+        self.time_label.setMinimumWidth(150)
+        slider_row.addWidget(self.time_label)
+        right = QWidget()
+        right_layout = QVBoxLayout(right)
+        right_layout.addWidget(self.results)
+        right_layout.addWidget(self.plots, 1)
+        right_layout.addLayout(slider_row)
+        self.splitter = QSplitter(Qt.Horizontal)
+        self.splitter.addWidget(scroll)
+        self.splitter.addWidget(right)
+        self.splitter.setStretchFactor(1, 1)
+        self.splitter.setSizes([self.form.sizeHint().width() + 24, 880])
+        self.cautions = CautionPanel()
+        central = QWidget()
+        layout = QVBoxLayout(central)
+        layout.setContentsMargins(0, 0, 0, 0)
+        layout.setSpacing(0)
+        layout.addWidget(self.splitter, 1)
+        layout.addWidget(self.cautions)
+        self.setCentralWidget(central)
+        self.statusBar()
+
+    def _action(self, menu, text, slot, shortcut=None, tip=None) -> QAction:
+        action = QAction(text, self)
+        if shortcut is not None:
+            action.setShortcut(shortcut)
+        if tip:
+            action.setStatusTip(tip)
+        action.triggered.connect(slot)
+        menu.addAction(action)
+        return action
+
+    def _build_menus(self) -> None:
+        bar = self.menuBar()
+        file_menu = bar.addMenu("&File")
+        self._action(file_menu, "&New plan", self.new_plan, QKeySequence.New)
+        self._action(file_menu, "&Open plan…", self.open_dialog, QKeySequence.Open)
+        self.recent_menu = file_menu.addMenu("Open &recent")
+        file_menu.addSeparator()
+        self._action(file_menu, "&Save", self.save, QKeySequence.Save)
+        self._action(file_menu, "Save &as…", self.save_as_dialog, QKeySequence.SaveAs)
+        file_menu.addSeparator()
+        self._action(file_menu, "Export profile as &CSV…", self.export_csv_dialog, "Ctrl+E")
+        self._action(file_menu, "Export &plot (PNG, SVG, PDF)…", self.export_plot_dialog, "Ctrl+Shift+E")
+        file_menu.addSeparator()
+        self._action(file_menu, "&Quit", self.close, QKeySequence.Quit)
+        edit_menu = bar.addMenu("&Edit")
+        self.undo_action = self._action(edit_menu, "&Undo", self.undo, QKeySequence.Undo)
+        self.redo_action = self._action(edit_menu, "&Redo", self.redo, QKeySequence.Redo)
+        view_menu = bar.addMenu("&View")
+        group = QActionGroup(self)
+        self.unit_actions = {}
+        for system, text in (("metric", "&Metric units (°C, mm)"), ("imperial", "&Imperial units (°F, in)")):
+            action = QAction(text, self, checkable=True)
+            action.setChecked(self.units.system == system)
+            action.triggered.connect(lambda _=False, s=system: self.set_units(s))
+            group.addAction(action)
+            view_menu.addAction(action)
+            self.unit_actions[system] = action
+        view_menu.addSeparator()
+        view_menu.addAction(self.form.model_toggle.text(), lambda: self.form.show_model_settings(not self.form.model_box.isVisible()))
+        help_menu = bar.addMenu("&Help")
+        self._action(help_menu, "&Models and sources…", self.show_models)
+        self._action(help_menu, "&About casedepth", self.show_about)
+        self._refresh_recent()
+
+    # -- plan wiring -------------------------------------------------------------------------------------
+    def _attach(self, plan: Plan) -> None:
+        self.plan = plan
+        plan.subscribe(self._plan_changed)
+        self.form.plan_replaced(plan)
+        self._update_title()
+        self._update_undo()
+
+    def _plan_changed(self, name, value) -> None:
+        self._update_title()
+        self._update_undo()
+        self.calculate()
+
+    def calculate(self) -> None:
+        if self.form.has_unread_entry():
+            return
+        self.calculator.request(self.plan.values())
+        self.statusBar().showMessage("Calculating…")
+
+    def _update_title(self) -> None:
+        name = self.path.name if self.path else "untitled"
+        self.setWindowTitle(f"casedepth — {self.plan.title} ({name})[*]")
+        self.setWindowModified(self.plan.modified)
+
+    def _update_undo(self) -> None:
+        self.undo_action.setEnabled(self.plan.can_undo)
+        self.redo_action.setEnabled(self.plan.can_redo)
+
+    def undo(self) -> None:
+        self.plan.undo()
+
+    def redo(self) -> None:
+        self.plan.redo()
+
+    # -- results -------------------------------------------------------------------------------------------
+    def _show_outcome(self, outcome) -> None:
+        self.outcome = outcome
+        self.form.clear_marks(keep={"composition", "d0", "beta"} if self.form.has_unread_entry() else set())
+        self.results.show_outcome(outcome, self.units)
+        self.cautions.show_cautions(outcome.cautions)
+        self.time_slider.blockSignals(True)
+        self.time_slider.setValue(1000)
+        self.time_slider.blockSignals(False)
+        self.time_label.setText(f"end of soak, {format_duration(outcome.aim.soak_time)}")
+        self.plots.show_outcome(outcome, self.units)
+        self.statusBar().showMessage("Ready", 2000)
+        self.result_shown.emit()
+
+    def _show_failure(self, error) -> None:
+        if isinstance(error, InputError):
+            field, message = error.field, error.message
+            self.form.mark(field, message)
+        else:
+            field, message = "calculation", f"{type(error).__name__}: {error}"
+        self.results.show_problem(FIELD_LABELS.get(field, field.capitalize()), message)
+        self.cautions.show_cautions(safety.cautions(self.plan.temperature))
+        self.statusBar().showMessage("Input needs attention", 4000)
+
+    def _input_problem(self, field: str, message: str) -> None:
+        self.results.show_problem(FIELD_LABELS.get(field, field), message)
+
+    def _time_moved(self, value: int) -> None:
+        if self.outcome is None:
+            return
+        soak = self.outcome.aim.soak_time
+        if value >= 1000:
+            self.time_label.setText(f"end of soak, {format_duration(soak)}")
+            self.plots.set_time(None)
+            return
+        time = max(soak * value / 1000.0, 1.0)
+        self.time_label.setText(f"{format_duration(time)} of {format_duration(soak)}")
+        self.plots.set_time(time)
+
+    def set_units(self, system: str) -> None:
+        """Show lengths and temperatures in ``metric`` or ``imperial`` units; the plan is not changed."""
+        self.units = DisplayUnits(system)
+        self.settings.setValue("units", system)
+        self.unit_actions[system].setChecked(True)
+        self.form.set_units(self.units)
+        if self.outcome is not None:
+            self.results.show_outcome(self.outcome, self.units)
+            self.plots.show_outcome(self.outcome, self.units, self.plots.time)
+        self.form.steel_facts.update()
+
+    # -- files ----------------------------------------------------------------------------------------------
+    def _may_discard(self) -> bool:
+        """Ask before losing unsaved changes; True if it is fine to go on."""
+        if not self.plan.modified:
+            return True
+        answer = QMessageBox.question(
+            self, "Unsaved changes", f"The plan “{self.plan.title}” has changes that are not saved. Save them?",
+            QMessageBox.Save | QMessageBox.Discard | QMessageBox.Cancel, QMessageBox.Save)
+        if answer == QMessageBox.Save:
+            return self.save()
+        return answer == QMessageBox.Discard
+
+    def new_plan(self) -> None:
+        if self._may_discard():
+            self.path = None
+            self._attach(Plan())
+            self.calculate()
+
+    def open_dialog(self) -> None:
+        if not self._may_discard():
+            return
+        start = str(self.path.parent) if self.path else str(self.settings.value("last_folder", str(Path.home())))
+        path, _ = QFileDialog.getOpenFileName(self, "Open plan", start, PLAN_FILTER)
+        if path:
+            self.open_plan(path)
+
+    def open_plan(self, path: str | os.PathLike) -> bool:
+        """Open a plan file (no questions asked); False with a message if it cannot be read."""
+        try:
+            plan = Plan.load(path)
+        except PlanFileError as error:
+            QMessageBox.warning(self, "Cannot open the plan", error.message)
+            return False
+        self.path = Path(path)
+        self._remember(self.path)
+        self._attach(plan)
+        self.calculate()
+        return True
+
+    def save(self) -> bool:
+        if self.path is None:
+            return self.save_as_dialog()
+        return self.save_plan(self.path)
+
+    def save_as_dialog(self) -> bool:
+        start = str(self.path) if self.path else str(Path(str(self.settings.value("last_folder", str(Path.home())))) /
+                                                        f"{self.plan.title}.cdplan.json")
+        path, _ = QFileDialog.getSaveFileName(self, "Save plan as", start, PLAN_FILTER)
+        return self.save_plan(path) if path else False
+
+    def save_plan(self, path: str | os.PathLike) -> bool:
+        path = Path(path)
+        try:
+            self.plan.save(path)
+        except OSError as error:
+            QMessageBox.warning(self, "Cannot save the plan", f"{path}: {error.strerror or error}")
+            return False
+        self.path = path
+        self._remember(path)
+        self._update_title()
+        self.statusBar().showMessage(f"Saved {path}", 3000)
+        return True
+
+    def _remember(self, path: Path) -> None:
+        recent = [p for p in self._recent() if p != str(path)]
+        recent.insert(0, str(path))
+        self.settings.setValue("recent", recent[:MAX_RECENT])
+        self.settings.setValue("last_folder", str(path.parent))
+        self._refresh_recent()
+
+    def _recent(self) -> list[str]:
+        value = self.settings.value("recent", [])
+        if isinstance(value, str):
+            return [value]
+        return list(value or [])
+
+    def _refresh_recent(self) -> None:
+        self.recent_menu.clear()
+        for path in self._recent():
+            action = self.recent_menu.addAction(path)
+            action.triggered.connect(lambda _=False, p=path: self._may_discard() and self.open_plan(p))
+        self.recent_menu.setEnabled(bool(self._recent()))
+
+    def profile_csv(self) -> str:
+        """The aim profile at the end of the soak as CSV text (depth, carbon, estimated hardness)."""
+        aim = self.outcome.aim
+        relation = HARDNESS_RELATIONS[aim.setup.hardness_relation]
+        hv = relation.hv(aim.profile.carbon)
+        out = io.StringIO()
+        writer = csv.writer(out)
+        writer.writerow([f"# casedepth {__version__}: {self.plan.title}; soak {aim.soak_time / 3600:.4f} h at "
+                         f"{self.units.format_temperature(aim.setup.temperature)}; hardness assumes "
+                         f"{relation.assumptions}"])
+        writer.writerow(["depth_mm", "depth_in", "carbon_pct", "hardness_hv", "hardness_hrc"])
+        for x, c, h in zip(aim.profile.depth, aim.profile.carbon, hv):
+            writer.writerow([f"{x * 1e3:.5f}", f"{x / 0.0254:.6f}", f"{c:.5f}", f"{h:.1f}",
+                             f"{ASTM_E140_hv_to_hrc(min(max(h, 238.0), 940.0)):.1f}"])
+        return out.getvalue()
+
+    def export_csv(self, path: str | os.PathLike) -> None:
+        _atomic_write(Path(path), self.profile_csv())
+
+    def export_csv_dialog(self) -> None:
+        if self.outcome is None:
+            return
+        path, _ = QFileDialog.getSaveFileName(self, "Export profile", f"{self.plan.title}-profile.csv", "CSV (*.csv)")
+        if path:
+            self.export_csv(path)
+
+    def export_plot(self, path: str | os.PathLike) -> None:
+        """Save the plot on show; the format follows the extension (.png, .svg, .pdf)."""
+        path = Path(path)
+        handle, temporary = tempfile.mkstemp(suffix=path.suffix, dir=path.parent)
+        os.close(handle)
+        try:
+            self.plots.current_figure().savefig(temporary, dpi=200)
+            os.replace(temporary, path)
+        except BaseException:
+            if os.path.exists(temporary):
+                os.unlink(temporary)
+            raise
+
+    def export_plot_dialog(self) -> None:
+        if self.outcome is None:
+            return
+        path, _ = QFileDialog.getSaveFileName(self, "Export plot", f"{self.plan.title}-profile.png",
+                                              "PNG image (*.png);;SVG drawing (*.svg);;PDF document (*.pdf)")
+        if path:
+            self.export_plot(path)
+
+    # -- help ----------------------------------------------------------------------------------------------------
+    def models_text(self) -> str:
+        rows = [f"<li><b>{m.display}</b> — {m.reference}; valid {m.validity}</li>" for m in METHODS.values()]
+        rows += [f"<li><b>{r.display}</b> — {r.reference}; assumes {r.assumptions}</li>" for r in HARDNESS_RELATIONS.values()]
+        rows += [
+            "<li><b>Surface mass transfer</b> J = β (C_eq − C_s) — EN 10052 definition; default β 1.5e-5 cm/s for "
+            "endothermic gas after Ruck, Monceau &amp; Grabke (1996) and Karabelchtchikova (2007), from memory</li>",
+            "<li><b>Alloy factor</b> — Gunnarson (1967), as quoted in ASM Handbook Vol. 4 (1991), from memory</li>",
+            "<li><b>Carbon saturation (Acm)</b> — Fe–C diagram; CALPHAD points after Gustafson (1985) and "
+            "Hallstedt et al. (2010)</li>",
+            "<li><b>Ac3</b> — Andrews, J. Iron Steel Inst. 203 (1965) 721</li>",
+            "<li><b>HV ↔ HRC</b> — ASTM E140, Table 1</li>",
+            "<li><b>Time stepping</b> — ROS2 Rosenbrock method, Verwer et al., SIAM J. Sci. Comput. 20 (1999) 1456</li>",
+            "<li><b>Safety cautions</b> — common practice under NFPA 86; local codes govern</li>",
+        ]
+        return "<ul>" + "".join(rows) + "</ul>"
+
+    def show_models(self) -> None:
+        QMessageBox.information(self, "Models and sources", self.models_text())
+
+    def show_about(self) -> None:
+        QMessageBox.about(self, "About casedepth",
+                          f"<h3>casedepth {__version__}</h3><p>Turns a drawing's case-depth callout into a "
+                          f"carburizing soak time, with the carbon and hardness profiles.</p>{self.models_text()}"
+                          f"<p><i>{safety.DEFERENCE}</i></p>")
+
+    # -- closing ---------------------------------------------------------------------------------------------------
+    def closeEvent(self, event) -> None:
+        if not self._may_discard():
+            event.ignore()
+            return
+        self.settings.setValue("window/geometry", self.saveGeometry())
+        self.settings.setValue("window/splitter", self.splitter.saveState())
+        self.calculator.wait()
+        event.accept()

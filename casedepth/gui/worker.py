@@ -1,0 +1,83 @@
+"""Solving off the window's thread: debounced, coalesced, newest request wins."""
+
+from __future__ import annotations
+
+from PySide6.QtCore import QObject, QRunnable, QThreadPool, QTimer, Signal
+
+from ..errors import InputError, SolverError
+from ..plan import evaluate
+
+
+class _Signals(QObject):
+    done = Signal(int, object, object)  # generation, outcome or None, error or None
+
+
+class _Job(QRunnable):
+    def __init__(self, generation: int, values: dict, signals: _Signals):
+        super().__init__()
+        self.generation, self.values, self.signals = generation, values, signals
+
+    def run(self):
+        try:
+            self.signals.done.emit(self.generation, evaluate(self.values), None)
+        except (InputError, SolverError) as error:
+            self.signals.done.emit(self.generation, None, error)
+        except Exception as error:  # an unforeseen failure is shown, never lost in a thread
+            self.signals.done.emit(self.generation, None, error)
+
+
+class Calculator(QObject):
+    """Runs :func:`casedepth.plan.evaluate` on a worker thread.
+
+    :meth:`request` may be called on every keystroke: the work starts ``delay_ms`` after the last
+    request, at most one job runs at a time, and only the newest request's answer is reported.
+    """
+
+    busy = Signal()
+    finished = Signal(object)  # PlanOutcome
+    failed = Signal(object)  # the exception
+
+    def __init__(self, delay_ms: int = 30, parent=None):
+        super().__init__(parent)
+        self._pool = QThreadPool(self)
+        self._pool.setMaxThreadCount(1)
+        self._signals = _Signals()
+        self._signals.done.connect(self._done)
+        self._timer = QTimer(self)
+        self._timer.setSingleShot(True)
+        self._timer.setInterval(delay_ms)
+        self._timer.timeout.connect(self._start)
+        self._generation = 0
+        self._values: dict | None = None
+        self._running = False
+        self._pending = False
+
+    def request(self, values: dict) -> None:
+        self._values = values
+        self._generation += 1
+        self._timer.start()
+
+    def _start(self) -> None:
+        if self._running:
+            self._pending = True
+            return
+        self._running = True
+        self._pending = False
+        self.busy.emit()
+        self._pool.start(_Job(self._generation, self._values, self._signals))
+
+    def _done(self, generation: int, outcome, error) -> None:
+        self._running = False
+        if self._pending or generation != self._generation:
+            if not self._timer.isActive():
+                self._start()
+            return
+        if error is None:
+            self.finished.emit(outcome)
+        else:
+            self.failed.emit(error)
+
+    def wait(self) -> None:
+        """Block until the worker is idle (for shutting down)."""
+        self._timer.stop()
+        self._pool.waitForDone()

@@ -1,0 +1,69 @@
+"""Safety cautions for carburizing furnace work, shown beside every result.
+
+The texts restate common practice under NFPA 86 (Standard for Ovens and Furnaces) and the usual
+occupational-safety references; they are reminders, not instructions. Local codes, the furnace
+maker's instructions and licensed practice govern.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from .units import ZERO_CELSIUS
+
+#: Lowest furnace temperature at which a flammable atmosphere is admitted without a purge with
+#: inert gas, 760 °C / 1400 °F (NFPA 86 practice; edition-dependent).
+SAFE_ADMISSION_TEMPERATURE = 760.0 + ZERO_CELSIUS
+
+
+@dataclass(frozen=True)
+class Caution:
+    """One caution: a short title, the text, and whether the inputs make it pressing."""
+
+    key: str
+    title: str
+    text: str
+    pressing: bool = False
+
+
+DEFERENCE = ("These cautions are reminders only. Local codes (such as NFPA 86 in the United States), the furnace "
+             "maker's instructions and licensed practice govern.")
+
+STANDING = (
+    Caution("flammable-toxic", "Flammable and toxic atmosphere",
+            "Endothermic carrier gas is about 20 % CO, 40 % H2 and 40 % N2: flammable, explosive when mixed with air, "
+            "and carbon monoxide is toxic and odourless. Keep CO detectors working and ventilation running."),
+    Caution("admission", "Admit gas only when hot",
+            "Admit a flammable atmosphere only with the furnace at or above about 760 °C (1400 °F), where it "
+            "ignites at once, with the interlocks in service; below that, purge with nitrogen first (about "
+            "five furnace volumes) and burn off effluent at the vents and doors."),
+    Caution("quench-oil", "Quench oil can burn",
+            "Quench oil is a fire hazard: keep the load moving into the oil fast and fully submerged, watch oil "
+            "level and temperature, keep the tank cover and fire suppression ready; water in oil can erupt."),
+)
+
+
+def cautions(temperature: float | None = None, equilibrium_carbon: float | None = None,
+             saturation_carbon: float | None = None) -> list[Caution]:
+    """The standing cautions, with those the inputs make pressing first.
+
+    Parameters
+    ----------
+    temperature : float, optional
+        Furnace temperature, [K].
+    equilibrium_carbon, saturation_carbon : float, optional
+        Surface carbon the atmosphere gives and the austenite's saturation, [wt %].
+    """
+    pressing = []
+    standing = list(STANDING)
+    if temperature is not None and temperature < SAFE_ADMISSION_TEMPERATURE:
+        pressing.append(Caution(
+            "below-admission", "Below the safe admission temperature",
+            f"{temperature - ZERO_CELSIUS:.0f} °C is below about 760 °C (1400 °F): a flammable atmosphere must not be "
+            "admitted or held; purge with inert gas and follow the furnace's low-temperature procedure.", True))
+    if equilibrium_carbon is not None and saturation_carbon is not None and equilibrium_carbon > saturation_carbon:
+        pressing.append(Caution(
+            "soot", "Sooting atmosphere",
+            "A carbon potential above saturation deposits soot; burning it out is an exothermic operation that "
+            "needs controlled air admission under the furnace's burn-out procedure.", True))
+    return pressing + standing

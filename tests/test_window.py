@@ -1,0 +1,187 @@
+"""The planning window through its public behaviour (pytest-qt, offscreen)."""
+
+import subprocess
+import sys
+from pathlib import Path
+
+import pytest
+
+pytest.importorskip("PySide6")
+
+from PySide6.QtCore import QSettings, Qt  # noqa: E402
+from PySide6.QtWidgets import QMessageBox  # noqa: E402
+
+from casedepth.plan import Plan  # noqa: E402
+from casedepth.gui.window import MainWindow  # noqa: E402
+
+PLANS = Path(__file__).parent / "data" / "plans"
+
+
+@pytest.fixture
+def window(qtbot, tmp_path, monkeypatch):
+    for name in ("warning", "information", "about"):
+        monkeypatch.setattr(QMessageBox, name, lambda *a, **k: QMessageBox.Ok)
+    settings = QSettings(str(tmp_path / "settings.ini"), QSettings.IniFormat)
+    win = MainWindow(settings=settings)
+    # closing at teardown must not stop at the "unsaved changes" question
+    qtbot.addWidget(win, before_close_func=lambda w: setattr(w.plan, "modified", False))
+    win.show()
+    qtbot.waitUntil(lambda: win.outcome is not None, timeout=10000)
+    yield win
+    win.plan.modified = False
+    win.calculator.wait()
+
+
+def type_into(qtbot, spin, text):
+    spin.selectAll()
+    qtbot.keyClicks(spin, text)
+    qtbot.keyClick(spin, Qt.Key_Return)
+
+
+def test_first_result_and_cautions_are_shown(window):
+    assert window.results.headline.text().startswith("Soak ")
+    assert "h" in window.results.headline.text()
+    assert "Flammable and toxic" in window.cautions.summary.text()
+    assert "licensed practice" in window.cautions.summary.text()
+
+
+def test_typing_a_target_changes_the_soak_time(window, qtbot):
+    before = window.outcome.aim.soak_time
+    with qtbot.waitSignal(window.result_shown, timeout=10000):
+        type_into(qtbot, window.form.case_max, "1.6")
+    assert window.plan.case_max == pytest.approx(1.6e-3)
+    assert window.outcome.aim.soak_time > before
+    assert window.results.headline.text() != ""
+
+
+def test_plan_to_widget_and_widget_to_plan(window, qtbot):
+    window.plan.set("temperature", 950 + 273.15)
+    assert window.form.temperature.value() == pytest.approx(950)
+    window.form.carbon_potential.setValue(1.1)
+    assert window.plan.carbon_potential == pytest.approx(1.1)
+    window.form.model_toggle.setChecked(True)
+    window.form.diffusivity.setCurrentIndex(window.form.diffusivity.findData("agren"))
+    window.form.diffusivity.activated.emit(window.form.diffusivity.currentIndex())
+    assert window.plan.diffusivity == "agren"
+    window.plan.set("beta_held", True)
+    assert window.form.beta_held.isChecked() and not window.form.beta.isEnabled()
+
+
+def test_undo_and_redo_from_the_menu(window):
+    window.form.carbon_potential.setValue(1.2)
+    window.undo_action.trigger()
+    assert window.plan.carbon_potential == pytest.approx(1.0)
+    assert window.form.carbon_potential.value() == pytest.approx(1.0)
+    window.redo_action.trigger()
+    assert window.form.carbon_potential.value() == pytest.approx(1.2)
+
+
+def test_bad_input_marks_the_field_and_keeps_the_last_result(window, qtbot):
+    headline = window.results.headline.text()
+    with qtbot.waitSignal(window.calculator.failed, timeout=10000):
+        type_into(qtbot, window.form.temperature, "700")
+    assert window.results.stale
+    assert "Ac3" in window.results.status.text() and "allowed" in window.results.status.text()
+    assert "border" in window.form.temperature.styleSheet()
+    assert window.results.headline.text() == headline
+    assert window.cautions.pressing()[0].key == "below-admission"
+    with qtbot.waitSignal(window.result_shown, timeout=10000):
+        type_into(qtbot, window.form.temperature, "925")
+    assert not window.results.stale
+    assert window.form.temperature.styleSheet() == ""
+
+
+def test_unreadable_composition_is_marked_not_taken(window, qtbot):
+    window.form.composition.setText("C=0.2 Qq=1")
+    window.form.composition.editingFinished.emit()
+    assert "unknown element" in window.form.composition.toolTip()
+    assert window.plan.composition["C"] == 0.205
+
+
+def test_steel_library_pick_sets_composition(window):
+    index = window.form.steel.findData("16MnCr5")
+    window.form.steel.setCurrentIndex(index)
+    window.form.steel.activated.emit(index)
+    assert window.plan.steel == "16MnCr5"
+    assert "Cr=0.95" in window.form.composition.text()
+
+
+def test_units_switch_changes_the_display_not_the_plan(window):
+    values = window.plan.values()
+    window.set_units("imperial")
+    assert window.form.temperature.suffix().strip() == "°F"
+    assert window.form.temperature.value() == pytest.approx(1697, abs=0.6)
+    assert window.form.case_min.value() == pytest.approx(0.8 / 25.4, abs=1e-4)
+    assert window.plan.values() == values
+    assert window.settings.value("units") == "imperial"
+    window.set_units("metric")
+    assert window.plan.values() == values
+
+
+def test_save_and_open_round_trip(window, qtbot, tmp_path):
+    window.plan.update(title="Cam follower CF-3", carbon_potential=0.95, aim=0.25)
+    path = tmp_path / "cam.cdplan.json"
+    assert window.save_plan(path)
+    assert not window.plan.modified and not window.isWindowModified()
+    window.plan.set("carbon_potential", 1.05)
+    with qtbot.waitSignal(window.result_shown, timeout=10000):
+        assert window.open_plan(path)
+    assert window.plan.title == "Cam follower CF-3"
+    assert window.plan.carbon_potential == pytest.approx(0.95)
+    assert window.form.aim.value() == 25
+    assert str(path) in window._recent()
+
+
+def test_an_older_schema_file_opens(window, qtbot):
+    for path in sorted(PLANS.glob("*.json")):
+        with qtbot.waitSignal(window.result_shown, timeout=10000):
+            assert window.open_plan(path)
+        assert window.plan.threshold_kind == "HV"
+
+
+def test_unsaved_changes_prompt(window, monkeypatch):
+    window.plan.set("carbon_potential", 1.1)
+    monkeypatch.setattr(QMessageBox, "question", lambda *a, **k: QMessageBox.Cancel)
+    window.new_plan()
+    assert window.plan.carbon_potential == pytest.approx(1.1)  # cancelled: nothing lost
+    monkeypatch.setattr(QMessageBox, "question", lambda *a, **k: QMessageBox.Discard)
+    window.new_plan()
+    assert window.plan.carbon_potential == pytest.approx(1.0)
+
+
+def test_time_control_scrubs_through_the_soak(window):
+    window.time_slider.setValue(300)
+    assert "of" in window.time_label.text()
+    assert window.plots.time == pytest.approx(0.3 * window.outcome.aim.soak_time)
+    window.time_slider.setValue(1000)
+    assert window.plots.time is None
+
+
+def test_exports(window, tmp_path):
+    window.export_csv(tmp_path / "profile.csv")
+    lines = (tmp_path / "profile.csv").read_text().splitlines()
+    assert lines[1] == "depth_mm,depth_in,carbon_pct,hardness_hv,hardness_hrc"
+    assert len(lines) > 50
+    for suffix in (".png", ".svg", ".pdf"):
+        window.export_plot(tmp_path / f"plot{suffix}")
+        assert (tmp_path / f"plot{suffix}").stat().st_size > 1000
+
+
+def test_about_lists_every_model_with_its_source(window):
+    text = window.models_text()
+    for words in ("Tibbetts", "Ågren", "Gunnarson", "Andrews", "ASTM E140", "Just", "NFPA 86", "Verwer"):
+        assert words in text
+
+
+def test_window_layout_is_remembered(window, tmp_path):
+    window.close()
+    settings = QSettings(str(tmp_path / "settings.ini"), QSettings.IniFormat)
+    assert settings.value("window/geometry") is not None
+
+
+def test_screenshot_command(tmp_path):
+    out = tmp_path / "shot.png"
+    done = subprocess.run([sys.executable, "-m", "casedepth", "gui", "--screenshot", str(out)],
+                          capture_output=True, text=True, timeout=120)
+    assert done.returncode == 0, done.stderr
+    assert out.stat().st_size > 20000
