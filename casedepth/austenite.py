@@ -9,9 +9,9 @@
 from __future__ import annotations
 
 import math
+from functools import cache
 
 import numpy as np
-from scipy.interpolate import PchipInterpolator
 
 from .errors import InputError
 from .units import ZERO_CELSIUS
@@ -22,7 +22,14 @@ from .units import ZERO_CELSIUS
 # cementite after Hallstedt et al. 2010).
 _ACM_POINTS_C = np.array([727.0, 800.0, 850.0, 900.0, 925.0, 950.0, 1000.0, 1050.0, 1100.0, 1148.0])
 _ACM_POINTS_WT = np.array([0.77, 0.948, 1.084, 1.227, 1.301, 1.377, 1.535, 1.701, 1.876, 2.11])
-_ACM = PchipInterpolator(_ACM_POINTS_C + ZERO_CELSIUS, _ACM_POINTS_WT)
+
+
+@cache
+def _acm_curve():
+    from scipy.interpolate import PchipInterpolator  # imported on first use: it is slow to import
+
+    return PchipInterpolator(_ACM_POINTS_C + ZERO_CELSIUS, _ACM_POINTS_WT)
+
 
 ACM_RANGE = (_ACM_POINTS_C[0] + ZERO_CELSIUS, _ACM_POINTS_C[-1] + ZERO_CELSIUS)
 
@@ -62,7 +69,7 @@ def saturation_carbon(T: float) -> float:
     """
     if not (ACM_RANGE[0] <= T <= ACM_RANGE[1]):
         raise InputError("temperature", f"{T - ZERO_CELSIUS:.0f} °C is outside 727–1148 °C, where the Acm line is tabulated")
-    return float(_ACM(T))
+    return float(_acm_curve()(T))
 
 
 def Andrews_1965_Ac3(composition: dict[str, float]) -> float:

@@ -16,7 +16,6 @@ from dataclasses import dataclass, field
 from functools import cached_property
 
 import numpy as np
-from scipy.special import erfcx
 
 from .austenite import Andrews_1965_Ac3
 from .diffusivity import Diffusivity
@@ -170,6 +169,8 @@ class CarburizingSetup:
         Crank's (1975, §3.3) surface-evaporation solution for a flat surface with D taken at the
         threshold carbon; the solver then finds the real time.
         """
+        from scipy.special import erfcx  # imported on first use: it is slow to import
+
         D = float(self.diffusivity(self.threshold_carbon, self.temperature))
         c0, ceq = self.steel.carbon, self.equilibrium_carbon
         wanted = (self.threshold_carbon - c0) / (ceq - c0)

@@ -1,4 +1,8 @@
-"""Carbon and hardness profiles, drawn with matplotlib inside the window."""
+"""Carbon and hardness profiles, drawn with matplotlib inside the window.
+
+The artists are made once and only their data change on a new result: rebuilding axes, ticks and
+titles costs far more than solving, and a planner expects the plot to follow an edit at once.
+"""
 
 from __future__ import annotations
 
@@ -18,17 +22,53 @@ CORE = "#6c757d"
 LIMIT = "#b5651d"
 
 
+def _hv_to_hrc(hv):
+    return ASTM_E140_hv_to_hrc(np.clip(hv, 238.0, 940.0))
+
+
+def _hrc_to_hv(hrc):
+    return ASTM_E140_hrc_to_hv(np.clip(hrc, 20.0, 68.0))
+
+
 class _PlotPage(QWidget):
-    def __init__(self, parent=None):
+    """One figure with its toolbar, the drawing window band, the aim line and a caption."""
+
+    def __init__(self, ylabel: str, parent=None):
         super().__init__(parent)
-        self.figure = Figure(figsize=(6, 4), layout="constrained")
+        self.figure = Figure(figsize=(6, 4))
+        # fixed margins: a layout engine would re-measure every text on every redraw
+        self.figure.subplots_adjust(left=0.085, right=0.92, top=0.95, bottom=0.11)
         self.canvas = FigureCanvasQTAgg(self.figure)
         self.toolbar = NavigationToolbar2QT(self.canvas, self)
         layout = QVBoxLayout(self)
         layout.setContentsMargins(0, 0, 0, 0)
         layout.addWidget(self.toolbar)
         layout.addWidget(self.canvas)
-        self.axes = self.figure.add_subplot()
+        ax = self.axes = self.figure.add_subplot()
+        ax.grid(True, color="#dddddd", lw=0.6)
+        ax.set_ylabel(ylabel)
+        self.band = ax.axvspan(0, 0, color=WINDOW, alpha=0.22, lw=0, label="drawing window")
+        self.aim = ax.axvline(0, color=WINDOW, lw=1.2, label="aim")
+        self.caption = ax.text(0.01, 0.985, "", transform=ax.transAxes, va="top", ha="left", fontsize=9,
+                               bbox={"boxstyle": "round,pad=0.3", "fc": "white", "ec": "#cccccc", "alpha": 0.9})
+        self._legend_key = None
+
+    def frame(self, outcome, units: DisplayUnits, reach: float) -> None:
+        low, aim, high = (units.length(r.target_depth) for r in (outcome.low, outcome.aim, outcome.high))
+        self.band.set_x(low)
+        self.band.set_width(high - low)
+        self.aim.set_xdata([aim, aim])
+        self.aim.set_label(f"aim {aim:.{units.length_decimals}f} {units.length_unit}")
+        self.axes.set_xlim(0, units.length(reach))
+        self.axes.set_xlabel(f"depth below the surface [{units.length_unit}]")
+
+    def legend(self) -> None:
+        """Re-make the legend only when its entries change."""
+        handles = [h for h in self.axes.get_lines() + [self.band] if h.get_visible() and not h.get_label().startswith("_")]
+        key = tuple(h.get_label() for h in handles)
+        if key != self._legend_key:
+            self.axes.legend(handles=handles, fontsize=8, loc="upper right", framealpha=0.9)
+            self._legend_key = key
 
 
 class ProfilePlots(QTabWidget):
@@ -36,13 +76,27 @@ class ProfilePlots(QTabWidget):
 
     def __init__(self, parent=None):
         super().__init__(parent)
-        self.carbon_page = _PlotPage()
-        self.hardness_page = _PlotPage()
+        self.carbon_page = _PlotPage("carbon [wt %]")
+        self.hardness_page = _PlotPage("hardness [HV]")
         self.addTab(self.carbon_page, "Carbon profile")
         self.addTab(self.hardness_page, "Hardness profile")
+        ax = self.carbon_page.axes
+        self.c_end, = ax.plot([], [], color=EARLIER, lw=1.2, ls="--", label="at the end of the soak")
+        self.c_line, = ax.plot([], [], color=INK, lw=2.2, label="carbon")
+        self.c_threshold = ax.axhline(0, color=THRESHOLD, lw=1.2, ls="--")
+        self.c_core = ax.axhline(0, color=CORE, lw=1.0, ls=":")
+        self.c_saturation = ax.axhline(0, color=LIMIT, lw=1.0, ls="-.")
+        ax = self.hardness_page.axes
+        self.h_end, = ax.plot([], [], color=EARLIER, lw=1.2, ls="--", label="at the end of the soak")
+        self.h_line, = ax.plot([], [], color=INK, lw=2.2)
+        self.h_threshold = ax.axhline(0, color=THRESHOLD, lw=1.2, ls="--")
+        right = ax.secondary_yaxis("right", functions=(_hv_to_hrc, _hrc_to_hv))
+        right.set_ylabel("[HRC]")
         self.outcome = None
         self.units = DisplayUnits()
         self.time = None
+        self._stale = {0: False, 1: False}
+        self.currentChanged.connect(self._page_shown)
 
     def current_figure(self) -> Figure:
         return (self.carbon_page if self.currentIndex() == 0 else self.hardness_page).figure
@@ -56,89 +110,79 @@ class ProfilePlots(QTabWidget):
         self.redraw()
 
     def redraw(self) -> None:
+        """Draw the page on show now; the other when it is shown (drawing costs more than solving)."""
         if self.outcome is None:
             return
-        self._draw_carbon()
-        self._draw_hardness()
-        self.carbon_page.canvas.draw_idle()
-        self.hardness_page.canvas.draw_idle()
+        self._stale = {0: True, 1: True}
+        self._page_shown(self.currentIndex())
 
-    def _depth_axis(self, result):
+    def draw_all(self) -> None:
+        """Draw both pages now (before exporting or printing)."""
+        for index in (0, 1):
+            self._draw_page(index)
+        for page in (self.carbon_page, self.hardness_page):
+            page.canvas.draw()
+
+    def _page_shown(self, index: int) -> None:
+        if self.outcome is not None and self._stale.get(index):
+            self._draw_page(index)
+
+    def _draw_page(self, index: int) -> None:
+        (self._draw_carbon if index == 0 else self._draw_hardness)()
+        page = self.carbon_page if index == 0 else self.hardness_page
+        page.legend()
+        page.canvas.draw_idle()
+        self._stale[index] = False
+
+    # -- content ---------------------------------------------------------------------------------------
+    def _reach(self, result) -> float:
         half = result.setup.geometry.half_section
-        low, high = self.outcome.low.target_depth, self.outcome.high.target_depth
-        reach = max(high * 2.2, result.case_depth * 2.0)
-        reach = min(reach, half) if np.isfinite(half) else reach
-        return reach
+        reach = max(self.outcome.high.target_depth * 2.2, result.case_depth * 2.0)
+        return min(reach, half) if np.isfinite(half) else reach
 
     def _profiles(self):
         final = self.outcome.aim
-        shown = final.profile if self.time is None or self.time >= final.soak_time else final.profile_at(self.time)
-        return final, shown
+        scrubbing = self.time is not None and self.time < final.soak_time
+        return final, (final.profile_at(self.time) if scrubbing else final.profile), scrubbing
 
-    def _decorate(self, ax, final, reach):
-        u = self.units
-        low, aim, high = (u.length(r.target_depth) for r in (self.outcome.low, self.outcome.aim, self.outcome.high))
-        ax.axvspan(low, high, color=WINDOW, alpha=0.22, lw=0, label="drawing window")
-        ax.axvline(aim, color=WINDOW, lw=1.2, ls="-", label=f"aim {aim:.{u.length_decimals}f} {u.length_unit}")
-        ax.set_xlim(0, u.length(reach))
-        ax.set_xlabel(f"depth below the surface [{u.length_unit}]")
-        ax.grid(True, color="#dddddd", lw=0.6)
-
-    def _title(self, final, shown) -> str:
-        if shown is final.profile:
-            return f"after the full soak, {format_duration(final.soak_time)}"
-        return f"after {format_duration(shown.time)} of {format_duration(final.soak_time)}"
+    def _caption(self, final, shown, scrubbing, extra: str = "") -> str:
+        when = (f"after {format_duration(shown.time)} of {format_duration(final.soak_time)}" if scrubbing
+                else f"after the full soak, {format_duration(final.soak_time)}")
+        return when + extra
 
     def _draw_carbon(self):
-        ax = self.carbon_page.axes
-        ax.clear()
-        final, shown = self._profiles()
+        page, u = self.carbon_page, self.units
+        final, shown, scrubbing = self._profiles()
         setup = final.setup
-        reach = self._depth_axis(final)
-        u = self.units
-        x = u.length(shown.depth)
-        self._decorate(ax, final, reach)
-        if shown is not final.profile:
-            ax.plot(u.length(final.profile.depth), final.profile.carbon, color=EARLIER, lw=1.2, ls="--",
-                    label="at the end of the soak")
-        ax.plot(x, shown.carbon, color=INK, lw=2.2, label="carbon")
-        ax.axhline(setup.threshold_carbon, color=THRESHOLD, lw=1.2, ls="--",
-                   label=f"threshold {setup.threshold_carbon:.2f} %C" + ("" if setup.threshold.kind == "carbon"
-                                                                          else f" ({setup.threshold})"))
-        ax.axhline(setup.steel.carbon, color=CORE, lw=1.0, ls=":", label=f"core {setup.steel.carbon:.2f} %C")
-        ax.axhline(setup.saturation_carbon, color=LIMIT, lw=1.0, ls="-.",
-                   label=f"saturation (Acm) {setup.saturation_carbon:.2f} %C")
-        top = max(setup.saturation_carbon, setup.equilibrium_carbon, float(shown.carbon.max())) * 1.08
-        ax.set_ylim(0, top)
-        ax.set_ylabel("carbon [wt %]")
-        ax.set_title(f"Carbon {self._title(final, shown)}", fontsize=10)
-        ax.legend(fontsize=8, loc="upper right", framealpha=0.9)
+        page.frame(self.outcome, u, self._reach(final))
+        self.c_line.set_data(u.length(shown.depth), shown.carbon)
+        self.c_end.set_data(u.length(final.profile.depth), final.profile.carbon)
+        self.c_end.set_visible(scrubbing)
+        self.c_threshold.set_ydata([setup.threshold_carbon] * 2)
+        self.c_threshold.set_label(f"threshold {setup.threshold_carbon:.2f} %C"
+                                   + ("" if setup.threshold.kind == "carbon" else f" ({setup.threshold})"))
+        self.c_core.set_ydata([setup.steel.carbon] * 2)
+        self.c_core.set_label(f"core {setup.steel.carbon:.2f} %C")
+        self.c_saturation.set_ydata([setup.saturation_carbon] * 2)
+        self.c_saturation.set_label(f"saturation (Acm) {setup.saturation_carbon:.2f} %C")
+        top = max(setup.saturation_carbon, setup.equilibrium_carbon, float(final.profile.carbon.max())) * 1.08
+        page.axes.set_ylim(0, top)
+        page.caption.set_text("Carbon " + self._caption(final, shown, scrubbing))
 
     def _draw_hardness(self):
-        ax = self.hardness_page.axes
-        ax.clear()
-        final, shown = self._profiles()
+        page, u = self.hardness_page, self.units
+        final, shown, scrubbing = self._profiles()
         setup = final.setup
         relation = HARDNESS_RELATIONS[setup.hardness_relation]
-        reach = self._depth_axis(final)
-        u = self.units
-        self._decorate(ax, final, reach)
+        page.frame(self.outcome, u, self._reach(final))
         hv = relation.hv(shown.carbon)
-        ax.plot(u.length(shown.depth), hv, color=INK, lw=2.2, label=f"estimated: {relation.display}")
+        end_hv = relation.hv(final.profile.carbon)
+        self.h_line.set_data(u.length(shown.depth), hv)
+        self.h_line.set_label(f"estimated: {relation.display}")
+        self.h_end.set_data(u.length(final.profile.depth), end_hv)
+        self.h_end.set_visible(scrubbing)
         threshold_hv = float(relation.hv(setup.threshold_carbon))
-        ax.axhline(threshold_hv, color=THRESHOLD, lw=1.2, ls="--",
-                   label=f"threshold ≈ {threshold_hv:.0f} HV ({ASTM_E140_hv_to_hrc(threshold_hv):.1f} HRC)")
-        ax.set_ylabel("hardness [HV]")
-        ax.set_ylim(min(float(hv.min()), threshold_hv) - 60, max(float(hv.max()), threshold_hv) + 60)
-        right = ax.secondary_yaxis("right", functions=(_hv_to_hrc, _hrc_to_hv))
-        right.set_ylabel("[HRC]")
-        ax.set_title(f"Hardness {self._title(final, shown)} — assumes a fully martensitic case", fontsize=10)
-        ax.legend(fontsize=8, loc="upper right", framealpha=0.9)
-
-
-def _hv_to_hrc(hv):
-    return ASTM_E140_hv_to_hrc(np.clip(hv, 238.0, 940.0))
-
-
-def _hrc_to_hv(hrc):
-    return ASTM_E140_hrc_to_hv(np.clip(hrc, 20.0, 68.0))
+        self.h_threshold.set_ydata([threshold_hv] * 2)
+        self.h_threshold.set_label(f"threshold ≈ {threshold_hv:.0f} HV ({ASTM_E140_hv_to_hrc(threshold_hv):.1f} HRC)")
+        page.axes.set_ylim(min(float(end_hv.min()), threshold_hv) - 60, max(float(end_hv.max()), threshold_hv) + 60)
+        page.caption.set_text("Hardness " + self._caption(final, shown, scrubbing, "; assumes a fully martensitic case"))

@@ -363,6 +363,7 @@ class MainWindow(QMainWindow):
         handle, temporary = tempfile.mkstemp(suffix=path.suffix, dir=path.parent)
         os.close(handle)
         try:
+            self.plots.draw_all()
             self.plots.current_figure().savefig(temporary, dpi=200)
             os.replace(temporary, path)
         except BaseException:

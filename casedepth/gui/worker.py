@@ -37,7 +37,7 @@ class Calculator(QObject):
     finished = Signal(object)  # PlanOutcome
     failed = Signal(object)  # the exception
 
-    def __init__(self, delay_ms: int = 30, parent=None):
+    def __init__(self, delay_ms: int = 10, parent=None):
         super().__init__(parent)
         self._pool = QThreadPool(self)
         self._pool.setMaxThreadCount(1)
