@@ -119,8 +119,8 @@ def test_bad_input_gives_one_line_and_exit_2(capsys, argv, names):
     assert names.split()[0] in lines[0]
 
 
-def test_installed_module_entry_point():
+def test_installed_module_entry_point(tmp_path):
     done = subprocess.run([sys.executable, "-m", "casedepth", *BASE, "--target", "0.5mm", "--json"],
-                          capture_output=True, text=True, timeout=60)
+                          capture_output=True, text=True, timeout=60, cwd=tmp_path)
     assert done.returncode == 0, done.stderr
     assert json.loads(done.stdout)["case_depth_mm"] == pytest.approx(0.5, rel=1e-6)

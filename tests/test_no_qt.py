@@ -8,7 +8,7 @@ import textwrap
 import casedepth
 
 
-def test_library_imports_without_qt():
+def test_library_imports_without_qt(tmp_path):
     modules = [m.name for m in pkgutil.walk_packages(casedepth.__path__, "casedepth.") if not m.name.startswith("casedepth.gui")]
     assert "casedepth.solver" in modules
     script = textwrap.dedent(f"""
@@ -27,6 +27,7 @@ def test_library_imports_without_qt():
         import matplotlib
         print('ok')
     """)
-    done = subprocess.run([sys.executable, "-c", script], capture_output=True, text=True, timeout=120)
+    # run outside the source tree so the installed package is what gets imported
+    done = subprocess.run([sys.executable, "-c", script], capture_output=True, text=True, timeout=120, cwd=tmp_path)
     assert done.returncode == 0, done.stderr
     assert done.stdout.strip() == "ok"

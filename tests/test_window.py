@@ -182,6 +182,21 @@ def test_window_layout_is_remembered(window, tmp_path):
 def test_screenshot_command(tmp_path):
     out = tmp_path / "shot.png"
     done = subprocess.run([sys.executable, "-m", "casedepth", "gui", "--screenshot", str(out)],
-                          capture_output=True, text=True, timeout=120)
+                          capture_output=True, text=True, timeout=120, cwd=tmp_path)
     assert done.returncode == 0, done.stderr
     assert out.stat().st_size > 20000
+
+
+def test_custom_composition_and_plan_name(window, qtbot):
+    index = window.form.steel.findData("custom")
+    window.form.steel.setCurrentIndex(index)
+    window.form.steel.activated.emit(index)
+    window.form.composition.setText("C=0.18 Mn=0.9 Cr=1.0")
+    with qtbot.waitSignal(window.result_shown, timeout=10000):
+        window.form.composition.editingFinished.emit()
+    assert window.plan.steel == "custom"
+    assert window.outcome.setup.steel.composition == {"C": 0.18, "Mn": 0.9, "Cr": 1.0}
+    window.form.title.setText("Idler gear IG-5")
+    window.form.title.editingFinished.emit()
+    assert window.plan.title == "Idler gear IG-5"
+    assert "Idler gear IG-5" in window.windowTitle()

@@ -10,7 +10,7 @@ import math
 
 from PySide6.QtCore import Qt, Signal
 from PySide6.QtWidgets import (QCheckBox, QComboBox, QCompleter, QDoubleSpinBox, QFormLayout, QGroupBox, QHBoxLayout,
-                               QLabel, QLineEdit, QSlider, QToolButton, QVBoxLayout, QWidget)
+                               QLabel, QLineEdit, QPlainTextEdit, QSlider, QToolButton, QVBoxLayout, QWidget)
 
 from .. import steels
 from ..austenite import Andrews_1965_Ac3
@@ -58,15 +58,36 @@ class PlanForm(QWidget):
         self._invalid: set[str] = set()
         layout = QVBoxLayout(self)
         layout.setContentsMargins(6, 6, 6, 6)
+        layout.addWidget(self._plan_group())
         layout.addWidget(self._steel_group())
         layout.addWidget(self._part_group())
         layout.addWidget(self._furnace_group())
         layout.addWidget(self._callout_group())
         layout.addWidget(self._model_group())
+        notes = QGroupBox("Notes")
+        notes_layout = QVBoxLayout(notes)
+        self.notes = QPlainTextEdit()
+        self.notes.setPlaceholderText("anything the floor or the customer should know")
+        self.notes.setMaximumHeight(70)
+        self.notes.textChanged.connect(lambda: self._set("notes", self.notes.toPlainText(), coalesce=True))
+        notes_layout.addWidget(self.notes)
+        layout.addWidget(notes)
         layout.addStretch(1)
         self.plan_replaced(plan)
 
     # -- building ----------------------------------------------------------------------------------
+    def _plan_group(self) -> QGroupBox:
+        box = QGroupBox("Plan")
+        form = QFormLayout(box)
+        self.title = QLineEdit()
+        self.title.editingFinished.connect(lambda: self._set("title", self.title.text().strip() or "Untitled plan"))
+        form.addRow("Name", self.title)
+        self.part = QLineEdit()
+        self.part.setPlaceholderText("part number or description")
+        self.part.editingFinished.connect(lambda: self._set("part", self.part.text().strip()))
+        form.addRow("Part", self.part)
+        return box
+
     def _steel_group(self) -> QGroupBox:
         box = QGroupBox("Steel")
         form = QFormLayout(box)
@@ -77,6 +98,7 @@ class PlanForm(QWidget):
         self.steel.setMinimumContentsLength(16)
         for grade in steels.library():
             self.steel.addItem(f"{grade.name}  —  {grade.standard}", grade.name)
+        self.steel.addItem("custom  —  composition below", "custom")
         completer = QCompleter(self.steel.model(), self.steel)
         completer.setFilterMode(Qt.MatchContains)
         completer.setCaseSensitivity(Qt.CaseInsensitive)
@@ -223,11 +245,16 @@ class PlanForm(QWidget):
 
     def _steel_picked(self, index: int) -> None:
         self.clear_mark("composition")
-        self.plan.choose_steel(self.steel.itemData(index))
+        name = self.steel.itemData(index)
+        if name == "custom":
+            self.plan.set("steel", "custom")
+            self.composition.setFocus()
+        else:
+            self.plan.choose_steel(name)
 
     def _steel_typed(self) -> None:
         text = self.steel.currentText().split("—")[0].strip()
-        if not text or self._showing:
+        if not text or self._showing or text == "custom":
             return
         try:
             grade = steels.find(text)
@@ -302,6 +329,12 @@ class PlanForm(QWidget):
         p, u = self.plan, self.units
         self._showing = True
         try:
+            if self.title.text() != p.title:
+                self.title.setText(p.title)
+            if self.part.text() != p.part:
+                self.part.setText(p.part)
+            if self.notes.toPlainText() != p.notes:
+                self.notes.setPlainText(p.notes)
             index = self.steel.findData(p.steel)
             if index >= 0:
                 self.steel.setCurrentIndex(index)
@@ -374,7 +407,7 @@ class PlanForm(QWidget):
 
     # -- marking bad input ------------------------------------------------------------------------------
     def widget_for(self, field: str) -> QWidget | None:
-        return {"steel": self.steel, "composition": self.composition, "shape": self.shape, "size": self.size,
+        return {"title": self.title, "part": self.part, "steel": self.steel, "composition": self.composition, "shape": self.shape, "size": self.size,
                 "temperature": self.temperature, "carbon_potential": self.carbon_potential,
                 "case_min": self.case_min, "case_max": self.case_max, "aim": self.aim,
                 "threshold_value": self.threshold_value, "threshold_kind": self.threshold_kind,
