@@ -162,24 +162,21 @@ class Plan:
         return bool(self._redo)
 
     def undo(self) -> None:
-        if not self._undo:
-            return
-        change = self._undo.pop()
-        for name, (old, _) in change.items():
-            self._values[name] = copy.deepcopy(old)
-        self._redo.append(change)
-        self.modified = True
-        self._notify(change, 0)
+        self._replay(self._undo, self._redo, 0)
 
     def redo(self) -> None:
-        if not self._redo:
+        self._replay(self._redo, self._undo, 1)
+
+    def _replay(self, source: list, target: list, which: int) -> None:
+        """Move the last edit from ``source`` to ``target``, restoring side ``which`` (0 old, 1 new)."""
+        if not source:
             return
-        change = self._redo.pop()
-        for name, (_, new) in change.items():
-            self._values[name] = copy.deepcopy(new)
-        self._undo.append(change)
+        change = source.pop()
+        for name, pair in change.items():
+            self._values[name] = copy.deepcopy(pair[which])
+        target.append(change)
         self.modified = True
-        self._notify(change, 1)
+        self._notify(change, which)
 
     def choose_steel(self, name: str) -> None:
         """Pick a library grade: its name and its nominal composition, as one edit."""

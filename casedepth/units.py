@@ -47,11 +47,7 @@ def parse_temperature(text: str | float, field: str = "temperature", default_uni
 
     A bare number is read in ``default_unit`` (°C unless told otherwise).
     """
-    if isinstance(text, (int, float)):
-        value, unit = float(text), default_unit
-    else:
-        value, unit = _split(text, field)
-        unit = unit or default_unit
+    value, unit = _value_and_unit(text, field, default_unit)
     if unit not in _TEMPERATURE_UNITS:
         raise InputError(field, f"unknown temperature unit {unit!r}; use C, F or K (e.g. 925C, 1700F, 1198K)")
     kelvin = _TEMPERATURE_UNITS[unit](value)
@@ -60,12 +56,16 @@ def parse_temperature(text: str | float, field: str = "temperature", default_uni
     return kelvin
 
 
-def _parse_scaled(text, field, units, default_unit, kind, example):
+def _value_and_unit(text: str | float, field: str, default_unit: str) -> tuple[float, str]:
+    """A number with its unit; a bare number (or number type) takes ``default_unit``."""
     if isinstance(text, (int, float)):
-        value, unit = float(text), default_unit
-    else:
-        value, unit = _split(text, field)
-        unit = unit or default_unit
+        return float(text), default_unit
+    value, unit = _split(text, field)
+    return value, unit or default_unit
+
+
+def _parse_scaled(text, field, units, default_unit, kind, example):
+    value, unit = _value_and_unit(text, field, default_unit)
     if unit not in units:
         raise InputError(field, f"unknown {kind} unit {unit!r}; use one of {', '.join(sorted(set(units)))} (e.g. {example})")
     return value * units[unit]
