@@ -13,6 +13,7 @@ import sys
 
 from . import __version__, api
 from .carburizing import CarburizingSetup, carburize, soak_time_for_case_depth
+from .recipe import plan_boost_diffuse
 from .diffusivity import METHODS as DIFFUSIVITY_METHODS
 from .errors import InputError, SolverError
 from .geometry import SHAPES
@@ -41,7 +42,8 @@ def _build_parser() -> argparse.ArgumentParser:
                                         "or the case depth a soak of given length gives (--time).")
     c.add_argument("--steel", required=True, help='grade from the library (8620, 16MnCr5, …) or "C=0.20 Mn=0.80 Cr=0.50" (wt %%)')
     c.add_argument("--temperature", required=True, help="furnace temperature: 925C, 1700F or 1198K")
-    c.add_argument("--potential", required=True, help="carbon potential of the atmosphere, wt %% C (e.g. 1.00)")
+    c.add_argument("--potential", help="carbon potential of the atmosphere, wt %% C (e.g. 1.00); "
+                                       "not used with --surface-target")
     goal = c.add_mutually_exclusive_group(required=True)
     goal.add_argument("--target", help="effective case depth wanted: 1.0mm, 0.040in")
     goal.add_argument("--time", help="soak length instead of a target: 6h, 90min, 5h30min")
@@ -59,6 +61,9 @@ def _build_parser() -> argparse.ArgumentParser:
     c.add_argument("--diameter", help="cylinder, sphere or bore diameter: 40mm")
     c.add_argument("--thickness", help="plate thickness, carburized from both faces: 10mm (default: thick section)")
     c.add_argument("--units", default="metric", choices=["metric", "imperial"], help="units of the printed result")
+    c.add_argument("--surface-target", help="plan boost and diffuse for a final surface carbon: 0.80 (±0.05) or 0.75-0.85")
+    c.add_argument("--boost-potential", help="with --surface-target: carbon potential of the boost, wt %% C")
+    c.add_argument("--diffuse-potential", help="with --surface-target: carbon potential of the diffuse, wt %% C")
     c.add_argument("--json", action="store_true", help="print one JSON object instead of text")
 
     commands.add_parser("steels", help="list the steel library")
@@ -72,14 +77,23 @@ FLAGS = {
     "time": "--time", "threshold": "--at", "carbon at": "--carbon-at", "diffusivity": "--diffusivity",
     "D0": "--d0", "Q": "--q", "diffusivity multiplier": "--d-multiplier", "beta": "--beta",
     "hardness relation": "--hardness-relation", "geometry": "--geometry", "diameter": "--diameter",
-    "thickness": "--thickness",
+    "thickness": "--thickness", "surface target": "--surface-target", "boost potential": "--boost-potential",
+    "diffuse potential": "--diffuse-potential",
 }
 
 
 def setup_from_args(args) -> CarburizingSetup:
     """The :class:`CarburizingSetup` the ``carburize`` arguments describe."""
+    potential = args.potential
+    if args.surface_target is not None:
+        if potential is not None:
+            raise InputError("carbon potential", "not used with --surface-target; give --boost-potential and --diffuse-potential")
+        potential = _number(args.diffuse_potential, "diffuse potential") if args.diffuse_potential else None
+    if potential is None:
+        raise InputError("carbon potential" if args.surface_target is None else "diffuse potential",
+                         "required (wt % C, 0.05–2)")
     return api.setup(
-        args.steel, args.temperature, args.potential, at=args.at, diffusivity=args.diffusivity,
+        args.steel, args.temperature, potential, at=args.at, diffusivity=args.diffusivity,
         beta=parse_velocity(args.beta, "beta"), alloy_factor=args.alloy_factor == "on", geometry=args.geometry,
         diameter=args.diameter, thickness=args.thickness, hardness_relation=args.hardness_relation,
         d0=args.d0, q=args.q, d_multiplier=args.d_multiplier,
@@ -114,8 +128,64 @@ def _format(result, units: DisplayUnits) -> str:
     return "\n".join(lines)
 
 
+def _number(text: str, field: str) -> float:
+    try:
+        value = float(text)
+    except ValueError:
+        raise InputError(field, f"{text!r} is not a number") from None
+    if not math.isfinite(value):
+        raise InputError(field, f"{text!r} is not a finite number")
+    return value
+
+
+def _surface_window(text: str) -> float | tuple[float, float]:
+    parts = text.replace("–", "-").split("-")
+    if len(parts) == 1:
+        return _number(parts[0], "surface target")
+    if len(parts) == 2:
+        return (_number(parts[0], "surface target"), _number(parts[1], "surface target"))
+    raise InputError("surface target", f"cannot read {text!r}; write 0.80 or 0.75-0.85 (wt % C)")
+
+
+def _boost_diffuse(args, setup: CarburizingSetup) -> int:
+    if args.target is None:
+        raise InputError("surface target", "needs --target (the effective case depth to plan for)")
+    if args.boost_potential is None:
+        raise InputError("boost potential", "required with --surface-target (wt % C, 0.05–2)")
+    plan = plan_boost_diffuse(setup, parse_length(args.target, "target"), _surface_window(args.surface_target),
+                              _number(args.boost_potential, "boost potential"), setup.carbon_potential)
+    cycle = plan.cycle
+    if args.json:
+        out = {
+            "boost_time_h": plan.boost_time / 3600.0, "diffuse_time_h": plan.diffuse_time / 3600.0,
+            "soak_time_h": (plan.boost_time + plan.diffuse_time) / 3600.0,
+            "case_depth_mm": cycle.case_depth * 1e3, "surface_carbon_pct": cycle.surface_carbon,
+            "surface_target_pct": list(plan.surface_target), "surface_aim_pct": plan.surface_aim,
+            "target_depth_mm": plan.target_depth * 1e3, "threshold": str(setup.threshold),
+            "threshold_carbon_pct": setup.threshold_carbon, "temperature_c": setup.temperature - 273.15,
+            "boost_potential_pct": _number(args.boost_potential, "boost potential"),
+            "diffuse_potential_pct": setup.carbon_potential, "steel": setup.steel.name,
+            "warnings": setup.warnings() + cycle.warnings,
+            "profile": {"depth_mm": (cycle.profile.depth * 1e3).tolist(), "carbon_pct": cycle.profile.carbon.tolist()},
+        }
+        print(json.dumps(out))
+        return 0
+    units = DisplayUnits(args.units)
+    print(f"Boost {format_duration(plan.boost_time)} at carbon potential {args.boost_potential} %C, then diffuse "
+          f"{format_duration(plan.diffuse_time)} at {setup.carbon_potential:.2f} %C, at {units.format_temperature(setup.temperature)}")
+    print(f"  effective case depth  {units.format_length(cycle.case_depth)} at {setup.threshold}")
+    print(f"  surface carbon        {cycle.surface_carbon:.3f} %C at the end (window {plan.surface_target[0]:.2f}–"
+          f"{plan.surface_target[1]:.2f} %C, aimed at {plan.surface_aim:.3f})")
+    print(f"  time at temperature   {format_duration(plan.boost_time + plan.diffuse_time)}")
+    for warning in setup.warnings() + cycle.warnings:
+        print(f"Warning: {warning}")
+    return 0
+
+
 def _carburize(args) -> int:
     setup = setup_from_args(args)
+    if args.surface_target is not None:
+        return _boost_diffuse(args, setup)
     if args.target is not None:
         if args.carbon_at:
             raise InputError("carbon at", "only used with --time")

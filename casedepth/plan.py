@@ -14,7 +14,7 @@ import json
 import math
 import os
 import tempfile
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any, Callable
 
@@ -23,12 +23,14 @@ from .carburizing import CarburizingResult, CarburizingSetup, soak_times_for_cas
 from .diffusivity import Diffusivity
 from .errors import InputError
 from .geometry import Geometry
+from .quote import Quote, ShopDefaults, make_quote
+from .recipe import CycleResult, Stage, plan_boost_diffuse, run_recipe
 from .safety import Caution
 from .steels import Steel
 from .surface import DEFAULT_BETA
 from .units import ZERO_CELSIUS, Threshold
 
-SCHEMA_VERSION = 1
+SCHEMA_VERSION = 2
 FILE_KIND = "casedepth plan"
 
 
@@ -65,7 +67,16 @@ FIELDS: dict[str, Field] = {
     "beta_held": Field(False, "surface_held_at_equilibrium"),
     "alloy_factor": Field(True, "alloy_factor"),
     "hardness_relation": Field("tempered", "hardness_relation"),
+    # schema 2: whole cycles
+    "process": Field("single", "process"),  # single soak | boost-diffuse | stages (a recipe of one's own)
+    "surface_min": Field(0.75, "surface_carbon_min_pct"),
+    "surface_max": Field(0.85, "surface_carbon_max_pct"),
+    "boost_potential": Field(1.15, "boost_potential_pct"),
+    "diffuse_potential": Field(0.80, "diffuse_potential_pct"),
+    "stages": Field([], "stages"),  # list of {"kind", "duration_h", "temperature_c", "carbon_potential_pct", ...}
+    "shop": Field({}, "shop"),  # ShopDefaults as a dict; missing keys take the defaults
 }
+PROCESSES = ("single", "boost-diffuse", "stages")
 
 # library error fields -> plan fields, so the window can mark the right widget
 _ERROR_FIELDS = {
@@ -74,6 +85,30 @@ _ERROR_FIELDS = {
     "steel": "composition", "composition": "composition", "diffusivity multiplier": "d_multiplier",
     "D0": "d0", "Q": "q", "hardness relation": "hardness_relation", "diffusivity": "diffusivity",
 }
+
+
+def stage_to_dict(stage: Stage) -> dict:
+    """A stage as stored in a plan file (hours, °C, wt %)."""
+    out = {"kind": stage.kind, "duration_h": float(f"{stage.duration / 3600.0:.12g}")}
+    if stage.temperature is not None:
+        out["temperature_c"] = float(f"{stage.temperature - ZERO_CELSIUS:.12g}")
+    if stage.carbon_potential is not None:
+        out["carbon_potential_pct"] = stage.carbon_potential
+    if stage.start_potential is not None:
+        out["start_potential_pct"] = stage.start_potential
+    return out
+
+
+def stage_from_dict(data: dict, number: int = 0) -> Stage:
+    where = f"stage {number}" if number else "stage"
+    try:
+        temperature = data.get("temperature_c")
+        return Stage(str(data["kind"]), float(data["duration_h"]) * 3600.0,
+                     None if temperature is None else float(temperature) + ZERO_CELSIUS,
+                     None if data.get("carbon_potential_pct") is None else float(data["carbon_potential_pct"]),
+                     None if data.get("start_potential_pct") is None else float(data["start_potential_pct"]))
+    except (KeyError, TypeError, ValueError) as error:
+        raise InputError(where, f"cannot read {data!r}: {error}") from None
 
 
 class PlanFileError(InputError):
@@ -206,6 +241,12 @@ class Plan:
             raise InputError("aim", f"{aim * 100:g} % of the window is outside 0–100 %")
         return low, low + aim * (high - low), high
 
+    def shop_defaults(self) -> ShopDefaults:
+        return ShopDefaults.from_dict(self._values["shop"])
+
+    def stage_list(self) -> list[Stage]:
+        return [stage_from_dict(d, n) for n, d in enumerate(self._values["stages"], 1)]
+
     def setup(self) -> CarburizingSetup:
         """The validated carburizing setup; an :class:`InputError` names the plan field at fault."""
         v = self._values
@@ -256,8 +297,14 @@ class Plan:
                     raise PlanFileError("plan file", f"{f.key} should be a number, not {value!r}")
                 value = (value - f.offset) / f.scale
             values[name] = value
-        plan = cls(**values)
-        return plan
+        if not isinstance(values.get("stages", []), list) or not isinstance(values.get("shop", {}), dict):
+            raise PlanFileError("plan file", "stages must be a list and shop a table of values")
+        for number, stage in enumerate(values.get("stages", []), 1):
+            try:
+                stage_from_dict(stage, number)
+            except InputError as error:
+                raise PlanFileError("plan file", f"{error.field}: {error.message}") from None
+        return cls(**values)
 
     def save(self, path: str | os.PathLike) -> None:
         """Write the plan as JSON: to a temporary file beside ``path``, then rename over it."""
@@ -290,23 +337,59 @@ class Plan:
 def migrate(data: dict) -> dict:
     """Bring a plan file's contents up to :data:`SCHEMA_VERSION` (one step per past version)."""
     data = dict(data)
-    # schema 1 is the first; later versions add their step here, e.g. ``if version == 1: …; version = 2``
+    if data["schema_version"] == 1:
+        # schema 1 planned one isothermal soak; schema 2 adds whole cycles, whose defaults keep that meaning
+        data.update(process="single", stages=[], shop={}, schema_version=2)
     return data
 
 
 @dataclass
 class PlanOutcome:
-    """What a plan gives: soaks for the drawing's minimum, aim and maximum case depth, and the cautions."""
+    """What a plan gives.
+
+    For a single soak: soaks for the drawing's minimum, aim and maximum case depth (``low``,
+    ``aim``, ``high``); for boost-diffuse and own stages: the whole ``cycle`` (and the boost and
+    diffuse times). Always the quote of the whole cycle and the cautions.
+    """
 
     setup: CarburizingSetup
-    low: CarburizingResult
-    aim: CarburizingResult
-    high: CarburizingResult
+    process: str
+    quote: Quote
     cautions: list[Caution]
+    stages: list[Stage]
+    low: CarburizingResult | None = None
+    aim: CarburizingResult | None = None
+    high: CarburizingResult | None = None
+    cycle: CycleResult | None = None
+    boost_time: float | None = None
+    diffuse_time: float | None = None
+    warnings: list[str] = field(default_factory=list)
+
+    targets: tuple[float, float, float] = (0.0, 0.0, 0.0)  # the drawing's min, aim, max case depth [m]
 
     @property
-    def warnings(self) -> list[str]:
-        return self.aim.warnings
+    def case_depth(self) -> float:
+        return self.aim.case_depth if self.cycle is None else self.cycle.case_depth
+
+    @property
+    def duration(self) -> float:
+        """Time [s] the profile history covers: the soak, or the whole cycle."""
+        return self.aim.soak_time if self.cycle is None else float(self.cycle.history_time[-1])
+
+    def profile_at(self, time: float):
+        return (self.aim if self.cycle is None else self.cycle).profile_at(time)
+
+    @property
+    def surface_carbon(self) -> float:
+        return self.aim.surface_carbon if self.cycle is None else self.cycle.surface_carbon
+
+    @property
+    def profile(self):
+        return self.aim.profile if self.cycle is None else self.cycle.profile
+
+
+def _with_field(error: InputError, names: dict[str, str]) -> InputError:
+    return type(error)(names.get(error.field, _ERROR_FIELDS.get(error.field, error.field)), error.message)
 
 
 def evaluate(values: dict[str, Any]) -> PlanOutcome:
@@ -315,12 +398,39 @@ def evaluate(values: dict[str, Any]) -> PlanOutcome:
     Raises :class:`InputError` naming the plan field at fault, or :class:`NotReachableError`.
     """
     plan = Plan(**values)
+    if plan.process not in PROCESSES:
+        raise InputError("process", f"unknown process {plan.process!r}; choose one of {', '.join(PROCESSES)}")
     setup = plan.setup()
-    low, aim, high = plan.targets()
     try:
-        results = soak_times_for_case_depths(setup, [low, aim, high], size_for=aim)
+        shop = plan.shop_defaults()
     except InputError as error:
-        field = {"target": "case_max"}.get(error.field, _ERROR_FIELDS.get(error.field, error.field))
-        raise type(error)(field, error.message) from None
-    caution_list = safety.cautions(setup.temperature, setup.equilibrium_carbon, setup.saturation_carbon)
-    return PlanOutcome(setup, results[0], results[1], results[2], caution_list)
+        raise InputError("shop", f"{error.field}: {error.message}") from None
+    low, aim, high = plan.targets()
+    T = setup.temperature
+    names = {"target": "case_max", "surface target": "surface_min", "boost potential": "boost_potential",
+             "diffuse potential": "diffuse_potential"}
+    try:
+        if plan.process == "single":
+            results = soak_times_for_case_depths(setup, [low, aim, high], size_for=aim)
+            stages = [*shop.before(T, setup.carbon_potential), Stage("soak", results[1].soak_time, T, setup.carbon_potential),
+                      *shop.after(T)]
+            outcome = PlanOutcome(setup, plan.process, make_quote(stages, shop), [], stages, *results,
+                                  warnings=list(results[1].warnings))
+        elif plan.process == "boost-diffuse":
+            planned = plan_boost_diffuse(setup, aim, (plan.surface_min, plan.surface_max), plan.boost_potential,
+                                         plan.diffuse_potential, before=tuple(shop.before(T, plan.boost_potential)),
+                                         after=tuple(shop.after(T)))
+            stages = planned.cycle.stages
+            outcome = PlanOutcome(setup, plan.process, make_quote(stages, shop), [], stages, cycle=planned.cycle,
+                                  boost_time=planned.boost_time, diffuse_time=planned.diffuse_time,
+                                  warnings=list(planned.cycle.warnings))
+        else:
+            stages = plan.stage_list()
+            cycle = run_recipe(setup, stages)
+            outcome = PlanOutcome(setup, plan.process, make_quote(stages, shop), [], stages, cycle=cycle,
+                                  warnings=list(cycle.warnings))
+    except InputError as error:
+        raise _with_field(error, names) from None
+    outcome.cautions = safety.cautions(setup.temperature, setup.equilibrium_carbon, setup.saturation_carbon)
+    outcome.targets = (low, aim, high)
+    return outcome

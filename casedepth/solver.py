@@ -23,6 +23,7 @@ References
 
 from __future__ import annotations
 
+import copy
 import math
 from dataclasses import dataclass
 from typing import Callable
@@ -315,22 +316,27 @@ class CarbonSolver:
         return carbon, flux
 
     # -- public -----------------------------------------------------------------------------
-    def advance(self, duration: float, cond: SurfaceCondition,
-                on_step: Callable[["CarbonSolver"], bool] | None = None) -> None:
-        """March ``duration`` [s] under one surface condition.
+    def advance(self, duration: float, condition: SurfaceCondition | Callable[[float], SurfaceCondition],
+                on_step: Callable[["CarbonSolver"], bool] | None = None, max_step: float = math.inf) -> None:
+        """March ``duration`` [s] under one surface condition, or a condition that changes with time.
 
-        Every step is kept in the history (:attr:`history_time`, :attr:`history_carbon`).
-        ``on_step(solver)`` is called after every step; if it returns True the march stops there.
-        Steps start at ``first_step`` of the time scale and grow by ``step_growth``; the first
-        ``SMOOTHING_STEPS`` of each call are linearly implicit Euler steps.
+        ``condition`` is a :class:`SurfaceCondition`, or a function of the time [s] since the start
+        of this call giving one (a ramp); each step then uses the condition at its middle, which
+        keeps second order for smooth ramps (midpoint rule). Every step is kept in the history
+        (:attr:`history_time`, :attr:`history_carbon`). ``on_step(solver)`` is called after every
+        step; if it returns True the march stops there. Steps start at ``first_step`` of the time
+        scale and grow by ``step_growth`` up to ``max_step``; the first ``SMOOTHING_STEPS`` of each
+        call are linearly implicit Euler steps.
         """
         acc = self.accuracy
+        start = self.time
         end = self.time + duration
-        dt = acc.first_step * self.time_scale
+        dt = min(acc.first_step * self.time_scale, max_step)
         smoothing = self.SMOOTHING_STEPS
         carbon_range = (float(self.carbon.min()), float(self.carbon.max()))
-        while self.time < end * (1 - 1e-12):
+        while end - self.time > 1e-12 * max(end, 1.0):
             h = min(dt, end - self.time)
+            cond = condition if isinstance(condition, SurfaceCondition) else condition(self.time - start + h / 2)
             euler = smoothing > 0
             carbon, flux = self._step(h, cond, euler)
             if not self._plausible(carbon, cond, carbon_range):
@@ -355,7 +361,27 @@ class CarbonSolver:
             self._history_steps.append((cond, euler))
             if on_step is not None and on_step(self):
                 return
-            dt *= acc.step_growth
+            dt = min(dt * acc.step_growth, max_step)
+
+    def wait(self, duration: float) -> None:
+        """Let ``duration`` [s] pass with the carbon frozen (quench, wash, temper, load below Ac3)."""
+        self.time += duration
+        self.history_time.append(self.time)
+        self.history_carbon.append(self.carbon)
+        self._history_steps.append((None, False))
+
+    def fork(self, carbon: np.ndarray | None = None, time: float | None = None) -> "CarbonSolver":
+        """A new solver on this grid starting from ``carbon`` [wt %] at ``time`` [s] (default: the
+        present state), with a history of its own; this solver is not changed."""
+        twin = copy.copy(self)
+        twin.carbon = self.carbon if carbon is None else np.asarray(carbon, dtype=float)
+        twin.time = self.time if time is None else float(time)
+        twin.flux_integral = twin.carbon_uptake()  # carbon present at the start counts as taken up before
+        twin.history_time = [twin.time]
+        twin.history_carbon = [twin.carbon]
+        twin._history_steps = []
+        twin._evaluations = []
+        return twin
 
     def snapshot(self, index: int) -> np.ndarray:
         """Carbon [wt %] after step ``index`` of the history (0 = the start), on the present grid."""
@@ -367,6 +393,8 @@ class CarbonSolver:
     def retake(self, index: int, dt: float) -> Profile:
         """Step ``index`` of the history taken again, but only ``dt`` [s] long; the state is not changed."""
         cond, euler = self._history_steps[index - 1]
+        if cond is None:
+            return Profile(self.nodes, self.snapshot(index - 1), self.history_time[index - 1] + dt, self.geometry.half_section)
         carbon, _ = self._step(dt, cond, euler, start=self.snapshot(index - 1))
         return Profile(self.nodes, carbon, self.history_time[index - 1] + dt, self.geometry.half_section)
 

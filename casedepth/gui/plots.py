@@ -54,7 +54,7 @@ class _PlotPage(QWidget):
         self._legend_key = None
 
     def frame(self, outcome, units: DisplayUnits, reach: float) -> None:
-        low, aim, high = (units.length(r.target_depth) for r in (outcome.low, outcome.aim, outcome.high))
+        low, aim, high = (units.length(depth) for depth in outcome.targets)
         self.band.set_x(low)
         self.band.set_width(high - low)
         self.aim.set_xdata([aim, aim])
@@ -135,19 +135,20 @@ class ProfilePlots(QTabWidget):
         self._stale[index] = False
 
     # -- content ---------------------------------------------------------------------------------------
-    def _reach(self, result) -> float:
-        half = result.setup.geometry.half_section
-        reach = max(self.outcome.high.target_depth * 2.2, result.case_depth * 2.0)
+    def _reach(self, outcome) -> float:
+        half = outcome.setup.geometry.half_section
+        reach = max(outcome.targets[2] * 2.2, outcome.case_depth * 2.0)
         return min(reach, half) if np.isfinite(half) else reach
 
     def _profiles(self):
-        final = self.outcome.aim
-        scrubbing = self.time is not None and self.time < final.soak_time
+        final = self.outcome
+        scrubbing = self.time is not None and self.time < final.duration
         return final, (final.profile_at(self.time) if scrubbing else final.profile), scrubbing
 
     def _caption(self, final, shown, scrubbing, extra: str = "") -> str:
-        when = (f"after {format_duration(shown.time)} of {format_duration(final.soak_time)}" if scrubbing
-                else f"after the full soak, {format_duration(final.soak_time)}")
+        whole = "soak" if final.cycle is None else "cycle"
+        when = (f"after {format_duration(shown.time)} of {format_duration(final.duration)}" if scrubbing
+                else f"after the full {whole}, {format_duration(final.duration)}")
         return when + extra
 
     def _draw_carbon(self):

@@ -33,6 +33,7 @@ class ResultPanel(QFrame):
         grid = QGridLayout()
         grid.setHorizontalSpacing(18)
         self.facts: dict[str, QLabel] = {}
+        self.fact_names: dict[str, QLabel] = {}
         names = [("window", "Drawing window"), ("surface", "Surface carbon at the end"),
                  ("reached", "Case depth reached"), ("threshold", "Threshold means"),
                  ("equilibrium", "Surface carbon in equilibrium"), ("saturation", "Saturation (Acm)")]
@@ -45,6 +46,7 @@ class ResultPanel(QFrame):
             grid.addWidget(name, i // 2, (i % 2) * 2)
             grid.addWidget(value, i // 2, (i % 2) * 2 + 1)
             self.facts[key] = value
+            self.fact_names[key] = name
         layout.addLayout(grid)
         self.warnings = QLabel()
         self.warnings.setObjectName("warnings")
@@ -60,27 +62,59 @@ class ResultPanel(QFrame):
         self.stale = False
 
     def show_outcome(self, outcome, units: DisplayUnits) -> None:
-        setup, aim = outcome.setup, outcome.aim
-        self.headline.setText(f"Soak {format_duration(aim.soak_time)}")
-        self.subline.setText(
-            f"at {units.format_temperature(setup.temperature)}, carbon potential {setup.carbon_potential:.2f} %C, "
-            f"for {units.format_length(aim.target_depth)} effective case depth at {setup.threshold} "
-            f"({aim.soak_time / 3600:.2f} h at temperature; heat-up and drop not included)")
-        self.facts["window"].setText(
-            f"{units.format_length(outcome.low.target_depth)} in {format_duration(outcome.low.soak_time)}  to  "
-            f"{units.format_length(outcome.high.target_depth)} in {format_duration(outcome.high.soak_time)}")
-        self.facts["surface"].setText(f"{aim.surface_carbon:.3f} %C")
-        self.facts["reached"].setText(units.format_length(aim.case_depth))
-        self.facts["threshold"].setText(f"{setup.threshold_carbon:.3f} %C" if setup.threshold.kind != "carbon"
-                                        else f"{setup.threshold_carbon:.2f} %C (carbon threshold)")
-        self.facts["equilibrium"].setText(f"{setup.equilibrium_carbon:.3f} %C (alloy factor {setup.alloy_factor:.3f})")
-        self.facts["saturation"].setText(f"{setup.saturation_carbon:.2f} %C")
+        if outcome.cycle is not None:
+            self._show_cycle(outcome, units)
+        else:
+            self._show_soak(outcome, units)
         if outcome.warnings:
             self.warnings.setText("\n".join(f"• {w}" for w in outcome.warnings))
             self.warnings.show()
         else:
             self.warnings.hide()
         self.set_stale(False)
+
+    def _show_cycle(self, outcome, units: DisplayUnits) -> None:
+        setup, cycle, quote = outcome.setup, outcome.cycle, outcome.quote
+        money = f" {quote.currency}" if quote.currency else ""
+        if outcome.boost_time is not None:
+            self.headline.setText(f"Boost {format_duration(outcome.boost_time)}, diffuse {format_duration(outcome.diffuse_time)}")
+            self.subline.setText(f"at {units.format_temperature(setup.temperature)}: the cycle ends with "
+                                 f"{units.format_length(cycle.case_depth)} at {setup.threshold} and the surface carbon "
+                                 f"in its window; heat-up, drop and equalize are counted")
+        else:
+            self.headline.setText(f"Cycle {format_duration(quote.total_h * 3600)}")
+            self.subline.setText(f"the stages as entered give {units.format_length(cycle.case_depth)} at {setup.threshold}")
+        low, aim, high = outcome.targets
+        inside = low <= cycle.case_depth <= high
+        self._fact("window", "Drawing window", f"{units.format_length(low)} to {units.format_length(high)}"
+                   + ("" if inside else "  — the case ends outside it"))
+        self._fact("surface", "Surface carbon at the end", f"{cycle.surface_carbon:.3f} %C")
+        self._fact("reached", "Case depth at the end", units.format_length(cycle.case_depth))
+        self._fact("threshold", "Threshold means", f"{setup.threshold_carbon:.3f} %C")
+        self._fact("equilibrium", "Whole cycle", f"{format_duration(quote.total_h * 3600)} ({quote.total_h:.2f} h)")
+        self._fact("saturation", "Cost", f"{quote.cost_per_load:.2f}{money} per load, {quote.cost_per_part:.3f}{money} per part")
+
+    def _fact(self, key: str, name: str, value: str) -> None:
+        self.fact_names[key].setText(name)
+        self.facts[key].setText(value)
+
+    def _show_soak(self, outcome, units: DisplayUnits) -> None:
+        setup, aim = outcome.setup, outcome.aim
+        self.headline.setText(f"Soak {format_duration(aim.soak_time)}")
+        self.subline.setText(
+            f"at {units.format_temperature(setup.temperature)}, carbon potential {setup.carbon_potential:.2f} %C, "
+            f"for {units.format_length(aim.target_depth)} effective case depth at {setup.threshold} "
+            f"({aim.soak_time / 3600:.2f} h at temperature; heat-up and drop not included)")
+        self._fact("window", "Drawing window",
+                   f"{units.format_length(outcome.low.target_depth)} in {format_duration(outcome.low.soak_time)}  to  "
+                   f"{units.format_length(outcome.high.target_depth)} in {format_duration(outcome.high.soak_time)}")
+        self._fact("surface", "Surface carbon at the end", f"{aim.surface_carbon:.3f} %C")
+        self._fact("reached", "Case depth reached", units.format_length(aim.case_depth))
+        self._fact("threshold", "Threshold means", f"{setup.threshold_carbon:.3f} %C" if setup.threshold.kind != "carbon"
+                   else f"{setup.threshold_carbon:.2f} %C (carbon threshold)")
+        self._fact("equilibrium", "Surface carbon in equilibrium",
+                   f"{setup.equilibrium_carbon:.3f} %C (alloy factor {setup.alloy_factor:.3f})")
+        self._fact("saturation", "Saturation (Acm)", f"{setup.saturation_carbon:.2f} %C")
 
     def show_problem(self, where: str, message: str) -> None:
         """Bad input: say what and where, keep the last result but mark it stale."""

@@ -207,7 +207,7 @@ class MainWindow(QMainWindow):
         self.time_slider.blockSignals(True)
         self.time_slider.setValue(1000)
         self.time_slider.blockSignals(False)
-        self.time_label.setText(f"end of soak, {format_duration(outcome.aim.soak_time)}")
+        self.time_label.setText(f"end, {format_duration(outcome.duration)}")
         self.plots.show_outcome(outcome, self.units)
         self.statusBar().showMessage("Ready", 2000)
         self.result_shown.emit()
@@ -228,9 +228,9 @@ class MainWindow(QMainWindow):
     def _time_moved(self, value: int) -> None:
         if self.outcome is None:
             return
-        soak = self.outcome.aim.soak_time
+        soak = self.outcome.duration
         if value >= 1000:
-            self.time_label.setText(f"end of soak, {format_duration(soak)}")
+            self.time_label.setText(f"end, {format_duration(soak)}")
             self.plots.set_time(None)
             return
         time = max(soak * value / 1000.0, 1.0)
@@ -333,16 +333,17 @@ class MainWindow(QMainWindow):
 
     def profile_csv(self) -> str:
         """The aim profile at the end of the soak as CSV text (depth, carbon, estimated hardness)."""
-        aim = self.outcome.aim
-        relation = HARDNESS_RELATIONS[aim.setup.hardness_relation]
-        hv = relation.hv(aim.profile.carbon)
+        outcome = self.outcome
+        setup, profile = outcome.setup, outcome.profile
+        relation = HARDNESS_RELATIONS[setup.hardness_relation]
+        hv = relation.hv(profile.carbon)
         out = io.StringIO()
         writer = csv.writer(out)
-        writer.writerow([f"# casedepth {__version__}: {self.plan.title}; soak {aim.soak_time / 3600:.4f} h at "
-                         f"{self.units.format_temperature(aim.setup.temperature)}; hardness assumes "
-                         f"{relation.assumptions}"])
+        what = (f"soak {outcome.duration / 3600:.4f} h at {self.units.format_temperature(setup.temperature)}"
+                if outcome.cycle is None else f"end of a {outcome.duration / 3600:.4f} h cycle")
+        writer.writerow([f"# casedepth {__version__}: {self.plan.title}; {what}; hardness assumes {relation.assumptions}"])
         writer.writerow(["depth_mm", "depth_in", "carbon_pct", "hardness_hv", "hardness_hrc"])
-        for x, c, h in zip(aim.profile.depth, aim.profile.carbon, hv):
+        for x, c, h in zip(profile.depth, profile.carbon, hv):
             writer.writerow([f"{x * 1e3:.5f}", f"{x / 0.0254:.6f}", f"{c:.5f}", f"{h:.1f}",
                              f"{ASTM_E140_hv_to_hrc(min(max(h, 238.0), 940.0)):.1f}"])
         return out.getvalue()
