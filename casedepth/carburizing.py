@@ -375,7 +375,7 @@ def soak_times_for_case_depths(setup: CarburizingSetup, targets: list[float],
     deepest = max(targets)
     solver = setup.solver(case_depth=size_for if size_for is not None else sorted(targets)[len(targets) // 2])
     cond = setup.surface_condition
-    solver.advance(SOAK_RANGE[1], cond, lambda s: np.interp(deepest, s.nodes, s.carbon) >= thr)
+    solver.advance(SOAK_RANGE[1], cond, lambda s: s.threshold_depth(thr) >= deepest)
     reached = solver.threshold_depth(thr)
     if reached < deepest:
         raise NotReachableError("target", f"{deepest * 1e3:g} mm is not reached within {SOAK_RANGE[1] / 3600:g} h "
@@ -384,7 +384,7 @@ def soak_times_for_case_depths(setup: CarburizingSetup, targets: list[float],
     results = []
     for target in targets:
         k = next(i for i in range(1, len(solver.history_time))
-                 if np.interp(target, solver.nodes, solver.snapshot(i)) >= thr)
+                 if threshold_depth(solver.nodes, solver.snapshot(i), thr, setup.geometry.half_section) >= target)
         t0 = solver.history_time[k - 1]
         step = solver.history_time[k] - t0
         depth_start = threshold_depth(solver.nodes, solver.snapshot(k - 1), thr, setup.geometry.half_section)

@@ -13,6 +13,7 @@ import sys
 
 from . import __version__, api
 from .carburizing import CarburizingSetup, carburize, soak_time_for_case_depth
+from .plan import Plan, evaluate, stage_to_dict
 from .recipe import plan_boost_diffuse
 from .diffusivity import METHODS as DIFFUSIVITY_METHODS
 from .errors import InputError, SolverError
@@ -66,6 +67,12 @@ def _build_parser() -> argparse.ArgumentParser:
     c.add_argument("--diffuse-potential", help="with --surface-target: carbon potential of the diffuse, wt %% C")
     c.add_argument("--json", action="store_true", help="print one JSON object instead of text")
 
+    r = commands.add_parser("run", help="run a saved plan and print its results and the cycle quote",
+                            description="Run a saved plan (*.cdplan.json) and print its results and the cycle quote.")
+    r.add_argument("plan", help="the plan file")
+    r.add_argument("--units", default="metric", choices=["metric", "imperial"], help="units of the printed result")
+    r.add_argument("--json", action="store_true", help="print one JSON object instead of text")
+
     commands.add_parser("steels", help="list the steel library")
     commands.add_parser("gui", help="open the window: casedepth gui [PLAN.json] [--screenshot OUT.png]", add_help=False)
     return parser
@@ -78,7 +85,7 @@ FLAGS = {
     "D0": "--d0", "Q": "--q", "diffusivity multiplier": "--d-multiplier", "beta": "--beta",
     "hardness relation": "--hardness-relation", "geometry": "--geometry", "diameter": "--diameter",
     "thickness": "--thickness", "surface target": "--surface-target", "boost potential": "--boost-potential",
-    "diffuse potential": "--diffuse-potential",
+    "diffuse potential": "--diffuse-potential", "plan file": "PLAN",
 }
 
 
@@ -204,6 +211,48 @@ def _carburize(args) -> int:
     return 0
 
 
+def _run(args) -> int:
+    plan = Plan.load(args.plan)
+    outcome = evaluate(plan.values())
+    setup, quote = outcome.setup, outcome.quote
+    if args.json:
+        out = {
+            "plan": plan.title, "process": outcome.process, "case_depth_mm": outcome.case_depth * 1e3,
+            "surface_carbon_pct": outcome.surface_carbon, "threshold": str(setup.threshold),
+            "threshold_carbon_pct": setup.threshold_carbon,
+            "target_depth_mm": [d * 1e3 for d in outcome.targets],
+            "stages": [stage_to_dict(stage) for stage in outcome.stages],
+            "quote": quote.to_dict(), "warnings": list(outcome.warnings),
+            "cautions": [c.title for c in outcome.cautions],
+            "profile": {"depth_mm": (outcome.profile.depth * 1e3).tolist(), "carbon_pct": outcome.profile.carbon.tolist()},
+        }
+        if outcome.process == "single":
+            out.update(soak_time_h=outcome.aim.soak_time / 3600.0,
+                       window_soak_time_h=[outcome.low.soak_time / 3600.0, outcome.high.soak_time / 3600.0])
+        if outcome.boost_time is not None:
+            out.update(boost_time_h=outcome.boost_time / 3600.0, diffuse_time_h=outcome.diffuse_time / 3600.0,
+                       soak_time_h=(outcome.boost_time + outcome.diffuse_time) / 3600.0)
+        print(json.dumps(out))
+        return 0
+    units = DisplayUnits(args.units)
+    print(f"{plan.title} ({outcome.process})")
+    if outcome.process == "single":
+        print(f"  soak {format_duration(outcome.aim.soak_time)} at {units.format_temperature(setup.temperature)}, "
+              f"carbon potential {setup.carbon_potential:.2f} %C (window {format_duration(outcome.low.soak_time)} to "
+              f"{format_duration(outcome.high.soak_time)})")
+    elif outcome.boost_time is not None:
+        print(f"  boost {format_duration(outcome.boost_time)} at {plan.boost_potential:.2f} %C, diffuse "
+              f"{format_duration(outcome.diffuse_time)} at {plan.diffuse_potential:.2f} %C, at "
+              f"{units.format_temperature(setup.temperature)}")
+    print(f"  effective case depth {units.format_length(outcome.case_depth)} at {setup.threshold}; surface carbon "
+          f"{outcome.surface_carbon:.3f} %C at the end")
+    print("Cycle quote:")
+    print(quote.text())
+    for warning in outcome.warnings:
+        print(f"Warning: {warning}")
+    return 0
+
+
 def _steels(_args) -> int:
     for steel in library():
         print(f"{steel.name:<13} {steel.standard:<32} {steel.composition_text()}")
@@ -224,6 +273,8 @@ def main(argv: list[str] | None = None) -> int:
             return _carburize(args)
         if args.command == "steels":
             return _steels(args)
+        if args.command == "run":
+            return _run(args)
         parser.print_help()
         return 0
     except SystemExit as stop:  # --help and --version

@@ -306,7 +306,7 @@ def plan_boost_diffuse(setup: CarburizingSetup, target_depth: float, surface_tar
     if before:
         run_recipe(setup, list(before), solver=template)
     boost_start = template.time
-    template.advance(MAX_STAGE, boost, lambda s: np.interp(target_depth, s.nodes, s.carbon) >= thr)
+    template.advance(MAX_STAGE, boost, lambda s: s.threshold_depth(thr) >= target_depth)
     if template.threshold_depth(thr) < target_depth:
         raise NotReachableError("target", f"{target_depth * 1e3:g} mm is not reached within {MAX_STAGE / 3600:g} h of boost")
     t_full = template.history_time[-1] - boost_start
@@ -330,7 +330,7 @@ def plan_boost_diffuse(setup: CarburizingSetup, target_depth: float, surface_tar
         if state.threshold_depth(thr) >= depth:
             return state
         solver = state.fork()
-        solver.advance(MAX_STAGE, diffuse, lambda s: np.interp(depth, s.nodes, s.carbon) >= thr)
+        solver.advance(MAX_STAGE, diffuse, lambda s: s.threshold_depth(thr) >= depth)
         if solver.threshold_depth(thr) < depth:
             raise NotReachableError("target", f"{target_depth * 1e3:g} mm is not reached within {MAX_STAGE / 3600:g} h of diffuse")
         k = len(solver.history_time) - 1
@@ -341,14 +341,17 @@ def plan_boost_diffuse(setup: CarburizingSetup, target_depth: float, surface_tar
         """Diffuse time and final surface carbon for boost time ``tb``, the case landing on target at
         the end of the cycle (the 'after' stages' share of the depth found by a fixed point)."""
         state = boost_state(tb)
-        goal = target_depth
-        for _ in range(6):
+        goal, previous = target_depth, None
+        for _ in range(8):
             end_state = diffuse_to(state, goal)
             depth, surface = ending(end_state)
             miss = target_depth - depth
-            if not after or abs(miss) <= 1e-6 * target_depth or goal + miss <= state.threshold_depth(thr):
+            if not after or abs(miss) <= 1e-6 * target_depth or end_state is state and miss < 0:
                 break
-            goal += miss
+            # secant on the final depth against the depth the diffuse stops at
+            slope = 1.0 if previous is None or previous[0] == goal else (depth - previous[1]) / (goal - previous[0])
+            previous = (goal, depth)
+            goal += miss / max(slope, 0.1)
         return end_state.time - state.time, surface
 
     # the longest boost: with no diffuse at all, the case ends on target (after the 'after' stages)
