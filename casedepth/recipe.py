@@ -102,9 +102,6 @@ class CycleResult:
     case_depth: float
     history_time: np.ndarray
     history_carbon: list[np.ndarray]
-    timeline_time: np.ndarray  # for plotting temperature and potential against time
-    timeline_temperature: np.ndarray  # K
-    timeline_potential: np.ndarray  # wt %, NaN where no atmosphere acts
     warnings: list[str] = field(default_factory=list)
 
     @property
@@ -200,7 +197,6 @@ def run_recipe(setup: CarburizingSetup, stages: list[Stage], start_temperature: 
     if solver is None:
         solver = setup.solver(soak_time=max(carbon_time, 60.0))
     starts, uptake = [], []
-    times, temps, pots = [0.0], [start_temperature], [math.nan]
     t_now = start_temperature
     for stage in stages:
         starts.append(solver.time)
@@ -222,15 +218,44 @@ def run_recipe(setup: CarburizingSetup, stages: list[Stage], start_temperature: 
         uptake.append(solver.carbon_uptake() - before)
         if stage.moves_carbon:
             t_now = stage.temperature
-        times.append(solver.time)
-        temps.append(t_now if stage.moves_carbon else (stage.temperature or t_now))
-        pots.append(stage.carbon_potential if stage.moves_carbon else math.nan)
     profile = solver.profile()
     depth = profile.depth_at(setup.threshold_carbon)
     history_time = np.array(solver.history_time)
     history_carbon = [solver.snapshot(k) for k in range(len(history_time))]
-    return CycleResult(setup, list(stages), starts, uptake, profile, depth, history_time, history_carbon,
-                       np.array(times), np.array(temps), np.array(pots), warnings)
+    return CycleResult(setup, list(stages), starts, uptake, profile, depth, history_time, history_carbon, warnings)
+
+
+#: temperature shown for stages that do not set one: quench and wash baths, about 60 °C (display only)
+BATH = 60.0 + ZERO_CELSIUS
+
+
+def timeline(stages: list[Stage], start_temperature: float | None = None):
+    """Temperature [K] and carbon potential [wt %] against time [s] at the stage boundaries, for plots.
+
+    Returns (times, temperatures, potentials, labels): one point per boundary (ramps are straight
+    between them; a stepped potential repeats its time); potential is NaN where no atmosphere acts.
+    """
+    if start_temperature is None:
+        first = next((s for s in stages if s.moves_carbon), None)
+        start_temperature = ROOM if first is None or first.kind == "heat-up" else first.temperature
+    times, temps, pots, labels = [0.0], [start_temperature], [math.nan], []
+    now, t_now = 0.0, start_temperature
+    for stage in stages:
+        labels.append((now, now + stage.duration, stage.label))
+        if stage.moves_carbon:
+            begin = stage.start_potential if stage.start_potential is not None else stage.carbon_potential
+            times += [now, now + stage.duration]
+            temps += [t_now, stage.temperature]
+            pots += [begin, stage.carbon_potential]
+            t_now = stage.temperature
+        else:
+            here = stage.temperature if stage.temperature is not None else (ROOM if stage.kind == "load" else BATH)
+            times += [now, now + stage.duration]
+            temps += [here, here]
+            pots += [math.nan, math.nan]
+            t_now = here
+        now += stage.duration
+    return np.array(times), np.array(temps), np.array(pots, dtype=float), labels
 
 
 @dataclass

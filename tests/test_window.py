@@ -201,3 +201,58 @@ def test_custom_composition_and_plan_name(window, qtbot):
     window.form.title.editingFinished.emit()
     assert window.plan.title == "Idler gear IG-5"
     assert "Idler gear IG-5" in window.windowTitle()
+
+
+def test_boost_diffuse_plan_in_the_window(window, qtbot):
+    with qtbot.waitSignal(window.result_shown, timeout=20000):
+        window.form.process.setCurrentIndex(window.form.process.findData("boost-diffuse"))
+        window.form.process.activated.emit(window.form.process.currentIndex())
+    assert window.plan.process == "boost-diffuse"
+    assert window.form.boost_box.isVisible() and not window.form.carbon_potential.isEnabled()
+    assert window.results.headline.text().startswith("Boost ")
+    outcome = window.outcome
+    assert outcome.boost_time > 0 and outcome.diffuse_time >= 0
+    low, _, high = outcome.targets
+    assert low <= outcome.case_depth <= high
+    assert window.plan.surface_min <= outcome.surface_carbon <= window.plan.surface_max
+    window.plots.setCurrentIndex(2)
+    table = window.plots.cycle_page.table
+    assert [table.item(r, 0).text() for r in range(table.rowCount())][2:4] == ["Boost", "Diffuse"]
+    assert "per part" in window.plots.cycle_page.total.text()
+
+
+def test_own_stages_table_edits_the_plan(window, qtbot):
+    with qtbot.waitSignal(window.result_shown, timeout=20000):
+        window.plan.update(process="stages", stages=[
+            {"kind": "soak", "duration_h": 4.0, "temperature_c": 925.0, "carbon_potential_pct": 1.0}])
+    before = window.outcome.case_depth
+    window.form.stage_table.setCurrentCell(0, 1)
+    with qtbot.waitSignal(window.result_shown, timeout=20000):
+        window.form.stage_table.item(0, 1).setText("6")
+    assert window.plan.stages[0]["duration_h"] == 6.0
+    assert window.outcome.case_depth > before
+    window.form.stage_buttons["add"].click()
+    assert len(window.plan.stages) == 2
+    window.undo_action.trigger()
+    assert len(window.plan.stages) == 1
+
+
+def test_shop_times_and_rates(window, qtbot):
+    from casedepth.gui.window import ShopDialog
+    from casedepth.quote import ShopDefaults
+
+    dialog = ShopDialog(ShopDefaults(), window)
+    dialog.spins["furnace_rate_per_h"].setValue(200.0)
+    dialog.spins["parts_per_load"].setValue(50)
+    dialog.currency.setText("EUR")
+    shop = dialog.values()
+    assert (shop.furnace_rate_per_h, shop.parts_per_load, shop.currency) == (200.0, 50, "EUR")
+    with qtbot.waitSignal(window.result_shown, timeout=20000):
+        window.apply_shop(shop, keep=True)
+    assert window.plan.shop["furnace_rate_per_h"] == 200.0
+    quote = window.outcome.quote
+    assert quote.cost_per_part == pytest.approx(quote.total_h * 200.0 / 50)
+    assert window.outcome.quote.currency == "EUR"
+    window.plan.modified = False
+    window.new_plan()
+    assert window.plan.shop["furnace_rate_per_h"] == 200.0  # kept for new plans

@@ -10,14 +10,16 @@ import math
 
 from PySide6.QtCore import Qt, Signal
 from PySide6.QtWidgets import (QCheckBox, QComboBox, QCompleter, QDoubleSpinBox, QFormLayout, QGroupBox, QHBoxLayout,
-                               QLabel, QLineEdit, QPlainTextEdit, QSlider, QToolButton, QVBoxLayout, QWidget)
+                               QHeaderView, QLabel, QLineEdit, QPlainTextEdit, QSlider, QTableWidget, QTableWidgetItem,
+                               QToolButton, QVBoxLayout, QWidget)
 
 from .. import steels
 from ..austenite import Andrews_1965_Ac3
 from ..diffusivity import METHODS
 from ..errors import InputError
 from ..hardness import HARDNESS_RELATIONS
-from ..plan import Plan
+from ..plan import Plan, stage_to_dict
+from ..recipe import STAGE_KINDS
 from ..surface import Gunnarson_alloy_factor
 from ..units import DisplayUnits, parse_velocity
 
@@ -29,6 +31,15 @@ SHAPE_CHOICES = [
     ("Bore (hole in a thick body)", "bore", True, 30e-3),
     ("Ball (sphere)", "sphere", True, 20e-3),
 ]
+PROCESS_CHOICES = [("single", "One soak at one carbon potential"), ("boost-diffuse", "Boost and diffuse (plan both times)"),
+                   ("stages", "Stages of my own")]
+PROCESS_NOTES = {
+    "single": "The soak time at temperature; the quote adds the shop's load, heat-up, drop, quench, wash "
+              "and temper times (their carbon is not counted).",
+    "boost-diffuse": "Plans boost and diffuse so the case and the surface carbon are on target at the end of "
+                     "the whole cycle; the shop's heat-up, drop and equalize are counted.",
+    "stages": "Runs the stages as entered (temperatures ramp from the previous stage) and shows what they give.",
+}
 THRESHOLD_KINDS = [("%C", "carbon", 2, 0.05, 1.5), ("HV", "HV", 0, 100.0, 1000.0), ("HRC", "HRC", 1, 10.0, 70.0)]
 
 INVALID_STYLE = "border: 2px solid #d1495b; background: #fdecee;"
@@ -54,6 +65,7 @@ class PlanForm(QWidget):
         super().__init__(parent)
         self.plan = plan
         self.units = units
+        self.planned_stages: list = []  # the cycle the last result ran, for "Copy planned cycle" (set by the window)
         self._showing = False
         self._invalid: set[str] = set()
         layout = QVBoxLayout(self)
@@ -62,6 +74,7 @@ class PlanForm(QWidget):
         layout.addWidget(self._steel_group())
         layout.addWidget(self._part_group())
         layout.addWidget(self._furnace_group())
+        layout.addWidget(self._process_group())
         layout.addWidget(self._callout_group())
         layout.addWidget(self._model_group())
         notes = QGroupBox("Notes")
@@ -145,6 +158,147 @@ class PlanForm(QWidget):
         self.carbon_potential.setToolTip("Carbon potential of the atmosphere (carbon of plain carbon steel in equilibrium with it)")
         form.addRow("Carbon potential", self.carbon_potential)
         return box
+
+    def _process_group(self) -> QGroupBox:
+        box = QGroupBox("Cycle")
+        layout = QVBoxLayout(box)
+        self.process = QComboBox()
+        for key, label in PROCESS_CHOICES:
+            self.process.addItem(label, key)
+        self.process.activated.connect(lambda i: self._set("process", self.process.itemData(i)))
+        layout.addWidget(self.process)
+        self.boost_box = QWidget()
+        form = QFormLayout(self.boost_box)
+        form.setContentsMargins(0, 0, 0, 0)
+        self.boost_potential = _spin(2, 0.0, 3.0, 0.05, " %C")
+        self.boost_potential.valueChanged.connect(lambda v: self._set("boost_potential", v))
+        form.addRow("Boost potential", self.boost_potential)
+        self.diffuse_potential = _spin(2, 0.0, 3.0, 0.05, " %C")
+        self.diffuse_potential.valueChanged.connect(lambda v: self._set("diffuse_potential", v))
+        form.addRow("Diffuse potential", self.diffuse_potential)
+        row = QHBoxLayout()
+        self.surface_min = _spin(2, 0.0, 2.0, 0.01, " %C")
+        self.surface_max = _spin(2, 0.0, 2.0, 0.01, " %C")
+        self.surface_min.valueChanged.connect(lambda v: self._set("surface_min", v))
+        self.surface_max.valueChanged.connect(lambda v: self._set("surface_max", v))
+        row.addWidget(self.surface_min)
+        row.addWidget(QLabel("to"))
+        row.addWidget(self.surface_max)
+        form.addRow("Surface carbon", row)
+        layout.addWidget(self.boost_box)
+        self.stage_box = QWidget()
+        stage_layout = QVBoxLayout(self.stage_box)
+        stage_layout.setContentsMargins(0, 0, 0, 0)
+        self.stage_table = QTableWidget(0, 4)
+        self.stage_table.setHorizontalHeaderLabels(["Stage", "h", "°C", "%C"])
+        self.stage_table.horizontalHeader().setSectionResizeMode(QHeaderView.Stretch)
+        self.stage_table.horizontalHeader().setSectionResizeMode(0, QHeaderView.ResizeToContents)
+        self.stage_table.setToolTip("Hours, temperature at the end of the stage (ramps from the previous one) "
+                                    "and carbon potential; leave temperature and potential empty for quench, wash, temper")
+        self.stage_table.verticalHeader().setVisible(False)
+        self.stage_table.setMinimumHeight(200)
+        self.stage_table.setSizeAdjustPolicy(QTableWidget.AdjustIgnored)
+        self.stage_table.setMinimumWidth(260)
+        self.stage_table.itemChanged.connect(self._stage_cell_edited)
+        stage_layout.addWidget(self.stage_table)
+        buttons = QHBoxLayout()
+        self.stage_buttons = {}
+        for key, text, tip in (("add", "Add", "Add a stage after the selected one"),
+                               ("remove", "Remove", "Remove the selected stage"),
+                               ("up", "↑", "Move the selected stage earlier"), ("down", "↓", "Move the selected stage later"),
+                               ("copy", "From last result", "Fill the table with the cycle of the last result")):
+            button = QToolButton()
+            button.setText(text)
+            button.setToolTip(tip)
+            button.clicked.connect(lambda _=False, k=key: self._stage_button(k))
+            buttons.addWidget(button)
+            self.stage_buttons[key] = button
+        buttons.addStretch(1)
+        stage_layout.addLayout(buttons)
+        layout.addWidget(self.stage_box)
+        self.process_note = QLabel()
+        self.process_note.setWordWrap(True)
+        self.process_note.setStyleSheet("color: #555;")
+        layout.addWidget(self.process_note)
+        return box
+
+    def _stage_rows(self) -> list[dict]:
+        return [dict(d) for d in self.plan.stages]
+
+    def _stage_button(self, key: str) -> None:
+        rows = self._stage_rows()
+        current = self.stage_table.currentRow()
+        if key == "add":
+            last = rows[-1] if rows else {"temperature_c": 925.0, "carbon_potential_pct": 1.0}
+            rows.insert(current + 1 if current >= 0 else len(rows),
+                        {"kind": "soak", "duration_h": 1.0, "temperature_c": last.get("temperature_c", 925.0),
+                         "carbon_potential_pct": last.get("carbon_potential_pct", 1.0)})
+        elif key == "remove" and 0 <= current < len(rows):
+            rows.pop(current)
+        elif key in ("up", "down") and 0 <= current < len(rows):
+            other = current - 1 if key == "up" else current + 1
+            if 0 <= other < len(rows):
+                rows[current], rows[other] = rows[other], rows[current]
+                self._set("stages", rows)
+                self.stage_table.setCurrentCell(other, 0)
+                return
+        elif key == "copy" and self.planned_stages:
+            rows = [stage_to_dict(stage) for stage in self.planned_stages]
+        else:
+            return
+        self._set("stages", rows)
+
+    def _stage_kind_picked(self, row: int, kind: str) -> None:
+        rows = self._stage_rows()
+        if row < len(rows) and rows[row]["kind"] != kind:
+            rows[row]["kind"] = kind
+            if not STAGE_KINDS[kind][0]:
+                rows[row].pop("carbon_potential_pct", None)
+                rows[row].pop("start_potential_pct", None)
+            self._set("stages", rows)
+
+    def _stage_cell_edited(self, item) -> None:
+        if self._showing:
+            return
+        rows = self._stage_rows()
+        row, column = item.row(), item.column()
+        if row >= len(rows):
+            return
+        key = {1: "duration_h", 2: "temperature_c", 3: "carbon_potential_pct"}.get(column)
+        text = item.text().strip()
+        try:
+            if text == "" and column in (2, 3):
+                rows[row].pop(key, None)
+            else:
+                value = float(text)
+                if column == 2:
+                    value = self.units.temperature_si(value) - 273.15
+                rows[row][key] = value
+        except ValueError:
+            self.mark("stages", f"stage {row + 1}: cannot read {text!r} as a number")
+            return
+        self._set("stages", rows)
+
+    def _show_stages(self) -> None:
+        rows = self.plan.stages
+        table = self.stage_table
+        table.setRowCount(len(rows))
+        for r, row in enumerate(rows):
+            kind_box = QComboBox()
+            kind_box.setSizeAdjustPolicy(QComboBox.AdjustToMinimumContentsLengthWithIcon)
+            kind_box.setMinimumContentsLength(9)
+            for kind, (_, label) in STAGE_KINDS.items():
+                kind_box.addItem(label, kind)
+            kind_box.setCurrentIndex(max(kind_box.findData(row.get("kind")), 0))
+            kind_box.activated.connect(lambda i, rr=r, box=kind_box: self._stage_kind_picked(rr, box.itemData(i)))
+            table.setCellWidget(r, 0, kind_box)
+            temperature = row.get("temperature_c")
+            shown = "" if temperature is None else f"{self.units.temperature(temperature + 273.15):.0f}"
+            potential = row.get("carbon_potential_pct")
+            for c, text in ((1, f"{row.get('duration_h', 0.0):.2f}"), (2, shown),
+                            (3, "" if potential is None else f"{potential:g}")):
+                table.setItem(r, c, QTableWidgetItem(text))
+        table.horizontalHeaderItem(2).setText(self.units.temperature_unit)
 
     def _callout_group(self) -> QGroupBox:
         box = QGroupBox("Drawing callout: effective case depth")
@@ -340,8 +494,10 @@ class PlanForm(QWidget):
                 self.steel.setCurrentIndex(index)
             else:
                 self.steel.setEditText(p.steel)
+            self.steel.lineEdit().setCursorPosition(0)
             if "composition" not in self._invalid:
                 self.composition.setText(" ".join(f"{el}={val:g}" for el, val in p.composition.items()))
+                self.composition.setCursorPosition(0)
             self._show_steel_facts()
             choice = next(i for i, (_, shape, sized, _) in enumerate(SHAPE_CHOICES)
                           if shape == p.shape and (sized == (p.size is not None) or shape != "plate"))
@@ -382,6 +538,16 @@ class PlanForm(QWidget):
             self.beta_held.setChecked(bool(p.beta_held))
             self.alloy_factor.setChecked(bool(p.alloy_factor))
             self.hardness_relation.setCurrentIndex(self.hardness_relation.findData(p.hardness_relation))
+            self.process.setCurrentIndex(max(self.process.findData(p.process), 0))
+            self.boost_box.setVisible(p.process == "boost-diffuse")
+            self.stage_box.setVisible(p.process == "stages")
+            self.carbon_potential.setEnabled(p.process == "single")
+            self.process_note.setText(PROCESS_NOTES.get(p.process, ""))
+            self.boost_potential.setValue(p.boost_potential)
+            self.diffuse_potential.setValue(p.diffuse_potential)
+            self.surface_min.setValue(p.surface_min)
+            self.surface_max.setValue(p.surface_max)
+            self._show_stages()
         finally:
             self._showing = False
 
@@ -412,7 +578,9 @@ class PlanForm(QWidget):
                 "case_min": self.case_min, "case_max": self.case_max, "aim": self.aim,
                 "threshold_value": self.threshold_value, "threshold_kind": self.threshold_kind,
                 "diffusivity": self.diffusivity, "d_multiplier": self.d_multiplier, "d0": self.d0, "q": self.q,
-                "beta": self.beta, "hardness_relation": self.hardness_relation}.get(field)
+                "beta": self.beta, "hardness_relation": self.hardness_relation, "process": self.process,
+                "boost_potential": self.boost_potential, "diffuse_potential": self.diffuse_potential,
+                "surface_min": self.surface_min, "surface_max": self.surface_max, "stages": self.stage_table}.get(field)
 
     def mark(self, field: str, message: str) -> None:
         widget = self.widget_for(field)

@@ -9,9 +9,12 @@ from __future__ import annotations
 import numpy as np
 from matplotlib.backends.backend_qtagg import FigureCanvasQTAgg, NavigationToolbar2QT
 from matplotlib.figure import Figure
-from PySide6.QtWidgets import QTabWidget, QVBoxLayout, QWidget
+from PySide6.QtCore import Qt
+from PySide6.QtWidgets import (QHeaderView, QLabel, QSplitter, QTableWidget, QTableWidgetItem, QTabWidget, QVBoxLayout,
+                               QWidget)
 
 from ..hardness import HARDNESS_RELATIONS, ASTM_E140_hrc_to_hv, ASTM_E140_hv_to_hrc
+from ..recipe import timeline
 from ..units import DisplayUnits, format_duration
 
 INK = "#1d3557"
@@ -71,6 +74,75 @@ class _PlotPage(QWidget):
             self._legend_key = key
 
 
+class _CyclePage(QSplitter):
+    """Temperature and carbon potential through the whole cycle, and the quote under it."""
+
+    def __init__(self, parent=None):
+        super().__init__(Qt.Vertical, parent)
+        self.figure = Figure(figsize=(6, 3))
+        self.figure.subplots_adjust(left=0.085, right=0.90, top=0.93, bottom=0.16)
+        self.canvas = FigureCanvasQTAgg(self.figure)
+        top = QWidget()
+        layout = QVBoxLayout(top)
+        layout.setContentsMargins(0, 0, 0, 0)
+        layout.addWidget(NavigationToolbar2QT(self.canvas, top))
+        layout.addWidget(self.canvas)
+        self.addWidget(top)
+        self.axes = self.figure.add_subplot()
+        self.potential_axes = self.axes.twinx()
+        bottom = QWidget()
+        table_layout = QVBoxLayout(bottom)
+        table_layout.setContentsMargins(0, 0, 0, 0)
+        self.table = QTableWidget(0, 3)
+        self.table.setObjectName("quote_table")
+        self.table.setHorizontalHeaderLabels(["Stage", "Hours", "Share"])
+        self.table.horizontalHeader().setSectionResizeMode(QHeaderView.Stretch)
+        self.table.verticalHeader().setVisible(False)
+        self.table.setEditTriggers(QTableWidget.NoEditTriggers)
+        table_layout.addWidget(self.table)
+        self.total = QLabel()
+        self.total.setObjectName("quote_total")
+        table_layout.addWidget(self.total)
+        self.addWidget(bottom)
+        self.setSizes([320, 220])
+
+    def show_outcome(self, outcome, units: DisplayUnits) -> None:
+        times, temps, pots, labels = timeline(outcome.stages)
+        ax, pax = self.axes, self.potential_axes
+        ax.clear()
+        pax.clear()
+        hours = times / 3600.0
+        ax.plot(hours, [units.temperature(t) for t in temps], color=INK, lw=2.0, label="temperature")
+        pax.plot(hours, pots, color=THRESHOLD, lw=1.6, ls="--", label="carbon potential")
+        for i, (start, end, label) in enumerate(labels):
+            if i % 2 == 0:
+                ax.axvspan(start / 3600.0, end / 3600.0, color="#eef2f6", lw=0, zorder=0)
+            if end - start > 0.04 * max(times[-1], 1.0):
+                ax.text((start + end) / 7200.0, 0.02, label.split(" ")[0], transform=ax.get_xaxis_transform(),
+                        ha="center", va="bottom", fontsize=7, color="#555", rotation=90)
+        ax.set_xlabel("time in the cycle [h]")
+        ax.set_ylabel(f"temperature [{units.temperature_unit}]")
+        pax.yaxis.set_label_position("right")
+        pax.yaxis.tick_right()
+        pax.set_ylabel("carbon potential [%C]", color=THRESHOLD)
+        pax.set_ylim(0, max(1.6, np.nanmax(pots) * 1.15) if np.isfinite(pots).any() else 1.6)
+        ax.set_xlim(0, max(hours[-1], 0.1))
+        ax.grid(True, color="#dddddd", lw=0.6)
+        ax.set_title("The cycle: temperature (solid) and carbon potential (dashed)", fontsize=10)
+        self.canvas.draw_idle()
+        quote = outcome.quote
+        self.table.setRowCount(len(quote.lines))
+        for r, (label, h) in enumerate(quote.lines):
+            for c, text in enumerate((label, f"{h:.2f}", f"{100 * h / quote.total_h:.0f} %" if quote.total_h else "")):
+                item = QTableWidgetItem(text)
+                if c:
+                    item.setTextAlignment(Qt.AlignRight | Qt.AlignVCenter)
+                self.table.setItem(r, c, item)
+        money = f" {quote.currency}" if quote.currency else ""
+        self.total.setText(f"<b>Whole cycle {quote.total_h:.2f} h</b> · {quote.cost_per_load:.2f}{money} per load · "
+                           f"{quote.cost_per_part:.3f}{money} per part")
+
+
 class ProfilePlots(QTabWidget):
     """Two pages: carbon against depth and estimated hardness against depth."""
 
@@ -78,8 +150,10 @@ class ProfilePlots(QTabWidget):
         super().__init__(parent)
         self.carbon_page = _PlotPage("carbon [wt %]")
         self.hardness_page = _PlotPage("hardness [HV]")
+        self.cycle_page = _CyclePage()
         self.addTab(self.carbon_page, "Carbon profile")
         self.addTab(self.hardness_page, "Hardness profile")
+        self.addTab(self.cycle_page, "Cycle and quote")
         ax = self.carbon_page.axes
         self.c_end, = ax.plot([], [], color=EARLIER, lw=1.2, ls="--", label="at the end of the soak")
         self.c_line, = ax.plot([], [], color=INK, lw=2.2, label="carbon")
@@ -95,11 +169,11 @@ class ProfilePlots(QTabWidget):
         self.outcome = None
         self.units = DisplayUnits()
         self.time = None
-        self._stale = {0: False, 1: False}
+        self._stale = {0: False, 1: False, 2: False}
         self.currentChanged.connect(self._page_shown)
 
     def current_figure(self) -> Figure:
-        return (self.carbon_page if self.currentIndex() == 0 else self.hardness_page).figure
+        return (self.carbon_page, self.hardness_page, self.cycle_page)[self.currentIndex()].figure
 
     def show_outcome(self, outcome, units: DisplayUnits, time: float | None = None) -> None:
         self.outcome, self.units, self.time = outcome, units, time
@@ -113,14 +187,14 @@ class ProfilePlots(QTabWidget):
         """Draw the page on show now; the other when it is shown (drawing costs more than solving)."""
         if self.outcome is None:
             return
-        self._stale = {0: True, 1: True}
+        self._stale = {0: True, 1: True, 2: True}
         self._page_shown(self.currentIndex())
 
     def draw_all(self) -> None:
-        """Draw both pages now (before exporting or printing)."""
-        for index in (0, 1):
+        """Draw every page now (before exporting or printing)."""
+        for index in (0, 1, 2):
             self._draw_page(index)
-        for page in (self.carbon_page, self.hardness_page):
+        for page in (self.carbon_page, self.hardness_page, self.cycle_page):
             page.canvas.draw()
 
     def _page_shown(self, index: int) -> None:
@@ -128,6 +202,10 @@ class ProfilePlots(QTabWidget):
             self._draw_page(index)
 
     def _draw_page(self, index: int) -> None:
+        if index == 2:
+            self.cycle_page.show_outcome(self.outcome, self.units)
+            self._stale[index] = False
+            return
         (self._draw_carbon if index == 0 else self._draw_hardness)()
         page = self.carbon_page if index == 0 else self.hardness_page
         page.legend()

@@ -4,20 +4,23 @@ from __future__ import annotations
 
 import csv
 import io
+import json
 import os
 import tempfile
 from pathlib import Path
 
 from PySide6.QtCore import QSettings, Qt, Signal
 from PySide6.QtGui import QAction, QActionGroup, QKeySequence
-from PySide6.QtWidgets import (QFileDialog, QHBoxLayout, QLabel, QMainWindow, QMessageBox, QScrollArea, QSlider,
-                               QSplitter, QVBoxLayout, QWidget)
+from PySide6.QtWidgets import (QCheckBox, QDialog, QDialogButtonBox, QDoubleSpinBox, QFileDialog, QFormLayout,
+                               QHBoxLayout, QLabel, QLineEdit, QMainWindow, QMessageBox, QScrollArea, QSlider, QSplitter,
+                               QVBoxLayout, QWidget)
 
 from .. import __version__, safety
 from ..diffusivity import METHODS
 from ..errors import InputError
 from ..hardness import HARDNESS_RELATIONS, ASTM_E140_hv_to_hrc
 from ..plan import Plan, PlanFileError
+from ..quote import ShopDefaults
 from ..units import DisplayUnits, format_duration
 from .cautions import CautionPanel
 from .form import PlanForm
@@ -30,7 +33,9 @@ FIELD_LABELS = {
     "temperature": "Temperature", "carbon_potential": "Carbon potential", "case_min": "Minimum case depth",
     "case_max": "Maximum case depth", "aim": "Aim", "threshold_value": "Threshold", "threshold_kind": "Threshold",
     "diffusivity": "Diffusivity model", "d_multiplier": "D multiplier", "d0": "D0", "q": "Q", "beta": "β",
-    "hardness_relation": "Carbon → hardness",
+    "hardness_relation": "Carbon → hardness", "process": "Cycle", "boost_potential": "Boost potential",
+    "diffuse_potential": "Diffuse potential", "surface_min": "Surface carbon", "surface_max": "Surface carbon",
+    "stages": "Stages", "shop": "Shop times and rates",
 }
 PLAN_FILTER = "casedepth plans (*.cdplan.json *.json);;All files (*)"
 MAX_RECENT = 8
@@ -46,6 +51,47 @@ def _atomic_write(path: Path, text: str) -> None:
         if os.path.exists(temporary):
             os.unlink(temporary)
         raise
+
+
+class ShopDialog(QDialog):
+    """The shop's standard times and rates: a form of :class:`casedepth.quote.ShopDefaults` fields."""
+
+    LABELS = {
+        "load_h": ("Load and close", " h"), "heat_up_h": ("Heat-up to temperature", " h"),
+        "drop_temperature_c": ("Hardening temperature", " °C"), "drop_h": ("Drop to hardening temperature", " h"),
+        "equalize_h": ("Equalize", " h"), "hardening_potential": ("Potential at hardening temperature", " %C"),
+        "quench_h": ("Quench", " h"), "wash_h": ("Wash", " h"), "temper_h": ("Temper", " h"),
+        "temper_temperature_c": ("Temper temperature", " °C"), "furnace_rate_per_h": ("Furnace rate per hour", ""),
+        "parts_per_load": ("Parts per load", ""),
+    }
+
+    def __init__(self, shop: ShopDefaults, parent=None):
+        super().__init__(parent)
+        self.setWindowTitle("Shop times and rates")
+        form = QFormLayout(self)
+        self.spins = {}
+        for name, (label, suffix) in self.LABELS.items():
+            spin = QDoubleSpinBox()
+            spin.setDecimals(0 if name == "parts_per_load" else 2)
+            spin.setRange(1 if name == "parts_per_load" else 0, 100000)
+            spin.setSuffix(suffix)
+            spin.setValue(float(getattr(shop, name)))
+            form.addRow(label, spin)
+            self.spins[name] = spin
+        self.currency = QLineEdit(shop.currency)
+        self.currency.setPlaceholderText("e.g. EUR, USD (optional)")
+        form.addRow("Currency", self.currency)
+        self.keep = QCheckBox("Use these for new plans too")
+        form.addRow(self.keep)
+        buttons = QDialogButtonBox(QDialogButtonBox.Ok | QDialogButtonBox.Cancel)
+        buttons.accepted.connect(self.accept)
+        buttons.rejected.connect(self.reject)
+        form.addRow(buttons)
+
+    def values(self) -> ShopDefaults:
+        data = {name: spin.value() for name, spin in self.spins.items()}
+        data["parts_per_load"] = int(round(data["parts_per_load"]))
+        return ShopDefaults(**data, currency=self.currency.text().strip())
 
 
 class MainWindow(QMainWindow):
@@ -90,11 +136,11 @@ class MainWindow(QMainWindow):
         self.results = ResultPanel()
         self.plots = ProfilePlots()
         slider_row = QHBoxLayout()
-        slider_row.addWidget(QLabel("Time in the soak"))
+        slider_row.addWidget(QLabel("Time"))
         self.time_slider = QSlider(Qt.Horizontal)
         self.time_slider.setRange(0, 1000)
         self.time_slider.setValue(1000)
-        self.time_slider.setToolTip("Drag to watch the profile grow during the soak")
+        self.time_slider.setToolTip("Drag to watch the profile grow during the soak or the cycle")
         self.time_slider.valueChanged.connect(self._time_moved)
         slider_row.addWidget(self.time_slider, 1)
         self.time_label = QLabel("end of soak")
@@ -147,6 +193,9 @@ class MainWindow(QMainWindow):
         edit_menu = bar.addMenu("&Edit")
         self.undo_action = self._action(edit_menu, "&Undo", self.undo, QKeySequence.Undo)
         self.redo_action = self._action(edit_menu, "&Redo", self.redo, QKeySequence.Redo)
+        edit_menu.addSeparator()
+        self._action(edit_menu, "&Shop times and rates…", self.edit_shop, "Ctrl+J",
+                     "Load, heat-up, drop, quench, wash and temper times, furnace rate and parts per load")
         view_menu = bar.addMenu("&View")
         group = QActionGroup(self)
         self.unit_actions = {}
@@ -201,6 +250,7 @@ class MainWindow(QMainWindow):
     # -- results -------------------------------------------------------------------------------------------
     def _show_outcome(self, outcome) -> None:
         self.outcome = outcome
+        self.form.planned_stages = list(outcome.stages)
         self.form.clear_marks(keep={"composition", "d0", "beta"} if self.form.has_unread_entry() else set())
         self.results.show_outcome(outcome, self.units)
         self.cautions.show_cautions(outcome.cautions)
@@ -263,8 +313,27 @@ class MainWindow(QMainWindow):
     def new_plan(self) -> None:
         if self._may_discard():
             self.path = None
-            self._attach(Plan())
+            plan = Plan()
+            mine = self.settings.value("shop_defaults")
+            if mine:
+                try:
+                    plan = Plan(shop=ShopDefaults.from_dict(json.loads(str(mine))).to_dict())
+                except (ValueError, InputError):
+                    pass
+            self._attach(plan)
             self.calculate()
+
+    def edit_shop(self) -> None:
+        """Edit the shop's times and rates for this plan, and optionally keep them for new plans."""
+        dialog = ShopDialog(self.plan.shop_defaults(), self)
+        if dialog.exec() == QDialog.Accepted:
+            self.apply_shop(dialog.values(), dialog.keep.isChecked())
+
+    def apply_shop(self, shop: ShopDefaults, keep: bool = False) -> None:
+        """Use ``shop`` for this plan (one undoable edit); with ``keep``, also for new plans."""
+        self.plan.set("shop", shop.to_dict())
+        if keep:
+            self.settings.setValue("shop_defaults", json.dumps(shop.to_dict()))
 
     def open_dialog(self) -> None:
         if not self._may_discard():
