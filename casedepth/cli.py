@@ -14,14 +14,14 @@ import sys
 from . import __version__, api
 from .carburizing import CarburizingSetup, carburize, soak_time_for_case_depth
 from .plan import Plan, evaluate, stage_to_dict
-from .recipe import plan_boost_diffuse
+from .recipe import plan_boost_diffuse, temperature_tradeoff
 from .diffusivity import METHODS as DIFFUSIVITY_METHODS
 from .errors import InputError, SolverError
 from .geometry import SHAPES
 from .hardness import HARDNESS_RELATIONS
 from .steels import library
 from .surface import DEFAULT_BETA
-from .units import DisplayUnits, format_duration, parse_length, parse_time, parse_velocity
+from .units import DisplayUnits, format_duration, parse_length, parse_temperature, parse_time, parse_velocity
 
 
 class _UsageError(Exception):
@@ -62,6 +62,9 @@ def _build_parser() -> argparse.ArgumentParser:
     c.add_argument("--diameter", help="cylinder, sphere or bore diameter: 40mm")
     c.add_argument("--thickness", help="plate thickness, carburized from both faces: 10mm (default: thick section)")
     c.add_argument("--units", default="metric", choices=["metric", "imperial"], help="units of the printed result")
+    c.add_argument("--compare-temperatures", metavar="900C,925C,950C",
+                   help="with --target: also the soak time at each of these temperatures (furnace time against "
+                        "grain growth and distortion)")
     c.add_argument("--surface-target", help="plan boost and diffuse for a final surface carbon: 0.80 (±0.05) or 0.75-0.85")
     c.add_argument("--boost-potential", help="with --surface-target: carbon potential of the boost, wt %% C")
     c.add_argument("--diffuse-potential", help="with --surface-target: carbon potential of the diffuse, wt %% C")
@@ -85,7 +88,7 @@ FLAGS = {
     "D0": "--d0", "Q": "--q", "diffusivity multiplier": "--d-multiplier", "beta": "--beta",
     "hardness relation": "--hardness-relation", "geometry": "--geometry", "diameter": "--diameter",
     "thickness": "--thickness", "surface target": "--surface-target", "boost potential": "--boost-potential",
-    "diffuse potential": "--diffuse-potential", "plan file": "PLAN",
+    "diffuse potential": "--diffuse-potential", "plan file": "PLAN", "compare temperatures": "--compare-temperatures",
 }
 
 
@@ -197,18 +200,38 @@ def _carburize(args) -> int:
         if args.carbon_at:
             raise InputError("carbon at", "only used with --time")
         result = soak_time_for_case_depth(setup, parse_length(args.target, "target"))
+        tradeoff = _tradeoff(args, setup, result.target_depth)
     else:
+        if args.compare_temperatures:
+            raise InputError("compare temperatures", "only used with --target")
         probe = parse_length(args.carbon_at, "carbon at") if args.carbon_at else None
         result = carburize(setup, parse_time(args.time, "time"), probe)
     if args.json:
         out = result.to_dict()
+        if args.target is not None and tradeoff:
+            out["temperature_tradeoff"] = [{"temperature_c": T - 273.15, "soak_time_h": t / 3600.0} for T, t in tradeoff]
         if args.time is not None:
             out["diffusion_length_note"] = ("sqrt(D t) with D at the threshold carbon: a length scale, "
                                             "not a depth at which all carbon stops")
         print(json.dumps(out))
     else:
-        print(_format(result, DisplayUnits(args.units)))
+        units = DisplayUnits(args.units)
+        print(_format(result, units))
+        if args.target is not None and tradeoff:
+            print("Same case at other temperatures:")
+            for T, t in tradeoff:
+                print(f"  {units.format_temperature(T):>8}  {format_duration(t):>12}  ({t / 3600:.2f} h)")
     return 0
+
+
+def _tradeoff(args, setup: CarburizingSetup, target: float) -> list[tuple[float, float]]:
+    if not args.compare_temperatures:
+        return []
+    temperatures = [parse_temperature(t, "compare temperatures") for t in args.compare_temperatures.split(",") if t.strip()]
+    try:
+        return temperature_tradeoff(setup, target, temperatures)
+    except InputError as error:
+        raise InputError("compare temperatures", error.message) from None
 
 
 def _run(args) -> int:

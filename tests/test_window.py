@@ -256,3 +256,11 @@ def test_shop_times_and_rates(window, qtbot):
     window.plan.modified = False
     window.new_plan()
     assert window.plan.shop["furnace_rate_per_h"] == 200.0  # kept for new plans
+
+
+def test_temperature_tradeoff_tab(window):
+    window.plots.setCurrentIndex(3)
+    pairs = window.plots.tradeoff_page.pairs
+    assert len(pairs) >= 5
+    assert all(a[1] > b[1] for a, b in zip(pairs, pairs[1:]))  # hotter is faster
+    assert window.plots.tradeoff_page.table.rowCount() == len(pairs)

@@ -14,7 +14,9 @@ from PySide6.QtWidgets import (QHeaderView, QLabel, QSplitter, QTableWidget, QTa
                                QWidget)
 
 from ..hardness import HARDNESS_RELATIONS, ASTM_E140_hrc_to_hv, ASTM_E140_hv_to_hrc
-from ..recipe import timeline
+from ..errors import InputError
+from ..recipe import temperature_tradeoff, timeline
+from ..units import ZERO_CELSIUS
 from ..units import DisplayUnits, format_duration
 
 INK = "#1d3557"
@@ -143,6 +145,60 @@ class _CyclePage(QSplitter):
                            f"{quote.cost_per_part:.3f}{money} per part")
 
 
+class _TradeoffPage(QSplitter):
+    """Soak time for the same case at other temperatures: furnace time against grain growth and distortion."""
+
+    TEMPERATURES_C = (880.0, 900.0, 925.0, 950.0, 980.0, 1000.0)
+
+    def __init__(self, parent=None):
+        super().__init__(Qt.Vertical, parent)
+        self.figure = Figure(figsize=(6, 3))
+        self.figure.subplots_adjust(left=0.09, right=0.97, top=0.9, bottom=0.16)
+        self.canvas = FigureCanvasQTAgg(self.figure)
+        self.addWidget(self.canvas)
+        self.axes = self.figure.add_subplot()
+        self.table = QTableWidget(0, 2)
+        self.table.setObjectName("tradeoff_table")
+        self.table.setHorizontalHeaderLabels(["Temperature", "Soak for the aim depth"])
+        self.table.horizontalHeader().setSectionResizeMode(QHeaderView.Stretch)
+        self.table.verticalHeader().setVisible(False)
+        self.table.setEditTriggers(QTableWidget.NoEditTriggers)
+        self.addWidget(self.table)
+        self.note = QLabel()
+        self.note.setWordWrap(True)
+        self.addWidget(self.note)
+        self.pairs: list[tuple[float, float]] = []
+
+    def show_outcome(self, outcome, units: DisplayUnits) -> None:
+        setup = outcome.setup
+        temperatures = sorted({*(t + ZERO_CELSIUS for t in self.TEMPERATURES_C), setup.temperature})
+        self.pairs = []
+        for T in temperatures:
+            try:
+                self.pairs += temperature_tradeoff(setup, outcome.targets[1], [T])
+            except InputError:
+                continue  # below this steel's Ac3, or out of reach: left out of the comparison
+        ax = self.axes
+        ax.clear()
+        if self.pairs:
+            ax.plot([units.temperature(T) for T, _ in self.pairs], [t / 3600 for _, t in self.pairs], "o-", color=INK)
+            ax.plot([units.temperature(setup.temperature)], [dict(self.pairs)[setup.temperature] / 3600], "o",
+                    color=THRESHOLD, ms=9, label="this plan's temperature")
+            ax.legend(fontsize=8)
+        ax.set_xlabel(f"temperature [{units.temperature_unit}]")
+        ax.set_ylabel("soak [h]")
+        ax.grid(True, color="#dddddd", lw=0.6)
+        ax.set_title(f"One soak at {setup.carbon_potential:.2f} %C to {units.format_length(outcome.targets[1])} "
+                     f"at {setup.threshold}", fontsize=10)
+        self.canvas.draw_idle()
+        self.table.setRowCount(len(self.pairs))
+        for r, (T, t) in enumerate(self.pairs):
+            self.table.setItem(r, 0, QTableWidgetItem(units.format_temperature(T)))
+            self.table.setItem(r, 1, QTableWidgetItem(f"{format_duration(t)}  ({t / 3600:.2f} h)"))
+        self.note.setText("Hotter is faster but coarsens grain (above about 980 °C for most carburizing grades) and "
+                          "distorts more; the furnace, fixtures and the steel's grain-size control set the limit.")
+
+
 class ProfilePlots(QTabWidget):
     """Two pages: carbon against depth and estimated hardness against depth."""
 
@@ -154,6 +210,8 @@ class ProfilePlots(QTabWidget):
         self.addTab(self.carbon_page, "Carbon profile")
         self.addTab(self.hardness_page, "Hardness profile")
         self.addTab(self.cycle_page, "Cycle and quote")
+        self.tradeoff_page = _TradeoffPage()
+        self.addTab(self.tradeoff_page, "Temperatures")
         ax = self.carbon_page.axes
         self.c_end, = ax.plot([], [], color=EARLIER, lw=1.2, ls="--", label="at the end of the soak")
         self.c_line, = ax.plot([], [], color=INK, lw=2.2, label="carbon")
@@ -169,11 +227,11 @@ class ProfilePlots(QTabWidget):
         self.outcome = None
         self.units = DisplayUnits()
         self.time = None
-        self._stale = {0: False, 1: False, 2: False}
+        self._stale = {0: False, 1: False, 2: False, 3: False}
         self.currentChanged.connect(self._page_shown)
 
     def current_figure(self) -> Figure:
-        return (self.carbon_page, self.hardness_page, self.cycle_page)[self.currentIndex()].figure
+        return (self.carbon_page, self.hardness_page, self.cycle_page, self.tradeoff_page)[self.currentIndex()].figure
 
     def show_outcome(self, outcome, units: DisplayUnits, time: float | None = None) -> None:
         self.outcome, self.units, self.time = outcome, units, time
@@ -187,14 +245,14 @@ class ProfilePlots(QTabWidget):
         """Draw the page on show now; the other when it is shown (drawing costs more than solving)."""
         if self.outcome is None:
             return
-        self._stale = {0: True, 1: True, 2: True}
+        self._stale = {0: True, 1: True, 2: True, 3: True}
         self._page_shown(self.currentIndex())
 
     def draw_all(self) -> None:
         """Draw every page now (before exporting or printing)."""
-        for index in (0, 1, 2):
+        for index in (0, 1, 2, 3):
             self._draw_page(index)
-        for page in (self.carbon_page, self.hardness_page, self.cycle_page):
+        for page in (self.carbon_page, self.hardness_page, self.cycle_page, self.tradeoff_page):
             page.canvas.draw()
 
     def _page_shown(self, index: int) -> None:
@@ -202,8 +260,8 @@ class ProfilePlots(QTabWidget):
             self._draw_page(index)
 
     def _draw_page(self, index: int) -> None:
-        if index == 2:
-            self.cycle_page.show_outcome(self.outcome, self.units)
+        if index in (2, 3):  # drawn only when looked at: the comparison solves again
+            (self.cycle_page if index == 2 else self.tradeoff_page).show_outcome(self.outcome, self.units)
             self._stale[index] = False
             return
         (self._draw_carbon if index == 0 else self._draw_hardness)()
