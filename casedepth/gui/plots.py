@@ -166,7 +166,9 @@ class _TradeoffPage(QSplitter):
         self.addWidget(self.table)
         self.note = QLabel()
         self.note.setWordWrap(True)
+        self.note.setMinimumHeight(44)
         self.addWidget(self.note)
+        self.setSizes([300, 200, 44])
         self.pairs: list[tuple[float, float]] = []
 
     def show_outcome(self, outcome, units: DisplayUnits) -> None:
