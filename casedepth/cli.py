@@ -14,7 +14,10 @@ import sys
 from . import __version__, api
 from .carburizing import CarburizingSetup, carburize, soak_time_for_case_depth
 from .plan import Plan, evaluate, stage_to_dict
+from .nitriding import (PHASE_NAMES, NitridingSetup, dissociation_for_potential, nitride, nitriding_potential_from_dissociation,
+                        nitriding_time, potential_for_compound_layer)
 from .recipe import plan_boost_diffuse, temperature_tradeoff
+from .steels import steel_from_text
 from .diffusivity import METHODS as DIFFUSIVITY_METHODS
 from .errors import InputError, SolverError
 from .geometry import SHAPES
@@ -70,6 +73,23 @@ def _build_parser() -> argparse.ArgumentParser:
     c.add_argument("--diffuse-potential", help="with --surface-target: carbon potential of the diffuse, wt %% C")
     c.add_argument("--json", action="store_true", help="print one JSON object instead of text")
 
+    n = commands.add_parser("nitride", help="gas nitriding: time for a nitrided hardness depth, compound layer",
+                            description="Gas nitriding: the soak for a nitrided hardness depth (core + 50 HV), the "
+                                        "compound layer it gives, the surface phase; or the K_N for a compound-layer window.")
+    n.add_argument("--steel", required=True, help='nitriding grade (4140, 4340, 31CrMoV9, 41CrAlMo7-10, H13) or a composition')
+    n.add_argument("--temperature", required=True, help="nitriding temperature: 520C (480–590 °C)")
+    potential = n.add_mutually_exclusive_group()
+    potential.add_argument("--kn", help="nitriding potential K_N, atm^-1/2 (e.g. 3)")
+    potential.add_argument("--dissociation", help="ammonia dissociation of the exhaust, %% (e.g. 30)")
+    goal = n.add_mutually_exclusive_group(required=True)
+    goal.add_argument("--target", help="nitrided hardness depth (core + 50 HV): 0.4mm")
+    goal.add_argument("--time", help="soak length instead of a target: 20h")
+    n.add_argument("--compound", help="compound-layer window, e.g. 5-10um: prints the K_N that keeps the layer in it")
+    n.add_argument("--core-hardness", help="core hardness after quench and temper, HV (default: the grade's typical value)")
+    n.add_argument("--surface-hardness", help="nitrided surface hardness, HV (default: the grade's typical value)")
+    n.add_argument("--units", default="metric", choices=["metric", "imperial"], help="units of the printed result")
+    n.add_argument("--json", action="store_true", help="print one JSON object instead of text")
+
     r = commands.add_parser("run", help="run a saved plan and print its results and the cycle quote",
                             description="Run a saved plan (*.cdplan.json) and print its results and the cycle quote.")
     r.add_argument("plan", help="the plan file")
@@ -89,6 +109,8 @@ FLAGS = {
     "hardness relation": "--hardness-relation", "geometry": "--geometry", "diameter": "--diameter",
     "thickness": "--thickness", "surface target": "--surface-target", "boost potential": "--boost-potential",
     "diffuse potential": "--diffuse-potential", "plan file": "PLAN", "compare temperatures": "--compare-temperatures",
+    "nitriding potential": "--kn", "dissociation": "--dissociation", "compound layer": "--compound",
+    "core hardness": "--core-hardness", "nitrided surface hardness": "--surface-hardness",
 }
 
 
@@ -276,9 +298,62 @@ def _run(args) -> int:
     return 0
 
 
+def _nitride(args) -> int:
+    if args.kn is not None:
+        kn = _number(args.kn, "nitriding potential")
+    elif args.dissociation is not None:
+        kn = nitriding_potential_from_dissociation(_number(args.dissociation.rstrip("%"), "dissociation") / 100.0)
+    else:
+        raise InputError("nitriding potential", "give --kn (atm^-1/2) or --dissociation (%)")
+    setup = NitridingSetup(
+        steel_from_text(args.steel, "steel", process="nitriding"), parse_temperature(args.temperature, "temperature"), kn,
+        None if args.core_hardness is None else _number(args.core_hardness, "core hardness"),
+        None if args.surface_hardness is None else _number(args.surface_hardness, "nitrided surface hardness"))
+    if args.target is not None:
+        result = nitriding_time(setup, parse_length(args.target, "target"))
+    else:
+        result = nitride(setup, parse_time(args.time, "time"))
+    out = result.to_dict()
+    window_kn = None
+    if args.compound:
+        window = _window_um(args.compound)
+        window_kn = potential_for_compound_layer(setup, result.time, window)
+        out["compound_window_um"] = [w * 1e6 for w in window]
+        out["kn_for_compound_window"] = window_kn
+        out["dissociation_for_compound_window_pct"] = 100.0 * dissociation_for_potential(window_kn)
+        if not window[0] <= result.compound_layer <= window[1]:
+            out["warnings"].append(f"The compound layer ({result.compound_layer * 1e6:.1f} µm) is outside "
+                                   f"{window[0] * 1e6:g}–{window[1] * 1e6:g} µm at K_N {kn:g}; K_N {window_kn:.2f} "
+                                   f"would put it in the middle.")
+    if args.json:
+        print(json.dumps(out))
+        return 0
+    units = DisplayUnits(args.units)
+    print(f"Nitriding time: {format_duration(result.time)} ({result.time / 3600:.1f} h) at "
+          f"{units.format_temperature(setup.temperature)}, K_N {kn:.2f} atm^-1/2 "
+          f"({out['dissociation_pct']:.0f} % dissociation)")
+    print(f"  nitrided hardness depth {units.format_length(result.nitrided_depth)} (core {setup.core:.0f} HV + 50 HV)")
+    print(f"  compound layer          {result.compound_layer * 1e6:.1f} µm; surface phase {PHASE_NAMES[setup.phase]}")
+    if window_kn is not None:
+        print(f"  for a {out['compound_window_um'][0]:g}–{out['compound_window_um'][1]:g} µm layer: K_N "
+              f"{window_kn:.2f} ({out['dissociation_for_compound_window_pct']:.0f} % dissociation)")
+    for warning in out["warnings"]:
+        print(f"Warning: {warning}")
+    print("Caution: ammonia is toxic (exposure limits of tens of ppm) and flammable; purge before opening; "
+          "local codes and licensed practice govern.")
+    return 0
+
+
+def _window_um(text: str) -> tuple[float, float]:
+    parts = text.lower().replace("µm", "").replace("um", "").replace("–", "-").split("-")
+    if len(parts) != 2:
+        raise InputError("compound layer", f"cannot read {text!r}; write a window such as 5-10um")
+    return (_number(parts[0], "compound layer") * 1e-6, _number(parts[1], "compound layer") * 1e-6)
+
+
 def _steels(_args) -> int:
-    for steel in library():
-        print(f"{steel.name:<13} {steel.standard:<32} {steel.composition_text()}")
+    for steel in library("all"):
+        print(f"{steel.name:<13} {steel.process:<12} {steel.standard:<34} {steel.composition_text()}")
     return 0
 
 
@@ -298,6 +373,8 @@ def main(argv: list[str] | None = None) -> int:
             return _steels(args)
         if args.command == "run":
             return _run(args)
+        if args.command == "nitride":
+            return _nitride(args)
         parser.print_help()
         return 0
     except SystemExit as stop:  # --help and --version

@@ -31,6 +31,9 @@ class Steel:
     standard: str = "custom composition"
     note: str = ""
     also: tuple[str, ...] = field(default=(), compare=False)
+    process: str = "carburizing"  # the treatment the grade is listed for: carburizing or nitriding
+    core_hardness_hv: float | None = None  # typical after quench and temper (nitriding grades), [HV]
+    nitrided_surface_hv: float | None = None  # typical after gas nitriding (nitriding grades), [HV]
 
     @property
     def carbon(self) -> float:
@@ -52,27 +55,32 @@ def _data_file() -> Path:
 
 
 @lru_cache(maxsize=1)
-def library() -> tuple[Steel, ...]:
-    """All grades of the steel library, in file order."""
+def _all_grades() -> tuple[Steel, ...]:
     data = json.loads(_data_file().read_text(encoding="utf-8"))
     return tuple(
         Steel(entry["name"], validate_composition(entry["composition"], f"steel library entry {entry['name']}"),
-              entry["standard"], entry.get("note", ""), tuple(entry.get("also", ())))
+              entry["standard"], entry.get("note", ""), tuple(entry.get("also", ())),
+              entry.get("process", "carburizing"), entry.get("core_hardness_hv"), entry.get("nitrided_surface_hv"))
         for entry in data["steels"]
     )
+
+
+def library(process: str = "carburizing") -> tuple[Steel, ...]:
+    """The grades listed for ``process`` (``carburizing`` or ``nitriding``; ``all`` for every one), in file order."""
+    return tuple(s for s in _all_grades() if process == "all" or s.process == process)
 
 
 def _key(text: str) -> str:
     return re.sub(r"[\s\-_]", "", text).lower()
 
 
-def find(name: str) -> Steel:
+def find(name: str, process: str = "all") -> Steel:
     """A library grade by its name or any designation (``8620``, ``SAE 8620``, ``1.6523``)."""
     wanted = _key(name)
-    for steel in library():
+    for steel in library(process):
         if wanted in {_key(steel.name), *(_key(a) for a in steel.also)}:
             return steel
-    names = ", ".join(s.name for s in library())
+    names = ", ".join(s.name for s in library(process))
     raise InputError("steel", f"no grade {name!r} in the library; choose one of {names}, or give a composition like \"C=0.20 Mn=0.80 Cr=0.50\"")
 
 
@@ -106,8 +114,8 @@ def parse_composition(text: str, field_name: str = "steel") -> dict[str, float]:
     return validate_composition({el: val for el, val in pairs}, field_name)
 
 
-def steel_from_text(text: str, field_name: str = "steel") -> Steel:
+def steel_from_text(text: str, field_name: str = "steel", process: str = "all") -> Steel:
     """A library grade by name, or a custom steel when the text holds ``Element=value`` pairs."""
     if "=" in text:
-        return Steel("custom", parse_composition(text, field_name))
-    return find(text)
+        return Steel("custom", parse_composition(text, field_name), process=process if process != "all" else "carburizing")
+    return find(text, process)

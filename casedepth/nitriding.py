@@ -1,0 +1,396 @@
+"""Gas nitriding: nitriding potential, surface phase, compound layer and diffusion zone.
+
+Models and how sure we are of them:
+
+* nitriding potential K_N = p(NH3)/p(H2)^1.5 and its conversion from ammonia dissociation — exact
+  definitions (Lehrer 1930; Mittemeijer & Somers 2015);
+* which phase the surface forms (α, γ′, ε) from the Lehrer-diagram boundaries — the boundary values
+  are fits to the diagram as usually redrawn, from memory, good to perhaps ±30 % in K_N, and the
+  γ′/ε boundary is a stationary state rather than an equilibrium;
+* nitrogen diffusion in ferrite, Bohnenkamp (1967); saturation of ferrite against γ′ from the Fe–N
+  diagram (Wriedt, Gokcen & Nafziger 1987), fitted, from memory;
+* the diffusion zone by the internal-nitriding model of Wagner (1959) as applied to nitriding by
+  Meijering (1971): nitride formers (Cr, Al, V, Ti, Mo) do not move and take up all nitrogen that
+  reaches them, so a sharp front advances as ξ = 2γ√(D t) with √π γ exp(γ²) erf(γ) = c_s / c_M;
+* compound-layer growth as a parabolic law whose rate rises with ln(K_N / K_N(α/γ′)) — the
+  logarithm is the nitrogen chemical-potential difference the layer carries (Mittemeijer & Somers
+  2015, ch. on layer growth); the rate constant is a common-practice calibration (about 10 µm after
+  20 h at 520 °C and K_N = 3), not a published value.
+
+Everything is SI inside; nitrogen and alloy contents in wt %.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+
+import numpy as np
+from scipy.optimize import brentq
+from scipy.special import erf
+
+from .errors import InputError, NotReachableError
+from .steels import Steel
+from .units import ZERO_CELSIUS
+
+R = 8.314462618  # J/(mol K)
+M_N = 14.007
+# nitride-forming elements: molar mass [g/mol] and nitrogen atoms per metal atom in the nitride formed
+NITRIDE_FORMERS = {"Cr": (51.996, 1.0), "Al": (26.982, 1.0), "V": (50.942, 1.0), "Ti": (47.867, 1.0), "Mo": (95.95, 0.5)}
+TEMPERATURE_RANGE = (480.0 + ZERO_CELSIUS, 590.0 + ZERO_CELSIUS)  # K; gas nitriding of steels
+KN_RANGE = (0.05, 30.0)  # atm^-1/2
+# nitrogen in solid solution raises ferrite hardness by about this much per wt % N (with the fine γ′
+# that forms on cooling); from memory, order of magnitude only
+SOLUTION_HARDENING_HV_PER_PCT = 1000.0
+
+
+def nitriding_potential(p_NH3: float, p_H2: float) -> float:
+    r"""Nitriding potential of an NH3–H2 atmosphere.
+
+    .. math:: K_N = \frac{p_{NH_3}}{p_{H_2}^{3/2}}
+
+    Parameters
+    ----------
+    p_NH3, p_H2 : float
+        Partial pressures (or volume fractions at 1 atm total), [atm]
+
+    Returns
+    -------
+    K_N : float
+        Nitriding potential, [atm^-1/2]
+
+    Examples
+    --------
+    >>> round(nitriding_potential(0.5, 0.375), 3)
+    2.177
+
+    References
+    ----------
+    .. [1] Lehrer, E. "Über das Eisen-Wasserstoff-Ammoniak-Gleichgewicht." Z. Elektrochem. 36 (1930) 383–392.
+    .. [2] Mittemeijer, E. J., and M. A. J. Somers (eds.). Thermochemical Surface Engineering of Steels.
+       Woodhead, 2015, ch. 3.
+    """
+    if not (p_NH3 > 0 and p_H2 > 0):
+        raise InputError("nitriding atmosphere", "NH3 and H2 fractions must both be above zero")
+    return p_NH3 / p_H2**1.5
+
+
+def nitriding_potential_from_dissociation(dissociation: float) -> float:
+    """K_N [atm^-1/2] of the exhaust of a pure-ammonia feed with the given dissociation [-].
+
+    ``dissociation`` is the volume fraction of the exhaust that is N2 + H2 (the burette reading);
+    the rest is NH3, and the products are 1 part N2 to 3 parts H2 (NH3 → ½ N2 + 3/2 H2), 1 atm.
+
+    Examples
+    --------
+    >>> round(nitriding_potential_from_dissociation(0.30), 2)
+    6.56
+    """
+    if not (0.0 < dissociation < 1.0):
+        raise InputError("dissociation", f"{dissociation * 100:g} % is outside 0–100 %")
+    return nitriding_potential(1.0 - dissociation, 0.75 * dissociation)
+
+
+def dissociation_for_potential(K_N: float) -> float:
+    """The dissociation [-] of a pure-ammonia feed that gives nitriding potential ``K_N`` [atm^-1/2]."""
+    _check_kn(K_N)
+    return brentq(lambda d: nitriding_potential_from_dissociation(d) - K_N, 1e-6, 1 - 1e-9, xtol=1e-12)
+
+
+def Lehrer_boundaries(T: float) -> tuple[float, float]:
+    r"""Nitriding potentials [atm^-1/2] of the α/γ′ and γ′/ε boundaries of the Lehrer diagram at T [K].
+
+    .. math::
+        \log_{10} K_N^{\alpha/\gamma'} = -3.535 + 2380/T, \qquad
+        \log_{10} K_N^{\gamma'/\varepsilon} = -4.333 + 3657/T
+
+    Notes
+    -----
+    Straight lines in 1/T through values read from the Lehrer diagram as usually redrawn (about
+    0.35 and 2.5 atm^-1/2 at 500 °C, 0.18 and 0.9 at 580 °C) — from memory, good to perhaps ±30 %.
+    The γ′/ε boundary is a stationary state of the gas–solid exchange, not an equilibrium.
+    Valid 450–600 °C. Both boundaries fall as T rises.
+
+    Examples
+    --------
+    >>> [round(k, 2) for k in Lehrer_boundaries(773.15)]
+    [0.35, 2.49]
+
+    References
+    ----------
+    .. [1] Lehrer, E., Z. Elektrochem. 36 (1930) 383–392.
+    .. [2] Kooi, B. J., M. A. J. Somers, E. J. Mittemeijer. "An evaluation of the Fe-N phase
+       diagram considering long-range order of N atoms in γ′-Fe4N1-x and ε-Fe2N1-z."
+       Metall. Mater. Trans. A 27 (1996) 1063–1071.
+    """
+    return 10 ** (-3.535 + 2380.0 / T), 10 ** (-4.333 + 3657.0 / T)
+
+
+def surface_phase(T: float, K_N: float) -> str:
+    """The phase at the surface in (local) equilibrium: ``alpha`` (no compound layer), ``gamma'`` or ``epsilon``."""
+    alpha_gamma, gamma_epsilon = Lehrer_boundaries(T)
+    if K_N < alpha_gamma:
+        return "alpha"
+    return "gamma'" if K_N < gamma_epsilon else "epsilon"
+
+
+PHASE_NAMES = {"alpha": "α (ferrite, no compound layer)", "gamma'": "γ′ (Fe4N compound layer)",
+               "epsilon": "ε (Fe2-3N compound layer)"}
+
+
+def nitrogen_saturation_ferrite(T: float) -> float:
+    """Nitrogen in ferrite in equilibrium with γ′ [wt %] at T [K]: 0.1 wt % near 590 °C, less when cooler.
+
+    An Arrhenius fit, 12.3 exp(−34.2 kJ/mol / RT) wt %, to the α/(α+γ′) solvus of the Fe–N diagram
+    (Wriedt, Gokcen & Nafziger, Bull. Alloy Phase Diagrams 8 (1987) 355), from memory.
+
+    Examples
+    --------
+    >>> round(nitrogen_saturation_ferrite(865.15), 3)
+    0.106
+    """
+    return 12.3 * math.exp(-34200.0 / (R * T))
+
+
+def Bohnenkamp_1967_nitrogen_diffusivity(T: float) -> float:
+    r"""Diffusivity of nitrogen in ferrite, D = 1.5e-6 exp(−79.9 kJ/mol / RT) m²/s.
+
+    Examples
+    --------
+    >>> round(Bohnenkamp_1967_nitrogen_diffusivity(793.15) * 1e12, 2)
+    8.21
+
+    References
+    ----------
+    .. [1] Bohnenkamp, K. Arch. Eisenhüttenwes. 38 (1967) 229 (D0 = 1.5e-2 cm²/s, Q = 79.9 kJ/mol).
+    """
+    return 1.5e-6 * math.exp(-79900.0 / (R * T))
+
+
+def nitride_capacity(composition: dict[str, float]) -> float:
+    """Nitrogen [wt %] the nitride formers of a steel take up: CrN, AlN, VN, TiN, Mo2N (all of each)."""
+    return sum(float(composition.get(el, 0.0)) / molar * atoms * M_N for el, (molar, atoms) in NITRIDE_FORMERS.items())
+
+
+def Wagner_front_factor(surface_nitrogen: float, capacity: float) -> float:
+    r"""γ of the internal-nitriding front ξ = 2γ√(Dt): root of √π γ e^{γ²} erf(γ) = c_s / c_M.
+
+    For a small ratio γ² ≈ c_s / (2 c_M), the familiar ξ² = 2 D c_s t / c_M.
+
+    References
+    ----------
+    .. [1] Wagner, C. "Reaktionstypen bei der Oxydation von Legierungen." Z. Elektrochem. 63 (1959) 772–790.
+    .. [2] Meijering, J. L. "Internal oxidation in alloys." In Advances in Materials Research 5 (1971) 1–81.
+    """
+    ratio = surface_nitrogen / capacity
+
+    def f(g):
+        return math.sqrt(math.pi) * g * math.exp(g * g) * math.erf(g) - ratio
+
+    return brentq(f, 1e-9, 10.0, xtol=1e-14)
+
+
+# Compound-layer growth: s² = 2 B(T) ln(K_N / K_N^α/γ′) t; B(T) = B0 exp(−Q/RT), calibrated to about
+# 10 µm after 20 h at 520 °C and K_N = 3 and 15 µm after 4 h at 570 °C and K_N = 3 (common practice)
+_COMPOUND_Q = 180e3  # J/mol
+_COMPOUND_B0 = None
+
+
+def _compound_b(T: float) -> float:
+    global _COMPOUND_B0
+    if _COMPOUND_B0 is None:
+        T0 = 520.0 + ZERO_CELSIUS
+        _COMPOUND_B0 = (10e-6) ** 2 / (2 * math.log(3.0 / Lehrer_boundaries(T0)[0]) * 20 * 3600) / math.exp(-_COMPOUND_Q / (R * T0))
+    return _COMPOUND_B0 * math.exp(-_COMPOUND_Q / (R * T))
+
+
+def compound_layer_thickness(T: float, K_N: float, time: float) -> float:
+    """Compound ("white") layer thickness [m] after ``time`` [s] at T [K] and K_N [atm^-1/2].
+
+    Zero below the α/γ′ boundary. Parabolic in time; see the module notes for the status of the
+    rate constant (a common-practice calibration, not a published value).
+    """
+    alpha_gamma, _ = Lehrer_boundaries(T)
+    if K_N <= alpha_gamma:
+        return 0.0
+    return math.sqrt(2.0 * _compound_b(T) * math.log(K_N / alpha_gamma) * time)
+
+
+def _check_kn(K_N: float) -> None:
+    if not (math.isfinite(K_N) and KN_RANGE[0] <= K_N <= KN_RANGE[1]):
+        raise InputError("nitriding potential", f"K_N = {K_N:g} atm^-1/2 is outside {KN_RANGE[0]:g}–{KN_RANGE[1]:g}")
+
+
+@dataclass(frozen=True)
+class NitridingSetup:
+    """A gas-nitriding step: steel, temperature [K], nitriding potential [atm^-1/2], core and nitrided hardness [HV]."""
+
+    steel: Steel
+    temperature: float
+    nitriding_potential: float
+    core_hardness: float | None = None
+    surface_hardness: float | None = None
+    diffusivity_multiplier: float = 1.0
+
+    def __post_init__(self):
+        T = self.temperature
+        lo, hi = TEMPERATURE_RANGE
+        if not (math.isfinite(T) and lo <= T <= hi):
+            raise InputError("temperature", f"{T - ZERO_CELSIUS:.0f} °C is outside the gas-nitriding range "
+                             f"{lo - ZERO_CELSIUS:.0f}–{hi - ZERO_CELSIUS:.0f} °C (below the tempering temperature, "
+                             f"below the eutectoid of Fe–N at 590 °C)")
+        _check_kn(self.nitriding_potential)
+        for name, value in (("core hardness", self.core), ("nitrided surface hardness", self.surface)):
+            if not (math.isfinite(value) and 100.0 <= value <= 1400.0):
+                raise InputError(name, f"{value:g} HV is outside 100–1400 HV")
+        if self.surface <= self.core + 50.0:
+            raise InputError("nitrided surface hardness", f"{self.surface:g} HV must exceed the core ({self.core:g} HV) "
+                             f"by more than 50 HV for a nitrided hardness depth to exist")
+        if not (0.1 <= self.diffusivity_multiplier <= 10.0):
+            raise InputError("diffusivity multiplier", f"{self.diffusivity_multiplier:g} is outside 0.1–10")
+
+    @property
+    def core(self) -> float:
+        return float(self.core_hardness if self.core_hardness is not None else (self.steel.core_hardness_hv or 300.0))
+
+    @property
+    def surface(self) -> float:
+        if self.surface_hardness is not None:
+            return float(self.surface_hardness)
+        if self.steel.nitrided_surface_hv:
+            return float(self.steel.nitrided_surface_hv)
+        # no table value: the core plus what the nitride formers and dissolved nitrogen add (from memory)
+        return self.core + 250.0 * nitride_capacity(self.steel.composition) / 0.27 + 70.0
+
+    @property
+    def phase(self) -> str:
+        return surface_phase(self.temperature, self.nitriding_potential)
+
+    @property
+    def diffusivity(self) -> float:
+        return self.diffusivity_multiplier * Bohnenkamp_1967_nitrogen_diffusivity(self.temperature)
+
+    @property
+    def substrate_nitrogen(self) -> float:
+        """Dissolved nitrogen at the top of the ferrite [wt %]: saturation under a compound layer,
+        proportional to K_N below the α/γ′ boundary (Sieverts-type law)."""
+        saturation = nitrogen_saturation_ferrite(self.temperature)
+        alpha_gamma, _ = Lehrer_boundaries(self.temperature)
+        return saturation * min(1.0, self.nitriding_potential / alpha_gamma)
+
+    @property
+    def capacity(self) -> float:
+        return nitride_capacity(self.steel.composition)
+
+    def warnings(self) -> list[str]:
+        out = []
+        if self.capacity < 0.05:
+            out.append("This steel has almost no nitride formers (Cr, Al, V, Ti, Mo): the diffusion zone hardens "
+                       "little, and a depth at core + 50 HV may be shallow or absent.")
+        if self.phase == "alpha":
+            out.append("K_N is below the α/γ′ boundary: no compound layer forms (the boundary values are uncertain "
+                       "by perhaps ±30 %).")
+        return out
+
+
+@dataclass
+class NitridingResult:
+    """A nitriding soak: time [s], compound layer [m], nitrided hardness depth [m], profiles."""
+
+    setup: NitridingSetup
+    time: float
+    compound_layer: float
+    front: float  # internal-nitriding front below the surface [m]
+    nitrided_depth: float  # depth at core + 50 HV [m]
+    depth: np.ndarray  # m, from the surface
+    nitrogen: np.ndarray  # wt %, dissolved + in nitrides (compound layer not included)
+    hardness: np.ndarray  # HV
+    warnings: list[str] = field(default_factory=list)
+
+    def to_dict(self) -> dict:
+        s = self.setup
+        return {
+            "soak_time_h": self.time / 3600.0, "compound_layer_um": self.compound_layer * 1e6,
+            "nitrided_depth_mm": self.nitrided_depth * 1e3, "surface_phase": s.phase,
+            "nitriding_potential": s.nitriding_potential, "temperature_c": s.temperature - ZERO_CELSIUS,
+            "dissociation_pct": 100.0 * dissociation_for_potential(s.nitriding_potential),
+            "core_hardness_hv": s.core, "surface_hardness_hv": s.surface, "steel": s.steel.name,
+            "warnings": list(self.warnings),
+            "profile": {"depth_mm": (self.depth * 1e3).tolist(), "nitrogen_pct": self.nitrogen.tolist(),
+                        "hardness_hv": self.hardness.tolist()},
+        }
+
+
+def nitride(setup: NitridingSetup, time: float) -> NitridingResult:
+    """What a nitriding soak of ``time`` [s] gives: compound layer, nitrogen and hardness profiles, nitrided depth.
+
+    The diffusion zone starts under the compound layer. With nitride formers, the sharp-front model
+    (Wagner 1959; Meijering 1971) gives hardness ``surface`` behind the front and ``core`` beyond it,
+    so the depth at core + 50 HV is the front; without them, dissolved nitrogen follows the erfc
+    solution (Crank 1975) and hardness rises with it by a solid-solution term.
+    """
+    if not (math.isfinite(time) and 60.0 * (1 - 1e-9) <= time <= 500 * 3600.0 * (1 + 1e-9)):
+        raise InputError("time", f"{time / 3600:g} h is outside 1 min–500 h")
+    T, D = setup.temperature, setup.diffusivity
+    s = compound_layer_thickness(T, setup.nitriding_potential, time)
+    c_s, c_m = setup.substrate_nitrogen, setup.capacity
+    length = 2.0 * math.sqrt(D * time)
+    x = np.linspace(0.0, 1.0, 401) ** 1.5 * max(4.0 * length, 1e-4)
+    core, surface = setup.core, setup.surface
+    if c_m >= 0.005:
+        gamma = Wagner_front_factor(c_s, c_m)
+        front = gamma * length
+        dissolved = np.where(x < front, c_s * (1.0 - erf(x / length) / erf(gamma)), 0.0)
+        nitrogen = dissolved + np.where(x < front, c_m, 0.0)
+        hardness = np.where(x < front, surface, core)
+        depth = front
+    else:
+        front = 0.0
+        dissolved = c_s * np.array([math.erfc(v) for v in x / length])
+        nitrogen = dissolved
+        hardness = core + SOLUTION_HARDENING_HV_PER_PCT * dissolved
+        rise = SOLUTION_HARDENING_HV_PER_PCT * c_s
+        depth = length * _erfcinv(50.0 / rise) if rise > 50.0 else 0.0
+    warnings = setup.warnings()
+    return NitridingResult(setup, time, s, s + front, s + depth, s + x, nitrogen, hardness, warnings)
+
+
+def _erfcinv(y: float) -> float:
+    return brentq(lambda v: math.erfc(v) - y, 0.0, 10.0, xtol=1e-14)
+
+
+def nitriding_time(setup: NitridingSetup, target_depth: float) -> NitridingResult:
+    """The soak [s] for a nitrided hardness depth (core + 50 HV) of ``target_depth`` [m], and what it gives."""
+    if not (math.isfinite(target_depth) and 0.02e-3 <= target_depth <= 2e-3):
+        raise InputError("target", f"{target_depth * 1e3:g} mm is outside 0.02–2 mm")
+
+    def miss(log_t):
+        return nitride(setup, math.exp(log_t)).nitrided_depth - target_depth
+
+    lo, hi = math.log(60.0), math.log(500 * 3600.0)
+    if miss(hi) < 0:
+        raise NotReachableError("target", f"{target_depth * 1e3:g} mm is not reached within 500 h at "
+                                f"{setup.temperature - ZERO_CELSIUS:.0f} °C")
+    if miss(lo) > 0:
+        return nitride(setup, 60.0)
+    return nitride(setup, math.exp(brentq(miss, lo, hi, xtol=1e-10)))
+
+
+def potential_for_compound_layer(setup: NitridingSetup, time: float, window: tuple[float, float]) -> float:
+    """The K_N [atm^-1/2] that gives a compound layer in the middle of ``window`` [m] after ``time`` [s].
+
+    Inverts the parabolic law; refuses windows that need a K_N outside the model's range.
+    """
+    low, high = window
+    if not (0.0 <= low <= high <= 100e-6):
+        raise InputError("compound layer", f"{low * 1e6:g}–{high * 1e6:g} µm is not a window within 0–100 µm")
+    T = setup.temperature
+    alpha_gamma, _ = Lehrer_boundaries(T)
+    aim = 0.5 * (low + high)
+    if aim == 0.0:
+        return max(KN_RANGE[0], 0.8 * alpha_gamma)
+    K_N = alpha_gamma * math.exp(aim**2 / (2.0 * _compound_b(T) * time))
+    if not (KN_RANGE[0] <= K_N <= KN_RANGE[1]):
+        raise NotReachableError("compound layer", f"a {aim * 1e6:.1f} µm layer in {time / 3600:.1f} h needs K_N = "
+                                f"{K_N:.3g}, outside {KN_RANGE[0]:g}–{KN_RANGE[1]:g}; change the time or the temperature")
+    return K_N
