@@ -259,6 +259,8 @@ def _tradeoff(args, setup: CarburizingSetup, target: float) -> list[tuple[float,
 def _run(args) -> int:
     plan = Plan.load(args.plan)
     outcome = evaluate(plan.values())
+    if outcome.process == "nitriding":
+        return _print_nitriding(plan, outcome, args)
     setup, quote = outcome.setup, outcome.quote
     if args.json:
         out = {
@@ -341,6 +343,27 @@ def _nitride(args) -> int:
         print(f"Warning: {warning}")
     print("Caution: ammonia is toxic (exposure limits of tens of ppm) and flammable; purge before opening; "
           "local codes and licensed practice govern.")
+    return 0
+
+
+def _print_nitriding(plan, outcome, args) -> int:
+    out = outcome.aim.to_dict()
+    out.update(plan=plan.title, process="nitriding", target_depth_mm=[d * 1e3 for d in outcome.targets],
+               window_soak_time_h=[outcome.low.time / 3600.0, outcome.high.time / 3600.0],
+               compound_window_um=[w * 1e6 for w in outcome.compound_window], kn_for_compound_window=outcome.kn_for_window,
+               warnings=list(outcome.warnings), cautions=[c.title for c in outcome.cautions])
+    if args.json:
+        print(json.dumps(out))
+        return 0
+    units = DisplayUnits(args.units)
+    s = outcome.setup
+    print(f"{plan.title} (gas nitriding)")
+    print(f"  nitride {format_duration(outcome.aim.time)} at {units.format_temperature(s.temperature)}, K_N "
+          f"{s.nitriding_potential:.2f} (window {format_duration(outcome.low.time)} to {format_duration(outcome.high.time)})")
+    print(f"  nitrided hardness depth {units.format_length(outcome.aim.nitrided_depth)}; compound layer "
+          f"{outcome.aim.compound_layer * 1e6:.1f} µm ({PHASE_NAMES[s.phase]})")
+    for warning in outcome.warnings:
+        print(f"Warning: {warning}")
     return 0
 
 

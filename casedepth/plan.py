@@ -24,13 +24,14 @@ from .diffusivity import Diffusivity
 from .errors import InputError
 from .geometry import Geometry
 from .quote import Quote, ShopDefaults, make_quote
+from .nitriding import NitridingResult, NitridingSetup, nitride, nitriding_time, potential_for_compound_layer
 from .recipe import CycleResult, Stage, plan_boost_diffuse, run_recipe
 from .safety import Caution
 from .steels import Steel
 from .surface import DEFAULT_BETA
 from .units import ZERO_CELSIUS, Threshold
 
-SCHEMA_VERSION = 2
+SCHEMA_VERSION = 3
 FILE_KIND = "casedepth plan"
 
 
@@ -75,7 +76,15 @@ FIELDS: dict[str, Field] = {
     "diffuse_potential": Field(0.80, "diffuse_potential_pct"),
     "stages": Field([], "stages"),  # list of {"kind", "duration_h", "temperature_c", "carbon_potential_pct", ...}
     "shop": Field({}, "shop"),  # ShopDefaults as a dict; missing keys take the defaults
+    # schema 3: gas nitriding
+    "treatment": Field("carburizing", "treatment"),  # carburizing | nitriding
+    "kn": Field(3.0, "nitriding_potential"),
+    "compound_min": Field(5e-6, "compound_layer_min_um", 1e6),
+    "compound_max": Field(10e-6, "compound_layer_max_um", 1e6),
+    "core_hardness": Field(None, "core_hardness_hv"),  # None: the grade's typical value
+    "surface_hardness": Field(None, "nitrided_surface_hardness_hv"),
 }
+TREATMENTS = ("carburizing", "nitriding")
 PROCESSES = ("single", "boost-diffuse", "stages")
 
 # library error fields -> plan fields, so the window can mark the right widget
@@ -340,6 +349,9 @@ def migrate(data: dict) -> dict:
     if data["schema_version"] == 1:
         # schema 1 planned one isothermal soak; schema 2 adds whole cycles, whose defaults keep that meaning
         data.update(process="single", stages=[], shop={}, schema_version=2)
+    if data["schema_version"] == 2:
+        # schema 3 adds gas nitriding; every earlier plan is a carburizing plan
+        data.update(treatment="carburizing", schema_version=3)
     return data
 
 
@@ -392,12 +404,72 @@ def _with_field(error: InputError, names: dict[str, str]) -> InputError:
     return type(error)(names.get(error.field, _ERROR_FIELDS.get(error.field, error.field)), error.message)
 
 
-def evaluate(values: dict[str, Any]) -> PlanOutcome:
+@dataclass
+class NitridingOutcome:
+    """What a nitriding plan gives: soaks for the drawing's minimum, aim and maximum nitrided depth."""
+
+    setup: NitridingSetup
+    low: NitridingResult
+    aim: NitridingResult
+    high: NitridingResult
+    compound_window: tuple[float, float]
+    kn_for_window: float | None
+    cautions: list[Caution]
+    targets: tuple[float, float, float]
+    warnings: list[str] = field(default_factory=list)
+    process: str = "nitriding"
+
+    @property
+    def duration(self) -> float:
+        return self.aim.time
+
+    def at(self, time: float) -> NitridingResult:
+        return nitride(self.setup, max(time, 60.0))
+
+
+def nitriding_setup(plan: "Plan") -> NitridingSetup:
+    try:
+        return NitridingSetup(plan.steel_object(), float(plan.temperature), float(plan.kn),
+                              plan.core_hardness, plan.surface_hardness)
+    except InputError as error:
+        field_name = {"nitriding potential": "kn", "core hardness": "core_hardness",
+                      "nitrided surface hardness": "surface_hardness"}.get(error.field, _ERROR_FIELDS.get(error.field, error.field))
+        raise InputError(field_name, error.message) from None
+
+
+def evaluate_nitriding(plan: "Plan") -> NitridingOutcome:
+    setup = nitriding_setup(plan)
+    low, aim, high = plan.targets()
+    try:
+        results = [nitriding_time(setup, depth) for depth in (low, aim, high)]
+    except InputError as error:
+        raise InputError({"target": "case_max"}.get(error.field, error.field), error.message) from None
+    window = (plan.compound_min, plan.compound_max)
+    warnings = list(results[1].warnings)
+    try:
+        kn_window = potential_for_compound_layer(setup, results[1].time, window)
+    except InputError as error:
+        kn_window = None
+        warnings.append(f"Compound-layer window: {error.message}")
+    layer = results[1].compound_layer
+    if kn_window is not None and not (window[0] <= layer <= window[1]):
+        warnings.append(f"The compound layer ({layer * 1e6:.1f} µm) is outside {window[0] * 1e6:g}–{window[1] * 1e6:g} µm; "
+                        f"K_N {kn_window:.2f} would put it in the middle (or nitride in two stages, high K_N first).")
+    return NitridingOutcome(setup, *results, window, kn_window, safety.cautions(ammonia=True), (low, aim, high),
+                            warnings)
+
+
+def evaluate(values: dict[str, Any]):
     """Solve a plan given as a snapshot of its values (safe to run off the window's thread).
 
-    Raises :class:`InputError` naming the plan field at fault, or :class:`NotReachableError`.
+    Returns a :class:`PlanOutcome` (carburizing) or a :class:`NitridingOutcome`. Raises
+    :class:`InputError` naming the plan field at fault, or :class:`NotReachableError`.
     """
     plan = Plan(**values)
+    if plan.treatment not in TREATMENTS:
+        raise InputError("treatment", f"unknown treatment {plan.treatment!r}; choose one of {', '.join(TREATMENTS)}")
+    if plan.treatment == "nitriding":
+        return evaluate_nitriding(plan)
     if plan.process not in PROCESSES:
         raise InputError("process", f"unknown process {plan.process!r}; choose one of {', '.join(PROCESSES)}")
     setup = plan.setup()

@@ -43,8 +43,18 @@ STANDING = (
 )
 
 
+AMMONIA = (
+    Caution("ammonia-toxic", "Ammonia is toxic",
+            "Ammonia harms at tens of ppm: OSHA PEL 50 ppm (8 h), NIOSH REL 25 ppm (35 ppm short term), IDLH "
+            "300 ppm. Keep detectors and ventilation working, and check the exhaust burn-off or scrubber."),
+    Caution("ammonia-flammable", "Ammonia and its hydrogen burn",
+            "Ammonia is flammable at about 15–28 % in air, and dissociated ammonia is 75 % hydrogen: purge the "
+            "retort with nitrogen before heating and before opening, and keep the interlocks in service."),
+)
+
+
 def cautions(temperature: float | None = None, equilibrium_carbon: float | None = None,
-             saturation_carbon: float | None = None) -> list[Caution]:
+             saturation_carbon: float | None = None, ammonia: bool = False) -> list[Caution]:
     """The standing cautions, with those the inputs make pressing first.
 
     Parameters
@@ -55,6 +65,8 @@ def cautions(temperature: float | None = None, equilibrium_carbon: float | None 
         Surface carbon the atmosphere gives and the austenite's saturation, [wt %].
     """
     pressing = []
+    if ammonia:  # nitriding runs below 760 °C by design: purging, not admission temperature, is the rule
+        return list(AMMONIA)
     standing = list(STANDING)
     if temperature is not None and temperature < SAFE_ADMISSION_TEMPERATURE:
         pressing.append(Caution(

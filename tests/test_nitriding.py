@@ -167,3 +167,15 @@ def test_cli_bad_input(capsys, args, flag):
     code = main(["nitride", "--steel", "4140", *args])
     err = capsys.readouterr().err
     assert code == 2 and flag in err and len(err.strip().splitlines()) == 1
+
+
+def test_cli_runs_a_saved_nitriding_plan(capsys):
+    from pathlib import Path
+
+    plan = Path(__file__).resolve().parent.parent / "resources" / "examples" / "piston-rod-nitrided.cdplan.json"
+    assert main(["run", str(plan), "--json"]) == 0
+    data = json.loads(capsys.readouterr().out)
+    low, _, high = data["target_depth_mm"]
+    assert low <= data["nitrided_depth_mm"] <= high
+    assert 5 <= data["compound_layer_um"] <= 10
+    assert data["cautions"][0] == "Ammonia is toxic"

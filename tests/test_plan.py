@@ -24,7 +24,8 @@ def changed_plan() -> Plan:
                 hardness_relation="as-quenched", composition={"C": 0.19, "Mn": 1.2, "Cr": 1.1},
                 process="stages", surface_min=0.7, surface_max=0.9, boost_potential=1.1, diffuse_potential=0.75,
                 stages=[{"kind": "soak", "duration_h": 5.0, "temperature_c": 950.0, "carbon_potential_pct": 1.0}],
-                shop={"furnace_rate_per_h": 80.0, "parts_per_load": 50})
+                shop={"furnace_rate_per_h": 80.0, "parts_per_load": 50}, treatment="nitriding", kn=2.0,
+                compound_min=4e-6, compound_max=8e-6, core_hardness=310.0, surface_hardness=800.0)
     return plan
 
 
@@ -75,7 +76,10 @@ def test_files_of_every_schema_version_still_open(path):
     """One example file per schema version ever released is kept in tests/data/plans."""
     plan = Plan.load(path)
     outcome = evaluate(plan.values())
-    assert outcome.case_depth > 0 and outcome.quote.total_h > 0
+    if outcome.process == "nitriding":
+        assert outcome.aim.nitrided_depth > 0 and outcome.aim.time > 0
+    else:
+        assert outcome.case_depth > 0 and outcome.quote.total_h > 0
 
 
 def test_saving_never_loses_the_old_file(tmp_path, monkeypatch):

@@ -264,3 +264,23 @@ def test_temperature_tradeoff_tab(window):
     assert len(pairs) >= 5
     assert all(a[1] > b[1] for a, b in zip(pairs, pairs[1:]))  # hotter is faster
     assert window.plots.tradeoff_page.table.rowCount() == len(pairs)
+
+
+def test_gas_nitriding_in_the_window(window, qtbot):
+    with qtbot.waitSignal(window.result_shown, timeout=20000):
+        window.form.treatment.setCurrentIndex(window.form.treatment.findData("nitriding"))
+        window.form.treatment.activated.emit(window.form.treatment.currentIndex())
+    assert window.plan.treatment == "nitriding" and window.plan.steel == "4140"
+    assert window.form.temperature.value() == pytest.approx(520)
+    assert window.results.headline.text().startswith("Nitride ")
+    assert window.plots.tabText(0) == "Nitrogen profile" and not window.plots.isTabVisible(2)
+    assert window.cautions.items[0].key == "ammonia-toxic"
+    low, _, high = window.outcome.targets
+    assert low <= window.outcome.aim.nitrided_depth <= high
+    with qtbot.waitSignal(window.result_shown, timeout=20000):
+        window.form.dissociation.setValue(30.0)
+    assert window.plan.kn == pytest.approx(6.56, abs=0.01)
+    assert window.outcome.setup.phase == "epsilon"
+    assert "nitrogen_pct" in window.profile_csv()
+    window.undo_action.trigger()
+    assert window.plan.kn == pytest.approx(3.0)

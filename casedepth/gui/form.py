@@ -19,6 +19,7 @@ from ..diffusivity import METHODS
 from ..errors import InputError
 from ..hardness import HARDNESS_RELATIONS
 from ..plan import Plan, stage_to_dict
+from ..nitriding import dissociation_for_potential, nitride_capacity, nitriding_potential_from_dissociation
 from ..recipe import STAGE_KINDS
 from ..surface import Gunnarson_alloy_factor
 from ..units import DisplayUnits, parse_velocity
@@ -99,7 +100,28 @@ class PlanForm(QWidget):
         self.part.setPlaceholderText("part number or description")
         self.part.editingFinished.connect(lambda: self._set("part", self.part.text().strip()))
         form.addRow("Part", self.part)
+        self.treatment = QComboBox()
+        self.treatment.addItem("Carburizing", "carburizing")
+        self.treatment.addItem("Gas nitriding", "nitriding")
+        self.treatment.activated.connect(lambda i: self._treatment_picked(self.treatment.itemData(i)))
+        form.addRow("Treatment", self.treatment)
         return box
+
+    def _treatment_picked(self, treatment: str) -> None:
+        """Switch treatment as one edit, moving the inputs that make no sense for it to usual values."""
+        if treatment == self.plan.treatment:
+            return
+        changes = {"treatment": treatment}
+        if all(g.name != self.plan.steel for g in steels.library(treatment)):
+            usual = "4140" if treatment == "nitriding" else "8620"
+            changes.update(steel=usual, composition=dict(steels.find(usual).composition))
+        if treatment == "nitriding":
+            changes.update(temperature=520.0 + 273.15, case_min=0.3e-3, case_max=0.5e-3)
+        else:
+            changes.update(temperature=925.0 + 273.15, case_min=0.8e-3, case_max=1.2e-3)
+        for name in ("composition", "temperature", "case_min", "case_max"):
+            self.clear_mark(name)
+        self.plan.update(**changes)
 
     def _steel_group(self) -> QGroupBox:
         box = QGroupBox("Steel")
@@ -109,9 +131,6 @@ class PlanForm(QWidget):
         self.steel.setInsertPolicy(QComboBox.NoInsert)
         self.steel.setSizeAdjustPolicy(QComboBox.AdjustToMinimumContentsLengthWithIcon)
         self.steel.setMinimumContentsLength(16)
-        for grade in steels.library():
-            self.steel.addItem(f"{grade.name}  —  {grade.standard}", grade.name)
-        self.steel.addItem("custom  —  composition below", "custom")
         completer = QCompleter(self.steel.model(), self.steel)
         completer.setFilterMode(Qt.MatchContains)
         completer.setCaseSensitivity(Qt.CaseInsensitive)
@@ -157,10 +176,57 @@ class PlanForm(QWidget):
         self.carbon_potential.valueChanged.connect(lambda v: self._set("carbon_potential", v))
         self.carbon_potential.setToolTip("Carbon potential of the atmosphere (carbon of plain carbon steel in equilibrium with it)")
         form.addRow("Carbon potential", self.carbon_potential)
+        self.kn = _spin(2, 0.05, 30.0, 0.1, " atm^-½")
+        self.kn.setToolTip("Nitriding potential K_N = p(NH3)/p(H2)^1.5")
+        self.kn.valueChanged.connect(lambda v: self._set("kn", v))
+        form.addRow("K_N", self.kn)
+        self.dissociation = _spin(1, 1.0, 99.0, 1.0, " %")
+        self.dissociation.setToolTip("Ammonia dissociation of the exhaust (burette), pure ammonia feed: sets K_N")
+        self.dissociation.valueChanged.connect(self._dissociation_edited)
+        form.addRow("or dissociation", self.dissociation)
+        row = QHBoxLayout()
+        self.compound_min = _spin(1, 0.0, 100.0, 1.0, " µm")
+        self.compound_max = _spin(1, 0.0, 100.0, 1.0, " µm")
+        self.compound_min.valueChanged.connect(lambda v: self._set("compound_min", v * 1e-6))
+        self.compound_max.valueChanged.connect(lambda v: self._set("compound_max", v * 1e-6))
+        row.addWidget(self.compound_min)
+        row.addWidget(QLabel("to"))
+        row.addWidget(self.compound_max)
+        form.addRow("Compound layer", row)
+        self.compound_row = row
+        self.core_hardness = _spin(0, 0.0, 1400.0, 10.0, " HV")
+        self.core_hardness.setSpecialValueText("grade's typical")
+        self.core_hardness.valueChanged.connect(lambda v: self._set("core_hardness", v or None))
+        form.addRow("Core hardness", self.core_hardness)
+        self.surface_hardness = _spin(0, 0.0, 1400.0, 10.0, " HV")
+        self.surface_hardness.setSpecialValueText("grade's typical")
+        self.surface_hardness.valueChanged.connect(lambda v: self._set("surface_hardness", v or None))
+        form.addRow("Surface hardness", self.surface_hardness)
+        self.furnace_form = form
         return box
+
+    def _dissociation_edited(self, percent: float) -> None:
+        if not self._showing:
+            self._set("kn", nitriding_potential_from_dissociation(percent / 100.0))
+
+    def _fill_steels(self, treatment: str) -> None:
+        """List the grades of the treatment (keeps the current one selected)."""
+        if getattr(self, "_steel_list", None) == treatment:
+            return
+        self._steel_list = treatment
+        self.steel.clear()
+        for grade in steels.library(treatment):
+            self.steel.addItem(f"{grade.name}  —  {grade.standard}", grade.name)
+        self.steel.addItem("custom  —  composition below", "custom")
+        index = self.steel.findData(self.plan.steel)
+        if index >= 0:
+            self.steel.setCurrentIndex(index)
+        else:
+            self.steel.setEditText(self.plan.steel)
 
     def _process_group(self) -> QGroupBox:
         box = QGroupBox("Cycle")
+        self.process_box = box
         layout = QVBoxLayout(box)
         self.process = QComboBox()
         for key, label in PROCESS_CHOICES:
@@ -302,7 +368,9 @@ class PlanForm(QWidget):
 
     def _callout_group(self) -> QGroupBox:
         box = QGroupBox("Drawing callout: effective case depth")
+        self.callout_box = box
         form = QFormLayout(box)
+        self.callout_form = form
         row = QHBoxLayout()
         self.case_min = _spin(3, 0.0, 60.0, 0.05)
         self.case_max = _spin(3, 0.0, 60.0, 0.05)
@@ -332,10 +400,12 @@ class PlanForm(QWidget):
         threshold_row.addWidget(self.threshold_value)
         threshold_row.addWidget(self.threshold_kind)
         form.addRow("At", threshold_row)
+        self.threshold_row = threshold_row
         return box
 
     def _model_group(self) -> QWidget:
         outer = QWidget()
+        self.model_outer = outer
         layout = QVBoxLayout(outer)
         layout.setContentsMargins(0, 0, 0, 0)
         self.model_toggle = QToolButton()
@@ -538,6 +608,25 @@ class PlanForm(QWidget):
             self.beta_held.setChecked(bool(p.beta_held))
             self.alloy_factor.setChecked(bool(p.alloy_factor))
             self.hardness_relation.setCurrentIndex(self.hardness_relation.findData(p.hardness_relation))
+            nitriding = p.treatment == "nitriding"
+            self.treatment.setCurrentIndex(self.treatment.findData(p.treatment))
+            self._fill_steels(p.treatment)
+            for widget in (self.carbon_potential,):
+                self.furnace_form.setRowVisible(widget, not nitriding)
+            for widget in (self.kn, self.dissociation, self.core_hardness, self.surface_hardness):
+                self.furnace_form.setRowVisible(widget, nitriding)
+            self.furnace_form.setRowVisible(self.compound_row, nitriding)
+            self.process_box.setVisible(not nitriding)
+            self.model_outer.setVisible(not nitriding)
+            self.callout_form.setRowVisible(self.threshold_row, not nitriding)
+            self.callout_box.setTitle("Drawing callout: nitrided hardness depth (core + 50 HV)" if nitriding
+                                      else "Drawing callout: effective case depth")
+            self.kn.setValue(p.kn)
+            self.dissociation.setValue(100.0 * dissociation_for_potential(min(max(p.kn, 0.05), 30.0)))
+            self.compound_min.setValue(p.compound_min * 1e6)
+            self.compound_max.setValue(p.compound_max * 1e6)
+            self.core_hardness.setValue(p.core_hardness or 0.0)
+            self.surface_hardness.setValue(p.surface_hardness or 0.0)
             self.process.setCurrentIndex(max(self.process.findData(p.process), 0))
             self.boost_box.setVisible(p.process == "boost-diffuse")
             self.stage_box.setVisible(p.process == "stages")
@@ -566,6 +655,12 @@ class PlanForm(QWidget):
         except InputError:
             self.steel_facts.setText("")
             return
+        if self.plan.treatment == "nitriding":
+            typical = (f" · typical core {steel.core_hardness_hv:.0f} HV, nitrided {steel.nitrided_surface_hv:.0f} HV"
+                       if steel.core_hardness_hv and steel.nitrided_surface_hv else "")
+            self.steel_facts.setText(f"{steel.standard}. Nitride formers bind {nitride_capacity(steel.composition):.2f} "
+                                     f"wt % N{typical}")
+            return
         ac3 = Andrews_1965_Ac3(steel.composition)
         factor = Gunnarson_alloy_factor(steel.composition)
         self.steel_facts.setText(f"{steel.standard}. Core {steel.carbon:.3f} %C · alloy factor {factor:.3f} · "
@@ -580,7 +675,10 @@ class PlanForm(QWidget):
                 "diffusivity": self.diffusivity, "d_multiplier": self.d_multiplier, "d0": self.d0, "q": self.q,
                 "beta": self.beta, "hardness_relation": self.hardness_relation, "process": self.process,
                 "boost_potential": self.boost_potential, "diffuse_potential": self.diffuse_potential,
-                "surface_min": self.surface_min, "surface_max": self.surface_max, "stages": self.stage_table}.get(field)
+                "surface_min": self.surface_min, "surface_max": self.surface_max, "stages": self.stage_table,
+                "kn": self.kn, "compound_min": self.compound_min, "compound_max": self.compound_max,
+                "core_hardness": self.core_hardness, "surface_hardness": self.surface_hardness,
+                "treatment": self.treatment}.get(field)
 
     def mark(self, field: str, message: str) -> None:
         widget = self.widget_for(field)

@@ -69,7 +69,8 @@ class _PlotPage(QWidget):
 
     def legend(self) -> None:
         """Re-make the legend only when its entries change."""
-        handles = [h for h in self.axes.get_lines() + [self.band] if h.get_visible() and not h.get_label().startswith("_")]
+        patches = [self.band] + ([self.compound_band] if getattr(self, "compound_band", None) is not None else [])
+        handles = [h for h in self.axes.get_lines() + patches if h.get_visible() and not h.get_label().startswith("_")]
         key = tuple(h.get_label() for h in handles)
         if key != self._legend_key:
             self.axes.legend(handles=handles, fontsize=8, loc="upper right", framealpha=0.9)
@@ -247,6 +248,12 @@ class ProfilePlots(QTabWidget):
         """Draw the page on show now; the other when it is shown (drawing costs more than solving)."""
         if self.outcome is None:
             return
+        nitriding = self.outcome.process == "nitriding"
+        self.setTabText(0, "Nitrogen profile" if nitriding else "Carbon profile")
+        for index in (2, 3):
+            self.setTabVisible(index, not nitriding)
+        if nitriding and self.currentIndex() > 1:
+            self.setCurrentIndex(0)
         self._stale = {0: True, 1: True, 2: True, 3: True}
         self._page_shown(self.currentIndex())
 
@@ -289,7 +296,62 @@ class ProfilePlots(QTabWidget):
                 else f"after the full {whole}, {format_duration(final.duration)}")
         return when + extra
 
+    def _nitriding_profile(self):
+        final = self.outcome
+        scrubbing = self.time is not None and self.time < final.duration
+        return final, (final.at(self.time) if scrubbing else final.aim), scrubbing
+
+    def _draw_nitrogen(self):
+        page, u = self.carbon_page, self.units
+        final, shown, scrubbing = self._nitriding_profile()
+        page.frame(final, u, max(final.targets[2] * 1.8, final.aim.nitrided_depth * 1.5))
+        self.c_line.set_data(u.length(shown.depth), shown.nitrogen)
+        self.c_line.set_label("nitrogen in the diffusion zone (dissolved and in nitrides)")
+        self.c_end.set_data(u.length(final.aim.depth), final.aim.nitrogen)
+        self.c_end.set_visible(scrubbing)
+        self.c_threshold.set_visible(False)
+        self.c_core.set_visible(False)
+        self.c_saturation.set_ydata([final.setup.capacity] * 2)
+        self.c_saturation.set_label(f"nitrogen the nitride formers bind, {final.setup.capacity:.2f} %")
+        self._show_compound(page, shown.compound_layer)
+        page.axes.set_ylim(0, max(float(final.aim.nitrogen.max()), final.setup.capacity, 0.05) * 1.25)
+        page.axes.set_ylabel("nitrogen [wt %]")
+        page.caption.set_text(("after " + format_duration(shown.time) + " of " + format_duration(final.duration))
+                              if scrubbing else f"after {format_duration(final.duration)} of nitriding")
+
+    def _show_compound(self, page, thickness: float) -> None:
+        band = getattr(page, "compound_band", None)
+        if band is None:
+            band = page.compound_band = page.axes.axvspan(0, 0, color="#c9c9c9", alpha=0.8, lw=0)
+        band.set_x(0.0)
+        band.set_width(self.units.length(thickness))
+        band.set_label(f"compound layer {thickness * 1e6:.1f} µm")
+        band.set_visible(thickness > 0)
+
+    def _draw_nitrided_hardness(self):
+        page, u = self.hardness_page, self.units
+        final, shown, scrubbing = self._nitriding_profile()
+        setup = final.setup
+        page.frame(final, u, max(final.targets[2] * 1.8, final.aim.nitrided_depth * 1.5))
+        self.h_line.set_data(u.length(shown.depth), shown.hardness)
+        self.h_line.set_label("estimated (sharp nitriding front)")
+        self.h_end.set_data(u.length(final.aim.depth), final.aim.hardness)
+        self.h_end.set_visible(scrubbing)
+        self.h_threshold.set_ydata([setup.core + 50.0] * 2)
+        self.h_threshold.set_label(f"core + 50 HV = {setup.core + 50:.0f} HV")
+        self._show_compound(page, shown.compound_layer)
+        page.axes.set_ylim(setup.core - 80, setup.surface + 80)
+        page.caption.set_text("Hardness " + ("after " + format_duration(shown.time) if scrubbing
+                                             else f"after {format_duration(final.duration)}")
+                              + " (sharp-front model; measured profiles are smoother)")
+
     def _draw_carbon(self):
+        if self.outcome.process == "nitriding":
+            return self._draw_nitrogen()
+        self.c_threshold.set_visible(True)
+        self.c_core.set_visible(True)
+        self.carbon_page.axes.set_ylabel("carbon [wt %]")
+        self._show_compound(self.carbon_page, 0.0)
         page, u = self.carbon_page, self.units
         final, shown, scrubbing = self._profiles()
         setup = final.setup
@@ -309,6 +371,9 @@ class ProfilePlots(QTabWidget):
         page.caption.set_text("Carbon " + self._caption(final, shown, scrubbing))
 
     def _draw_hardness(self):
+        if self.outcome.process == "nitriding":
+            return self._draw_nitrided_hardness()
+        self._show_compound(self.hardness_page, 0.0)
         page, u = self.hardness_page, self.units
         final, shown, scrubbing = self._profiles()
         setup = final.setup

@@ -5,6 +5,7 @@ from __future__ import annotations
 from PySide6.QtCore import Qt
 from PySide6.QtWidgets import QFrame, QGridLayout, QLabel, QVBoxLayout
 
+from ..nitriding import PHASE_NAMES, dissociation_for_potential
 from ..units import DisplayUnits, format_duration
 
 BANNER_STYLE = "QFrame#banner { background: #eef4f8; border: 1px solid #b8cfe0; border-radius: 6px; }"
@@ -62,7 +63,9 @@ class ResultPanel(QFrame):
         self.stale = False
 
     def show_outcome(self, outcome, units: DisplayUnits) -> None:
-        if outcome.cycle is not None:
+        if outcome.process == "nitriding":
+            self._show_nitriding(outcome, units)
+        elif outcome.cycle is not None:
             self._show_cycle(outcome, units)
         else:
             self._show_soak(outcome, units)
@@ -93,6 +96,24 @@ class ResultPanel(QFrame):
         self._fact("threshold", "Threshold means", f"{setup.threshold_carbon:.3f} %C")
         self._fact("equilibrium", "Whole cycle", f"{format_duration(quote.total_h * 3600)} ({quote.total_h:.2f} h)")
         self._fact("saturation", "Cost", f"{quote.cost_per_load:.2f}{money} per load, {quote.cost_per_part:.3f}{money} per part")
+
+    def _show_nitriding(self, outcome, units: DisplayUnits) -> None:
+        setup, aim = outcome.setup, outcome.aim
+        self.headline.setText(f"Nitride {format_duration(aim.time)}")
+        self.subline.setText(
+            f"at {units.format_temperature(setup.temperature)}, K_N {setup.nitriding_potential:.2f} atm^-½ "
+            f"({100 * dissociation_for_potential(setup.nitriding_potential):.0f} % dissociation), for "
+            f"{units.format_length(aim.nitrided_depth)} nitrided hardness depth (core {setup.core:.0f} HV + 50 HV)")
+        self._fact("window", "Drawing window",
+                   f"{units.format_length(outcome.low.nitrided_depth)} in {format_duration(outcome.low.time)}  to  "
+                   f"{units.format_length(outcome.high.nitrided_depth)} in {format_duration(outcome.high.time)}")
+        self._fact("surface", "Compound layer", f"{aim.compound_layer * 1e6:.1f} µm (window "
+                   f"{outcome.compound_window[0] * 1e6:g}–{outcome.compound_window[1] * 1e6:g} µm)")
+        self._fact("reached", "Surface phase", PHASE_NAMES[setup.phase])
+        self._fact("threshold", "K_N for the layer window",
+                   "—" if outcome.kn_for_window is None else f"{outcome.kn_for_window:.2f} atm^-½")
+        self._fact("equilibrium", "Hardness", f"core {setup.core:.0f} HV, nitrided surface {setup.surface:.0f} HV")
+        self._fact("saturation", "Nitride formers", f"bind {setup.capacity:.2f} wt % N")
 
     def _fact(self, key: str, name: str, value: str) -> None:
         self.fact_names[key].setText(name)

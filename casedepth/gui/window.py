@@ -35,7 +35,9 @@ FIELD_LABELS = {
     "diffusivity": "Diffusivity model", "d_multiplier": "D multiplier", "d0": "D0", "q": "Q", "beta": "β",
     "hardness_relation": "Carbon → hardness", "process": "Cycle", "boost_potential": "Boost potential",
     "diffuse_potential": "Diffuse potential", "surface_min": "Surface carbon", "surface_max": "Surface carbon",
-    "stages": "Stages", "shop": "Shop times and rates",
+    "stages": "Stages", "shop": "Shop times and rates", "kn": "Nitriding potential", "compound_min": "Compound layer",
+    "compound_max": "Compound layer", "core_hardness": "Core hardness", "surface_hardness": "Nitrided surface hardness",
+    "treatment": "Treatment",
 }
 PLAN_FILTER = "casedepth plans (*.cdplan.json *.json);;All files (*)"
 MAX_RECENT = 8
@@ -128,11 +130,11 @@ class MainWindow(QMainWindow):
         self.form = PlanForm(self.plan, self.units)
         self.form.input_problem.connect(self._input_problem)
         self.form.model_toggle.toggled.connect(lambda on: self.settings.setValue("window/model_settings", on))
-        scroll = QScrollArea()
+        scroll = self.scroll = QScrollArea()
         scroll.setWidget(self.form)
         scroll.setWidgetResizable(True)
         scroll.setHorizontalScrollBarPolicy(Qt.ScrollBarAlwaysOff)
-        scroll.setMinimumWidth(self.form.sizeHint().width() + 24)
+        self._fit_form()
         self.results = ResultPanel()
         self.plots = ProfilePlots()
         slider_row = QHBoxLayout()
@@ -221,7 +223,13 @@ class MainWindow(QMainWindow):
         self._update_title()
         self._update_undo()
 
+    def _fit_form(self) -> None:
+        """Keep the form panel as wide as the form needs (it changes with the treatment and the cycle)."""
+        self.scroll.setMinimumWidth(self.form.minimumSizeHint().width() + self.scroll.verticalScrollBar().sizeHint().width() + 6)
+
     def _plan_changed(self, name, value) -> None:
+        if name in ("treatment", "process"):
+            self._fit_form()
         self._update_title()
         self._update_undo()
         self.calculate()
@@ -250,7 +258,7 @@ class MainWindow(QMainWindow):
     # -- results -------------------------------------------------------------------------------------------
     def _show_outcome(self, outcome) -> None:
         self.outcome = outcome
-        self.form.planned_stages = list(outcome.stages)
+        self.form.planned_stages = list(getattr(outcome, "stages", []))
         self.form.clear_marks(keep={"composition", "d0", "beta"} if self.form.has_unread_entry() else set())
         self.results.show_outcome(outcome, self.units)
         self.cautions.show_cautions(outcome.cautions)
@@ -269,7 +277,7 @@ class MainWindow(QMainWindow):
         else:
             field, message = "calculation", f"{type(error).__name__}: {error}"
         self.results.show_problem(FIELD_LABELS.get(field, field.capitalize()), message)
-        self.cautions.show_cautions(safety.cautions(self.plan.temperature))
+        self.cautions.show_cautions(safety.cautions(self.plan.temperature, ammonia=self.plan.treatment == "nitriding"))
         self.statusBar().showMessage("Input needs attention", 4000)
 
     def _input_problem(self, field: str, message: str) -> None:
@@ -403,6 +411,8 @@ class MainWindow(QMainWindow):
     def profile_csv(self) -> str:
         """The aim profile at the end of the soak as CSV text (depth, carbon, estimated hardness)."""
         outcome = self.outcome
+        if outcome.process == "nitriding":
+            return self._nitriding_csv()
         setup, profile = outcome.setup, outcome.profile
         relation = HARDNESS_RELATIONS[setup.hardness_relation]
         hv = relation.hv(profile.carbon)
@@ -415,6 +425,18 @@ class MainWindow(QMainWindow):
         for x, c, h in zip(profile.depth, profile.carbon, hv):
             writer.writerow([f"{x * 1e3:.5f}", f"{x / 0.0254:.6f}", f"{c:.5f}", f"{h:.1f}",
                              f"{ASTM_E140_hv_to_hrc(min(max(h, 238.0), 940.0)):.1f}"])
+        return out.getvalue()
+
+    def _nitriding_csv(self) -> str:
+        aim = self.outcome.aim
+        out = io.StringIO()
+        writer = csv.writer(out)
+        writer.writerow([f"# casedepth {__version__}: {self.plan.title}; nitrided {aim.time / 3600:.4f} h at "
+                         f"{self.units.format_temperature(aim.setup.temperature)}, K_N {aim.setup.nitriding_potential:.3g}; "
+                         f"compound layer {aim.compound_layer * 1e6:.2f} um; hardness from the sharp-front model"])
+        writer.writerow(["depth_mm", "depth_in", "nitrogen_pct", "hardness_hv"])
+        for x, n, h in zip(aim.depth, aim.nitrogen, aim.hardness):
+            writer.writerow([f"{x * 1e3:.5f}", f"{x / 0.0254:.6f}", f"{n:.5f}", f"{h:.1f}"])
         return out.getvalue()
 
     def export_csv(self, path: str | os.PathLike) -> None:
