@@ -22,6 +22,7 @@ from .diffusivity import Diffusivity
 from .errors import InputError, NotReachableError
 from .geometry import Geometry
 from .hardness import HARDNESS_RELATIONS, threshold_carbon
+from .roots import illinois
 from .solver import Accuracy, CarbonSolver, Profile, SurfaceCondition, threshold_depth
 from .steels import Steel
 from .surface import DEFAULT_BETA, Gunnarson_alloy_factor, equilibrium_surface_carbon, steel_saturation_carbon
@@ -324,29 +325,9 @@ def _land_on(depth_after, target: float, step: float, depth_start: float, depth_
     time, so regula falsi on depth² (Illinois variant: Dowell & Jarratt, BIT 11 (1971) 168) lands
     in two or three trials to 1e-7 of the target.
     """
-    a, fa = 0.0, depth_start**2 - target**2
-    b, fb = step, depth_end**2 - target**2
-    if fb == 0.0:
-        return step
-    side = 0
-    tau = b
-    for _ in range(100):
-        tau = (fa * b - fb * a) / (fa - fb)
-        depth = depth_after(tau)
-        if abs(depth - target) <= 1e-7 * target or b - a <= 1e-12 * step:
-            return tau
-        f = depth**2 - target**2
-        if f * fb > 0:  # same side as b: move b, and halve the stale end if it was kept twice
-            b, fb = tau, f
-            if side == -1:
-                fa *= 0.5
-            side = -1
-        else:
-            a, fa = tau, f
-            if side == 1:
-                fb *= 0.5
-            side = 1
-    return tau
+    # |depth² − target²| ≤ 2e-7 target² means the depth is within 1e-7 of the target
+    return illinois(lambda tau: depth_after(tau) ** 2 - target**2, 0.0, depth_start**2 - target**2,
+                    step, depth_end**2 - target**2, 1e-12 * step, 2e-7 * target**2)
 
 
 def _check_target(setup: CarburizingSetup, target: float, field: str = "target") -> None:

@@ -23,6 +23,7 @@ import numpy as np
 from .austenite import Andrews_1965_Ac3, saturation_carbon
 from .carburizing import MAX_TEMPERATURE, POTENTIAL_RANGE, CarburizingSetup, _both
 from .errors import InputError, NotReachableError
+from .roots import illinois
 from .solver import CarbonSolver, Profile, SurfaceCondition, threshold_depth
 from .units import ZERO_CELSIUS, format_duration
 
@@ -273,27 +274,6 @@ class BoostDiffusePlan:
         return (f"boost {format_duration(self.boost_time)}, then diffuse {format_duration(self.diffuse_time)}")
 
 
-def _regula_falsi(f, a: float, fa: float, b: float, fb: float, xtol: float, ftol: float) -> float:
-    """Root of f in [a, b] with f(a) < 0 < f(b) (Illinois variant: Dowell & Jarratt, BIT 11 (1971) 168)."""
-    side, x = 0, b
-    for _ in range(100):
-        x = (fa * b - fb * a) / (fa - fb)
-        fx = f(x)
-        if abs(fx) <= ftol or b - a <= xtol:
-            return x
-        if fx > 0:
-            b, fb = x, fx
-            if side == -1:
-                fa *= 0.5
-            side = -1
-        else:
-            a, fa = x, fx
-            if side == 1:
-                fb *= 0.5
-            side = 1
-    return x
-
-
 def plan_boost_diffuse(setup: CarburizingSetup, target_depth: float, surface_target: float | tuple[float, float],
                        boost_potential: float, diffuse_potential: float, temperature: float | None = None,
                        before: tuple[Stage, ...] = (), after: tuple[Stage, ...] = ()) -> BoostDiffusePlan:
@@ -387,7 +367,7 @@ def plan_boost_diffuse(setup: CarburizingSetup, target_depth: float, surface_tar
         f_full = overshoot(t_full)
         f_none = overshoot(0.0)
         tb_max = t_full if f_full <= 0 else (0.0 if f_none >= 0 else
-                                             _regula_falsi(overshoot, 0.0, f_none, t_full, f_full, 1e-6 * t_full, 1e-7 * target_depth))
+                                             illinois(overshoot, 0.0, f_none, t_full, f_full, 1e-6 * t_full, 1e-7 * target_depth))
     else:
         tb_max = t_full
     _, surface_low = finish(0.0)
@@ -403,7 +383,7 @@ def plan_boost_diffuse(setup: CarburizingSetup, target_depth: float, surface_tar
     elif aim >= surface_high:
         tb = tb_max
     else:
-        tb = _regula_falsi(lambda t: finish(t)[1] - aim, 0.0, surface_low - aim, tb_max, surface_high - aim,
+        tb = illinois(lambda t: finish(t)[1] - aim, 0.0, surface_low - aim, tb_max, surface_high - aim,
                            1e-6 * tb_max, 2e-4)
     td, _ = finish(tb)
     stages = [*before, Stage("boost", tb, T, boost_potential), Stage("diffuse", td, T, diffuse_potential), *after]
