@@ -90,6 +90,32 @@ def _build_parser() -> argparse.ArgumentParser:
     n.add_argument("--units", default="metric", choices=["metric", "imperial"], help="units of the printed result")
     n.add_argument("--json", action="store_true", help="print one JSON object instead of text")
 
+    ch = commands.add_parser("chart", help="print a case-depth chart (PDF, SVG or PNG)",
+                             description="A case-depth chart: effective case depth against time at several temperatures "
+                                         "(or potentials), with a table of soak times for standard depths.")
+    ch.add_argument("--steel", required=True, help="grade or composition, as for carburize")
+    vary = ch.add_mutually_exclusive_group(required=True)
+    vary.add_argument("--temperatures", help="900,925,950 (°C unless a unit is given: 1650F,1700F)")
+    vary.add_argument("--potentials", help="0.9,1.0,1.1 (wt %% C), at --temperature")
+    ch.add_argument("--temperature", help="with --potentials: the furnace temperature")
+    ch.add_argument("--potential", help="with --temperatures: the carbon potential (wt %% C)")
+    ch.add_argument("--at", default="0.40%C", help="threshold: 0.40%%C, 550HV or 50HRC")
+    ch.add_argument("--hours", default="24", help="length of the time axis, h (default 24)")
+    for flag in ("--pdf", "--svg", "--png"):
+        ch.add_argument(flag, metavar="FILE", help=f"write the chart as {flag[2:].upper()}")
+    ch.add_argument("--paper", default="a4", choices=["a4", "letter"], help="paper size")
+    ch.add_argument("--units", default="metric", choices=["metric", "imperial"], help="units on the chart")
+
+    sh = commands.add_parser("sheet", help="print the process sheet of a saved plan (PDF, SVG or PNG)")
+    sh.add_argument("plan", help="the plan file")
+    for flag in ("--pdf", "--svg", "--png"):
+        sh.add_argument(flag, metavar="FILE", help=f"write the sheet as {flag[2:].upper()}")
+    sh.add_argument("--paper", default="a4", choices=["a4", "letter"], help="paper size")
+    sh.add_argument("--units", default="metric", choices=["metric", "imperial"], help="units on the sheet")
+    sh.add_argument("--shop", default="", help="shop name for the title block")
+    sh.add_argument("--logo", help="logo image (PNG) for the title block")
+    sh.add_argument("--revision", default="A", help="revision letter (default A)")
+
     r = commands.add_parser("run", help="run a saved plan and print its results and the cycle quote",
                             description="Run a saved plan (*.cdplan.json) and print its results and the cycle quote.")
     r.add_argument("plan", help="the plan file")
@@ -111,6 +137,8 @@ FLAGS = {
     "diffuse potential": "--diffuse-potential", "plan file": "PLAN", "compare temperatures": "--compare-temperatures",
     "nitriding potential": "--kn", "dissociation": "--dissociation", "compound layer": "--compound",
     "core hardness": "--core-hardness", "nitrided surface hardness": "--surface-hardness",
+    "temperatures": "--temperatures", "potentials": "--potentials", "hours": "--hours", "output": "--pdf/--svg/--png",
+    "paper": "--paper",
 }
 
 
@@ -374,6 +402,53 @@ def _window_um(text: str) -> tuple[float, float]:
     return (_number(parts[0], "compound layer") * 1e-6, _number(parts[1], "compound layer") * 1e-6)
 
 
+def _outputs(args) -> list[tuple[str, str]]:
+    outputs = [(fmt, getattr(args, fmt)) for fmt in ("pdf", "svg", "png") if getattr(args, fmt)]
+    if not outputs:
+        raise InputError("output", "say where to write it: --pdf FILE, --svg FILE or --png FILE")
+    return outputs
+
+
+def _chart(args) -> int:
+    from .documents import case_depth_chart, save
+
+    outputs = _outputs(args)
+    if args.temperatures:
+        potential = args.potential if args.potential is not None else "1.0"
+        temperatures = [parse_temperature(t, "temperatures") for t in args.temperatures.split(",") if t.strip()]
+        if not 1 <= len(temperatures) <= 6:
+            raise InputError("temperatures", "give one to six temperatures")
+        setup = api.setup(args.steel, f"{temperatures[0]}K", potential, at=args.at)
+        document = case_depth_chart(setup, temperatures=temperatures, paper=args.paper, units=args.units,
+                                    hours=_number(args.hours, "hours"))
+    else:
+        if args.temperature is None:
+            raise InputError("temperature", "required with --potentials")
+        potentials = [_number(p, "potentials") for p in args.potentials.split(",") if p.strip()]
+        if not 1 <= len(potentials) <= 6:
+            raise InputError("potentials", "give one to six carbon potentials")
+        setup = api.setup(args.steel, f"{parse_temperature(args.temperature, 'temperature')}K", potentials[0], at=args.at)
+        document = case_depth_chart(setup, potentials=potentials, paper=args.paper, units=args.units,
+                                    hours=_number(args.hours, "hours"))
+    for fmt, path in outputs:
+        for written in save(document, path, fmt):
+            print(f"wrote {written}")
+    return 0
+
+
+def _sheet(args) -> int:
+    from .documents import process_sheet, save
+
+    outputs = _outputs(args)
+    plan = Plan.load(args.plan)
+    document = process_sheet(plan, evaluate(plan.values()), paper=args.paper, units=args.units, shop=args.shop,
+                             logo=args.logo, revision=args.revision)
+    for fmt, path in outputs:
+        for written in save(document, path, fmt):
+            print(f"wrote {written}")
+    return 0
+
+
 def _steels(_args) -> int:
     for steel in library("all"):
         print(f"{steel.name:<13} {steel.process:<12} {steel.standard:<34} {steel.composition_text()}")
@@ -398,6 +473,10 @@ def main(argv: list[str] | None = None) -> int:
             return _run(args)
         if args.command == "nitride":
             return _nitride(args)
+        if args.command == "chart":
+            return _chart(args)
+        if args.command == "sheet":
+            return _sheet(args)
         parser.print_help()
         return 0
     except SystemExit as stop:  # --help and --version

@@ -284,3 +284,12 @@ def test_gas_nitriding_in_the_window(window, qtbot):
     assert "nitrogen_pct" in window.profile_csv()
     window.undo_action.trigger()
     assert window.plan.kn == pytest.approx(3.0)
+
+
+def test_print_documents_through_qt(window, tmp_path):
+    from casedepth.gui.printing import print_to_pdf
+
+    for kind in ("sheet", "chart"):
+        document = window.document(kind)
+        print_to_pdf(document, str(tmp_path / f"{kind}.pdf"), window.paper)
+        assert (tmp_path / f"{kind}.pdf").stat().st_size > 10000

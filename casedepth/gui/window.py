@@ -67,10 +67,16 @@ class ShopDialog(QDialog):
         "parts_per_load": ("Parts per load", ""),
     }
 
-    def __init__(self, shop: ShopDefaults, parent=None):
+    def __init__(self, shop: ShopDefaults, parent=None, name: str = "", logo: str = ""):
         super().__init__(parent)
         self.setWindowTitle("Shop times and rates")
         form = QFormLayout(self)
+        self.name = QLineEdit(name)
+        self.name.setPlaceholderText("printed in the title block of process sheets")
+        form.addRow("Shop name", self.name)
+        self.logo = QLineEdit(logo)
+        self.logo.setPlaceholderText("path of a PNG logo for process sheets (optional)")
+        form.addRow("Logo file", self.logo)
         self.spins = {}
         for name, (label, suffix) in self.LABELS.items():
             spin = QDoubleSpinBox()
@@ -190,6 +196,21 @@ class MainWindow(QMainWindow):
         file_menu.addSeparator()
         self._action(file_menu, "Export profile as &CSV…", self.export_csv_dialog, "Ctrl+E")
         self._action(file_menu, "Export &plot (PNG, SVG, PDF)…", self.export_plot_dialog, "Ctrl+Shift+E")
+        file_menu.addSeparator()
+        self._action(file_menu, "Print process &sheet…", lambda: self.print_document("sheet"), QKeySequence.Print)
+        self._action(file_menu, "Preview process sheet…", lambda: self.preview_document("sheet"))
+        self._action(file_menu, "Export process sheet…", lambda: self.export_document_dialog("sheet"))
+        self._action(file_menu, "Print case-depth &chart…", lambda: self.print_document("chart"))
+        self._action(file_menu, "Preview case-depth chart…", lambda: self.preview_document("chart"))
+        self._action(file_menu, "Export case-depth chart…", lambda: self.export_document_dialog("chart"))
+        paper_menu = file_menu.addMenu("Paper")
+        paper_group = QActionGroup(self)
+        for key, text in (("a4", "A4"), ("letter", "US Letter")):
+            action = QAction(text, self, checkable=True)
+            action.setChecked(self.paper == key)
+            action.triggered.connect(lambda _=False, k=key: self.settings.setValue("paper", k))
+            paper_group.addAction(action)
+            paper_menu.addAction(action)
         file_menu.addSeparator()
         self._action(file_menu, "&Quit", self.close, QKeySequence.Quit)
         edit_menu = bar.addMenu("&Edit")
@@ -333,8 +354,11 @@ class MainWindow(QMainWindow):
 
     def edit_shop(self) -> None:
         """Edit the shop's times and rates for this plan, and optionally keep them for new plans."""
-        dialog = ShopDialog(self.plan.shop_defaults(), self)
+        dialog = ShopDialog(self.plan.shop_defaults(), self, str(self.settings.value("shop_name", "")),
+                            str(self.settings.value("shop_logo", "")))
         if dialog.exec() == QDialog.Accepted:
+            self.settings.setValue("shop_name", dialog.name.text().strip())
+            self.settings.setValue("shop_logo", dialog.logo.text().strip())
             self.apply_shop(dialog.values(), dialog.keep.isChecked())
 
     def apply_shop(self, shop: ShopDefaults, keep: bool = False) -> None:
@@ -470,6 +494,60 @@ class MainWindow(QMainWindow):
                                               "PNG image (*.png);;SVG drawing (*.svg);;PDF document (*.pdf)")
         if path:
             self.export_plot(path)
+
+    # -- printed documents --------------------------------------------------------------------------------------------
+    @property
+    def paper(self) -> str:
+        return str(self.settings.value("paper", "letter" if self.units.imperial else "a4"))
+
+    def document(self, kind: str):
+        """The process sheet of the plan, or a case-depth chart for its steel at three temperatures."""
+        from ..documents import case_depth_chart, process_sheet
+
+        if self.outcome is None:
+            raise InputError("document", "there is no result to print yet")
+        if kind == "sheet":
+            return process_sheet(self.plan, self.outcome, paper=self.paper, units=self.units.system,
+                                 shop=str(self.settings.value("shop_name", "")),
+                                 logo=str(self.settings.value("shop_logo", "")) or None, revision="A")
+        setup = self.outcome.setup
+        if self.outcome.process == "nitriding":
+            raise InputError("document", "the case-depth chart is for carburizing plans")
+        temperatures = [setup.temperature + dt for dt in (-25.0, 0.0, 25.0)]
+        return case_depth_chart(setup, temperatures=temperatures, paper=self.paper, units=self.units.system)
+
+    def _document_or_message(self, kind: str):
+        try:
+            return self.document(kind)
+        except InputError as error:
+            QMessageBox.warning(self, "Nothing to print", error.message)
+            return None
+
+    def print_document(self, kind: str) -> None:
+        from .printing import print_with_dialog
+
+        document = self._document_or_message(kind)
+        if document is not None:
+            print_with_dialog(self, document, self.paper)
+
+    def preview_document(self, kind: str) -> None:
+        from .printing import preview
+
+        document = self._document_or_message(kind)
+        if document is not None:
+            preview(self, document, self.paper)
+
+    def export_document_dialog(self, kind: str) -> None:
+        document = self._document_or_message(kind)
+        if document is None:
+            return
+        name = f"{self.plan.title}-{'sheet' if kind == 'sheet' else 'chart'}.pdf"
+        path, _ = QFileDialog.getSaveFileName(self, "Export", name,
+                                              "PDF document (*.pdf);;SVG drawing (*.svg);;PNG image (*.png)")
+        if path:
+            from ..documents import save
+
+            save(document, path)
 
     # -- help ----------------------------------------------------------------------------------------------------
     def models_text(self) -> str:

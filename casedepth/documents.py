@@ -1,0 +1,342 @@
+"""Printed output: the case-depth chart and the process sheet, as matplotlib pages (no Qt).
+
+Each builder returns a :class:`Document`: pages (matplotlib Figures sized for A4 or US Letter) and
+the numbers printed on them, so tests and callers can check the paper against the solver.
+:func:`save` writes PDF (all pages in one file), SVG or PNG (one file per page).
+"""
+
+from __future__ import annotations
+
+import datetime as _dt
+import math
+import os
+import tempfile
+from dataclasses import dataclass, field, replace
+from pathlib import Path
+
+import numpy as np
+from matplotlib.backends.backend_pdf import PdfPages
+from matplotlib.figure import Figure
+from matplotlib.patches import Rectangle
+
+from . import __version__, safety
+from .carburizing import CarburizingSetup, carburize, soak_times_for_case_depths
+from .errors import InputError, NotReachableError
+from .hardness import HARDNESS_RELATIONS
+from .nitriding import PHASE_NAMES
+from .recipe import timeline
+from .units import DisplayUnits, format_duration
+
+PAPER = {"a4": (8.27, 11.69), "letter": (8.5, 11.0)}  # inches, portrait
+METRIC_DEPTHS = (0.3, 0.5, 0.8, 1.0, 1.2, 1.5, 2.0, 2.5)  # mm
+IMPERIAL_DEPTHS = (0.010, 0.020, 0.030, 0.040, 0.050, 0.060, 0.080, 0.100)  # in
+INK = "#1d3557"
+COLOURS = ("#1d3557", "#d1495b", "#2a9d8f", "#e9a03b", "#6c4f9c", "#6c757d")
+STAGES_PER_PAGE = 22
+
+
+@dataclass
+class Document:
+    """Pages ready to print, with the figures printed on them."""
+
+    pages: list[Figure]
+    title: str
+    table: list[list[str]] = field(default_factory=list)  # the chart's soak-time table as printed
+    values: dict = field(default_factory=dict)  # numbers behind the table, SI
+
+
+def _page(paper: str) -> Figure:
+    if paper not in PAPER:
+        raise InputError("paper", f"unknown paper {paper!r}; use a4 or letter")
+    return Figure(figsize=PAPER[paper])
+
+
+def _footer(fig: Figure, text: str, number: int, total: int) -> None:
+    fig.text(0.06, 0.025, text, fontsize=6.5, color="#555")
+    fig.text(0.94, 0.025, f"page {number} of {total}", fontsize=6.5, color="#555", ha="right")
+
+
+def _table(ax, rows: list[list[str]], header: list[str], widths: list[float] | None = None, size: float = 8):
+    ax.axis("off")
+    table = ax.table(cellText=rows, colLabels=header, loc="upper left", cellLoc="left", colLoc="left",
+                     colWidths=widths)
+    table.auto_set_font_size(False)
+    table.set_fontsize(size)
+    table.scale(1.0, 1.25)
+    for (r, _), cell in table.get_celld().items():
+        cell.set_edgecolor("#bbbbbb")
+        if r == 0:
+            cell.set_facecolor("#e8eef4")
+            cell.set_text_props(weight="bold")
+    return table
+
+
+# -- case-depth chart ---------------------------------------------------------------------------------
+def case_depth_chart(setup: CarburizingSetup, temperatures: list[float] | None = None,
+                     potentials: list[float] | None = None, paper: str = "a4", units: str = "metric",
+                     hours: float = 24.0, date: _dt.date | None = None) -> Document:
+    """Effective case depth against time for several temperatures [K] (or potentials [wt %]), with a
+    table of soak times for the standard depths of ``units``; one page."""
+    if bool(temperatures) == bool(potentials):
+        raise InputError("temperatures", "give several temperatures or several potentials (not both)")
+    u = DisplayUnits(units)
+    variants = ([replace(setup, temperature=T) for T in temperatures] if temperatures
+                else [replace(setup, carbon_potential=p) for p in potentials])
+    labels = ([u.format_temperature(T) for T in temperatures] if temperatures
+              else [f"{p:.2f} %C" for p in potentials])
+    depths = [d * 1e-3 for d in METRIC_DEPTHS] if not u.imperial else [d * 0.0254 for d in IMPERIAL_DEPTHS]
+    fig = _page(paper)
+    fig.subplots_adjust(left=0.1, right=0.95)
+    ax = fig.add_axes([0.1, 0.50, 0.85, 0.36])
+    rows = [[u.format_length(d)] for d in depths]
+    values: dict = {"depths": depths, "labels": labels, "soak_times": []}
+    for k, (variant, label) in enumerate(zip(variants, labels)):
+        curve = carburize(variant, hours * 3600.0)
+        ax.plot(curve.history_time / 3600.0, u.length(curve.history_depth), color=COLOURS[k % len(COLOURS)], lw=2,
+                label=label)
+        times = []
+        for depth, row in zip(depths, rows):
+            try:
+                t = soak_times_for_case_depths(variant, [depth])[0].soak_time
+            except (InputError, NotReachableError):
+                t = math.nan
+            times.append(t)
+            row.append("—" if math.isnan(t) else f"{format_duration(t)}  ({t / 3600:.2f} h)")
+        values["soak_times"].append(times)
+    ax.set_xlim(0, hours)
+    ax.set_ylim(0, None)
+    ax.set_xlabel("time at temperature [h]")
+    ax.set_ylabel(f"effective case depth [{u.length_unit}] at {setup.threshold}")
+    ax.grid(True, color="#dddddd", lw=0.6)
+    ax.legend(title="temperature" if temperatures else "carbon potential", fontsize=8, title_fontsize=8)
+    steel = setup.steel
+    fig.text(0.1, 0.955, f"Case-depth chart — {steel.name}", fontsize=15, weight="bold", color=INK)
+    what = (f"carbon potential {setup.carbon_potential:.2f} %C" if temperatures
+            else f"temperature {u.format_temperature(setup.temperature)}")
+    beta = "surface held at equilibrium" if math.isinf(setup.beta) else f"β = {setup.beta * 100:.3g} cm/s"
+    relation = HARDNESS_RELATIONS[setup.hardness_relation]
+    lines = [
+        f"{steel.standard}; core {steel.carbon:.3f} %C; {what}; threshold {setup.threshold}"
+        + ("" if setup.threshold.kind == "carbon" else f" (= {setup.threshold_carbon:.3f} %C, {relation.display.lower()})"),
+        f"Models: D {setup.diffusivity.display}; {beta}; alloy factor "
+        + (f"{setup.alloy_factor:.3f} (Gunnarson)" if setup.alloy_factor_on else "off")
+        + f"; {setup.geometry.describe()}. Time at temperature only: heat-up and drop are not included.",
+        f"Printed {(date or _dt.date.today()).isoformat()} by casedepth {__version__}.",
+    ]
+    y = 0.925
+    for line in lines:
+        y = _wrapped(fig, 0.1, y, line, 7.5, 118) - 0.016
+    table_ax = fig.add_axes([0.1, 0.08, 0.83, 0.36])
+    header = [f"case depth ({u.length_unit})"] + [f"soak at {label}" for label in labels]
+    _table(table_ax, rows, header, size=7.5 if len(labels) > 3 else 8)
+    fig.text(0.1, 0.455, "Soak times for standard depths", fontsize=10, weight="bold", color=INK)
+    _footer(fig, "Estimates from published diffusion models; confirm on the shop's own sections. "
+                 "Local codes and licensed practice govern furnace operation.", 1, 1)
+    return Document([fig], f"Case-depth chart {steel.name}", [header] + rows, values)
+
+
+# -- process sheet ----------------------------------------------------------------------------------------
+def process_sheet(plan, outcome, paper: str = "a4", units: str = "metric", shop: str = "",
+                  logo: str | None = None, revision: str = "A", date: _dt.date | None = None) -> Document:
+    """The process sheet of a plan and its outcome (from :func:`casedepth.plan.evaluate`)."""
+    u = DisplayUnits(units)
+    nitriding = outcome.process == "nitriding"
+    pages: list[Figure] = []
+    first = _page(paper)
+    pages.append(first)
+    _title_block(first, plan, shop, logo, revision, date or _dt.date.today())
+    steel = outcome.setup.steel
+    composition = "  ".join(f"{el} {val:g}" for el, val in steel.composition.items())
+    y = 0.80
+    first.text(0.06, y, "Steel", fontsize=10, weight="bold", color=INK)
+    first.text(0.06, y - 0.02, f"{steel.name} — {steel.standard}; composition, wt %: {composition}", fontsize=8)
+    y -= 0.055
+    first.text(0.06, y, "Result", fontsize=10, weight="bold", color=INK)
+    for i, line in enumerate(_result_lines(outcome, u)):
+        first.text(0.06, y - 0.02 - i * 0.017, line, fontsize=8)
+    profile_ax = first.add_axes([0.10, 0.38, 0.38, 0.22])
+    hardness_ax = first.add_axes([0.58, 0.38, 0.36, 0.22])
+    _profiles(profile_ax, hardness_ax, outcome, u)
+    warnings = list(outcome.warnings)
+    y = 0.32
+    if warnings:
+        first.text(0.06, y, "Warnings", fontsize=10, weight="bold", color="#8a5a00")
+        for w in warnings:
+            y -= 0.018
+            y = _wrapped(first, 0.06, y, f"• {w}", 8, 120)
+        y -= 0.02
+    first.text(0.06, y, "Safety", fontsize=10, weight="bold", color="#b00020")
+    for c in outcome.cautions:
+        y -= 0.018
+        y = _wrapped(first, 0.06, y, f"• {c.title}. {c.text}", 7.5, 125)
+    y -= 0.02
+    _wrapped(first, 0.06, y, safety.DEFERENCE, 7.5, 125, style="italic")
+    if not nitriding:
+        stage_rows = [[s.label, f"{s.duration / 3600:.2f}",
+                       "" if s.temperature is None else u.format_temperature(s.temperature),
+                       "" if s.carbon_potential is None else f"{s.carbon_potential:.2f}"] for s in outcome.stages]
+        quote = outcome.quote
+        chunks = [stage_rows[i:i + STAGES_PER_PAGE] for i in range(0, len(stage_rows), STAGES_PER_PAGE)] or [[]]
+        for index, chunk in enumerate(chunks):
+            page = _page(paper)
+            pages.append(page)
+            page.text(0.06, 0.95, f"{plan.title} — cycle" + (f" (continued, {index + 1} of {len(chunks)})" if len(chunks) > 1 else ""),
+                      fontsize=12, weight="bold", color=INK)
+            if index == 0:
+                ax = page.add_axes([0.10, 0.64, 0.80, 0.26])
+                _timeline(ax, outcome, u)
+            table_ax = page.add_axes([0.06, 0.08, 0.88, 0.50 if index == 0 else 0.82])
+            _table(table_ax, chunk, ["stage", "hours", "temperature", "carbon potential %C"], [0.40, 0.15, 0.22, 0.23])
+            if index == len(chunks) - 1:
+                money = f" {quote.currency}" if quote.currency else ""
+                page.text(0.06, 0.055, f"Whole cycle {quote.total_h:.2f} h ({format_duration(quote.total_h * 3600)}); "
+                                       f"cost {quote.cost_per_load:.2f}{money} per load, {quote.cost_per_part:.3f}{money} "
+                                       f"per part", fontsize=9, weight="bold")
+    footer = f"{plan.title} — revision {revision} — casedepth {__version__} — estimates; local codes and licensed practice govern"
+    for number, page in enumerate(pages, 1):
+        _footer(page, footer, number, len(pages))
+    return Document(pages, plan.title)
+
+
+def _title_block(fig: Figure, plan, shop: str, logo: str | None, revision: str, date: _dt.date) -> None:
+    fig.patches.append(Rectangle((0.05, 0.86), 0.90, 0.11, transform=fig.transFigure, fill=False, edgecolor=INK, lw=1.2))
+    left = 0.07
+    if logo:
+        try:
+            import matplotlib.image as mpimg
+
+            image = mpimg.imread(logo)
+            ax = fig.add_axes([0.065, 0.87, 0.09, 0.09])
+            ax.imshow(image)
+            ax.axis("off")
+            left = 0.17
+        except (OSError, ValueError, SyntaxError):
+            pass
+    fig.text(left, 0.945, shop or "Process sheet", fontsize=9, color="#555")
+    fig.text(left, 0.915, plan.title, fontsize=14, weight="bold", color=INK)
+    fig.text(left, 0.89, f"Part: {plan.part or '—'}", fontsize=9)
+    fig.text(0.93, 0.945, f"Revision {revision}", fontsize=9, ha="right")
+    fig.text(0.93, 0.925, f"Date {date.isoformat()}", fontsize=9, ha="right")
+    treatment = "Gas nitriding" if plan.treatment == "nitriding" else "Carburizing"
+    fig.text(0.93, 0.905, treatment, fontsize=9, ha="right")
+    if plan.notes:
+        fig.text(left, 0.868, plan.notes.splitlines()[0][:110], fontsize=7.5, style="italic", color="#333")
+
+
+def _result_lines(outcome, u: DisplayUnits) -> list[str]:
+    s = outcome.setup
+    low, aim, high = outcome.targets
+    if outcome.process == "nitriding":
+        a = outcome.aim
+        return [f"Nitride {format_duration(a.time)} at {u.format_temperature(s.temperature)}, K_N "
+                f"{s.nitriding_potential:.2f} atm^-1/2; window {u.format_length(low)}–{u.format_length(high)}: "
+                f"{format_duration(outcome.low.time)} to {format_duration(outcome.high.time)}",
+                f"Nitrided hardness depth {u.format_length(a.nitrided_depth)} (core {s.core:.0f} HV + 50 HV); "
+                f"compound layer {a.compound_layer * 1e6:.1f} µm, {PHASE_NAMES[s.phase]}"]
+    lines = []
+    if outcome.process == "single":
+        lines.append(f"Soak {format_duration(outcome.aim.soak_time)} at {u.format_temperature(s.temperature)}, carbon "
+                     f"potential {s.carbon_potential:.2f} %C; window {u.format_length(low)}–{u.format_length(high)}: "
+                     f"{format_duration(outcome.low.soak_time)} to {format_duration(outcome.high.soak_time)}")
+    elif outcome.boost_time is not None:
+        lines.append(f"Boost {format_duration(outcome.boost_time)}, then diffuse {format_duration(outcome.diffuse_time)} "
+                     f"at {u.format_temperature(s.temperature)}")
+    else:
+        lines.append("Stages as entered (see the cycle page)")
+    lines.append(f"Effective case depth {u.format_length(outcome.case_depth)} at {s.threshold}; surface carbon "
+                 f"{outcome.surface_carbon:.3f} %C at the end; aim {u.format_length(aim)}")
+    return lines
+
+
+def _profiles(ax, hax, outcome, u: DisplayUnits) -> None:
+    low, aim, high = outcome.targets
+    for axis in (ax, hax):
+        axis.axvspan(u.length(low), u.length(high), color="#7fb685", alpha=0.25, lw=0)
+        axis.axvline(u.length(aim), color="#7fb685", lw=1)
+        axis.grid(True, color="#dddddd", lw=0.5)
+        axis.tick_params(labelsize=7)
+        axis.set_xlabel(f"depth [{u.length_unit}]", fontsize=8)
+    if outcome.process == "nitriding":
+        a = outcome.aim
+        ax.plot(u.length(a.depth), a.nitrogen, color=INK, lw=1.6)
+        ax.set_ylabel("nitrogen [wt %]", fontsize=8)
+        hax.plot(u.length(a.depth), a.hardness, color=INK, lw=1.6)
+        hax.axhline(a.setup.core + 50, color="#d1495b", ls="--", lw=1)
+        reach = max(high * 1.8, a.nitrided_depth * 1.5)
+    else:
+        profile = outcome.profile
+        ax.plot(u.length(profile.depth), profile.carbon, color=INK, lw=1.6)
+        ax.axhline(outcome.setup.threshold_carbon, color="#d1495b", ls="--", lw=1)
+        ax.set_ylabel("carbon [wt %]", fontsize=8)
+        relation = HARDNESS_RELATIONS[outcome.setup.hardness_relation]
+        hax.plot(u.length(profile.depth), relation.hv(profile.carbon), color=INK, lw=1.6)
+        reach = max(high * 2.2, outcome.case_depth * 2.0)
+    hax.set_ylabel("hardness [HV]", fontsize=8)
+    for axis in (ax, hax):
+        axis.set_xlim(0, u.length(reach))
+    ax.set_title("Profile at the end", fontsize=9)
+    hax.set_title("Estimated hardness", fontsize=9)
+
+
+def _timeline(ax, outcome, u: DisplayUnits) -> None:
+    times, temps, pots, labels = timeline(outcome.stages)
+    ax.plot(times / 3600, [u.temperature(t) for t in temps], color=INK, lw=1.8)
+    ax.set_ylabel(f"temperature [{u.temperature_unit}]", fontsize=8)
+    ax.set_xlabel("time in the cycle [h]", fontsize=8)
+    ax.grid(True, color="#dddddd", lw=0.5)
+    ax.tick_params(labelsize=7)
+    pax = ax.twinx()
+    pax.plot(times / 3600, pots, color="#d1495b", ls="--", lw=1.4)
+    pax.set_ylabel("carbon potential [%C]", fontsize=8, color="#d1495b")
+    pax.tick_params(labelsize=7)
+    if np.isfinite(pots).any():
+        pax.set_ylim(0, max(1.6, np.nanmax(pots) * 1.15))
+    ax.set_title("Temperature (solid) and carbon potential (dashed)", fontsize=9)
+
+
+def _wrapped(fig: Figure, x: float, y: float, text: str, size: float, width: int, style: str = "normal") -> float:
+    import textwrap
+
+    lines = textwrap.wrap(text, width)
+    for i, line in enumerate(lines):
+        fig.text(x, y - i * size * 0.0019, line, fontsize=size, style=style)
+    return y - (len(lines) - 1) * size * 0.0019
+
+
+# -- writing ----------------------------------------------------------------------------------------------
+def save(document: Document, path: str | os.PathLike, fmt: str | None = None, dpi: int = 200) -> list[Path]:
+    """Write the document: PDF with every page in one file; SVG or PNG one file per page (name-2.png …).
+
+    Each file is written to a temporary name and renamed, so a failed write leaves no half file.
+    """
+    path = Path(path)
+    fmt = (fmt or path.suffix.lstrip(".")).lower()
+    if fmt not in ("pdf", "svg", "png"):
+        raise InputError("output", f"unknown format {fmt!r}; use pdf, svg or png")
+    written = []
+
+    def atomic(target: Path, write):
+        handle, temporary = tempfile.mkstemp(suffix=target.suffix, dir=target.parent)
+        os.close(handle)
+        try:
+            write(temporary)
+            os.replace(temporary, target)
+        except BaseException:
+            if os.path.exists(temporary):
+                os.unlink(temporary)
+            raise
+        written.append(target)
+
+    if fmt == "pdf":
+        def write_pdf(name):
+            with PdfPages(name, metadata={"Title": document.title, "Creator": f"casedepth {__version__}"}) as pdf:
+                for page in document.pages:
+                    pdf.savefig(page)
+
+        atomic(path, write_pdf)
+    else:
+        for number, page in enumerate(document.pages, 1):
+            target = path if len(document.pages) == 1 else path.with_name(f"{path.stem}-{number}{path.suffix}")
+            atomic(target, lambda name, p=page: p.savefig(name, format=fmt, dpi=dpi))
+    return written
+

@@ -1,0 +1,100 @@
+"""Printed output: case-depth charts and process sheets (issue: printed output)."""
+
+import math
+import shutil
+import subprocess
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+import casedepth
+from casedepth.cli import main
+from casedepth.documents import case_depth_chart, process_sheet, save
+from casedepth.plan import Plan, evaluate
+
+K = 273.15
+EXAMPLES = Path(__file__).resolve().parent.parent / "resources" / "examples"
+
+
+def page_is_not_blank(figure) -> bool:
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+
+    canvas = FigureCanvasAgg(figure)
+    canvas.draw()
+    pixels = np.asarray(canvas.buffer_rgba())[..., :3]
+    return float((pixels < 200).mean()) > 0.005
+
+
+@pytest.mark.parametrize("paper", ["a4", "letter"])
+@pytest.mark.parametrize("units", ["metric", "imperial"])
+def test_chart_for_every_paper_and_unit_system(paper, units, tmp_path):
+    setup = casedepth.setup("8620", "925C", 1.0)
+    document = case_depth_chart(setup, temperatures=[900 + K, 925 + K, 950 + K], paper=paper, units=units)
+    assert len(document.pages) == 1 and page_is_not_blank(document.pages[0])
+    width, height = document.pages[0].get_size_inches()
+    assert (width, height) == ((8.27, 11.69) if paper == "a4" else (8.5, 11.0))
+    for fmt in ("pdf", "svg", "png"):
+        written = save(document, tmp_path / f"chart.{fmt}")
+        assert written and written[0].stat().st_size > 5000
+
+
+def test_chart_table_equals_the_solver():
+    """The printed soak times are the solver's, for every standard depth and temperature."""
+    setup = casedepth.setup("8620", "925C", 1.0)
+    temperatures = [900 + K, 950 + K]
+    document = case_depth_chart(setup, temperatures=temperatures)
+    header, *rows = document.table
+    assert header[1:] == ["soak at 900 °C", "soak at 950 °C"]
+    for k, T in enumerate(temperatures):
+        for depth, row, printed in zip(document.values["depths"], rows, document.values["soak_times"][k]):
+            alone = casedepth.soak_time_for_case_depth(casedepth.setup("8620", f"{T}K", 1.0), depth).soak_time
+            assert printed == pytest.approx(alone, rel=1e-9)
+            assert f"({alone / 3600:.2f} h)" in row[k + 1]
+
+
+def test_chart_over_potentials():
+    setup = casedepth.setup("8620", "925C", 1.0)
+    document = case_depth_chart(setup, potentials=[0.9, 1.0, 1.1])
+    times = document.values["soak_times"]
+    assert all(a > b for a, b in zip([t[3] for t in times], [t[3] for t in times][1:]))  # richer is faster
+
+
+@pytest.mark.parametrize("name", ["pinion-shaft.cdplan.json", "ring-gear-boost-diffuse.cdplan.json",
+                                  "piston-rod-nitrided.cdplan.json"])
+@pytest.mark.parametrize("paper", ["a4", "letter"])
+def test_process_sheets(name, paper, tmp_path):
+    plan = Plan.load(EXAMPLES / name)
+    document = process_sheet(plan, evaluate(plan.values()), paper=paper, shop="Demo shop (invented)")
+    assert all(page_is_not_blank(page) for page in document.pages)
+    texts = [t.get_text() for page in document.pages for t in page.texts]
+    assert any(plan.title in t for t in texts)
+    assert any("licensed practice" in t for t in texts)
+    save(document, tmp_path / "sheet.pdf")
+
+
+def test_long_plans_flow_onto_further_pages():
+    stages = [{"kind": "soak", "duration_h": 0.1, "temperature_c": 925.0, "carbon_potential_pct": 1.0}] * 60
+    plan = Plan(process="stages", stages=stages, title="Sixty short soaks")
+    document = process_sheet(plan, evaluate(plan.values()))
+    assert len(document.pages) == 1 + math.ceil(60 / 22)
+
+
+@pytest.mark.skipif(shutil.which("pdftotext") is None, reason="pdftotext (poppler-utils) not installed")
+def test_pdf_text_carries_the_soak_times(tmp_path):
+    setup = casedepth.setup("8620", "925C", 1.0)
+    document = case_depth_chart(setup, temperatures=[925 + K])
+    save(document, tmp_path / "chart.pdf")
+    text = subprocess.run(["pdftotext", str(tmp_path / "chart.pdf"), "-"], capture_output=True, text=True).stdout
+    assert document.table[4][1].split("(")[1].rstrip(")") in text  # e.g. "6.79 h" for 1.0 mm
+
+
+def test_cli_chart_and_sheet(tmp_path, capsys):
+    assert main(["chart", "--steel", "8620", "--temperatures", "900,925,950", "--potential", "1.0", "--at", "0.40%C",
+                 "--pdf", str(tmp_path / "c.pdf"), "--svg", str(tmp_path / "c.svg"), "--paper", "letter",
+                 "--units", "imperial"]) == 0
+    assert (tmp_path / "c.pdf").stat().st_size > 5000 and (tmp_path / "c.svg").exists()
+    assert main(["sheet", str(EXAMPLES / "ring-gear-boost-diffuse.cdplan.json"), "--pdf", str(tmp_path / "s.pdf")]) == 0
+    assert (tmp_path / "s.pdf").stat().st_size > 5000
+    assert main(["chart", "--steel", "8620", "--temperatures", "900"]) == 2
+    assert "--pdf" in capsys.readouterr().err
