@@ -114,7 +114,7 @@ def _build_parser() -> argparse.ArgumentParser:
     sh.add_argument("--units", default="metric", choices=["metric", "imperial"], help="units on the sheet")
     sh.add_argument("--shop", default="", help="shop name for the title block")
     sh.add_argument("--logo", help="logo image (PNG) for the title block")
-    sh.add_argument("--revision", default="A", help="revision letter (default A)")
+    sh.add_argument("--revision", help="revision (default: the plan's)")
 
     r = commands.add_parser("run", help="run a saved plan and print its results and the cycle quote",
                             description="Run a saved plan (*.cdplan.json) and print its results and the cycle quote.")
@@ -442,7 +442,7 @@ def _sheet(args) -> int:
     outputs = _outputs(args)
     plan = Plan.load(args.plan)
     document = process_sheet(plan, evaluate(plan.values()), paper=args.paper, units=args.units, shop=args.shop,
-                             logo=args.logo, revision=args.revision)
+                             logo=args.logo, revision=args.revision or plan.revision)
     for fmt, path in outputs:
         for written in save(document, path, fmt):
             print(f"wrote {written}")

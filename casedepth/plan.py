@@ -48,6 +48,7 @@ class Field:
 FIELDS: dict[str, Field] = {
     "title": Field("Untitled plan", "title"),
     "part": Field("", "part"),
+    "revision": Field("A", "revision"),
     "notes": Field("", "notes"),
     "steel": Field("8620", "steel"),
     "composition": Field(None, "composition_pct"),

@@ -62,10 +62,10 @@ def test_chart_over_potentials():
 
 @pytest.mark.parametrize("name", ["pinion-shaft.cdplan.json", "ring-gear-boost-diffuse.cdplan.json",
                                   "piston-rod-nitrided.cdplan.json"])
-@pytest.mark.parametrize("paper", ["a4", "letter"])
-def test_process_sheets(name, paper, tmp_path):
+@pytest.mark.parametrize("paper,units", [("a4", "metric"), ("letter", "imperial")])
+def test_process_sheets(name, paper, units, tmp_path):
     plan = Plan.load(EXAMPLES / name)
-    document = process_sheet(plan, evaluate(plan.values()), paper=paper, shop="Demo shop (invented)")
+    document = process_sheet(plan, evaluate(plan.values()), paper=paper, units=units, shop="Demo shop (invented)")
     assert all(page_is_not_blank(page) for page in document.pages)
     texts = [t.get_text() for page in document.pages for t in page.texts]
     assert any(plan.title in t for t in texts)

@@ -17,7 +17,7 @@ def changed_plan() -> Plan:
     """A plan with every field away from its default."""
     plan = Plan()
     plan.choose_steel("20MnCr5")
-    plan.update(title="Spline shaft SS-8", part="SS-8", notes="two lines\nof notes", shape="cylinder", size=0.045,
+    plan.update(title="Spline shaft SS-8", part="SS-8", revision="C", notes="two lines\nof notes", shape="cylinder", size=0.045,
                 temperature=950 + 273.15, carbon_potential=1.1, case_min=0.5e-3, case_max=0.7e-3, aim=0.3,
                 threshold_kind="HRC", threshold_value=52.0, diffusivity="arrhenius", d_multiplier=1.2,
                 d0=2.0e-5, q=140e3, beta=2.2e-7, beta_held=True, alloy_factor=False,

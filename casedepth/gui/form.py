@@ -100,6 +100,11 @@ class PlanForm(QWidget):
         self.part.setPlaceholderText("part number or description")
         self.part.editingFinished.connect(lambda: self._set("part", self.part.text().strip()))
         form.addRow("Part", self.part)
+        self.revision = QLineEdit()
+        self.revision.setMaximumWidth(60)
+        self.revision.setToolTip("Revision printed on the process sheet")
+        self.revision.editingFinished.connect(lambda: self._set("revision", self.revision.text().strip() or "A"))
+        form.addRow("Revision", self.revision)
         self.treatment = QComboBox()
         self.treatment.addItem("Carburizing", "carburizing")
         self.treatment.addItem("Gas nitriding", "nitriding")
@@ -557,6 +562,8 @@ class PlanForm(QWidget):
                 self.title.setText(p.title)
             if self.part.text() != p.part:
                 self.part.setText(p.part)
+            if self.revision.text() != p.revision:
+                self.revision.setText(p.revision)
             if self.notes.toPlainText() != p.notes:
                 self.notes.setPlainText(p.notes)
             index = self.steel.findData(p.steel)

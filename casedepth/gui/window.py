@@ -509,7 +509,7 @@ class MainWindow(QMainWindow):
         if kind == "sheet":
             return process_sheet(self.plan, self.outcome, paper=self.paper, units=self.units.system,
                                  shop=str(self.settings.value("shop_name", "")),
-                                 logo=str(self.settings.value("shop_logo", "")) or None, revision="A")
+                                 logo=str(self.settings.value("shop_logo", "")) or None, revision=self.plan.revision)
         setup = self.outcome.setup
         if self.outcome.process == "nitriding":
             raise InputError("document", "the case-depth chart is for carburizing plans")
