@@ -26,8 +26,6 @@ import math
 from dataclasses import dataclass, field
 
 import numpy as np
-from scipy.optimize import brentq
-from scipy.special import erf
 
 from .errors import InputError, NotReachableError
 from .steels import Steel
@@ -94,6 +92,8 @@ def nitriding_potential_from_dissociation(dissociation: float) -> float:
 def dissociation_for_potential(K_N: float) -> float:
     """The dissociation [-] of a pure-ammonia feed that gives nitriding potential ``K_N`` [atm^-1/2]."""
     _check_kn(K_N)
+    from scipy.optimize import brentq  # imported on first use: it is slow to import
+
     return brentq(lambda d: nitriding_potential_from_dissociation(d) - K_N, 1e-6, 1 - 1e-9, xtol=1e-12)
 
 
@@ -182,6 +182,8 @@ def Wagner_front_factor(surface_nitrogen: float, capacity: float) -> float:
     .. [1] Wagner, C. "Reaktionstypen bei der Oxydation von Legierungen." Z. Elektrochem. 63 (1959) 772–790.
     .. [2] Meijering, J. L. "Internal oxidation in alloys." In Advances in Materials Research 5 (1971) 1–81.
     """
+    from scipy.optimize import brentq  # imported on first use: it is slow to import
+
     ratio = surface_nitrogen / capacity
 
     def f(g):
@@ -338,6 +340,8 @@ def nitride(setup: NitridingSetup, time: float) -> NitridingResult:
     x = np.linspace(0.0, 1.0, 401) ** 1.5 * max(4.0 * length, 1e-4)
     core, surface = setup.core, setup.surface
     if c_m >= 0.005:
+        from scipy.special import erf  # imported on first use: it is slow to import
+
         gamma = Wagner_front_factor(c_s, c_m)
         front = gamma * length
         dissolved = np.where(x < front, c_s * (1.0 - erf(x / length) / erf(gamma)), 0.0)
@@ -356,6 +360,8 @@ def nitride(setup: NitridingSetup, time: float) -> NitridingResult:
 
 
 def _erfcinv(y: float) -> float:
+    from scipy.optimize import brentq  # imported on first use: it is slow to import
+
     return brentq(lambda v: math.erfc(v) - y, 0.0, 10.0, xtol=1e-14)
 
 
@@ -363,6 +369,8 @@ def nitriding_time(setup: NitridingSetup, target_depth: float) -> NitridingResul
     """The soak [s] for a nitrided hardness depth (core + 50 HV) of ``target_depth`` [m], and what it gives."""
     if not (math.isfinite(target_depth) and 0.02e-3 <= target_depth <= 2e-3):
         raise InputError("target", f"{target_depth * 1e3:g} mm is outside 0.02–2 mm")
+
+    from scipy.optimize import brentq  # imported on first use: it is slow to import
 
     def miss(log_t):
         return nitride(setup, math.exp(log_t)).nitrided_depth - target_depth
