@@ -48,7 +48,12 @@ class _PlotPage(QWidget):
         layout = QVBoxLayout(self)
         layout.setContentsMargins(0, 0, 0, 0)
         layout.addWidget(self.toolbar)
-        layout.addWidget(self.canvas)
+        layout.addWidget(self.canvas, 1)
+        # the key lives in Qt, not in the figure: drawing a legend costs a third of every redraw
+        self.key = QLabel()
+        self.key.setObjectName("plot_key")
+        self.key.setWordWrap(True)
+        layout.addWidget(self.key)
         ax = self.axes = self.figure.add_subplot()
         ax.grid(True, color="#dddddd", lw=0.6)
         ax.set_ylabel(ylabel)
@@ -67,14 +72,37 @@ class _PlotPage(QWidget):
         self.axes.set_xlim(0, units.length(reach))
         self.axes.set_xlabel(f"depth below the surface [{units.length_unit}]")
 
-    def legend(self) -> None:
-        """Re-make the legend only when its entries change."""
+    def _handles(self):
         patches = [self.band] + ([self.compound_band] if getattr(self, "compound_band", None) is not None else [])
-        handles = [h for h in self.axes.get_lines() + patches if h.get_visible() and not h.get_label().startswith("_")]
-        key = tuple(h.get_label() for h in handles)
+        return [h for h in self.axes.get_lines() + patches if h.get_visible() and not h.get_label().startswith("_")]
+
+    def legend(self) -> None:
+        """Show the key under the plot (re-made only when its entries change)."""
+        handles = self._handles()
+        key = tuple((h.get_label(), _swatch(h)) for h in handles)
         if key != self._legend_key:
-            self.axes.legend(handles=handles, fontsize=8, loc="upper right", framealpha=0.9)
+            self.key.setText("&nbsp;&nbsp;&nbsp;".join(f"{swatch}&nbsp;{label}" for label, swatch in key))
             self._legend_key = key
+
+    def save(self, path: str, dpi: int = 200) -> None:
+        """Save the figure with the key drawn into it as a legend (an exported picture stands alone)."""
+        legend = self.axes.legend(handles=self._handles(), fontsize=8, loc="upper right", framealpha=0.9)
+        try:
+            self.figure.savefig(path, dpi=dpi)
+        finally:
+            legend.remove()
+
+
+def _swatch(handle) -> str:
+    """A short coloured sample of a line or a band, as HTML."""
+    from matplotlib.colors import to_hex
+
+    colour = to_hex(handle.get_color() if hasattr(handle, "get_linestyle") and hasattr(handle, "get_xdata")
+                    else handle.get_facecolor(), keep_alpha=False)
+    if not hasattr(handle, "get_xdata"):
+        return f"<span style='color:{colour}'>■</span>"
+    style = {"--": "╍╍", ":": "┈┈", "-.": "━·"}.get(handle.get_linestyle(), "━━")
+    return f"<span style='color:{colour}; font-weight:bold'>{style}</span>"
 
 
 class _CyclePage(QSplitter):
@@ -235,6 +263,13 @@ class ProfilePlots(QTabWidget):
 
     def current_figure(self) -> Figure:
         return (self.carbon_page, self.hardness_page, self.cycle_page, self.tradeoff_page)[self.currentIndex()].figure
+
+    def save_current(self, path: str, dpi: int = 200) -> None:
+        page = (self.carbon_page, self.hardness_page, self.cycle_page, self.tradeoff_page)[self.currentIndex()]
+        if isinstance(page, _PlotPage):
+            page.save(path, dpi)
+        else:
+            page.figure.savefig(path, dpi=dpi)
 
     def show_outcome(self, outcome, units: DisplayUnits, time: float | None = None) -> None:
         self.outcome, self.units, self.time = outcome, units, time

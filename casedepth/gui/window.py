@@ -480,7 +480,7 @@ class MainWindow(QMainWindow):
         os.close(handle)
         try:
             self.plots.draw_all()
-            self.plots.current_figure().savefig(temporary, dpi=200)
+            self.plots.save_current(temporary, dpi=200)
             os.replace(temporary, path)
         except BaseException:
             if os.path.exists(temporary):
