@@ -356,21 +356,24 @@ def soak_times_for_case_depths(setup: CarburizingSetup, targets: list[float],
     deepest = max(targets)
     solver = setup.solver(case_depth=size_for if size_for is not None else sorted(targets)[len(targets) // 2])
     cond = setup.surface_condition
-    solver.advance(SOAK_RANGE[1], cond, lambda s: s.threshold_depth(thr) >= deepest)
-    reached = solver.threshold_depth(thr)
+    depths = [0.0]  # threshold depth after every step (the march keeps them: the case grows monotonically)
+
+    def record(s: CarbonSolver) -> bool:
+        depths.append(s.threshold_depth(thr))
+        return depths[-1] >= deepest
+
+    solver.advance(SOAK_RANGE[1], cond, record)
+    reached = depths[-1]
     if reached < deepest:
         raise NotReachableError("target", f"{deepest * 1e3:g} mm is not reached within {SOAK_RANGE[1] / 3600:g} h "
                                 f"(reached {reached * 1e3:.3f} mm); raise the temperature or the carbon potential")
     warnings = setup.warnings()
     results = []
     for target in targets:
-        k = next(i for i in range(1, len(solver.history_time))
-                 if threshold_depth(solver.nodes, solver.snapshot(i), thr, setup.geometry.half_section) >= target)
+        k = int(np.searchsorted(depths, target, side="left"))
         t0 = solver.history_time[k - 1]
         step = solver.history_time[k] - t0
-        depth_start = threshold_depth(solver.nodes, solver.snapshot(k - 1), thr, setup.geometry.half_section)
-        depth_end = threshold_depth(solver.nodes, solver.snapshot(k), thr, setup.geometry.half_section)
-        tau = _land_on(lambda tau: solver.retake(k, tau).depth_at(thr), target, step, depth_start, depth_end)
+        tau = _land_on(lambda tau: solver.retake(k, tau).depth_at(thr), target, step, depths[k - 1], depths[k])
         profile = solver.retake(k, tau)
         depth = profile.depth_at(thr)
         times, carbon = _history(solver, k, profile)
