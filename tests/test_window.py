@@ -11,7 +11,6 @@ pytest.importorskip("PySide6")
 from PySide6.QtCore import QSettings, Qt  # noqa: E402
 from PySide6.QtWidgets import QMessageBox  # noqa: E402
 
-from casedepth.plan import Plan  # noqa: E402
 from casedepth.gui.window import MainWindow  # noqa: E402
 
 PLANS = Path(__file__).parent / "data" / "plans"
