@@ -87,6 +87,7 @@ def _build_parser() -> argparse.ArgumentParser:
     n.add_argument("--compound", help="compound-layer window, e.g. 5-10um: prints the K_N that keeps the layer in it")
     n.add_argument("--core-hardness", help="core hardness after quench and temper, HV (default: the grade's typical value)")
     n.add_argument("--surface-hardness", help="nitrided surface hardness, HV (default: the grade's typical value)")
+    n.add_argument("--d-multiplier", default="1", help="calibration factor on the nitrogen diffusivity (default 1)")
     n.add_argument("--units", default="metric", choices=["metric", "imperial"], help="units of the printed result")
     n.add_argument("--json", action="store_true", help="print one JSON object instead of text")
 
@@ -338,7 +339,8 @@ def _nitride(args) -> int:
     setup = NitridingSetup(
         steel_from_text(args.steel, "steel", process="nitriding"), parse_temperature(args.temperature, "temperature"), kn,
         None if args.core_hardness is None else _number(args.core_hardness, "core hardness"),
-        None if args.surface_hardness is None else _number(args.surface_hardness, "nitrided surface hardness"))
+        None if args.surface_hardness is None else _number(args.surface_hardness, "nitrided surface hardness"),
+        _number(args.d_multiplier, "diffusivity multiplier"))
     if args.target is not None:
         result = nitriding_time(setup, parse_length(args.target, "target"))
     else:

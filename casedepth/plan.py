@@ -84,6 +84,7 @@ FIELDS: dict[str, Field] = {
     "compound_max": Field(10e-6, "compound_layer_max_um", 1e6),
     "core_hardness": Field(None, "core_hardness_hv"),  # None: the grade's typical value
     "surface_hardness": Field(None, "nitrided_surface_hardness_hv"),
+    "n_multiplier": Field(1.0, "nitrogen_diffusivity_multiplier"),  # calibration of the nitriding depth
 }
 TREATMENTS = ("carburizing", "nitriding")
 PROCESSES = ("single", "boost-diffuse", "stages")
@@ -431,10 +432,10 @@ class NitridingOutcome:
 def nitriding_setup(plan: "Plan") -> NitridingSetup:
     try:
         return NitridingSetup(plan.steel_object(), float(plan.temperature), float(plan.kn),
-                              plan.core_hardness, plan.surface_hardness)
+                              plan.core_hardness, plan.surface_hardness, float(plan.n_multiplier))
     except InputError as error:
         field_name = {"nitriding potential": "kn", "core hardness": "core_hardness",
-                      "nitrided surface hardness": "surface_hardness"}.get(error.field, _ERROR_FIELDS.get(error.field, error.field))
+                      "nitrided surface hardness": "surface_hardness", "diffusivity multiplier": "n_multiplier"}.get(error.field, _ERROR_FIELDS.get(error.field, error.field))
         raise InputError(field_name, error.message) from None
 
 

@@ -153,7 +153,16 @@ def test_cli_json(capsys):
     assert 5 <= N.compound_layer_thickness(793.15, data["kn_for_compound_window"], data["soak_time_h"] * 3600) * 1e6 <= 10
 
 
+def test_calibration_multiplier_scales_the_front():
+    """The front below the compound layer grows as √(D t) (Wagner 1959): halving D divides it by √2."""
+    t = 20 * 3600.0
+    plain = N.nitride(setup(), t)
+    slow = N.nitride(setup(diffusivity_multiplier=0.5), t)
+    assert slow.front - slow.compound_layer == pytest.approx((plain.front - plain.compound_layer) / math.sqrt(2), rel=1e-9)
+
+
 @pytest.mark.parametrize("args,flag", [
+    (["--temperature", "520C", "--kn", "3", "--target", "0.4mm", "--d-multiplier", "50"], "--d-multiplier"),
     (["--temperature", "620C", "--kn", "3", "--target", "0.4mm"], "--temperature"),
     (["--temperature", "520C", "--kn", "99", "--target", "0.4mm"], "--kn"),
     (["--temperature", "520C", "--dissociation", "120", "--target", "0.4mm"], "--dissociation"),

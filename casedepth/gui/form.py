@@ -207,6 +207,11 @@ class PlanForm(QWidget):
         self.surface_hardness.setSpecialValueText("grade's typical")
         self.surface_hardness.valueChanged.connect(lambda v: self._set("surface_hardness", v or None))
         form.addRow("Surface hardness", self.surface_hardness)
+        self.n_multiplier = _spin(2, 0.1, 10.0, 0.05, " ×")
+        self.n_multiplier.setToolTip("Calibration factor on the nitrogen diffusivity: the internal-nitriding model tends "
+                                     "to run ahead of measured depths; fit it to your own sections")
+        self.n_multiplier.valueChanged.connect(lambda v: self._set("n_multiplier", v))
+        form.addRow("D_N multiplier", self.n_multiplier)
         self.furnace_form = form
         return box
 
@@ -620,7 +625,7 @@ class PlanForm(QWidget):
             self._fill_steels(p.treatment)
             for widget in (self.carbon_potential,):
                 self.furnace_form.setRowVisible(widget, not nitriding)
-            for widget in (self.kn, self.dissociation, self.core_hardness, self.surface_hardness):
+            for widget in (self.kn, self.dissociation, self.core_hardness, self.surface_hardness, self.n_multiplier):
                 self.furnace_form.setRowVisible(widget, nitriding)
             self.furnace_form.setRowVisible(self.compound_row, nitriding)
             self.process_box.setVisible(not nitriding)
@@ -634,6 +639,7 @@ class PlanForm(QWidget):
             self.compound_max.setValue(p.compound_max * 1e6)
             self.core_hardness.setValue(p.core_hardness or 0.0)
             self.surface_hardness.setValue(p.surface_hardness or 0.0)
+            self.n_multiplier.setValue(p.n_multiplier)
             self.process.setCurrentIndex(max(self.process.findData(p.process), 0))
             self.boost_box.setVisible(p.process == "boost-diffuse")
             self.stage_box.setVisible(p.process == "stages")
@@ -685,6 +691,7 @@ class PlanForm(QWidget):
                 "surface_min": self.surface_min, "surface_max": self.surface_max, "stages": self.stage_table,
                 "kn": self.kn, "compound_min": self.compound_min, "compound_max": self.compound_max,
                 "core_hardness": self.core_hardness, "surface_hardness": self.surface_hardness,
+                "n_multiplier": self.n_multiplier,
                 "treatment": self.treatment}.get(field)
 
     def mark(self, field: str, message: str) -> None:

@@ -37,7 +37,7 @@ FIELD_LABELS = {
     "diffuse_potential": "Diffuse potential", "surface_min": "Surface carbon", "surface_max": "Surface carbon",
     "stages": "Stages", "shop": "Shop times and rates", "kn": "Nitriding potential", "compound_min": "Compound layer",
     "compound_max": "Compound layer", "core_hardness": "Core hardness", "surface_hardness": "Nitrided surface hardness",
-    "treatment": "Treatment",
+    "treatment": "Treatment", "n_multiplier": "D_N multiplier",
 }
 PLAN_FILTER = "casedepth plans (*.cdplan.json *.json);;All files (*)"
 MAX_RECENT = 8
