@@ -21,7 +21,7 @@ from dataclasses import dataclass, field, replace
 import numpy as np
 
 from .austenite import Andrews_1965_Ac3, saturation_carbon
-from .carburizing import MAX_TEMPERATURE, POTENTIAL_RANGE, CarburizingSetup, _both
+from .carburizing import GRAIN_GROWTH_TEMPERATURE, MAX_TEMPERATURE, POTENTIAL_RANGE, CarburizingSetup, _both
 from .errors import InputError, NotReachableError
 from .roots import illinois
 from .solver import CarbonSolver, Profile, SurfaceCondition, threshold_depth
@@ -161,6 +161,9 @@ def check_recipe(setup: CarburizingSetup, stages: list[Stage]) -> list[str]:
                              f"not at {_both(T)}")
         if stage.kind in ("boost", "diffuse", "soak"):
             hottest = max(hottest or T, T)
+        if T > GRAIN_GROWTH_TEMPERATURE and not any("grain" in w for w in warnings):
+            warnings.append(f"{where} runs at {_both(T)}, above about 980 °C, where most carburizing grades coarsen "
+                            f"their grain unless made fine-grained (common practice).")
         previous_t = T
     return warnings
 

@@ -106,6 +106,13 @@ def test_bad_recipes(stages, words):
         run_recipe(setup, stages)
 
 
+def test_hot_stages_are_warned_about():
+    setup = casedepth.setup("8620", "925C", 1.0)
+    hot = run_recipe(setup, [Stage("boost", 3600, 1000 + K, 1.2), Stage("diffuse", 3600, 1000 + K, 0.8)])
+    assert len(hot.warnings) == 1 and "grain" in hot.warnings[0]
+    assert run_recipe(setup, [Stage("soak", 3600, T925, 1.0)]).warnings == []
+
+
 def test_quote_adds_up():
     shop = ShopDefaults(furnace_rate_per_h=100.0, parts_per_load=40)
     stages = [*shop.before(T925, 1.1), Stage("boost", 4 * 3600, T925, 1.1), Stage("diffuse", 3600, T925, 0.8),
