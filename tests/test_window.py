@@ -169,7 +169,8 @@ def test_exports(window, tmp_path):
 
 def test_about_lists_every_model_with_its_source(window):
     text = window.models_text()
-    for words in ("Tibbetts", "Ågren", "Gunnarson", "Andrews", "ASTM E140", "Just", "NFPA 86", "Verwer"):
+    for words in ("Tibbetts", "Ågren", "Gunnarson", "Andrews", "ASTM E140", "Just", "NFPA 86", "Verwer", "Lehrer",
+                  "Bohnenkamp", "Wagner"):
         assert words in text
 
 

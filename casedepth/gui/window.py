@@ -562,6 +562,14 @@ class MainWindow(QMainWindow):
             "<li><b>Ac3</b> — Andrews, J. Iron Steel Inst. 203 (1965) 721</li>",
             "<li><b>HV ↔ HRC</b> — ASTM E140, Table 1</li>",
             "<li><b>Time stepping</b> — ROS2 Rosenbrock method, Verwer et al., SIAM J. Sci. Comput. 20 (1999) 1456</li>",
+            "<li><b>Nitriding potential</b> K_N = p(NH3)/p(H2)^1.5 — Lehrer, Z. Elektrochem. 36 (1930) 383; surface "
+            "phase from the Lehrer-diagram boundaries (read from the diagram, from memory, ±30 %)</li>",
+            "<li><b>Nitrogen in ferrite</b> — diffusivity after Bohnenkamp, Arch. Eisenhüttenwes. 38 (1967) 229; "
+            "saturation against γ′ fitted to the Fe–N diagram of Wriedt, Gokcen &amp; Nafziger (1987)</li>",
+            "<li><b>Nitrided hardness depth</b> — internal-nitriding front of Wagner, Z. Elektrochem. 63 (1959) 772, "
+            "and Meijering (1971)</li>",
+            "<li><b>Compound layer</b> — parabolic growth driven by ln(K_N / K_N at α/γ′); rate constant calibrated "
+            "to common shop results, not a published value</li>",
             "<li><b>Safety cautions</b> — common practice under NFPA 86; local codes govern</li>",
         ]
         return "<ul>" + "".join(rows) + "</ul>"
