@@ -15,7 +15,7 @@ from . import __version__, api
 from .carburizing import CarburizingSetup, carburize, soak_time_for_case_depth
 from .plan import Plan, evaluate, stage_to_dict
 from .nitriding import (PHASE_NAMES, NitridingSetup, dissociation_for_potential, nitride, nitriding_potential_from_dissociation,
-                        nitriding_time, potential_for_compound_layer)
+                        nitriding_time, potential_for_compound_layer, two_stage_schedule)
 from .recipe import plan_boost_diffuse, temperature_tradeoff
 from .steels import steel_from_text
 from .diffusivity import METHODS as DIFFUSIVITY_METHODS
@@ -138,7 +138,7 @@ FLAGS = {
     "diffuse potential": "--diffuse-potential", "plan file": "PLAN", "compare temperatures": "--compare-temperatures",
     "nitriding potential": "--kn", "dissociation": "--dissociation", "compound layer": "--compound",
     "core hardness": "--core-hardness", "nitrided surface hardness": "--surface-hardness",
-    "temperatures": "--temperatures", "potentials": "--potentials", "hours": "--hours", "output": "--pdf/--svg/--png",
+    "second stage K_N": "--compound", "temperatures": "--temperatures", "potentials": "--potentials", "hours": "--hours", "output": "--pdf/--svg/--png",
     "paper": "--paper",
 }
 
@@ -354,6 +354,13 @@ def _nitride(args) -> int:
         out["kn_for_compound_window"] = window_kn
         out["dissociation_for_compound_window_pct"] = 100.0 * dissociation_for_potential(window_kn)
         if not window[0] <= result.compound_layer <= window[1]:
+            try:
+                stages = two_stage_schedule(setup, result.time, window)
+                out["two_stage"] = {"first_time_h": stages.first_time / 3600.0, "first_kn": stages.first_kn,
+                                    "second_time_h": stages.second_time / 3600.0, "second_kn": stages.second_kn,
+                                    "compound_layer_um": stages.compound_layer * 1e6}
+            except InputError:
+                pass
             out["warnings"].append(f"The compound layer ({result.compound_layer * 1e6:.1f} µm) is outside "
                                    f"{window[0] * 1e6:g}–{window[1] * 1e6:g} µm at K_N {kn:g}; K_N {window_kn:.2f} "
                                    f"would put it in the middle.")
@@ -369,6 +376,10 @@ def _nitride(args) -> int:
     if window_kn is not None:
         print(f"  for a {out['compound_window_um'][0]:g}–{out['compound_window_um'][1]:g} µm layer: K_N "
               f"{window_kn:.2f} ({out['dissociation_for_compound_window_pct']:.0f} % dissociation)")
+    if "two_stage" in out:
+        two = out["two_stage"]
+        print(f"  or two stages: {two['first_time_h']:.1f} h at K_N {two['first_kn']:.2f}, then "
+              f"{two['second_time_h']:.1f} h at K_N {two['second_kn']:.2f} (layer {two['compound_layer_um']:.1f} µm)")
     for warning in out["warnings"]:
         print(f"Warning: {warning}")
     print("Caution: ammonia is toxic (exposure limits of tens of ppm) and flammable; purge before opening; "

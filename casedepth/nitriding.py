@@ -402,3 +402,46 @@ def potential_for_compound_layer(setup: NitridingSetup, time: float, window: tup
         raise NotReachableError("compound layer", f"a {aim * 1e6:.1f} µm layer in {time / 3600:.1f} h needs K_N = "
                                 f"{K_N:.3g}, outside {KN_RANGE[0]:g}–{KN_RANGE[1]:g}; change the time or the temperature")
     return K_N
+
+
+@dataclass
+class TwoStageSchedule:
+    """A high-K_N first stage that builds the compound layer, then a low-K_N stage that holds it.
+
+    Times in s, K_N in atm^-1/2, layer in m.
+    """
+
+    first_time: float
+    first_kn: float
+    second_time: float
+    second_kn: float
+    compound_layer: float
+
+
+def two_stage_schedule(setup: NitridingSetup, total_time: float, window: tuple[float, float],
+                       second_kn: float | None = None) -> TwoStageSchedule:
+    """Split ``total_time`` [s] into a stage at the setup's K_N and one at ``second_kn`` so that the
+    compound layer ends in the middle of ``window`` [m].
+
+    The second K_N defaults to just above the α/γ′ boundary (1.05 ×): the layer then grows only
+    slowly, while the ferrite under it stays saturated, so the diffusion zone grows as in one stage
+    and the nitrided depth does not change. Uses the parabolic law of :func:`compound_layer_thickness`
+    with the driving force of each stage (s² = 2B Σ ln(K_N,i / K_N^α/γ′) t_i).
+    """
+    low, high = window
+    T = setup.temperature
+    alpha_gamma, _ = Lehrer_boundaries(T)
+    k1 = setup.nitriding_potential
+    k2 = 1.05 * alpha_gamma if second_kn is None else second_kn
+    if not (alpha_gamma <= k2 < k1):
+        raise InputError("second stage K_N", f"{k2:.3g} must lie between the α/γ′ boundary ({alpha_gamma:.3g}) and "
+                         f"the first stage's K_N ({k1:.3g})")
+    aim = 0.5 * (low + high)
+    b = _compound_b(T)
+    l1, l2 = math.log(k1 / alpha_gamma), math.log(k2 / alpha_gamma)
+    first = (aim**2 / (2.0 * b) - l2 * total_time) / (l1 - l2)
+    if not (0.0 <= first <= total_time):
+        raise NotReachableError("compound layer", f"a {aim * 1e6:.1f} µm layer cannot be reached in "
+                                f"{total_time / 3600:.1f} h with K_N {k1:.3g} then {k2:.3g}")
+    layer = math.sqrt(2.0 * b * (l1 * first + l2 * (total_time - first)))
+    return TwoStageSchedule(first, k1, total_time - first, k2, layer)

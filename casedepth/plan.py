@@ -24,7 +24,8 @@ from .diffusivity import Diffusivity
 from .errors import InputError
 from .geometry import Geometry
 from .quote import Quote, ShopDefaults, make_quote
-from .nitriding import NitridingResult, NitridingSetup, nitride, nitriding_time, potential_for_compound_layer
+from .nitriding import (NitridingResult, NitridingSetup, nitride, nitriding_time, potential_for_compound_layer,
+                        two_stage_schedule)
 from .recipe import CycleResult, Stage, plan_boost_diffuse, run_recipe
 from .safety import Caution
 from .steels import Steel
@@ -455,8 +456,15 @@ def evaluate_nitriding(plan: "Plan") -> NitridingOutcome:
         warnings.append(f"Compound-layer window: {error.message}")
     layer = results[1].compound_layer
     if kn_window is not None and not (window[0] <= layer <= window[1]):
+        advice = f"K_N {kn_window:.2f} would put it in the middle"
+        try:
+            two = two_stage_schedule(setup, results[1].time, window)
+            advice += (f"; or nitride {two.first_time / 3600:.1f} h at K_N {two.first_kn:.2f}, then "
+                       f"{two.second_time / 3600:.1f} h at K_N {two.second_kn:.2f}")
+        except InputError:
+            pass
         warnings.append(f"The compound layer ({layer * 1e6:.1f} µm) is outside {window[0] * 1e6:g}–{window[1] * 1e6:g} µm; "
-                        f"K_N {kn_window:.2f} would put it in the middle (or nitride in two stages, high K_N first).")
+                        f"{advice}.")
     return NitridingOutcome(setup, *results, window, kn_window, safety.cautions(ammonia=True), (low, aim, high),
                             warnings)
 

@@ -122,6 +122,16 @@ def test_potential_for_a_compound_layer_window():
     assert N.compound_layer_thickness(s.temperature, kn, t) == pytest.approx(7.5e-6, rel=1e-9)
 
 
+def test_two_stage_schedule_lands_the_layer_in_its_window():
+    s = setup(kn=6.0)
+    total = N.nitriding_time(s, 0.4e-3).time
+    assert N.nitride(s, total).compound_layer > 5e-6  # one stage at K_N 6 overshoots a 2–5 µm window
+    two = N.two_stage_schedule(s, total, (2e-6, 5e-6))
+    assert two.first_time + two.second_time == pytest.approx(total)
+    assert two.compound_layer == pytest.approx(3.5e-6, rel=1e-9)
+    assert two.second_kn < two.first_kn and N.surface_phase(s.temperature, two.second_kn) == "gamma'"
+
+
 def test_more_nitride_formers_slow_the_case():
     """Wagner (1959): the front slows as the nitride formers trap more nitrogen."""
     times = [N.nitriding_time(setup(grade), 0.3e-3).time for grade in ("4140", "31CrMoV9", "41CrAlMo7-10", "H13")]
