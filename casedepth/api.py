@@ -6,7 +6,6 @@ Every argument accepts the same text as the command line (``"925C"``, ``"1.5e-5c
 
 from __future__ import annotations
 
-import math
 
 from .carburizing import CarburizingSetup
 from .diffusivity import Diffusivity
@@ -14,17 +13,7 @@ from .errors import InputError
 from .geometry import Geometry
 from .steels import Steel, steel_from_text
 from .surface import DEFAULT_BETA
-from .units import parse_length, parse_temperature, parse_threshold, parse_velocity
-
-
-def _number(value, field: str) -> float:
-    try:
-        number = float(value)
-    except (TypeError, ValueError):
-        raise InputError(field, f"{value!r} is not a number") from None
-    if not math.isfinite(number):
-        raise InputError(field, f"{value!r} is not a finite number")
-    return number
+from .units import parse_length, parse_number, parse_temperature, parse_threshold, parse_velocity
 
 
 def setup(steel: str | Steel, temperature: str | float, potential: str | float, *, at: str | float = "0.40%C",
@@ -62,14 +51,14 @@ def setup(steel: str | Steel, temperature: str | float, potential: str | float, 
         Calibration factor on D.
     """
     steel_obj = steel if isinstance(steel, Steel) else steel_from_text(str(steel))
-    kwargs = {"method": diffusivity, "multiplier": _number(d_multiplier, "diffusivity multiplier")}
+    kwargs = {"method": diffusivity, "multiplier": parse_number(d_multiplier, "diffusivity multiplier")}
     if d0 is not None or q is not None:
         if diffusivity != "arrhenius":
             raise InputError("D0" if d0 is not None else "Q", "only used with the arrhenius diffusivity")
         if d0 is not None:
-            kwargs["D0"] = _number(d0, "D0")
+            kwargs["D0"] = parse_number(d0, "D0")
         if q is not None:
-            kwargs["Q"] = _number(q, "Q") * 1e3
+            kwargs["Q"] = parse_number(q, "Q") * 1e3
     if geometry == "plate":
         if diameter is not None:
             raise InputError("diameter", "a plate has a thickness, not a diameter")
@@ -81,7 +70,7 @@ def setup(steel: str | Steel, temperature: str | float, potential: str | float, 
     return CarburizingSetup(
         steel=steel_obj,
         temperature=parse_temperature(temperature, "temperature"),
-        carbon_potential=_number(potential, "carbon potential"),
+        carbon_potential=parse_number(potential, "carbon potential"),
         threshold=parse_threshold(at, "threshold"),
         diffusivity=Diffusivity(**kwargs),
         beta=parse_velocity(beta, "beta", default_unit="m/s"),

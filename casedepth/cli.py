@@ -24,7 +24,7 @@ from .geometry import SHAPES
 from .hardness import HARDNESS_RELATIONS
 from .steels import library
 from .surface import DEFAULT_BETA
-from .units import DisplayUnits, format_duration, parse_length, parse_temperature, parse_time, parse_velocity
+from .units import DisplayUnits, format_duration, parse_length, parse_number, parse_temperature, parse_time, parse_velocity
 
 
 class _UsageError(Exception):
@@ -149,7 +149,7 @@ def setup_from_args(args) -> CarburizingSetup:
     if args.surface_target is not None:
         if potential is not None:
             raise InputError("carbon potential", "not used with --surface-target; give --boost-potential and --diffuse-potential")
-        potential = _number(args.diffuse_potential, "diffuse potential") if args.diffuse_potential else None
+        potential = parse_number(args.diffuse_potential, "diffuse potential") if args.diffuse_potential else None
     if potential is None:
         raise InputError("carbon potential" if args.surface_target is None else "diffuse potential",
                          "required (wt % C, 0.05–2)")
@@ -189,22 +189,12 @@ def _format(result, units: DisplayUnits) -> str:
     return "\n".join(lines)
 
 
-def _number(text: str, field: str) -> float:
-    try:
-        value = float(text)
-    except ValueError:
-        raise InputError(field, f"{text!r} is not a number") from None
-    if not math.isfinite(value):
-        raise InputError(field, f"{text!r} is not a finite number")
-    return value
-
-
 def _surface_window(text: str) -> float | tuple[float, float]:
     parts = text.replace("–", "-").split("-")
     if len(parts) == 1:
-        return _number(parts[0], "surface target")
+        return parse_number(parts[0], "surface target")
     if len(parts) == 2:
-        return (_number(parts[0], "surface target"), _number(parts[1], "surface target"))
+        return (parse_number(parts[0], "surface target"), parse_number(parts[1], "surface target"))
     raise InputError("surface target", f"cannot read {text!r}; write 0.80 or 0.75-0.85 (wt % C)")
 
 
@@ -214,7 +204,7 @@ def _boost_diffuse(args, setup: CarburizingSetup) -> int:
     if args.boost_potential is None:
         raise InputError("boost potential", "required with --surface-target (wt % C, 0.05–2)")
     plan = plan_boost_diffuse(setup, parse_length(args.target, "target"), _surface_window(args.surface_target),
-                              _number(args.boost_potential, "boost potential"), setup.carbon_potential)
+                              parse_number(args.boost_potential, "boost potential"), setup.carbon_potential)
     cycle = plan.cycle
     if args.json:
         out = {
@@ -224,7 +214,7 @@ def _boost_diffuse(args, setup: CarburizingSetup) -> int:
             "surface_target_pct": list(plan.surface_target), "surface_aim_pct": plan.surface_aim,
             "target_depth_mm": plan.target_depth * 1e3, "threshold": str(setup.threshold),
             "threshold_carbon_pct": setup.threshold_carbon, "temperature_c": setup.temperature - 273.15,
-            "boost_potential_pct": _number(args.boost_potential, "boost potential"),
+            "boost_potential_pct": parse_number(args.boost_potential, "boost potential"),
             "diffuse_potential_pct": setup.carbon_potential, "steel": setup.steel.name,
             "warnings": setup.warnings() + cycle.warnings,
             "profile": {"depth_mm": (cycle.profile.depth * 1e3).tolist(), "carbon_pct": cycle.profile.carbon.tolist()},
@@ -331,16 +321,16 @@ def _run(args) -> int:
 
 def _nitride(args) -> int:
     if args.kn is not None:
-        kn = _number(args.kn, "nitriding potential")
+        kn = parse_number(args.kn, "nitriding potential")
     elif args.dissociation is not None:
-        kn = nitriding_potential_from_dissociation(_number(args.dissociation.rstrip("%"), "dissociation") / 100.0)
+        kn = nitriding_potential_from_dissociation(parse_number(args.dissociation.rstrip("%"), "dissociation") / 100.0)
     else:
         raise InputError("nitriding potential", "give --kn (atm^-1/2) or --dissociation (%)")
     setup = NitridingSetup(
         steel_from_text(args.steel, "steel", process="nitriding"), parse_temperature(args.temperature, "temperature"), kn,
-        None if args.core_hardness is None else _number(args.core_hardness, "core hardness"),
-        None if args.surface_hardness is None else _number(args.surface_hardness, "nitrided surface hardness"),
-        _number(args.d_multiplier, "diffusivity multiplier"))
+        None if args.core_hardness is None else parse_number(args.core_hardness, "core hardness"),
+        None if args.surface_hardness is None else parse_number(args.surface_hardness, "nitrided surface hardness"),
+        parse_number(args.d_multiplier, "diffusivity multiplier"))
     if args.target is not None:
         result = nitriding_time(setup, parse_length(args.target, "target"))
     else:
@@ -412,7 +402,7 @@ def _window_um(text: str) -> tuple[float, float]:
     parts = text.lower().replace("µm", "").replace("um", "").replace("–", "-").split("-")
     if len(parts) != 2:
         raise InputError("compound layer", f"cannot read {text!r}; write a window such as 5-10um")
-    return (_number(parts[0], "compound layer") * 1e-6, _number(parts[1], "compound layer") * 1e-6)
+    return (parse_number(parts[0], "compound layer") * 1e-6, parse_number(parts[1], "compound layer") * 1e-6)
 
 
 def _outputs(args) -> list[tuple[str, str]]:
@@ -433,16 +423,16 @@ def _chart(args) -> int:
             raise InputError("temperatures", "give one to six temperatures")
         setup = api.setup(args.steel, f"{temperatures[0]}K", potential, at=args.at)
         document = case_depth_chart(setup, temperatures=temperatures, paper=args.paper, units=args.units,
-                                    hours=_number(args.hours, "hours"))
+                                    hours=parse_number(args.hours, "hours"))
     else:
         if args.temperature is None:
             raise InputError("temperature", "required with --potentials")
-        potentials = [_number(p, "potentials") for p in args.potentials.split(",") if p.strip()]
+        potentials = [parse_number(p, "potentials") for p in args.potentials.split(",") if p.strip()]
         if not 1 <= len(potentials) <= 6:
             raise InputError("potentials", "give one to six carbon potentials")
         setup = api.setup(args.steel, f"{parse_temperature(args.temperature, 'temperature')}K", potentials[0], at=args.at)
         document = case_depth_chart(setup, potentials=potentials, paper=args.paper, units=args.units,
-                                    hours=_number(args.hours, "hours"))
+                                    hours=parse_number(args.hours, "hours"))
     for fmt, path in outputs:
         for written in save(document, path, fmt):
             print(f"wrote {written}")
@@ -478,18 +468,10 @@ def main(argv: list[str] | None = None) -> int:
     parser = _build_parser()
     try:
         args = parser.parse_args(argv)
-        if args.command == "carburize":
-            return _carburize(args)
-        if args.command == "steels":
-            return _steels(args)
-        if args.command == "run":
-            return _run(args)
-        if args.command == "nitride":
-            return _nitride(args)
-        if args.command == "chart":
-            return _chart(args)
-        if args.command == "sheet":
-            return _sheet(args)
+        handler = {"carburize": _carburize, "steels": _steels, "run": _run, "nitride": _nitride, "chart": _chart,
+                   "sheet": _sheet}.get(args.command)
+        if handler is not None:
+            return handler(args)
         parser.print_help()
         return 0
     except SystemExit as stop:  # --help and --version

@@ -42,6 +42,17 @@ def _split(text: str, field: str) -> tuple[float, str]:
     return value, match.group(2).lower()
 
 
+def parse_number(value: str | float, field: str) -> float:
+    """A plain finite number (no unit), or an :class:`InputError` naming ``field``."""
+    try:
+        number = float(value)
+    except (TypeError, ValueError):
+        raise InputError(field, f"{value!r} is not a number") from None
+    if not math.isfinite(number):
+        raise InputError(field, f"{value!r} is not a finite number")
+    return number
+
+
 def parse_temperature(text: str | float, field: str = "temperature", default_unit: str = "c") -> float:
     """Read a temperature such as ``925C``, ``1700F`` or ``1198K``; returns kelvin.
 
