@@ -348,7 +348,9 @@ def _nitride(args) -> int:
                 stages = two_stage_schedule(setup, result.time, window)
                 out["two_stage"] = {"first_time_h": stages.first_time / 3600.0, "first_kn": stages.first_kn,
                                     "second_time_h": stages.second_time / 3600.0, "second_kn": stages.second_kn,
-                                    "compound_layer_um": stages.compound_layer * 1e6}
+                                    "compound_layer_um": stages.compound_layer * 1e6,
+                                    "epsilon_layer_um": stages.layer.epsilon * 1e6,
+                                    "gamma_prime_layer_um": stages.layer.gamma_prime * 1e6}
             except InputError:
                 pass
             out["warnings"].append(f"The compound layer ({result.compound_layer * 1e6:.1f} µm) is outside "
@@ -362,14 +364,14 @@ def _nitride(args) -> int:
           f"{units.format_temperature(setup.temperature)}, K_N {kn:.2f} atm^-1/2 "
           f"({out['dissociation_pct']:.0f} % dissociation)")
     print(f"  nitrided hardness depth {units.format_length(result.nitrided_depth)} (core {setup.core:.0f} HV + 50 HV)")
-    print(f"  compound layer          {result.compound_layer * 1e6:.1f} µm; surface phase {PHASE_NAMES[setup.phase]}")
+    print(f"  compound layer          {result.layer.describe()}; surface phase {PHASE_NAMES[setup.phase]}")
     if window_kn is not None:
         print(f"  for a {out['compound_window_um'][0]:g}–{out['compound_window_um'][1]:g} µm layer: K_N "
               f"{window_kn:.2f} ({out['dissociation_for_compound_window_pct']:.0f} % dissociation)")
     if "two_stage" in out:
         two = out["two_stage"]
         print(f"  or two stages: {two['first_time_h']:.1f} h at K_N {two['first_kn']:.2f}, then "
-              f"{two['second_time_h']:.1f} h at K_N {two['second_kn']:.2f} (layer {two['compound_layer_um']:.1f} µm)")
+              f"{two['second_time_h']:.1f} h at K_N {two['second_kn']:.2f} (layer {stages.layer.describe()})")
     for warning in out["warnings"]:
         print(f"Warning: {warning}")
     print("Caution: ammonia is toxic (exposure limits of tens of ppm) and flammable; purge before opening; "
@@ -392,7 +394,7 @@ def _print_nitriding(plan, outcome, args) -> int:
     print(f"  nitride {format_duration(outcome.aim.time)} at {units.format_temperature(s.temperature)}, K_N "
           f"{s.nitriding_potential:.2f} (window {format_duration(outcome.low.time)} to {format_duration(outcome.high.time)})")
     print(f"  nitrided hardness depth {units.format_length(outcome.aim.nitrided_depth)}; compound layer "
-          f"{outcome.aim.compound_layer * 1e6:.1f} µm ({PHASE_NAMES[s.phase]})")
+          f"{outcome.aim.layer.describe()}")
     for warning in outcome.warnings:
         print(f"Warning: {warning}")
     return 0

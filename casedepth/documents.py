@@ -23,7 +23,6 @@ from . import __version__, safety
 from .carburizing import CarburizingSetup, carburize, soak_times_for_case_depths
 from .errors import InputError, NotReachableError
 from .hardness import HARDNESS_RELATIONS
-from .nitriding import PHASE_NAMES
 from .recipe import timeline
 from .units import DisplayUnits, format_duration
 
@@ -232,7 +231,7 @@ def _result_lines(outcome, u: DisplayUnits) -> list[str]:
                 f"{s.nitriding_potential:.2f} atm^-1/2; window {u.format_length(low)}–{u.format_length(high)}: "
                 f"{format_duration(outcome.low.time)} to {format_duration(outcome.high.time)}",
                 f"Nitrided hardness depth {u.format_length(a.nitrided_depth)} (core {s.core:.0f} HV + 50 HV); "
-                f"compound layer {a.compound_layer * 1e6:.1f} µm, {PHASE_NAMES[s.phase]}"]
+                f"compound layer {a.layer.describe()}"]
     lines = []
     if outcome.process == "single":
         lines.append(f"Soak {format_duration(outcome.aim.soak_time)} at {u.format_temperature(s.temperature)}, carbon "

@@ -4,18 +4,15 @@ Models and how sure we are of them:
 
 * nitriding potential K_N = p(NH3)/p(H2)^1.5 and its conversion from ammonia dissociation — exact
   definitions (Lehrer 1930; Mittemeijer & Somers 2015);
-* which phase the surface forms (α, γ′, ε) from the Lehrer-diagram boundaries — the boundary values
-  are fits to the diagram as usually redrawn, from memory, good to perhaps ±30 % in K_N, and the
-  γ′/ε boundary is a stationary state rather than an equilibrium;
-* nitrogen diffusion in ferrite, Bohnenkamp (1967); saturation of ferrite against γ′ from the Fe–N
-  diagram (Wriedt, Gokcen & Nafziger 1987), fitted, from memory;
+* which phase the surface forms (α, γ′, ε), from the Lehrer diagram, and the phase-boundary
+  nitrogen contents of the Fe–N diagram: :mod:`casedepth.iron_nitrogen` (from memory, ±30 % in K_N);
+* nitrogen diffusion in ferrite, Bohnenkamp (1967);
 * the diffusion zone by the internal-nitriding model of Wagner (1959) as applied to nitriding by
   Meijering (1971): nitride formers (Cr, Al, V, Ti, Mo) do not move and take up all nitrogen that
   reaches them, so a sharp front advances as ξ = 2γ√(D t) with √π γ exp(γ²) erf(γ) = c_s / c_M;
-* compound-layer growth as a parabolic law whose rate rises with ln(K_N / K_N(α/γ′)) — the
-  logarithm is the nitrogen chemical-potential difference the layer carries (Mittemeijer & Somers
-  2015, ch. on layer growth); the rate constant is a common-practice calibration (about 10 µm after
-  20 h at 520 °C and K_N = 3), not a published value.
+* compound-layer (ε over γ′) growth by the layer-growth model of Somers & Mittemeijer (1995), fed by
+  the gas and drained by the diffusion zone beneath: :mod:`casedepth.compound_layer` (published
+  model; the nitrogen diffusivities in the nitrides are an order of magnitude from memory).
 
 Everything is SI inside; nitrogen and alloy contents in wt %.
 """
@@ -27,9 +24,19 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from .compound_layer import CompoundLayer, grow_compound_layer, substrate_uptake_coefficient
+from .compound_layer import compound_layer as _compound_layer
 from .errors import InputError, NotReachableError
+from .iron_nitrogen import PHASE_NAMES, Lehrer_boundaries, nitrogen_saturation_ferrite, surface_phase
 from .steels import Steel
 from .units import ZERO_CELSIUS
+
+# the Fe–N phase helpers are part of this module's public face too
+__all__ = ["PHASE_NAMES", "Bohnenkamp_1967_nitrogen_diffusivity", "CompoundLayer", "Lehrer_boundaries",
+           "NitridingResult", "NitridingSetup", "TwoStageSchedule", "Wagner_front_factor",
+           "dissociation_for_potential", "nitride", "nitride_capacity", "nitriding_potential",
+           "nitriding_potential_from_dissociation", "nitriding_time", "nitrogen_saturation_ferrite",
+           "potential_for_compound_layer", "surface_phase", "two_stage_schedule"]
 
 R = 8.314462618  # J/(mol K)
 M_N = 14.007
@@ -40,6 +47,8 @@ KN_RANGE = (0.05, 30.0)  # atm^-1/2
 # nitrogen in solid solution raises ferrite hardness by about this much per wt % N (with the fine γ′
 # that forms on cooling); from memory, order of magnitude only
 SOLUTION_HARDENING_HV_PER_PCT = 1000.0
+# below this nitride-forming capacity [wt % N] a steel is treated as having none (erfc diffusion zone)
+_MIN_CAPACITY = 0.005
 
 
 def nitriding_potential(p_NH3: float, p_H2: float) -> float:
@@ -97,61 +106,6 @@ def dissociation_for_potential(K_N: float) -> float:
     return brentq(lambda d: nitriding_potential_from_dissociation(d) - K_N, 1e-6, 1 - 1e-9, xtol=1e-12)
 
 
-def Lehrer_boundaries(T: float) -> tuple[float, float]:
-    r"""Nitriding potentials [atm^-1/2] of the α/γ′ and γ′/ε boundaries of the Lehrer diagram at T [K].
-
-    .. math::
-        \log_{10} K_N^{\alpha/\gamma'} = -3.535 + 2380/T, \qquad
-        \log_{10} K_N^{\gamma'/\varepsilon} = -4.333 + 3657/T
-
-    Notes
-    -----
-    Straight lines in 1/T through values read from the Lehrer diagram as usually redrawn (about
-    0.35 and 2.5 atm^-1/2 at 500 °C, 0.18 and 0.9 at 580 °C) — from memory, good to perhaps ±30 %.
-    The γ′/ε boundary is a stationary state of the gas–solid exchange, not an equilibrium.
-    Valid 450–600 °C. Both boundaries fall as T rises.
-
-    Examples
-    --------
-    >>> [round(k, 2) for k in Lehrer_boundaries(773.15)]
-    [0.35, 2.49]
-
-    References
-    ----------
-    .. [1] Lehrer, E., Z. Elektrochem. 36 (1930) 383–392.
-    .. [2] Kooi, B. J., M. A. J. Somers, E. J. Mittemeijer. "An evaluation of the Fe-N phase
-       diagram considering long-range order of N atoms in γ′-Fe4N1-x and ε-Fe2N1-z."
-       Metall. Mater. Trans. A 27 (1996) 1063–1071.
-    """
-    return 10 ** (-3.535 + 2380.0 / T), 10 ** (-4.333 + 3657.0 / T)
-
-
-def surface_phase(T: float, K_N: float) -> str:
-    """The phase at the surface in (local) equilibrium: ``alpha`` (no compound layer), ``gamma'`` or ``epsilon``."""
-    alpha_gamma, gamma_epsilon = Lehrer_boundaries(T)
-    if K_N < alpha_gamma:
-        return "alpha"
-    return "gamma'" if K_N < gamma_epsilon else "epsilon"
-
-
-PHASE_NAMES = {"alpha": "α (ferrite, no compound layer)", "gamma'": "γ′ (Fe4N compound layer)",
-               "epsilon": "ε (Fe2-3N compound layer)"}
-
-
-def nitrogen_saturation_ferrite(T: float) -> float:
-    """Nitrogen in ferrite in equilibrium with γ′ [wt %] at T [K]: 0.1 wt % near 590 °C, less when cooler.
-
-    An Arrhenius fit, 12.3 exp(−34.2 kJ/mol / RT) wt %, to the α/(α+γ′) solvus of the Fe–N diagram
-    (Wriedt, Gokcen & Nafziger, Bull. Alloy Phase Diagrams 8 (1987) 355), from memory.
-
-    Examples
-    --------
-    >>> round(nitrogen_saturation_ferrite(865.15), 3)
-    0.106
-    """
-    return 12.3 * math.exp(-34200.0 / (R * T))
-
-
 def Bohnenkamp_1967_nitrogen_diffusivity(T: float) -> float:
     r"""Diffusivity of nitrogen in ferrite, D = 1.5e-6 exp(−79.9 kJ/mol / RT) m²/s.
 
@@ -190,32 +144,6 @@ def Wagner_front_factor(surface_nitrogen: float, capacity: float) -> float:
         return math.sqrt(math.pi) * g * math.exp(g * g) * math.erf(g) - ratio
 
     return brentq(f, 1e-9, 10.0, xtol=1e-14)
-
-
-# Compound-layer growth: s² = 2 B(T) ln(K_N / K_N^α/γ′) t; B(T) = B0 exp(−Q/RT), calibrated to about
-# 10 µm after 20 h at 520 °C and K_N = 3 and 15 µm after 4 h at 570 °C and K_N = 3 (common practice)
-_COMPOUND_Q = 180e3  # J/mol
-_COMPOUND_B0 = None
-
-
-def _compound_b(T: float) -> float:
-    global _COMPOUND_B0
-    if _COMPOUND_B0 is None:
-        T0 = 520.0 + ZERO_CELSIUS
-        _COMPOUND_B0 = (10e-6) ** 2 / (2 * math.log(3.0 / Lehrer_boundaries(T0)[0]) * 20 * 3600) / math.exp(-_COMPOUND_Q / (R * T0))
-    return _COMPOUND_B0 * math.exp(-_COMPOUND_Q / (R * T))
-
-
-def compound_layer_thickness(T: float, K_N: float, time: float) -> float:
-    """Compound ("white") layer thickness [m] after ``time`` [s] at T [K] and K_N [atm^-1/2].
-
-    Zero below the α/γ′ boundary. Parabolic in time; see the module notes for the status of the
-    rate constant (a common-practice calibration, not a published value).
-    """
-    alpha_gamma, _ = Lehrer_boundaries(T)
-    if K_N <= alpha_gamma:
-        return 0.0
-    return math.sqrt(2.0 * _compound_b(T) * math.log(K_N / alpha_gamma) * time)
 
 
 def _check_kn(K_N: float) -> None:
@@ -284,6 +212,20 @@ class NitridingSetup:
     def capacity(self) -> float:
         return nitride_capacity(self.steel.composition)
 
+    @property
+    def front_factor(self) -> float | None:
+        """γ of the internal-nitriding front (Wagner 1959), or None for a steel without nitride formers."""
+        if self.capacity < _MIN_CAPACITY:
+            return None
+        return Wagner_front_factor(self.substrate_nitrogen, self.capacity)
+
+    @property
+    def uptake(self) -> float:
+        """A of the nitrogen flux A/√t the diffusion zone draws from under the compound layer [wt % m/√s]."""
+        gamma = self.front_factor
+        return substrate_uptake_coefficient(self.substrate_nitrogen, self.diffusivity,
+                                            1.0 if gamma is None else math.erf(gamma))
+
     def warnings(self) -> list[str]:
         out = []
         if self.capacity < 0.05:
@@ -301,7 +243,7 @@ class NitridingResult:
 
     setup: NitridingSetup
     time: float
-    compound_layer: float
+    layer: CompoundLayer
     front: float  # internal-nitriding front below the surface [m]
     nitrided_depth: float  # depth at core + 50 HV [m]
     depth: np.ndarray  # m, from the surface
@@ -309,10 +251,16 @@ class NitridingResult:
     hardness: np.ndarray  # HV
     warnings: list[str] = field(default_factory=list)
 
+    @property
+    def compound_layer(self) -> float:
+        """Compound-layer thickness, ε + γ′ [m]."""
+        return self.layer.thickness
+
     def to_dict(self) -> dict:
         s = self.setup
         return {
             "soak_time_h": self.time / 3600.0, "compound_layer_um": self.compound_layer * 1e6,
+            "epsilon_layer_um": self.layer.epsilon * 1e6, "gamma_prime_layer_um": self.layer.gamma_prime * 1e6,
             "nitrided_depth_mm": self.nitrided_depth * 1e3, "surface_phase": s.phase,
             "nitriding_potential": s.nitriding_potential, "temperature_c": s.temperature - ZERO_CELSIUS,
             "dissociation_pct": 100.0 * dissociation_for_potential(s.nitriding_potential),
@@ -323,26 +271,29 @@ class NitridingResult:
         }
 
 
-def nitride(setup: NitridingSetup, time: float) -> NitridingResult:
+def nitride(setup: NitridingSetup, time: float, layer: CompoundLayer | None = None) -> NitridingResult:
     """What a nitriding soak of ``time`` [s] gives: compound layer, nitrogen and hardness profiles, nitrided depth.
 
-    The diffusion zone starts under the compound layer. With nitride formers, the sharp-front model
-    (Wagner 1959; Meijering 1971) gives hardness ``surface`` behind the front and ``core`` beyond it,
-    so the depth at core + 50 HV is the front; without them, dissolved nitrogen follows the erfc
-    solution (Crank 1975) and hardness rises with it by a solid-solution term.
+    The compound layer grows by the model of :mod:`casedepth.compound_layer` unless ``layer`` is
+    given (a staged schedule). The diffusion zone starts under the compound layer. With nitride
+    formers, the sharp-front model (Wagner 1959; Meijering 1971) gives hardness ``surface`` behind the
+    front and ``core`` beyond it, so the depth at core + 50 HV is the front; without them, dissolved
+    nitrogen follows the erfc solution (Crank 1975) and hardness rises with it by a solid-solution term.
     """
     if not (math.isfinite(time) and 60.0 * (1 - 1e-9) <= time <= 500 * 3600.0 * (1 + 1e-9)):
         raise InputError("time", f"{time / 3600:g} h is outside 1 min–500 h")
     T, D = setup.temperature, setup.diffusivity
-    s = compound_layer_thickness(T, setup.nitriding_potential, time)
+    if layer is None:
+        layer = _compound_layer(T, setup.nitriding_potential, time, setup.uptake)
+    s = layer.thickness
     c_s, c_m = setup.substrate_nitrogen, setup.capacity
     length = 2.0 * math.sqrt(D * time)
     x = np.linspace(0.0, 1.0, 401) ** 1.5 * max(4.0 * length, 1e-4)
     core, surface = setup.core, setup.surface
-    if c_m >= 0.005:
+    gamma = setup.front_factor
+    if gamma is not None:
         from scipy.special import erf  # imported on first use: it is slow to import
 
-        gamma = Wagner_front_factor(c_s, c_m)
         front = gamma * length
         dissolved = np.where(x < front, c_s * (1.0 - erf(x / length) / erf(gamma)), 0.0)
         nitrogen = dissolved + np.where(x < front, c_m, 0.0)
@@ -356,7 +307,7 @@ def nitride(setup: NitridingSetup, time: float) -> NitridingResult:
         rise = SOLUTION_HARDENING_HV_PER_PCT * c_s
         depth = length * _erfcinv(50.0 / rise) if rise > 50.0 else 0.0
     warnings = setup.warnings()
-    return NitridingResult(setup, time, s, s + front, s + depth, s + x, nitrogen, hardness, warnings)
+    return NitridingResult(setup, time, layer, s + front, s + depth, s + x, nitrogen, hardness, warnings)
 
 
 def _erfcinv(y: float) -> float:
@@ -387,7 +338,8 @@ def nitriding_time(setup: NitridingSetup, target_depth: float) -> NitridingResul
 def potential_for_compound_layer(setup: NitridingSetup, time: float, window: tuple[float, float]) -> float:
     """The K_N [atm^-1/2] that gives a compound layer in the middle of ``window`` [m] after ``time`` [s].
 
-    Inverts the parabolic law; refuses windows that need a K_N outside the model's range.
+    Searches K_N between the α/γ′ boundary and the top of the model's range (the layer thickens
+    monotonically with K_N); refuses windows that need a K_N outside that range.
     """
     low, high = window
     if not (0.0 <= low <= high <= 100e-6):
@@ -397,25 +349,34 @@ def potential_for_compound_layer(setup: NitridingSetup, time: float, window: tup
     aim = 0.5 * (low + high)
     if aim == 0.0:
         return max(KN_RANGE[0], 0.8 * alpha_gamma)
-    K_N = alpha_gamma * math.exp(aim**2 / (2.0 * _compound_b(T) * time))
-    if not (KN_RANGE[0] <= K_N <= KN_RANGE[1]):
-        raise NotReachableError("compound layer", f"a {aim * 1e6:.1f} µm layer in {time / 3600:.1f} h needs K_N = "
-                                f"{K_N:.3g}, outside {KN_RANGE[0]:g}–{KN_RANGE[1]:g}; change the time or the temperature")
-    return K_N
+    uptake = setup.uptake
+
+    def miss(log_kn):
+        return _compound_layer(T, math.exp(log_kn), time, uptake).thickness - aim
+
+    lo, hi = math.log(max(alpha_gamma, KN_RANGE[0])), math.log(KN_RANGE[1])
+    if miss(hi) < 0 or miss(lo) > 0:
+        raise NotReachableError("compound layer", f"a {aim * 1e6:.1f} µm layer in {time / 3600:.1f} h needs a K_N "
+                                f"outside {KN_RANGE[0]:g}–{KN_RANGE[1]:g}; change the time or the temperature")
+    from scipy.optimize import brentq  # imported on first use: it is slow to import
+
+    return math.exp(brentq(miss, lo, hi, xtol=1e-12))
 
 
 @dataclass
 class TwoStageSchedule:
-    """A high-K_N first stage that builds the compound layer, then a low-K_N stage that holds it.
-
-    Times in s, K_N in atm^-1/2, layer in m.
-    """
+    """A first stage at the set K_N that builds the compound layer, then a low-K_N stage that holds
+    or thins it. Times in s, K_N in atm^-1/2, layer in m."""
 
     first_time: float
     first_kn: float
     second_time: float
     second_kn: float
-    compound_layer: float
+    layer: CompoundLayer
+
+    @property
+    def compound_layer(self) -> float:
+        return self.layer.thickness
 
 
 def two_stage_schedule(setup: NitridingSetup, total_time: float, window: tuple[float, float],
@@ -423,10 +384,10 @@ def two_stage_schedule(setup: NitridingSetup, total_time: float, window: tuple[f
     """Split ``total_time`` [s] into a stage at the setup's K_N and one at ``second_kn`` so that the
     compound layer ends in the middle of ``window`` [m].
 
-    The second K_N defaults to just above the α/γ′ boundary (1.05 ×): the layer then grows only
-    slowly, while the ferrite under it stays saturated, so the diffusion zone grows as in one stage
-    and the nitrided depth does not change. Uses the parabolic law of :func:`compound_layer_thickness`
-    with the driving force of each stage (s² = 2B Σ ln(K_N,i / K_N^α/γ′) t_i).
+    The second K_N defaults to just above the α/γ′ boundary (1.05 ×): there the layer gets almost no
+    nitrogen from the gas while the diffusion zone keeps drawing on it, so it holds or thins, and the
+    ferrite under it stays saturated, so the diffusion zone — and the nitrided depth — grow as in one
+    stage. The layer follows :func:`casedepth.compound_layer.grow_compound_layer`.
     """
     low, high = window
     T = setup.temperature
@@ -437,11 +398,18 @@ def two_stage_schedule(setup: NitridingSetup, total_time: float, window: tuple[f
         raise InputError("second stage K_N", f"{k2:.3g} must lie between the α/γ′ boundary ({alpha_gamma:.3g}) and "
                          f"the first stage's K_N ({k1:.3g})")
     aim = 0.5 * (low + high)
-    b = _compound_b(T)
-    l1, l2 = math.log(k1 / alpha_gamma), math.log(k2 / alpha_gamma)
-    first = (aim**2 / (2.0 * b) - l2 * total_time) / (l1 - l2)
-    if not (0.0 <= first <= total_time):
+    uptake = setup.uptake
+
+    def layer_after(first):
+        first = min(max(first, 60.0), total_time)
+        stages = [(first, k1)] + ([(total_time - first, k2)] if total_time - first > 1.0 else [])
+        return grow_compound_layer(T, stages, uptake)
+
+    if not (layer_after(60.0).thickness <= aim <= layer_after(total_time).thickness):
         raise NotReachableError("compound layer", f"a {aim * 1e6:.1f} µm layer cannot be reached in "
                                 f"{total_time / 3600:.1f} h with K_N {k1:.3g} then {k2:.3g}")
-    layer = math.sqrt(2.0 * b * (l1 * first + l2 * (total_time - first)))
-    return TwoStageSchedule(first, k1, total_time - first, k2, layer)
+    from scipy.optimize import brentq  # imported on first use: it is slow to import
+
+    first = brentq(lambda t: layer_after(t).thickness - aim, 60.0, total_time, xtol=1.0)
+    first = min(max(first, 60.0), total_time)
+    return TwoStageSchedule(first, k1, total_time - first, k2, layer_after(first))

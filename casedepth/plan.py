@@ -460,7 +460,7 @@ def evaluate_nitriding(plan: "Plan") -> NitridingOutcome:
         try:
             two = two_stage_schedule(setup, results[1].time, window)
             advice += (f"; or nitride {two.first_time / 3600:.1f} h at K_N {two.first_kn:.2f}, then "
-                       f"{two.second_time / 3600:.1f} h at K_N {two.second_kn:.2f}")
+                       f"{two.second_time / 3600:.1f} h at K_N {two.second_kn:.2f} (layer {two.layer.describe()})")
         except InputError:
             pass
         warnings.append(f"The compound layer ({layer * 1e6:.1f} µm) is outside {window[0] * 1e6:g}–{window[1] * 1e6:g} µm; "

@@ -348,19 +348,21 @@ class ProfilePlots(QTabWidget):
         self.c_core.set_visible(False)
         self.c_saturation.set_ydata([final.setup.capacity] * 2)
         self.c_saturation.set_label(f"nitrogen the nitride formers bind, {final.setup.capacity:.2f} %")
-        self._show_compound(page, shown.compound_layer)
+        self._show_compound(page, shown.layer)
         page.axes.set_ylim(0, max(float(final.aim.nitrogen.max()), final.setup.capacity, 0.05) * 1.25)
         page.axes.set_ylabel("nitrogen [wt %]")
         page.caption.set_text(("after " + format_duration(shown.time) + " of " + format_duration(final.duration))
                               if scrubbing else f"after {format_duration(final.duration)} of nitriding")
 
-    def _show_compound(self, page, thickness: float) -> None:
+    def _show_compound(self, page, layer) -> None:
+        """Shade the compound layer (a :class:`~casedepth.compound_layer.CompoundLayer`, or None to hide it)."""
         band = getattr(page, "compound_band", None)
         if band is None:
             band = page.compound_band = page.axes.axvspan(0, 0, color="#c9c9c9", alpha=0.8, lw=0)
+        thickness = 0.0 if layer is None else layer.thickness
         band.set_x(0.0)
         band.set_width(self.units.length(thickness))
-        band.set_label(f"compound layer {thickness * 1e6:.1f} µm")
+        band.set_label("compound layer " + ("" if layer is None else layer.describe()))
         band.set_visible(thickness > 0)
 
     def _draw_nitrided_hardness(self):
@@ -374,7 +376,7 @@ class ProfilePlots(QTabWidget):
         self.h_end.set_visible(scrubbing)
         self.h_threshold.set_ydata([setup.core + 50.0] * 2)
         self.h_threshold.set_label(f"core + 50 HV = {setup.core + 50:.0f} HV")
-        self._show_compound(page, shown.compound_layer)
+        self._show_compound(page, shown.layer)
         page.axes.set_ylim(setup.core - 80, setup.surface + 80)
         page.caption.set_text("Hardness " + ("after " + format_duration(shown.time) if scrubbing
                                              else f"after {format_duration(final.duration)}")
@@ -386,7 +388,7 @@ class ProfilePlots(QTabWidget):
         self.c_threshold.set_visible(True)
         self.c_core.set_visible(True)
         self.carbon_page.axes.set_ylabel("carbon [wt %]")
-        self._show_compound(self.carbon_page, 0.0)
+        self._show_compound(self.carbon_page, None)
         page, u = self.carbon_page, self.units
         final, shown, scrubbing = self._profiles()
         setup = final.setup
@@ -408,7 +410,7 @@ class ProfilePlots(QTabWidget):
     def _draw_hardness(self):
         if self.outcome.process == "nitriding":
             return self._draw_nitrided_hardness()
-        self._show_compound(self.hardness_page, 0.0)
+        self._show_compound(self.hardness_page, None)
         page, u = self.hardness_page, self.units
         final, shown, scrubbing = self._profiles()
         setup = final.setup

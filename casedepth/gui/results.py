@@ -107,8 +107,8 @@ class ResultPanel(QFrame):
         self._fact("window", "Drawing window",
                    f"{units.format_length(outcome.low.nitrided_depth)} in {format_duration(outcome.low.time)}  to  "
                    f"{units.format_length(outcome.high.nitrided_depth)} in {format_duration(outcome.high.time)}")
-        self._fact("surface", "Compound layer", f"{aim.compound_layer * 1e6:.1f} µm (window "
-                   f"{outcome.compound_window[0] * 1e6:g}–{outcome.compound_window[1] * 1e6:g} µm)")
+        self._fact("surface", "Compound layer", f"{aim.layer.describe()}; window "
+                   f"{outcome.compound_window[0] * 1e6:g}–{outcome.compound_window[1] * 1e6:g} µm")
         self._fact("reached", "Surface phase", PHASE_NAMES[setup.phase])
         self._fact("threshold", "K_N for the layer window",
                    "—" if outcome.kn_for_window is None else f"{outcome.kn_for_window:.2f} atm^-½")

@@ -457,7 +457,8 @@ class MainWindow(QMainWindow):
         writer = csv.writer(out)
         writer.writerow([f"# casedepth {__version__}: {self.plan.title}; nitrided {aim.time / 3600:.4f} h at "
                          f"{self.units.format_temperature(aim.setup.temperature)}, K_N {aim.setup.nitriding_potential:.3g}; "
-                         f"compound layer {aim.compound_layer * 1e6:.2f} um; hardness from the sharp-front model"])
+                         f"compound layer {aim.compound_layer * 1e6:.2f} um (epsilon {aim.layer.epsilon * 1e6:.2f} um); "
+                         f"hardness from the sharp-front model"])
         writer.writerow(["depth_mm", "depth_in", "nitrogen_pct", "hardness_hv"])
         for x, n, h in zip(aim.depth, aim.nitrogen, aim.hardness):
             writer.writerow([f"{x * 1e3:.5f}", f"{x / 0.0254:.6f}", f"{n:.5f}", f"{h:.1f}"])
@@ -568,8 +569,9 @@ class MainWindow(QMainWindow):
             "saturation against γ′ fitted to the Fe–N diagram of Wriedt, Gokcen &amp; Nafziger (1987)</li>",
             "<li><b>Nitrided hardness depth</b> — internal-nitriding front of Wagner, Z. Elektrochem. 63 (1959) 772, "
             "and Meijering (1971)</li>",
-            "<li><b>Compound layer</b> — parabolic growth driven by ln(K_N / K_N at α/γ′); rate constant calibrated "
-            "to common shop results, not a published value</li>",
+            "<li><b>Compound layer</b> — ε over γ′ layer growth after Somers &amp; Mittemeijer, Metall. Mater. "
+            "Trans. A 26 (1995) 57, drained by the diffusion zone; nitride diffusivities an order of magnitude "
+            "from memory (layers ±50 %); phase contents from the Fe–N diagram of Wriedt et al. (1987)</li>",
             "<li><b>Safety cautions</b> — common practice under NFPA 86; local codes govern</li>",
         ]
         return "<ul>" + "".join(rows) + "</ul>"
