@@ -14,8 +14,9 @@ import sys
 from . import __version__, api
 from .carburizing import CarburizingSetup, carburize, soak_time_for_case_depth
 from .plan import Plan, evaluate, stage_to_dict
-from .nitriding import (PHASE_NAMES, NitridingSetup, dissociation_for_potential, nitride, nitriding_potential_from_dissociation,
-                        nitriding_time, potential_for_compound_layer, two_stage_schedule)
+from .nitriding import (PHASE_NAMES, NitridingSetup, dissociation_for_potential, nitride, nitriding_potential,
+                        nitriding_potential_from_dissociation, nitriding_time, potential_for_compound_layer,
+                        two_stage_schedule)
 from .recipe import plan_boost_diffuse, temperature_tradeoff
 from .steels import steel_from_text
 from .diffusivity import METHODS as DIFFUSIVITY_METHODS
@@ -81,6 +82,7 @@ def _build_parser() -> argparse.ArgumentParser:
     potential = n.add_mutually_exclusive_group()
     potential.add_argument("--kn", help="nitriding potential K_N, atm^-1/2 (e.g. 3)")
     potential.add_argument("--dissociation", help="ammonia dissociation of the exhaust, %% (e.g. 30)")
+    potential.add_argument("--exhaust", help="measured exhaust gas, volume %%: NH3=40,H2=45 (K_N = pNH3/pH2^1.5)")
     goal = n.add_mutually_exclusive_group(required=True)
     goal.add_argument("--target", help="nitrided hardness depth (core + 50 HV): 0.4mm")
     goal.add_argument("--time", help="soak length instead of a target: 20h")
@@ -137,6 +139,7 @@ FLAGS = {
     "thickness": "--thickness", "surface target": "--surface-target", "boost potential": "--boost-potential",
     "diffuse potential": "--diffuse-potential", "plan file": "PLAN", "compare temperatures": "--compare-temperatures",
     "nitriding potential": "--kn", "dissociation": "--dissociation", "compound layer": "--compound",
+    "nitriding atmosphere": "--exhaust",
     "core hardness": "--core-hardness", "nitrided surface hardness": "--surface-hardness",
     "second stage K_N": "--compound", "temperatures": "--temperatures", "potentials": "--potentials", "hours": "--hours", "output": "--pdf/--svg/--png",
     "paper": "--paper",
@@ -319,13 +322,29 @@ def _run(args) -> int:
     return 0
 
 
+def _exhaust_potential(text: str) -> float:
+    """K_N from measured exhaust fractions written as ``NH3=40,H2=45`` (volume %, 1 atm total)."""
+    fractions = {}
+    for part in text.replace(";", ",").split(","):
+        name, sep, value = part.partition("=")
+        name = name.strip().upper()
+        if not sep or name not in ("NH3", "H2"):
+            raise InputError("nitriding atmosphere", f"{text!r} is not of the form NH3=40,H2=45 (volume %)")
+        fractions[name] = parse_number(value.strip().rstrip("%"), "nitriding atmosphere") / 100.0
+    if set(fractions) != {"NH3", "H2"} or not (0 < fractions["NH3"] + fractions["H2"] <= 1.0 + 1e-9):
+        raise InputError("nitriding atmosphere", f"{text!r}: give both NH3 and H2, each above 0 and together at most 100 %")
+    return nitriding_potential(fractions["NH3"], fractions["H2"])
+
+
 def _nitride(args) -> int:
     if args.kn is not None:
         kn = parse_number(args.kn, "nitriding potential")
     elif args.dissociation is not None:
         kn = nitriding_potential_from_dissociation(parse_number(args.dissociation.rstrip("%"), "dissociation") / 100.0)
+    elif args.exhaust is not None:
+        kn = _exhaust_potential(args.exhaust)
     else:
-        raise InputError("nitriding potential", "give --kn (atm^-1/2) or --dissociation (%)")
+        raise InputError("nitriding potential", "give --kn (atm^-1/2), --dissociation (%) or --exhaust NH3=..,H2=.. (%)")
     setup = NitridingSetup(
         steel_from_text(args.steel, "steel", process="nitriding"), parse_temperature(args.temperature, "temperature"), kn,
         None if args.core_hardness is None else parse_number(args.core_hardness, "core hardness"),

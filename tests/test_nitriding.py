@@ -165,6 +165,14 @@ def test_cli_json(capsys):
     assert data["epsilon_layer_um"] + data["gamma_prime_layer_um"] == pytest.approx(data["compound_layer_um"], rel=1e-12)
 
 
+def test_cli_takes_measured_exhaust_fractions(capsys):
+    """K_N = p(NH3)/p(H2)^1.5 (Lehrer 1930) from an analyser's volume percentages at 1 atm."""
+    assert main(["nitride", "--steel", "4140", "--temperature", "520C", "--exhaust", "NH3=40%,H2=45%",
+                 "--target", "0.4mm", "--json"]) == 0
+    data = json.loads(capsys.readouterr().out)
+    assert data["nitriding_potential"] == pytest.approx(0.40 / 0.45**1.5, rel=1e-12)
+
+
 def test_calibration_multiplier_scales_the_front():
     """The front below the compound layer grows as √(D t) (Wagner 1959): halving D divides it by √2."""
     t = 20 * 3600.0
@@ -178,6 +186,9 @@ def test_calibration_multiplier_scales_the_front():
     (["--temperature", "620C", "--kn", "3", "--target", "0.4mm"], "--temperature"),
     (["--temperature", "520C", "--kn", "99", "--target", "0.4mm"], "--kn"),
     (["--temperature", "520C", "--dissociation", "120", "--target", "0.4mm"], "--dissociation"),
+    (["--temperature", "520C", "--exhaust", "NH3=40", "--target", "0.4mm"], "--exhaust"),
+    (["--temperature", "520C", "--exhaust", "NH3=80,H2=45", "--target", "0.4mm"], "--exhaust"),
+    (["--temperature", "520C", "--exhaust", "CO=20,H2=45", "--target", "0.4mm"], "--exhaust"),
     (["--temperature", "520C", "--target", "0.4mm"], "--kn"),
     (["--temperature", "520C", "--kn", "3", "--target", "5mm"], "--target"),
     (["--temperature", "520C", "--kn", "3", "--target", "0.4mm", "--compound", "ten"], "--compound"),

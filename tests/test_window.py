@@ -284,6 +284,36 @@ def test_gas_nitriding_in_the_window(window, qtbot):
     assert "nitrogen_pct" in window.profile_csv()
     window.undo_action.trigger()
     assert window.plan.kn == pytest.approx(3.0)
+    assert "ε" in window.results.facts["surface"].text() and "γ′" in window.results.facts["surface"].text()
+
+
+def test_nitriding_plan_saves_reopens_and_matches_the_command_line(window, qtbot, tmp_path):
+    """The issue's acceptance path: 4140, 520 °C, K_N, target depth and compound window; save, reopen, and the
+    command line gives the same numbers from the saved file."""
+    import json
+
+    with qtbot.waitSignal(window.result_shown, timeout=20000):
+        window.form.treatment.setCurrentIndex(window.form.treatment.findData("nitriding"))
+        window.form.treatment.activated.emit(window.form.treatment.currentIndex())
+    with qtbot.waitSignal(window.result_shown, timeout=20000):
+        window.form.kn.setValue(2.5)
+    with qtbot.waitSignal(window.result_shown, timeout=20000):
+        window.form.compound_max.setValue(8.0)
+    shown = window.outcome
+    path = tmp_path / "nitrided.cdplan.json"
+    assert window.save_plan(path)
+    window.new_plan()
+    with qtbot.waitSignal(window.result_shown, timeout=20000):
+        assert window.open_plan(path)
+    assert window.plan.treatment == "nitriding" and window.plan.kn == pytest.approx(2.5)
+    assert window.plan.compound_max == pytest.approx(8e-6)
+    assert window.outcome.aim.time == pytest.approx(shown.aim.time, rel=1e-12)
+    out = subprocess.run([sys.executable, "-m", "casedepth", "run", str(path), "--json"], capture_output=True,
+                         text=True, cwd=tmp_path, check=True).stdout
+    data = json.loads(out)
+    assert data["soak_time_h"] == pytest.approx(shown.aim.time / 3600, rel=1e-9)
+    assert data["compound_layer_um"] == pytest.approx(shown.aim.compound_layer * 1e6, rel=1e-9)
+    assert data["compound_window_um"] == pytest.approx([5.0, 8.0])
 
 
 def test_print_documents_through_qt(window, tmp_path):
