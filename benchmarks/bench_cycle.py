@@ -3,8 +3,10 @@
 What it measures: planning the boost and diffuse times for 8620 at 925 °C, boost potential 1.15,
 diffuse potential 0.80, effective case depth 1.2 mm at 0.40 %C and final surface carbon 0.80 %C
 (meaning 0.75–0.85, aimed at the middle of what the two potentials can reach), isothermal, no
-ramps; then the same with the demo shop's heat-up, drop and equalize counted. Median of 15 runs
-after one warm-up. Goal (issue: whole furnace cycles): ≤ 150 ms on a 2-core machine.
+ramps; then the same with the demo shop's heat-up, drop and equalize counted; then a single soak at
+potential 1.00 for 0.8, 1.0 and 1.2 mm with those shop stages counted (what the window solves in its
+one-soak mode). Median of 15 runs after one warm-up. Goal (issue: whole furnace cycles): ≤ 150 ms on a
+2-core machine.
 
 How to run, from the repository root::
 
@@ -18,7 +20,7 @@ import time
 
 import casedepth
 from casedepth.quote import ShopDefaults
-from casedepth.recipe import plan_boost_diffuse
+from casedepth.recipe import plan_boost_diffuse, plan_single_soak
 
 
 def timed(run, repeats: int = 15) -> tuple[float, object]:
@@ -45,6 +47,12 @@ def main() -> None:
         print(f"{name:30s} median {seconds * 1e3:6.1f} ms   boost {plan.boost_time / 3600:.3f} h, diffuse "
               f"{plan.diffuse_time / 3600:.3f} h, ECD {plan.cycle.case_depth * 1e3:.4f} mm, surface "
               f"{plan.cycle.surface_carbon:.3f} %C (aim {plan.surface_aim:.3f})   goal ≤ 150 ms")
+    soak_setup = casedepth.setup("8620", "925C", 1.00)
+    seconds, plan = timed(lambda: plan_single_soak(soak_setup, [0.8e-3, 1.0e-3, 1.2e-3], tuple(shop.before(T, 1.0)),
+                                                   tuple(shop.after(T))))
+    print(f"{'single soak, shop stages':30s} median {seconds * 1e3:6.1f} ms   soaks "
+          f"{', '.join(f'{t / 3600:.3f}' for t in plan.soak_times)} h for 0.8, 1.0, 1.2 mm; ECD "
+          f"{plan.cycle.case_depth * 1e3:.4f} mm")
 
 
 if __name__ == "__main__":

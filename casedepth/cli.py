@@ -296,8 +296,10 @@ def _run(args) -> int:
             "profile": {"depth_mm": (outcome.profile.depth * 1e3).tolist(), "carbon_pct": outcome.profile.carbon.tolist()},
         }
         if outcome.process == "single":
-            out.update(soak_time_h=outcome.aim.soak_time / 3600.0,
-                       window_soak_time_h=[outcome.low.soak_time / 3600.0, outcome.high.soak_time / 3600.0])
+            soak_low, soak, soak_high = outcome.soak_window
+            out.update(soak_time_h=soak / 3600.0, window_soak_time_h=[soak_low / 3600.0, soak_high / 3600.0],
+                       shop_stages_counted=outcome.counts_shop_stages,
+                       soak_time_alone_h=outcome.aim.soak_time / 3600.0)
         if outcome.boost_time is not None:
             out.update(boost_time_h=outcome.boost_time / 3600.0, diffuse_time_h=outcome.diffuse_time / 3600.0,
                        soak_time_h=(outcome.boost_time + outcome.diffuse_time) / 3600.0)
@@ -306,9 +308,13 @@ def _run(args) -> int:
     units = DisplayUnits(args.units)
     print(f"{plan.title} ({outcome.process})")
     if outcome.process == "single":
-        print(f"  soak {format_duration(outcome.aim.soak_time)} at {units.format_temperature(setup.temperature)}, "
-              f"carbon potential {setup.carbon_potential:.2f} %C (window {format_duration(outcome.low.soak_time)} to "
-              f"{format_duration(outcome.high.soak_time)})")
+        soak_low, soak, soak_high = outcome.soak_window
+        print(f"  soak {format_duration(soak)} at {units.format_temperature(setup.temperature)}, "
+              f"carbon potential {setup.carbon_potential:.2f} %C (window {format_duration(soak_low)} to "
+              f"{format_duration(soak_high)})")
+        if outcome.counts_shop_stages:
+            print(f"  the shop's heat-up and drop are counted in the case; a soak alone would need "
+                  f"{format_duration(outcome.aim.soak_time)}")
     elif outcome.boost_time is not None:
         print(f"  boost {format_duration(outcome.boost_time)} at {plan.boost_potential:.2f} %C, diffuse "
               f"{format_duration(outcome.diffuse_time)} at {plan.diffuse_potential:.2f} %C, at "

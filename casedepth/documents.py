@@ -234,9 +234,11 @@ def _result_lines(outcome, u: DisplayUnits) -> list[str]:
                 f"compound layer {a.layer.describe()}"]
     lines = []
     if outcome.process == "single":
-        lines.append(f"Soak {format_duration(outcome.aim.soak_time)} at {u.format_temperature(s.temperature)}, carbon "
+        soak_low, soak, soak_high = outcome.soak_window
+        lines.append(f"Soak {format_duration(soak)} at {u.format_temperature(s.temperature)}, carbon "
                      f"potential {s.carbon_potential:.2f} %C; window {u.format_length(low)}–{u.format_length(high)}: "
-                     f"{format_duration(outcome.low.soak_time)} to {format_duration(outcome.high.soak_time)}")
+                     f"{format_duration(soak_low)} to {format_duration(soak_high)}"
+                     + ("; heat-up and drop counted" if outcome.counts_shop_stages else ""))
     elif outcome.boost_time is not None:
         lines.append(f"Boost {format_duration(outcome.boost_time)}, then diffuse {format_duration(outcome.diffuse_time)} "
                      f"at {u.format_temperature(s.temperature)}")

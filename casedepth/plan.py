@@ -26,7 +26,7 @@ from .geometry import Geometry
 from .quote import Quote, ShopDefaults, make_quote
 from .nitriding import (NitridingResult, NitridingSetup, nitride, nitriding_time, potential_for_compound_layer,
                         two_stage_schedule)
-from .recipe import CycleResult, Stage, plan_boost_diffuse, run_recipe
+from .recipe import CycleResult, Stage, plan_boost_diffuse, plan_single_soak, run_recipe
 from .safety import Caution
 from .steels import Steel
 from .surface import DEFAULT_BETA
@@ -362,9 +362,11 @@ def migrate(data: dict) -> dict:
 class PlanOutcome:
     """What a plan gives.
 
-    For a single soak: soaks for the drawing's minimum, aim and maximum case depth (``low``,
-    ``aim``, ``high``); for boost-diffuse and own stages: the whole ``cycle`` (and the boost and
-    diffuse times). Always the quote of the whole cycle and the cautions.
+    For a single soak: soaks for the drawing's minimum, aim and maximum case depth at temperature
+    alone (``low``, ``aim``, ``high``) and, when the shop's heat-up or drop move carbon, the soaks
+    with them counted (``soak_times``, see :attr:`soak_window`) and the aim's whole ``cycle``; for
+    boost-diffuse and own stages: the whole ``cycle`` (and the boost and diffuse times). Always the
+    quote of the whole cycle and the cautions.
     """
 
     setup: CarburizingSetup
@@ -379,12 +381,26 @@ class PlanOutcome:
     boost_time: float | None = None
     diffuse_time: float | None = None
     warnings: list[str] = field(default_factory=list)
+    # single soak with the shop's heat-up and drop counted: soaks for min, aim, max (``cycle`` is the aim's)
+    soak_times: tuple[float, float, float] | None = None
 
     targets: tuple[float, float, float] = (0.0, 0.0, 0.0)  # the drawing's min, aim, max case depth [m]
 
     @property
     def case_depth(self) -> float:
         return self.aim.case_depth if self.cycle is None else self.cycle.case_depth
+
+    @property
+    def soak_window(self) -> tuple[float, float, float]:
+        """Single soak: soak times [s] at temperature for the drawing's minimum, aim and maximum case
+        depth — with the shop's heat-up and drop counted where the shop has them."""
+        if self.soak_times is not None:
+            return self.soak_times
+        return self.low.soak_time, self.aim.soak_time, self.high.soak_time
+
+    @property
+    def counts_shop_stages(self) -> bool:
+        return self.soak_times is not None
 
     @property
     def duration(self) -> float:
@@ -494,10 +510,16 @@ def evaluate(values: dict[str, Any]):
     try:
         if plan.process == "single":
             results = soak_times_for_case_depths(setup, [low, aim, high], size_for=aim)
-            stages = [*shop.before(T, setup.carbon_potential), Stage("soak", results[1].soak_time, T, setup.carbon_potential),
-                      *shop.after(T)]
-            outcome = PlanOutcome(setup, plan.process, make_quote(stages, shop), [], stages, *results,
-                                  warnings=list(results[1].warnings))
+            before, after = tuple(shop.before(T, setup.carbon_potential)), tuple(shop.after(T))
+            soak_times, cycle, warnings = None, None, list(results[1].warnings)
+            if any(s.moves_carbon and s.duration > 0 for s in (*before, *after)):
+                counted = plan_single_soak(setup, [low, aim, high], before, after)
+                soak_times, cycle = tuple(counted.soak_times), counted.cycle
+                warnings += [w for w in cycle.warnings if w not in warnings]
+            soak = results[1].soak_time if soak_times is None else soak_times[1]
+            stages = [*before, Stage("soak", soak, T, setup.carbon_potential), *after]
+            outcome = PlanOutcome(setup, plan.process, make_quote(stages, shop), [], stages, *results, cycle=cycle,
+                                  soak_times=soak_times, warnings=warnings)
         elif plan.process == "boost-diffuse":
             planned = plan_boost_diffuse(setup, aim, (plan.surface_min, plan.surface_max), plan.boost_potential,
                                          plan.diffuse_potential, before=tuple(shop.before(T, plan.boost_potential)),

@@ -41,6 +41,8 @@ STAGE_KINDS: dict[str, tuple[bool, str]] = {
     "temper": (False, "Temper"),
 }
 MAX_STAGE = 200 * 3600.0  # s
+# a ramp (heat-up, drop) is crossed in at least this many steps, each at its midpoint condition
+RAMP_STEPS = 10
 #: a surface-carbon target given as one value means value ± this, wt % (common practice for callouts)
 SURFACE_TOLERANCE = 0.05
 
@@ -218,7 +220,7 @@ def run_recipe(setup: CarburizingSetup, stages: list[Stage], start_temperature: 
             rest = replace(stage, duration=stage.duration - frozen)
             condition = _conditions(setup, rest, t_from)
             ramp = not isinstance(condition, SurfaceCondition)
-            solver.advance(rest.duration, condition, max_step=rest.duration / 20 if ramp else math.inf)
+            solver.advance(rest.duration, condition, max_step=rest.duration / RAMP_STEPS if ramp else math.inf)
         uptake.append(solver.carbon_uptake() - before)
         if stage.moves_carbon:
             t_now = stage.temperature
@@ -392,6 +394,131 @@ def plan_boost_diffuse(setup: CarburizingSetup, target_depth: float, surface_tar
     stages = [*before, Stage("boost", tb, T, boost_potential), Stage("diffuse", td, T, diffuse_potential), *after]
     cycle = run_recipe(setup, stages)
     return BoostDiffusePlan(tb, td, cycle, (low, high), target_depth, aim)
+
+
+@dataclass
+class SoakPlan:
+    """Soaks at temperature [s] for several case depths with the shop's heat-up and drop counted,
+    and the whole cycle for one of them."""
+
+    soak_times: list[float]
+    cycle: CycleResult
+
+
+def plan_single_soak(setup: CarburizingSetup, targets: list[float], before: tuple[Stage, ...] = (),
+                     after: tuple[Stage, ...] = (), cycle_for: int = 1) -> SoakPlan:
+    """Soaks at the setup's temperature and potential for each effective case depth [m] in ``targets``,
+    counting the carbon the ``before`` (load, heat-up) and ``after`` (drop, equalize, quench…) stages move.
+
+    The case grows in the heat-up once the load passes Ac3, and again in the drop to the hardening
+    temperature and the equalize: each target holds at the end of the whole cycle. One march at
+    temperature keeps every step; a trial soak is re-taken from it and only the ``after`` stages are
+    run on a copy. The ``after`` stages add depth nearly in quadrature (final² = soak-end² + c, c
+    varying slowly with depth), so a secant on the squares lands each target in one to three trials:
+    the ``cycle_for`` target (whose whole cycle is returned) to 1e-6 of its depth, the others to 1e-4.
+    """
+    T = setup.temperature
+    thr = setup.threshold_carbon
+    soak = setup.surface_condition
+    stages_for_check = [*before, Stage("soak", 1.0, T, setup.carbon_potential), *after]
+    check_recipe(setup, stages_for_check)
+    deepest = max(targets)
+    template = setup.solver(case_depth=targets[cycle_for])
+    head = run_recipe(setup, list(before), solver=template) if before else None
+    start, uptake_at_start = template.time, template.carbon_uptake()
+    depths = [template.threshold_depth(thr)]  # depth after every step of the soak
+
+    def record(s: CarbonSolver) -> bool:
+        depths.append(s.threshold_depth(thr))
+        return depths[-1] >= deepest
+
+    template.advance(MAX_STAGE, soak, record)
+    if depths[-1] < deepest:
+        raise NotReachableError("target", f"{deepest * 1e3:g} mm is not reached within {MAX_STAGE / 3600:g} h of soak")
+    first = len(template.history_time) - len(depths)  # history index where the soak starts
+
+    def soak_for(depth2: float) -> float:
+        """Soak [s] after which the depth at temperature is √depth2 (0 if the heat-up already gives it)."""
+        depth = math.sqrt(max(depth2, 0.0))
+        if depth <= depths[0]:
+            return 0.0
+        k = first + int(np.searchsorted(depths, depth, side="left"))
+        return template.history_time[k - 1] - start + _land(template, k, depth, thr)
+
+    def state_after(ts: float) -> CarbonSolver:
+        t = start + ts
+        k = int(np.searchsorted(template.history_time, t))
+        carbon = template.snapshot(k) if template.history_time[k] == t else \
+            template.retake(k, t - template.history_time[k - 1]).carbon
+        return template.fork(carbon, t)
+
+    def ending(ts: float) -> tuple[float, CycleResult | None]:
+        state = state_after(ts)
+        if not after:
+            return state.threshold_depth(thr), None
+        end = run_recipe(setup, list(after), T, solver=state)
+        return end.case_depth, end
+
+    floor = depths[0] ** 2
+    # Secant on (soak-end depth², final depth²) per target: the one whose cycle is returned first and to
+    # 1e-6, the others to 1e-4 (about the solver's own accuracy). Each starts from the c = final² −
+    # soak-end² of the last trial, which varies slowly with depth, so most land in one or two trials.
+    order = [cycle_for] + [i for i in range(len(targets)) if i != cycle_for]
+    times, c, end = [0.0] * len(targets), 0.0, None
+    for i in order:
+        goal, tol = targets[i], (1e-6 if i == cycle_for else 1e-4)
+        x = min(max(goal**2 - c, floor), deepest**2)
+        tries = []
+        for _ in range(12):
+            ts = soak_for(x)
+            final, ended = ending(ts)
+            c = final**2 - x
+            tries.append((x, final**2))
+            if abs(final - goal) <= tol * goal or (ts == 0.0 and final >= goal):
+                break
+            if len(tries) == 1:
+                x += goal**2 - final**2
+            else:
+                (x0, y0), (x1, y1) = tries[-2], tries[-1]
+                x = x1 + (goal**2 - y1) * (x1 - x0) / (y1 - y0) if y1 != y0 else x1 + goal**2 - y1
+            x = min(max(x, floor), deepest**2)
+        else:
+            raise ArithmeticError(f"the soak for {goal * 1e3:g} mm did not converge")
+        times[i] = ts
+        if i == cycle_for:
+            end = ended
+    ts = times[cycle_for]
+    stages = [*before, Stage("soak", ts, T, setup.carbon_potential), *after]
+    cycle = _joined_cycle(setup, stages, head, template, start, ts, uptake_at_start, state_after(ts), end)
+    if 0.0 in times:
+        cycle.warnings.append(f"The heat-up and drop alone give more than {min(targets) * 1e3:g} mm at "
+                              f"{setup.threshold}: that target needs no soak at all")
+    return SoakPlan(times, cycle)
+
+
+def _joined_cycle(setup, stages, head, template, start, ts, uptake_at_start, state, end) -> CycleResult:
+    """The whole cycle from the pieces already run: the heat-up (``head``), the soak's march
+    (``template`` up to ``start + ts``, whose state is ``state``) and the stages after it (``end``).
+    Runs the cycle afresh if the pieces do not fit (the grid was extended on the way)."""
+    t = start + ts
+    k = int(np.searchsorted(template.history_time, t))
+    head_times = list(template.history_time[:k])
+    head_carbon = [template.snapshot(i) for i in range(k)]
+    tail = end if end is not None else None
+    tail_times = list(tail.history_time) if tail is not None else [t]
+    tail_carbon = list(tail.history_carbon) if tail is not None else [state.carbon]
+    if any(len(c) != len(state.carbon) for c in (*head_carbon, *tail_carbon)):
+        return run_recipe(setup, stages)
+    n_before = len(head.stages) if head is not None else 0
+    starts = (list(head.stage_start) if head is not None else []) + [start] + \
+        (list(tail.stage_start) if tail is not None else [])
+    uptake = (list(head.stage_uptake) if head is not None else []) + [state.carbon_uptake() - uptake_at_start] + \
+        (list(tail.stage_uptake) if tail is not None else [])
+    assert len(starts) == len(stages) == n_before + 1 + (len(tail.stages) if tail is not None else 0)
+    profile = tail.profile if tail is not None else state.profile()
+    depth = tail.case_depth if tail is not None else profile.depth_at(setup.threshold_carbon)
+    return CycleResult(setup, list(stages), starts, uptake, profile, depth, np.array(head_times + tail_times),
+                       head_carbon + tail_carbon, check_recipe(setup, stages))
 
 
 def _land(solver: CarbonSolver, k: int, target: float, thr: float) -> float:

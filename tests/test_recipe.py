@@ -12,7 +12,8 @@ import casedepth
 from casedepth.cli import main
 from casedepth.errors import InputError, NotReachableError
 from casedepth.quote import ShopDefaults, make_quote
-from casedepth.recipe import Stage, plan_boost_diffuse, run_recipe, temperature_tradeoff
+from casedepth.carburizing import soak_times_for_case_depths
+from casedepth.recipe import Stage, plan_boost_diffuse, plan_single_soak, run_recipe, temperature_tradeoff
 
 K = 273.15
 T925 = 925 + K
@@ -84,6 +85,56 @@ def test_boost_diffuse_with_heat_up_and_drop_counts_their_carbon():
     assert full.cycle.case_depth == pytest.approx(1.0e-3, rel=2e-3)
     assert 0.75 <= full.cycle.surface_carbon <= 0.85
     assert full.boost_time + full.diffuse_time < plain.boost_time + plain.diffuse_time
+
+
+def test_single_soak_without_shop_stages_is_the_plain_soak():
+    """With nothing before or after, the soak counting the shop's stages is the isothermal soak (1e-5)."""
+    setup = casedepth.setup("8620", "925C", 1.0)
+    targets = [0.8e-3, 1.0e-3, 1.2e-3]
+    counted = plan_single_soak(setup, targets)
+    plain = soak_times_for_case_depths(setup, targets, size_for=1.0e-3)
+    assert counted.soak_times == pytest.approx([r.soak_time for r in plain], rel=1e-5)
+
+
+def test_single_soak_with_a_drop_against_the_time_dependent_D_solution():
+    """Held surface, D constant in carbon but following the temperature: the diffusion equation with D(t) is
+    solved by erfc(x / 2√T) with T = ∫ D dt (Crank, The Mathematics of Diffusion, 1975, time-dependent
+    diffusion coefficient). A soak at 925 °C, a 1 h linear drop to 845 °C and 1 h equalize at one potential
+    must add up to the target's ∫ D dt; soak time within 0.3 %."""
+    from scipy.integrate import quad
+    from scipy.special import erfcinv
+
+    potential = 0.9
+    setup = casedepth.setup("C=0.20", "925C", potential, at=0.4, diffusivity="arrhenius", beta="inf",
+                            alloy_factor=False)
+    hard = 845 + K
+
+    def D(T):
+        return float(setup.diffusivity(0.4, T))
+
+    after = (Stage("drop", 3600.0, hard, potential), Stage("equalize", 3600.0, hard, potential))
+    target = 1.0e-3
+    plan = plan_single_soak(setup, [target], after=after, cycle_for=0)
+    needed = (target / (2 * erfcinv((0.4 - 0.2) / (potential - 0.2)))) ** 2
+    in_drop = quad(lambda t: D(T925 + (hard - T925) * t / 3600.0), 0, 3600.0)[0]
+    exact = (needed - in_drop - D(hard) * 3600.0) / D(T925)
+    assert plan.soak_times[0] == pytest.approx(exact, rel=3e-3)
+    assert plan.cycle.case_depth == pytest.approx(target, rel=1e-4)
+
+
+def test_single_soak_counting_heat_up_and_drop_is_shorter_and_lands_on_target():
+    """The carbon of the heat-up (above Ac3) and of the drop and equalize adds case, so the soak shortens;
+    re-running the whole cycle with that soak lands on each target (1e-4)."""
+    setup = casedepth.setup("8620", "925C", 1.0)
+    shop = ShopDefaults()
+    targets = [0.8e-3, 1.0e-3, 1.2e-3]
+    before, after = tuple(shop.before(T925, 1.0)), tuple(shop.after(T925))
+    counted = plan_single_soak(setup, targets, before, after)
+    plain = soak_times_for_case_depths(setup, targets, size_for=1.0e-3)
+    for soak, alone, target in zip(counted.soak_times, plain, targets):
+        assert soak < alone.soak_time
+        rerun = run_recipe(setup, [*before, Stage("soak", soak, T925, 1.0), *after])
+        assert rerun.case_depth == pytest.approx(target, rel=1e-4)
 
 
 def test_unreachable_surface_window_is_explained():

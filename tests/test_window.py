@@ -152,7 +152,7 @@ def test_unsaved_changes_prompt(window, monkeypatch):
 def test_time_control_scrubs_through_the_soak(window):
     window.time_slider.setValue(300)
     assert "of" in window.time_label.text()
-    assert window.plots.time == pytest.approx(0.3 * window.outcome.aim.soak_time)
+    assert window.plots.time == pytest.approx(0.3 * window.outcome.duration)
     window.time_slider.setValue(1000)
     assert window.plots.time is None
 

@@ -35,8 +35,8 @@ SHAPE_CHOICES = [
 PROCESS_CHOICES = [("single", "One soak at one carbon potential"), ("boost-diffuse", "Boost and diffuse (plan both times)"),
                    ("stages", "Stages of my own")]
 PROCESS_NOTES = {
-    "single": "The soak time at temperature; the quote adds the shop's load, heat-up, drop, quench, wash "
-              "and temper times (their carbon is not counted).",
+    "single": "The soak time at temperature for the case at the end of the cycle: carbon moved in the shop's "
+              "heat-up, drop and equalize is counted; the quote adds load, quench, wash and temper times.",
     "boost-diffuse": "Plans boost and diffuse so the case and the surface carbon are on target at the end of "
                      "the whole cycle; the shop's heat-up, drop and equalize are counted.",
     "stages": "Runs the stages as entered (temperatures ramp from the previous stage) and shows what they give.",

@@ -65,10 +65,10 @@ class ResultPanel(QFrame):
     def show_outcome(self, outcome, units: DisplayUnits) -> None:
         if outcome.process == "nitriding":
             self._show_nitriding(outcome, units)
-        elif outcome.cycle is not None:
-            self._show_cycle(outcome, units)
-        else:
+        elif outcome.process == "single":
             self._show_soak(outcome, units)
+        else:
+            self._show_cycle(outcome, units)
         if outcome.warnings:
             self.warnings.setText("\n".join(f"• {w}" for w in outcome.warnings))
             self.warnings.show()
@@ -120,17 +120,20 @@ class ResultPanel(QFrame):
         self.facts[key].setText(value)
 
     def _show_soak(self, outcome, units: DisplayUnits) -> None:
-        setup, aim = outcome.setup, outcome.aim
-        self.headline.setText(f"Soak {format_duration(aim.soak_time)}")
+        setup = outcome.setup
+        low, aim, high = outcome.targets
+        soak_low, soak, soak_high = outcome.soak_window
+        self.headline.setText(f"Soak {format_duration(soak)}")
+        counted = "heat-up and drop counted" if outcome.counts_shop_stages else "no heat-up or drop counted"
         self.subline.setText(
             f"at {units.format_temperature(setup.temperature)}, carbon potential {setup.carbon_potential:.2f} %C, "
-            f"for {units.format_length(aim.target_depth)} effective case depth at {setup.threshold} "
-            f"({aim.soak_time / 3600:.2f} h at temperature; heat-up and drop not included)")
+            f"for {units.format_length(aim)} effective case depth at {setup.threshold} "
+            f"({soak / 3600:.2f} h at temperature; {counted})")
         self._fact("window", "Drawing window",
-                   f"{units.format_length(outcome.low.target_depth)} in {format_duration(outcome.low.soak_time)}  to  "
-                   f"{units.format_length(outcome.high.target_depth)} in {format_duration(outcome.high.soak_time)}")
-        self._fact("surface", "Surface carbon at the end", f"{aim.surface_carbon:.3f} %C")
-        self._fact("reached", "Case depth reached", units.format_length(aim.case_depth))
+                   f"{units.format_length(low)} in {format_duration(soak_low)}  to  "
+                   f"{units.format_length(high)} in {format_duration(soak_high)}")
+        self._fact("surface", "Surface carbon at the end", f"{outcome.surface_carbon:.3f} %C")
+        self._fact("reached", "Case depth reached", units.format_length(outcome.case_depth))
         self._fact("threshold", "Threshold means", f"{setup.threshold_carbon:.3f} %C" if setup.threshold.kind != "carbon"
                    else f"{setup.threshold_carbon:.2f} %C (carbon threshold)")
         self._fact("equilibrium", "Surface carbon in equilibrium",
