@@ -347,21 +347,26 @@ def plan_boost_diffuse(setup: CarburizingSetup, target_depth: float, surface_tar
         tau = _land(solver, k, depth, thr)
         return template.fork(solver.retake(k, tau).carbon, solver.history_time[k - 1] + tau)
 
+    hint = [0.0]  # c = final depth² − depth² where the diffuse stops, from the last trial (varies slowly)
+
     def finish(tb: float) -> tuple[float, float]:
         """Diffuse time and final surface carbon for boost time ``tb``, the case landing on target at
-        the end of the cycle (the 'after' stages' share of the depth found by a fixed point)."""
+        the end of the cycle: the 'after' stages add depth nearly in quadrature, so the depth the
+        diffuse stops at is found by secant on the squares, starting from the last trial's c."""
         state = boost_state(tb)
-        goal, previous = target_depth, None
+        goal2 = target_depth**2 - hint[0]
+        previous = None
         for _ in range(8):
-            end_state = diffuse_to(state, goal)
+            end_state = diffuse_to(state, math.sqrt(max(goal2, 0.0)))
             depth, surface = ending(end_state)
+            stop2 = end_state.threshold_depth(thr) ** 2
+            hint[0] = depth**2 - stop2
             miss = target_depth - depth
             if not after or abs(miss) <= 1e-6 * target_depth or end_state is state and miss < 0:
                 break
-            # secant on the final depth against the depth the diffuse stops at
-            slope = 1.0 if previous is None or previous[0] == goal else (depth - previous[1]) / (goal - previous[0])
-            previous = (goal, depth)
-            goal += miss / max(slope, 0.1)
+            slope = 1.0 if previous is None or previous[0] == stop2 else (depth**2 - previous[1]) / (stop2 - previous[0])
+            previous = (stop2, depth**2)
+            goal2 = stop2 + (target_depth**2 - depth**2) / max(slope, 0.1)
         return end_state.time - state.time, surface
 
     # the longest boost: with no diffuse at all, the case ends on target (after the 'after' stages)
