@@ -94,16 +94,20 @@ def _build_parser() -> argparse.ArgumentParser:
     n.add_argument("--json", action="store_true", help="print one JSON object instead of text")
 
     ch = commands.add_parser("chart", help="print a case-depth chart (PDF, SVG or PNG)",
-                             description="A case-depth chart: effective case depth against time at several temperatures "
-                                         "(or potentials), with a table of soak times for standard depths.")
-    ch.add_argument("--steel", required=True, help="grade or composition, as for carburize")
+                             description="A case-depth chart: effective case depth (or, for nitriding, nitrided "
+                                         "hardness depth and compound layer) against time at several temperatures "
+                                         "(or potentials), with a table of times for standard depths.")
+    ch.add_argument("--steel", required=True, help="grade or composition, as for carburize (or nitride)")
+    ch.add_argument("--treatment", default="carburizing", choices=["carburizing", "nitriding"],
+                    help="carburizing (default) or gas nitriding")
     vary = ch.add_mutually_exclusive_group(required=True)
     vary.add_argument("--temperatures", help="900,925,950 (°C unless a unit is given: 1650F,1700F)")
-    vary.add_argument("--potentials", help="0.9,1.0,1.1 (wt %% C), at --temperature")
+    vary.add_argument("--potentials", help="0.9,1.0,1.1 (wt %% C; for nitriding K_N: 1,3,6), at --temperature")
     ch.add_argument("--temperature", help="with --potentials: the furnace temperature")
-    ch.add_argument("--potential", help="with --temperatures: the carbon potential (wt %% C)")
+    ch.add_argument("--potential", help="with --temperatures: the carbon potential (wt %% C), default 1.0")
+    ch.add_argument("--kn", help="nitriding, with --temperatures: the nitriding potential K_N (default 3)")
     ch.add_argument("--at", default="0.40%C", help="threshold: 0.40%%C, 550HV or 50HRC")
-    ch.add_argument("--hours", default="24", help="length of the time axis, h (default 24)")
+    ch.add_argument("--hours", help="length of the time axis, h (default 24; 60 for nitriding)")
     for flag in ("--pdf", "--svg", "--png"):
         ch.add_argument(flag, metavar="FILE", help=f"write the chart as {flag[2:].upper()}")
     ch.add_argument("--paper", default="a4", choices=["a4", "letter"], help="paper size")
@@ -439,10 +443,49 @@ def _outputs(args) -> list[tuple[str, str]]:
     return outputs
 
 
+def _nitriding_chart(args):
+    from .documents import nitriding_chart
+
+    steel = steel_from_text(args.steel, "steel", process="nitriding")
+    hours = parse_number(args.hours or "60", "hours")
+    if args.temperatures:
+        temperatures = [parse_temperature(t, "temperatures") for t in args.temperatures.split(",") if t.strip()]
+        if not 1 <= len(temperatures) <= 6:
+            raise InputError("temperatures", "give one to six temperatures")
+        setup = NitridingSetup(steel, temperatures[0], parse_number(args.kn or "3", "nitriding potential"))
+        for T in temperatures[1:]:
+            NitridingSetup(steel, T, setup.nitriding_potential)  # each temperature must be a nitriding one
+        return nitriding_chart(setup, temperatures=temperatures, paper=args.paper, units=args.units, hours=hours)
+    if args.temperature is None:
+        raise InputError("temperature", "required with --potentials")
+    potentials = [parse_number(k, "potentials") for k in args.potentials.split(",") if k.strip()]
+    if not 1 <= len(potentials) <= 6:
+        raise InputError("potentials", "give one to six nitriding potentials")
+    setup = NitridingSetup(steel, parse_temperature(args.temperature, "temperature"), potentials[0])
+    for k in potentials[1:]:
+        NitridingSetup(steel, setup.temperature, k)
+    return nitriding_chart(setup, potentials=potentials, paper=args.paper, units=args.units, hours=hours)
+
+
 def _chart(args) -> int:
+    try:
+        return _chart_unchecked(args)
+    except InputError as error:
+        if args.temperatures and error.field == "temperature":  # one of the list the user gave
+            raise InputError("temperatures", error.message) from None
+        if args.potentials and error.field in ("carbon potential", "nitriding potential"):
+            raise InputError("potentials", error.message) from None
+        raise
+
+
+def _chart_unchecked(args) -> int:
     from .documents import case_depth_chart, save
 
     outputs = _outputs(args)
+    if args.treatment == "nitriding":
+        for written in (w for fmt, path in outputs for w in save(_nitriding_chart(args), path, fmt)):
+            print(f"wrote {written}")
+        return 0
     if args.temperatures:
         potential = args.potential if args.potential is not None else "1.0"
         temperatures = [parse_temperature(t, "temperatures") for t in args.temperatures.split(",") if t.strip()]
@@ -450,7 +493,7 @@ def _chart(args) -> int:
             raise InputError("temperatures", "give one to six temperatures")
         setup = api.setup(args.steel, f"{temperatures[0]}K", potential, at=args.at)
         document = case_depth_chart(setup, temperatures=temperatures, paper=args.paper, units=args.units,
-                                    hours=parse_number(args.hours, "hours"))
+                                    hours=parse_number(args.hours or "24", "hours"))
     else:
         if args.temperature is None:
             raise InputError("temperature", "required with --potentials")
@@ -459,7 +502,7 @@ def _chart(args) -> int:
             raise InputError("potentials", "give one to six carbon potentials")
         setup = api.setup(args.steel, f"{parse_temperature(args.temperature, 'temperature')}K", potentials[0], at=args.at)
         document = case_depth_chart(setup, potentials=potentials, paper=args.paper, units=args.units,
-                                    hours=parse_number(args.hours, "hours"))
+                                    hours=parse_number(args.hours or "24", "hours"))
     for fmt, path in outputs:
         for written in save(document, path, fmt):
             print(f"wrote {written}")

@@ -23,12 +23,15 @@ from . import __version__, safety
 from .carburizing import CarburizingSetup, carburize, soak_times_for_case_depths
 from .errors import InputError, NotReachableError
 from .hardness import HARDNESS_RELATIONS
+from .nitriding import NitridingSetup, dissociation_for_potential, nitride, nitriding_time
 from .recipe import timeline
 from .units import DisplayUnits, format_duration
 
 PAPER = {"a4": (8.27, 11.69), "letter": (8.5, 11.0)}  # inches, portrait
 METRIC_DEPTHS = (0.3, 0.5, 0.8, 1.0, 1.2, 1.5, 2.0, 2.5)  # mm
 IMPERIAL_DEPTHS = (0.010, 0.020, 0.030, 0.040, 0.050, 0.060, 0.080, 0.100)  # in
+NITRIDED_METRIC_DEPTHS = (0.1, 0.2, 0.3, 0.4, 0.5, 0.6, 0.8)  # mm
+NITRIDED_IMPERIAL_DEPTHS = (0.004, 0.008, 0.012, 0.016, 0.020, 0.024, 0.030)  # in
 INK = "#1d3557"
 COLOURS = ("#1d3557", "#d1495b", "#2a9d8f", "#e9a03b", "#6c4f9c", "#6c757d")
 STAGES_PER_PAGE = 22
@@ -132,6 +135,84 @@ def case_depth_chart(setup: CarburizingSetup, temperatures: list[float] | None =
     _footer(fig, "Estimates from published diffusion models; confirm on the shop's own sections. "
                  "Local codes and licensed practice govern furnace operation.", 1, 1)
     return Document([fig], f"Case-depth chart {steel.name}", [header] + rows, values)
+
+
+# -- nitriding chart --------------------------------------------------------------------------------------
+def nitriding_chart(setup: NitridingSetup, temperatures: list[float] | None = None,
+                    potentials: list[float] | None = None, paper: str = "a4", units: str = "metric",
+                    hours: float = 60.0, date: _dt.date | None = None) -> Document:
+    """Nitrided hardness depth (core + 50 HV) and compound layer against time for several temperatures
+    [K] (at the setup's K_N) or several nitriding potentials [atm^-1/2] (at its temperature), with a
+    table of nitriding times and the compound layer for standard depths; one page."""
+    if bool(temperatures) == bool(potentials):
+        raise InputError("temperatures", "give several temperatures or several nitriding potentials (not both)")
+    if not (1.0 <= hours <= 500.0):
+        raise InputError("hours", f"{hours:g} h is outside 1–500 h")
+    u = DisplayUnits(units)
+    variants = ([replace(setup, temperature=T) for T in temperatures] if temperatures
+                else [replace(setup, nitriding_potential=k) for k in potentials])
+    labels = ([u.format_temperature(T) for T in temperatures] if temperatures
+              else [f"K_N {k:.2f}" for k in potentials])
+    depths = ([d * 1e-3 for d in NITRIDED_METRIC_DEPTHS] if not u.imperial
+              else [d * 0.0254 for d in NITRIDED_IMPERIAL_DEPTHS])
+    fig = _page(paper)
+    ax = fig.add_axes([0.1, 0.555, 0.85, 0.27])
+    layer_ax = fig.add_axes([0.1, 0.425, 0.85, 0.10], sharex=ax)
+    rows = [[u.format_length(d)] for d in depths]
+    values: dict = {"depths": depths, "labels": labels, "times": [], "compound_layers": []}
+    clock = np.linspace(0.0, hours, 121)[1:] * 3600.0
+    for k, (variant, label) in enumerate(zip(variants, labels)):
+        colour = COLOURS[k % len(COLOURS)]
+        runs = [nitride(variant, t) for t in clock]
+        ax.plot(clock / 3600.0, u.length(np.array([r.nitrided_depth for r in runs])), color=colour, lw=2, label=label)
+        layer_ax.plot(clock / 3600.0, [r.compound_layer * 1e6 for r in runs], color=colour, lw=1.5)
+        times, layers = [], []
+        for depth, row in zip(depths, rows):
+            try:
+                result = nitriding_time(variant, depth)
+                t, layer = result.time, result.compound_layer
+            except (InputError, NotReachableError):
+                t, layer = math.nan, math.nan
+            times.append(t)
+            layers.append(layer)
+            row.append("—" if math.isnan(t) else f"{format_duration(t)}  ({layer * 1e6:.0f} µm)")
+        values["times"].append(times)
+        values["compound_layers"].append(layers)
+    ax.set_xlim(0, hours)
+    ax.set_ylim(0, None)
+    ax.set_ylabel(f"nitrided hardness depth [{u.length_unit}]")
+    ax.tick_params(labelbottom=False)
+    ax.grid(True, color="#dddddd", lw=0.6)
+    ax.legend(title="temperature" if temperatures else "nitriding potential", fontsize=8, title_fontsize=8)
+    layer_ax.set_ylim(0, None)
+    layer_ax.set_ylabel("compound\nlayer [µm]", fontsize=8)
+    layer_ax.set_xlabel("time at temperature [h]")
+    layer_ax.grid(True, color="#dddddd", lw=0.6)
+    steel = setup.steel
+    fig.text(0.1, 0.955, f"Nitriding chart — {steel.name}", fontsize=15, weight="bold", color=INK)
+    what = (f"K_N {setup.nitriding_potential:.2f} atm^-1/2 "
+            f"({100 * dissociation_for_potential(setup.nitriding_potential):.0f} % dissociation)" if temperatures
+            else f"temperature {u.format_temperature(setup.temperature)}")
+    multiplier = "" if setup.diffusivity_multiplier == 1.0 else f" × {setup.diffusivity_multiplier:g} (shop calibration)"
+    lines = [
+        f"{steel.standard}; {what}; nitrided hardness depth at core + 50 HV (core {setup.core:.0f} HV, "
+        f"nitrided {setup.surface:.0f} HV); nitride formers bind {setup.capacity:.2f} wt % N",
+        f"Models: nitrogen in ferrite after Bohnenkamp (1967){multiplier}; internal-nitriding front after Wagner "
+        f"(1959); compound layer after Somers & Mittemeijer (1995), ±50 %. Time at temperature only: heat-up, "
+        f"purge and cool-down are not included.",
+        f"Printed {(date or _dt.date.today()).isoformat()} by casedepth {__version__}.",
+    ]
+    y = 0.925
+    for line in lines:
+        y = _wrapped(fig, 0.1, y, line, 7.5, 118) - 0.016
+    table_ax = fig.add_axes([0.1, 0.05, 0.83, 0.28])
+    header = [f"nitrided depth ({u.length_unit})"] + [f"at {label}" for label in labels]
+    _table(table_ax, rows, header, size=7.5 if len(labels) > 3 else 8)
+    fig.text(0.1, 0.345, "Nitriding time for standard depths (and the compound layer it leaves)",
+             fontsize=10, weight="bold", color=INK)
+    _footer(fig, "Estimates from published models; confirm on the shop's own sections. Ammonia is toxic and "
+                 "flammable; local codes govern.", 1, 1)
+    return Document([fig], f"Nitriding chart {steel.name}", [header] + rows, values)
 
 
 # -- process sheet ----------------------------------------------------------------------------------------

@@ -10,7 +10,9 @@ import pytest
 
 import casedepth
 from casedepth.cli import main
-from casedepth.documents import case_depth_chart, process_sheet, save
+from casedepth.documents import case_depth_chart, nitriding_chart, process_sheet, save
+from casedepth.nitriding import NitridingSetup, nitriding_time
+from casedepth.steels import find
 from casedepth.plan import Plan, evaluate
 
 K = 273.15
@@ -58,6 +60,36 @@ def test_chart_over_potentials():
     document = case_depth_chart(setup, potentials=[0.9, 1.0, 1.1])
     times = document.values["soak_times"]
     assert all(a > b for a, b in zip([t[3] for t in times], [t[3] for t in times][1:]))  # richer is faster
+
+
+@pytest.mark.parametrize("units", ["metric", "imperial"])
+def test_nitriding_chart_table_equals_the_solver(units):
+    """The printed nitriding times and compound layers are the solver's, for every standard depth."""
+    setup = NitridingSetup(find("4140"), 520 + K, 3.0)
+    temperatures = [500 + K, 540 + K]
+    document = nitriding_chart(setup, temperatures=temperatures, units=units, hours=40)
+    assert len(document.pages) == 1 and page_is_not_blank(document.pages[0])
+    header, *rows = document.table
+    assert header[1:] == (["at 500 °C", "at 540 °C"] if units == "metric" else ["at 932 °F", "at 1004 °F"])
+    for k, T in enumerate(temperatures):
+        for depth, printed, layer in zip(document.values["depths"], document.values["times"][k],
+                                         document.values["compound_layers"][k]):
+            alone = nitriding_time(NitridingSetup(find("4140"), T, 3.0), depth)
+            assert printed == pytest.approx(alone.time, rel=1e-9)
+            assert layer == pytest.approx(alone.compound_layer, rel=1e-9)
+
+
+def test_nitriding_chart_over_potentials_and_on_the_command_line(tmp_path, capsys):
+    setup = NitridingSetup(find("4140"), 520 + K, 3.0)
+    document = nitriding_chart(setup, potentials=[0.5, 3.0, 8.0])
+    layers = [row[3] for row in document.values["compound_layers"]]
+    assert layers == sorted(layers)  # a higher K_N leaves a thicker layer (Somers & Mittemeijer 1995 model)
+    assert main(["chart", "--treatment", "nitriding", "--steel", "4140", "--temperatures", "500,520,540", "--kn", "3",
+                 "--pdf", str(tmp_path / "n.pdf")]) == 0
+    assert (tmp_path / "n.pdf").stat().st_size > 5000
+    assert main(["chart", "--treatment", "nitriding", "--steel", "4140", "--temperatures", "520,620",
+                 "--pdf", str(tmp_path / "m.pdf")]) == 2
+    assert "--temperatures" in capsys.readouterr().err and not (tmp_path / "m.pdf").exists()
 
 
 @pytest.mark.parametrize("name", ["pinion-shaft.cdplan.json", "ring-gear-boost-diffuse.cdplan.json",

@@ -314,6 +314,8 @@ def test_nitriding_plan_saves_reopens_and_matches_the_command_line(window, qtbot
     assert data["soak_time_h"] == pytest.approx(shown.aim.time / 3600, rel=1e-9)
     assert data["compound_layer_um"] == pytest.approx(shown.aim.compound_layer * 1e6, rel=1e-9)
     assert data["compound_window_um"] == pytest.approx([5.0, 8.0])
+    chart = window.document("chart")
+    assert chart.title.startswith("Nitriding chart") and len(chart.values["labels"]) == 3
 
 
 def test_print_documents_through_qt(window, tmp_path):

@@ -19,6 +19,7 @@ from .. import __version__, safety
 from ..diffusivity import METHODS
 from ..errors import InputError
 from ..hardness import HARDNESS_RELATIONS, ASTM_E140_hv_to_hrc
+from ..nitriding import TEMPERATURE_RANGE as NITRIDING_TEMPERATURES
 from ..plan import Plan, PlanFileError
 from ..quote import ShopDefaults
 from ..units import DisplayUnits, format_duration
@@ -502,8 +503,8 @@ class MainWindow(QMainWindow):
         return str(self.settings.value("paper", "letter" if self.units.imperial else "a4"))
 
     def document(self, kind: str):
-        """The process sheet of the plan, or a case-depth chart for its steel at three temperatures."""
-        from ..documents import case_depth_chart, process_sheet
+        """The process sheet of the plan, or a case-depth (or nitriding) chart for its steel at three temperatures."""
+        from ..documents import case_depth_chart, nitriding_chart, process_sheet
 
         if self.outcome is None:
             raise InputError("document", "there is no result to print yet")
@@ -513,7 +514,9 @@ class MainWindow(QMainWindow):
                                  logo=str(self.settings.value("shop_logo", "")) or None, revision=self.plan.revision)
         setup = self.outcome.setup
         if self.outcome.process == "nitriding":
-            raise InputError("document", "the case-depth chart is for carburizing plans")
+            lo, hi = NITRIDING_TEMPERATURES
+            temperatures = sorted({min(max(setup.temperature + dt, lo), hi) for dt in (-20.0, 0.0, 20.0)})
+            return nitriding_chart(setup, temperatures=temperatures, paper=self.paper, units=self.units.system)
         temperatures = [setup.temperature + dt for dt in (-25.0, 0.0, 25.0)]
         return case_depth_chart(setup, temperatures=temperatures, paper=self.paper, units=self.units.system)
 
