@@ -309,7 +309,8 @@ def _result_lines(outcome, u: DisplayUnits) -> list[str]:
     if outcome.process == "nitriding":
         a = outcome.aim
         return [f"Nitride {format_duration(a.time)} at {u.format_temperature(s.temperature)}, K_N "
-                f"{s.nitriding_potential:.2f} atm^-1/2; window {u.format_length(low)}–{u.format_length(high)}: "
+                f"{s.nitriding_potential:.2f} atm^-1/2 ({100 * dissociation_for_potential(s.nitriding_potential):.0f} % "
+                f"dissociation); window {u.format_length(low)}–{u.format_length(high)}: "
                 f"{format_duration(outcome.low.time)} to {format_duration(outcome.high.time)}",
                 f"Nitrided hardness depth {u.format_length(a.nitrided_depth)} (core {s.core:.0f} HV + 50 HV); "
                 f"compound layer {a.layer.describe()}"]
