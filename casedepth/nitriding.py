@@ -234,6 +234,10 @@ class NitridingSetup:
         if self.phase == "alpha":
             out.append("K_N is below the α/γ′ boundary: no compound layer forms (the boundary values are uncertain "
                        "by perhaps ±30 %).")
+        if self.diffusivity_multiplier == 1.0 and self.capacity >= _MIN_CAPACITY:
+            out.append("Uncalibrated: the sharp-front model with the published nitrogen diffusivity often reaches a "
+                       "depth sooner than measured on alloy steels; set the D_N multiplier from the shop's own "
+                       "sections before quoting times.")
         return out
 
 
