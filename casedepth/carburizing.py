@@ -26,7 +26,7 @@ from .roots import illinois
 from .solver import Accuracy, CarbonSolver, Profile, SurfaceCondition, threshold_depth
 from .steels import Steel
 from .surface import DEFAULT_BETA, Gunnarson_alloy_factor, equilibrium_surface_carbon, steel_saturation_carbon
-from .units import ZERO_CELSIUS, Threshold, celsius, fahrenheit
+from .units import ZERO_CELSIUS, Threshold, both_lengths, celsius, fahrenheit, length_range
 
 MAX_TEMPERATURE = 1100.0 + ZERO_CELSIUS  # K; top of the range the diffusivity and Acm data cover
 GRAIN_GROWTH_TEMPERATURE = 980.0 + ZERO_CELSIUS  # K; common practice, see warnings()
@@ -300,7 +300,7 @@ def carburize(setup: CarburizingSetup, soak_time: float, probe_depth: float | No
     if probe_depth is not None:
         limit = min(setup.geometry.half_section, TARGET_RANGE[1] * 5)
         if not (math.isfinite(probe_depth) and 0.0 <= probe_depth <= limit):
-            raise InputError("carbon at", f"{probe_depth * 1e3:g} mm is outside 0–{limit * 1e3:g} mm")
+            raise InputError("carbon at", f"{both_lengths(probe_depth)} is outside {length_range(0.0, limit)}")
     solver = setup.solver(soak_time=soak_time)
     solver.advance(soak_time, setup.surface_condition)
     profile = solver.profile()
@@ -335,7 +335,7 @@ def _check_target(setup: CarburizingSetup, target: float, field: str = "target")
     limit = min(hi, setup.geometry.half_section)
     if not (math.isfinite(target) and lo <= target <= limit):
         what = " (half the section)" if limit < hi else ""
-        raise InputError(field, f"{target * 1e3:g} mm is outside {lo * 1e3:g}–{limit * 1e3:g} mm{what}")
+        raise InputError(field, f"{both_lengths(target)} is outside {length_range(lo, limit)}{what}")
 
 
 def soak_times_for_case_depths(setup: CarburizingSetup, targets: list[float],
@@ -365,7 +365,7 @@ def soak_times_for_case_depths(setup: CarburizingSetup, targets: list[float],
     solver.advance(SOAK_RANGE[1], cond, record)
     reached = depths[-1]
     if reached < deepest:
-        raise NotReachableError("target", f"{deepest * 1e3:g} mm is not reached within {SOAK_RANGE[1] / 3600:g} h "
+        raise NotReachableError("target", f"{both_lengths(deepest)} is not reached within {SOAK_RANGE[1] / 3600:g} h "
                                 f"(reached {reached * 1e3:.3f} mm); raise the temperature or the carbon potential")
     warnings = setup.warnings()
     results = []

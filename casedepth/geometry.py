@@ -24,6 +24,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from .errors import InputError
+from .units import both_lengths, length_range
 
 SHAPES = ("plate", "cylinder", "bore", "sphere")
 MIN_SIZE = 0.1e-3  # m
@@ -52,11 +53,11 @@ class Geometry:
         if self.size is None:
             if self.shape != "plate":
                 name = "diameter"
-                raise InputError(name, f"a {self.shape} needs its diameter ({MIN_SIZE * 1e3:g}–{MAX_SIZE * 1e3:g} mm)")
+                raise InputError(name, f"a {self.shape} needs its diameter ({length_range(MIN_SIZE, MAX_SIZE)})")
             return
         if not (math.isfinite(self.size) and MIN_SIZE <= self.size <= MAX_SIZE):
             name = "thickness" if self.shape == "plate" else "diameter"
-            raise InputError(name, f"{self.size * 1e3:g} mm is outside {MIN_SIZE * 1e3:g}–{MAX_SIZE * 1e3:g} mm")
+            raise InputError(name, f"{both_lengths(self.size)} is outside {length_range(MIN_SIZE, MAX_SIZE)}")
 
     @property
     def half_section(self) -> float:

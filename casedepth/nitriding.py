@@ -29,7 +29,7 @@ from .compound_layer import compound_layer as _compound_layer
 from .errors import InputError, NotReachableError
 from .iron_nitrogen import PHASE_NAMES, Lehrer_boundaries, nitrogen_saturation_ferrite, surface_phase
 from .steels import Steel
-from .units import ZERO_CELSIUS
+from .units import ZERO_CELSIUS, both_lengths, length_range
 
 # the Fe–N phase helpers are part of this module's public face too
 __all__ = ["PHASE_NAMES", "Bohnenkamp_1967_nitrogen_diffusivity", "CompoundLayer", "Lehrer_boundaries",
@@ -323,7 +323,7 @@ def _erfcinv(y: float) -> float:
 def nitriding_time(setup: NitridingSetup, target_depth: float) -> NitridingResult:
     """The soak [s] for a nitrided hardness depth (core + 50 HV) of ``target_depth`` [m], and what it gives."""
     if not (math.isfinite(target_depth) and 0.02e-3 <= target_depth <= 2e-3):
-        raise InputError("target", f"{target_depth * 1e3:g} mm is outside 0.02–2 mm")
+        raise InputError("target", f"{both_lengths(target_depth)} is outside {length_range(0.02e-3, 2e-3)}")
 
     from scipy.optimize import brentq  # imported on first use: it is slow to import
 
@@ -332,7 +332,7 @@ def nitriding_time(setup: NitridingSetup, target_depth: float) -> NitridingResul
 
     lo, hi = math.log(60.0), math.log(500 * 3600.0)
     if miss(hi) < 0:
-        raise NotReachableError("target", f"{target_depth * 1e3:g} mm is not reached within 500 h at "
+        raise NotReachableError("target", f"{both_lengths(target_depth)} is not reached within 500 h at "
                                 f"{setup.temperature - ZERO_CELSIUS:.0f} °C")
     if miss(lo) > 0:
         return nitride(setup, 60.0)

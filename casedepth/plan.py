@@ -30,7 +30,7 @@ from .recipe import CycleResult, Stage, plan_boost_diffuse, plan_single_soak, ru
 from .safety import Caution
 from .steels import Steel
 from .surface import DEFAULT_BETA
-from .units import ZERO_CELSIUS, Threshold
+from .units import ZERO_CELSIUS, Threshold, both_lengths
 
 SCHEMA_VERSION = 3
 FILE_KIND = "casedepth plan"
@@ -248,7 +248,7 @@ class Plan:
         if not (isinstance(low, (int, float)) and math.isfinite(low) and low > 0):
             raise InputError("case_min", "the minimum case depth must be a positive length")
         if not (isinstance(high, (int, float)) and math.isfinite(high) and high >= low):
-            raise InputError("case_max", f"the maximum case depth must not be below the minimum ({low * 1e3:g} mm)")
+            raise InputError("case_max", f"the maximum case depth must not be below the minimum ({both_lengths(low)})")
         if not (0.0 <= aim <= 1.0):
             raise InputError("aim", f"{aim * 100:g} % of the window is outside 0–100 %")
         return low, low + aim * (high - low), high

@@ -25,7 +25,7 @@ from .carburizing import GRAIN_GROWTH_TEMPERATURE, MAX_TEMPERATURE, POTENTIAL_RA
 from .errors import InputError, NotReachableError
 from .roots import illinois
 from .solver import CarbonSolver, Profile, SurfaceCondition, threshold_depth
-from .units import ZERO_CELSIUS, format_duration
+from .units import ZERO_CELSIUS, both_lengths, format_duration
 
 # kind -> (moves carbon, ramps temperature by default, label)
 STAGE_KINDS: dict[str, tuple[bool, str]] = {
@@ -318,7 +318,7 @@ def plan_boost_diffuse(setup: CarburizingSetup, target_depth: float, surface_tar
     boost_start = template.time
     template.advance(MAX_STAGE, boost, lambda s: s.threshold_depth(thr) >= target_depth)
     if template.threshold_depth(thr) < target_depth:
-        raise NotReachableError("target", f"{target_depth * 1e3:g} mm is not reached within {MAX_STAGE / 3600:g} h of boost")
+        raise NotReachableError("target", f"{both_lengths(target_depth)} is not reached within {MAX_STAGE / 3600:g} h of boost")
     t_full = template.history_time[-1] - boost_start
 
     def boost_state(tb: float) -> CarbonSolver:
@@ -342,7 +342,7 @@ def plan_boost_diffuse(setup: CarburizingSetup, target_depth: float, surface_tar
         solver = state.fork()
         solver.advance(MAX_STAGE, diffuse, lambda s: s.threshold_depth(thr) >= depth)
         if solver.threshold_depth(thr) < depth:
-            raise NotReachableError("target", f"{target_depth * 1e3:g} mm is not reached within {MAX_STAGE / 3600:g} h of diffuse")
+            raise NotReachableError("target", f"{both_lengths(target_depth)} is not reached within {MAX_STAGE / 3600:g} h of diffuse")
         k = len(solver.history_time) - 1
         tau = _land(solver, k, depth, thr)
         return template.fork(solver.retake(k, tau).carbon, solver.history_time[k - 1] + tau)
@@ -439,7 +439,7 @@ def plan_single_soak(setup: CarburizingSetup, targets: list[float], before: tupl
 
     template.advance(MAX_STAGE, soak, record)
     if depths[-1] < deepest:
-        raise NotReachableError("target", f"{deepest * 1e3:g} mm is not reached within {MAX_STAGE / 3600:g} h of soak")
+        raise NotReachableError("target", f"{both_lengths(deepest)} is not reached within {MAX_STAGE / 3600:g} h of soak")
     first = len(template.history_time) - len(depths)  # history index where the soak starts
 
     def soak_for(depth2: float) -> float:

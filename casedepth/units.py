@@ -140,6 +140,16 @@ def fahrenheit(kelvin: float) -> float:
     return (kelvin - ZERO_CELSIUS) * 9.0 / 5.0 + 32.0
 
 
+def both_lengths(metres: float) -> str:
+    """A length for messages in both systems: ``0.0012`` -> ``"1.2 mm (0.0472 in)"``."""
+    return f"{metres * 1e3:g} mm ({metres / 0.0254:.3g} in)"
+
+
+def length_range(low: float, high: float) -> str:
+    """A range of lengths [m] for messages in both systems: ``"0.05–3 mm (0.00197–0.118 in)"``."""
+    return f"{low * 1e3:g}–{high * 1e3:g} mm ({low / 0.0254:.3g}–{high / 0.0254:.3g} in)"
+
+
 def format_duration(seconds: float) -> str:
     """``19080`` -> ``"5 h 18 min"`` (rounded to the minute)."""
     minutes = int(round(seconds / 60.0))

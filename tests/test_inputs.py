@@ -99,6 +99,8 @@ def test_unreachable_and_out_of_range_targets():
     setup = casedepth.setup("8620", "925C", 1.0)
     with pytest.raises(InputError, match="0.01–10 mm"):
         casedepth.soak_time_for_case_depth(setup, 20e-3)
+    with pytest.raises(InputError, match=r"20 mm \(0.787 in\) is outside .* \(0.000394–0.394 in\)"):
+        casedepth.soak_time_for_case_depth(setup, 20e-3)  # lengths in messages in both systems
     with pytest.raises(InputError, match="half the section"):
         casedepth.soak_time_for_case_depth(casedepth.setup("8620", "925C", 1.0, geometry="cylinder", diameter="2mm"), 1.5e-3)
     lean = casedepth.setup("8620", "925C", 0.38)
