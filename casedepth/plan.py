@@ -259,15 +259,32 @@ class Plan:
     def stage_list(self) -> list[Stage]:
         return [stage_from_dict(d, n) for n, d in enumerate(self._values["stages"], 1)]
 
+    def _working_potential(self) -> tuple[float, str]:
+        """The carbon potential the setup stands for, and its plan field: the furnace step's for one soak,
+        the boost's for boost and diffuse, the richest stage's for stages of one's own (the atmosphere
+        the cautions must judge; the furnace step's own value is not used in those modes)."""
+        v = self._values
+        if v["process"] == "boost-diffuse":
+            return float(v["boost_potential"]), "boost_potential"
+        if v["process"] == "stages":
+            try:
+                rich = [st.carbon_potential for st in self.stage_list() if st.moves_carbon]
+            except InputError:
+                rich = []
+            if rich:
+                return float(max(rich)), "stages"
+        return float(v["carbon_potential"]), "carbon_potential"
+
     def setup(self) -> CarburizingSetup:
         """The validated carburizing setup; an :class:`InputError` names the plan field at fault."""
         v = self._values
+        potential, potential_field = self._working_potential()
         try:
             diffusivity = Diffusivity(v["diffusivity"], float(v["d_multiplier"]), float(v["d0"]), float(v["q"]))
             return CarburizingSetup(
                 steel=self.steel_object(),
                 temperature=float(v["temperature"]),
-                carbon_potential=float(v["carbon_potential"]),
+                carbon_potential=potential,
                 threshold=Threshold(float(v["threshold_value"]), v["threshold_kind"]),
                 diffusivity=diffusivity,
                 beta=math.inf if v["beta_held"] else float(v["beta"]),
@@ -276,6 +293,8 @@ class Plan:
                 hardness_relation=v["hardness_relation"],
             )
         except InputError as error:
+            if error.field == "carbon potential":
+                raise InputError(potential_field, error.message) from None
             raise InputError(_ERROR_FIELDS.get(error.field, error.field), error.message) from None
 
     # -- files ---------------------------------------------------------------------------------

@@ -125,12 +125,21 @@ def test_evaluate_gives_window_times():
     ({"threshold_value": 0.1}, "threshold_value"),
     ({"composition": {"Mn": 0.8}}, "composition"),
     ({"shape": "sphere", "size": 1e-5}, "size"),
+    ({"process": "boost-diffuse", "boost_potential": 5.0}, "boost_potential"),
 ])
 def test_evaluate_names_the_plan_field(changes, field):
     plan = Plan(**changes)
     with pytest.raises(InputError) as error:
         evaluate(plan.values())
     assert error.value.field == field
+
+
+def test_the_unused_furnace_potential_does_not_block_other_cycles():
+    """In boost/diffuse the furnace step's own potential is greyed out in the window: a value left out of range
+    there must not stop the plan, and the setup (and its cautions) stand for the boost atmosphere."""
+    outcome = evaluate(Plan(process="boost-diffuse", carbon_potential=5.0, boost_potential=1.15).values())
+    assert outcome.boost_time > 0
+    assert outcome.setup.carbon_potential == pytest.approx(1.15)
 
 
 def test_cautions_depend_on_the_inputs():
