@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import argparse
 import json
+import os
 import math
 import sys
 
@@ -25,7 +26,9 @@ from .geometry import SHAPES
 from .hardness import HARDNESS_RELATIONS
 from .steels import library
 from .surface import DEFAULT_BETA
-from .units import DisplayUnits, format_duration, parse_length, parse_number, parse_temperature, parse_time, parse_velocity
+from .units import (ZERO_CELSIUS, DisplayUnits, format_duration, parse_length, parse_number, parse_temperature, parse_time,
+                    parse_velocity)
+from .atmosphere import carbon_potential_from_probe, probe_voltage_for_potential
 
 
 class _UsageError(Exception):
@@ -129,6 +132,17 @@ def _build_parser() -> argparse.ArgumentParser:
     r.add_argument("--units", default="metric", choices=["metric", "imperial"], help="units of the printed result")
     r.add_argument("--json", action="store_true", help="print one JSON object instead of text")
 
+    pr = commands.add_parser("probe", help="oxygen-probe millivolts <-> carbon potential in endothermic gas",
+                             description="Convert between an oxygen probe's voltage (air reference) and the carbon "
+                                         "potential it means, at a temperature and CO content (ideal probe; trim "
+                                         "with the controller's CO or process factor as the shop does).")
+    pr.add_argument("--temperature", required=True, help="furnace temperature: 925C (800–1100 °C)")
+    reading = pr.add_mutually_exclusive_group(required=True)
+    reading.add_argument("--potential", help="carbon potential, wt %% C: prints the probe voltage")
+    reading.add_argument("--mv", help="probe voltage, mV: prints the carbon potential")
+    pr.add_argument("--carrier-co", default="20", help="CO in the carrier gas, vol %% (default 20)")
+    pr.add_argument("--json", action="store_true", help="print one JSON object instead of text")
+
     commands.add_parser("steels", help="list the steel library")
     commands.add_parser("gui", help="open the window: casedepth gui [PLAN.json] [--screenshot OUT.png]", add_help=False)
     return parser
@@ -146,7 +160,7 @@ FLAGS = {
     "nitriding atmosphere": "--exhaust",
     "core hardness": "--core-hardness", "nitrided surface hardness": "--surface-hardness",
     "second stage K_N": "--compound", "temperatures": "--temperatures", "potentials": "--potentials", "hours": "--hours", "output": "--pdf/--svg/--png",
-    "paper": "--paper",
+    "paper": "--paper", "CO": "--carrier-co", "probe": "--mv",
 }
 
 
@@ -186,6 +200,10 @@ def _format(result, units: DisplayUnits) -> str:
                  f"alloy factor {s.alloy_factor:.3f}" + ("" if s.alloy_factor_on else " (off)"))
     beta = "inf (surface held at equilibrium)" if math.isinf(s.beta) else f"{s.beta * 100:.3g} cm/s"
     lines.append(f"  models                D: {s.diffusivity.display}; β = {beta}; {s.geometry.describe()}")
+    mv = _probe_mv(s.carbon_potential, s.temperature)
+    if mv is not None:
+        lines.append(f"  oxygen probe          {mv:.0f} mV for {s.carbon_potential:.2f} %C with 20 % CO carrier "
+                     f"(ideal probe; `casedepth probe` for other CO)")
     if result.carbon_at_depth is not None:
         lines.append(f"  carbon at {length(result.probe_depth):<11} {result.carbon_at_depth:.3f} %C")
     if result.target_depth is None:
@@ -194,6 +212,14 @@ def _format(result, units: DisplayUnits) -> str:
     for w in result.warnings:
         lines.append(f"Warning: {w}")
     return "\n".join(lines)
+
+
+def _probe_mv(potential: float, temperature: float) -> float | None:
+    """Ideal probe voltage [mV] in 20 % CO carrier gas, or None outside the relation's range."""
+    try:
+        return probe_voltage_for_potential(potential, temperature)
+    except InputError:
+        return None
 
 
 def _surface_window(text: str) -> float | tuple[float, float]:
@@ -256,6 +282,7 @@ def _carburize(args) -> int:
         result = carburize(setup, parse_time(args.time, "time"), probe)
     if args.json:
         out = result.to_dict()
+        out["probe_mv"] = _probe_mv(setup.carbon_potential, setup.temperature)
         if args.target is not None and tradeoff:
             out["temperature_tradeoff"] = [{"temperature_c": T - 273.15, "soak_time_h": t / 3600.0} for T, t in tradeoff]
         if args.time is not None:
@@ -298,6 +325,8 @@ def _run(args) -> int:
             "quote": quote.to_dict(), "warnings": list(outcome.warnings),
             "cautions": [c.title for c in outcome.cautions],
             "profile": {"depth_mm": (outcome.profile.depth * 1e3).tolist(), "carbon_pct": outcome.profile.carbon.tolist()},
+            "probe_mv": [{"stage": label, "mv": mv} for label, mv in outcome.probe],
+            "carrier_co_pct": outcome.carrier_co * 100.0,
         }
         if outcome.process == "single":
             soak_low, soak, soak_high = outcome.soak_window
@@ -325,6 +354,9 @@ def _run(args) -> int:
               f"{units.format_temperature(setup.temperature)}")
     print(f"  effective case depth {units.format_length(outcome.case_depth)} at {setup.threshold}; surface carbon "
           f"{outcome.surface_carbon:.3f} %C at the end")
+    if outcome.probe:
+        print("  oxygen probe (ideal, " + f"{outcome.carrier_co * 100:g} % CO): "
+              + ", ".join(f"{label.lower()} {mv:.0f} mV" for label, mv in outcome.probe))
     print("Cycle quote:")
     print(quote.text())
     for warning in outcome.warnings:
@@ -522,6 +554,24 @@ def _sheet(args) -> int:
     return 0
 
 
+def _probe(args) -> int:
+    T = parse_temperature(args.temperature, "temperature")
+    co = parse_number(args.carrier_co.rstrip("%"), "CO") / 100.0
+    if args.potential is not None:
+        potential = parse_number(args.potential, "carbon potential")
+        mv = probe_voltage_for_potential(potential, T, co)
+    else:
+        mv = parse_number(args.mv, "probe")
+        potential = carbon_potential_from_probe(mv, T, co)
+    if args.json:
+        print(json.dumps({"temperature_c": round(T - ZERO_CELSIUS, 6), "carbon_potential_pct": potential, "probe_mv": mv,
+                          "carrier_co_pct": co * 100.0}))
+        return 0
+    print(f"{mv:.0f} mV  <->  carbon potential {potential:.3f} %C at {DisplayUnits('metric').format_temperature(T)}, "
+          f"{co * 100:g} % CO (ideal probe, air reference; trim with the controller's CO factor)")
+    return 0
+
+
 def _steels(_args) -> int:
     for steel in library("all"):
         print(f"{steel.name:<13} {steel.process:<12} {steel.standard:<34} {steel.composition_text()}")
@@ -539,7 +589,7 @@ def main(argv: list[str] | None = None) -> int:
     try:
         args = parser.parse_args(argv)
         handler = {"carburize": _carburize, "steels": _steels, "run": _run, "nitride": _nitride, "chart": _chart,
-                   "sheet": _sheet}.get(args.command)
+                   "sheet": _sheet, "probe": _probe}.get(args.command)
         if handler is not None:
             return handler(args)
         parser.print_help()
@@ -554,6 +604,10 @@ def main(argv: list[str] | None = None) -> int:
         return 2
     except SolverError as error:
         print(f"casedepth: the solver stopped: {error}", file=sys.stderr)
+        return 1
+    except BrokenPipeError:  # the reader (e.g. `| head`) left early: stop quietly
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, sys.stdout.fileno())
         return 1
 
 

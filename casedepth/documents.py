@@ -328,6 +328,9 @@ def _result_lines(outcome, u: DisplayUnits) -> list[str]:
         lines.append("Stages as entered (see the cycle page)")
     lines.append(f"Effective case depth {u.format_length(outcome.case_depth)} at {s.threshold}; surface carbon "
                  f"{outcome.surface_carbon:.3f} %C at the end; aim {u.format_length(aim)}")
+    if outcome.probe:
+        lines.append(f"Oxygen probe (ideal, {outcome.carrier_co * 100:g} % CO carrier; trim with the controller's CO "
+                     f"factor): " + ", ".join(f"{label.lower()} {mv:.0f} mV" for label, mv in outcome.probe))
     return lines
 
 

@@ -26,6 +26,7 @@ from .geometry import Geometry
 from .quote import Quote, ShopDefaults, make_quote
 from .nitriding import (NitridingResult, NitridingSetup, nitride, nitriding_time, potential_for_compound_layer,
                         two_stage_schedule)
+from .atmosphere import probe_setpoints
 from .recipe import CycleResult, Stage, plan_boost_diffuse, plan_single_soak, run_recipe
 from .safety import Caution
 from .steels import Steel
@@ -402,6 +403,9 @@ class PlanOutcome:
     warnings: list[str] = field(default_factory=list)
     # single soak with the shop's heat-up and drop counted: soaks for min, aim, max (``cycle`` is the aim's)
     soak_times: tuple[float, float, float] | None = None
+    # ideal oxygen-probe voltage [mV] of each held carburizing stage, and the carrier gas's CO fraction
+    probe: list[tuple[str, float]] = field(default_factory=list)
+    carrier_co: float = 0.20
 
     targets: tuple[float, float, float] = (0.0, 0.0, 0.0)  # the drawing's min, aim, max case depth [m]
 
@@ -556,4 +560,9 @@ def evaluate(values: dict[str, Any]):
         raise _with_field(error, names) from None
     outcome.cautions = safety.cautions(setup.temperature, setup.equilibrium_carbon, setup.saturation_carbon)
     outcome.targets = (low, aim, high)
+    outcome.carrier_co = shop.carrier_co_pct / 100.0
+    try:
+        outcome.probe = probe_setpoints(outcome.stages, outcome.carrier_co)
+    except InputError:  # a stage outside the probe relation's range: no setpoint rather than no plan
+        outcome.probe = []
     return outcome

@@ -29,6 +29,7 @@ class ShopDefaults:
     wash_h: float = 0.5
     temper_h: float = 2.0
     temper_temperature_c: float = 180.0
+    carrier_co_pct: float = 20.0  # CO in the endothermic carrier gas, vol % (common practice: 20 from natural gas)
     furnace_rate_per_h: float = 95.0
     parts_per_load: int = 120
     currency: str = ""
@@ -42,6 +43,8 @@ class ShopDefaults:
                 raise InputError(f"shop: {f.name}", f"{value!r} must be a number of zero or more")
         if self.parts_per_load < 1:
             raise InputError("shop: parts_per_load", "at least one part per load")
+        if not (5.0 <= self.carrier_co_pct <= 50.0):
+            raise InputError("shop: carrier_co_pct", f"{self.carrier_co_pct:g} % CO is outside 5–50 %")
 
     def to_dict(self) -> dict:
         return asdict(self)

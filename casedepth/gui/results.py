@@ -37,7 +37,8 @@ class ResultPanel(QFrame):
         self.fact_names: dict[str, QLabel] = {}
         names = [("window", "Drawing window"), ("surface", "Surface carbon at the end"),
                  ("reached", "Case depth reached"), ("threshold", "Threshold means"),
-                 ("equilibrium", "Surface carbon in equilibrium"), ("saturation", "Saturation (Acm)")]
+                 ("equilibrium", "Surface carbon in equilibrium"), ("saturation", "Saturation (Acm)"),
+                 ("probe", "Oxygen probe")]
         for i, (key, label) in enumerate(names):
             name = QLabel(label)
             name.setStyleSheet("color: #555;")
@@ -96,6 +97,7 @@ class ResultPanel(QFrame):
         self._fact("threshold", "Threshold means", f"{setup.threshold_carbon:.3f} %C")
         self._fact("equilibrium", "Whole cycle", f"{format_duration(quote.total_h * 3600)} ({quote.total_h:.2f} h)")
         self._fact("saturation", "Cost", f"{quote.cost_per_load:.2f}{money} per load, {quote.cost_per_part:.3f}{money} per part")
+        self._show_probe(outcome)
 
     def _show_nitriding(self, outcome, units: DisplayUnits) -> None:
         setup, aim = outcome.setup, outcome.aim
@@ -114,6 +116,8 @@ class ResultPanel(QFrame):
                    "—" if outcome.kn_for_window is None else f"{outcome.kn_for_window:.2f} atm^-½")
         self._fact("equilibrium", "Hardness", f"core {setup.core:.0f} HV, nitrided surface {setup.surface:.0f} HV")
         self._fact("saturation", "Nitride formers", f"bind {setup.capacity:.2f} wt % N")
+        d = dissociation_for_potential(setup.nitriding_potential)
+        self._fact("probe", "Exhaust (ammonia feed)", f"NH3 {100 * (1 - d):.0f} %, H2 {75 * d:.0f} %, N2 {25 * d:.0f} %")
 
     def _fact(self, key: str, name: str, value: str) -> None:
         self.fact_names[key].setText(name)
@@ -139,6 +143,12 @@ class ResultPanel(QFrame):
         self._fact("equilibrium", "Surface carbon in equilibrium",
                    f"{setup.equilibrium_carbon:.3f} %C (alloy factor {setup.alloy_factor:.3f})")
         self._fact("saturation", "Saturation (Acm)", f"{setup.saturation_carbon:.2f} %C")
+        self._show_probe(outcome)
+
+    def _show_probe(self, outcome) -> None:
+        """Ideal oxygen-probe voltages of the held stages, for a controller that reads millivolts."""
+        text = ", ".join(f"{label.lower()} {mv:.0f} mV" for label, mv in outcome.probe) or "—"
+        self._fact("probe", "Oxygen probe (ideal)", f"{text}  ({100 * outcome.carrier_co:.0f} % CO carrier)")
 
     def show_problem(self, where: str, message: str) -> None:
         """Bad input: say what and where, keep the last result but mark it stale."""

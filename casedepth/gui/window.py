@@ -64,7 +64,8 @@ class ShopDialog(QDialog):
         "drop_temperature_c": ("Hardening temperature", " °C"), "drop_h": ("Drop to hardening temperature", " h"),
         "equalize_h": ("Equalize", " h"), "hardening_potential": ("Potential at hardening temperature", " %C"),
         "quench_h": ("Quench", " h"), "wash_h": ("Wash", " h"), "temper_h": ("Temper", " h"),
-        "temper_temperature_c": ("Temper temperature", " °C"), "furnace_rate_per_h": ("Furnace rate per hour", ""),
+        "temper_temperature_c": ("Temper temperature", " °C"),
+        "carrier_co_pct": ("CO in the carrier gas (for probe mV)", " %"), "furnace_rate_per_h": ("Furnace rate per hour", ""),
         "parts_per_load": ("Parts per load", ""),
     }
 
@@ -566,6 +567,8 @@ class MainWindow(QMainWindow):
             "<li><b>Ac3</b> — Andrews, J. Iron Steel Inst. 203 (1965) 721</li>",
             "<li><b>HV ↔ HRC</b> — ASTM E140, Table 1</li>",
             "<li><b>Time stepping</b> — ROS2 Rosenbrock method, Verwer et al., SIAM J. Sci. Comput. 20 (1999) 1456</li>",
+            "<li><b>Oxygen probe</b> — Nernst equation (air reference); C + ½O2 = CO thermochemistry and the activity "
+            "of carbon in austenite from handbook relations (from memory); ideal probe, trim as the shop does</li>",
             "<li><b>Nitriding potential</b> K_N = p(NH3)/p(H2)^1.5 — Lehrer, Z. Elektrochem. 36 (1930) 383; surface "
             "phase from the Lehrer-diagram boundaries (read from the diagram, from memory, ±30 %)</li>",
             "<li><b>Nitrogen in ferrite</b> — diffusivity after Bohnenkamp, Arch. Eisenhüttenwes. 38 (1967) 229; "
