@@ -20,6 +20,7 @@ from matplotlib.figure import Figure
 from matplotlib.patches import Rectangle
 
 from . import __version__, safety
+from .atmosphere import probe_setpoints
 from .carburizing import CarburizingSetup, carburize, soak_times_for_case_depths
 from .errors import InputError, NotReachableError
 from .hardness import HARDNESS_RELATIONS
@@ -232,8 +233,9 @@ def process_sheet(plan, outcome, paper: str = "a4", units: str = "metric", shop:
     first.text(0.06, y - 0.02, f"{steel.name} — {steel.standard}; composition, wt %: {composition}", fontsize=8)
     y -= 0.055
     first.text(0.06, y, "Result", fontsize=10, weight="bold", color=INK)
-    for i, line in enumerate(_result_lines(outcome, u)):
-        first.text(0.06, y - 0.02 - i * 0.017, line, fontsize=8)
+    y -= 0.02
+    for line in _result_lines(outcome, u):
+        y = _wrapped(first, 0.06, y, line, 8, 128) - 0.017
     profile_ax = first.add_axes([0.10, 0.38, 0.38, 0.22])
     hardness_ax = first.add_axes([0.58, 0.38, 0.36, 0.22])
     _profiles(profile_ax, hardness_ax, outcome, u)
@@ -254,7 +256,8 @@ def process_sheet(plan, outcome, paper: str = "a4", units: str = "metric", shop:
     if not nitriding:
         stage_rows = [[s.label, f"{s.duration / 3600:.2f}",
                        "" if s.temperature is None else u.format_temperature(s.temperature),
-                       "" if s.carbon_potential is None else f"{s.carbon_potential:.2f}"] for s in outcome.stages]
+                       "" if s.carbon_potential is None else f"{s.carbon_potential:.2f}",
+                       _probe_cell(s, outcome.carrier_co)] for s in outcome.stages]
         quote = outcome.quote
         chunks = [stage_rows[i:i + STAGES_PER_PAGE] for i in range(0, len(stage_rows), STAGES_PER_PAGE)] or [[]]
         for index, chunk in enumerate(chunks):
@@ -266,7 +269,8 @@ def process_sheet(plan, outcome, paper: str = "a4", units: str = "metric", shop:
                 ax = page.add_axes([0.10, 0.64, 0.80, 0.26])
                 _timeline(ax, outcome, u)
             table_ax = page.add_axes([0.06, 0.08, 0.88, 0.50 if index == 0 else 0.82])
-            _table(table_ax, chunk, ["stage", "hours", "temperature", "carbon potential %C"], [0.40, 0.15, 0.22, 0.23])
+            _table(table_ax, chunk, ["stage", "hours", "temperature", "potential %C", "probe mV"],
+                   [0.36, 0.12, 0.18, 0.17, 0.17])
             if index == len(chunks) - 1:
                 money = f" {quote.currency}" if quote.currency else ""
                 page.text(0.06, 0.055, f"Whole cycle {quote.total_h:.2f} h ({format_duration(quote.total_h * 3600)}); "
@@ -276,6 +280,15 @@ def process_sheet(plan, outcome, paper: str = "a4", units: str = "metric", shop:
     for number, page in enumerate(pages, 1):
         _footer(page, footer, number, len(pages))
     return Document(pages, plan.title)
+
+
+def _probe_cell(stage, carrier_co: float) -> str:
+    """The ideal probe voltage of a held stage for the stage table, or blank."""
+    try:
+        setpoints = probe_setpoints([stage], carrier_co)
+    except InputError:
+        return ""
+    return f"{setpoints[0][1]:.0f}" if setpoints else ""
 
 
 def _title_block(fig: Figure, plan, shop: str, logo: str | None, revision: str, date: _dt.date) -> None:
