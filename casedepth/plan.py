@@ -479,6 +479,26 @@ def nitriding_setup(plan: "Plan") -> NitridingSetup:
         raise InputError(field_name, error.message) from None
 
 
+def _curvature_warnings(plan: "Plan", depth: float) -> list[str]:
+    """The nitriding models are for a flat surface: say so where the part's curvature matters."""
+    try:
+        geometry = Geometry(plan.shape, plan.size)
+    except InputError:
+        return []
+    if geometry.shape == "plate":
+        if geometry.finite and depth > 0.25 * geometry.half_section:
+            return [f"The nitrided depth ({both_lengths(depth)}) is over a quarter of the half-thickness: the "
+                    f"flat-surface model ignores the cases from the two faces meeting."]
+        return []
+    radius = geometry.size / 2.0
+    if depth <= 0.1 * radius:
+        return []
+    sooner = "sooner" if geometry.shape in ("cylinder", "sphere") else "later"
+    return [f"The nitrided depth ({both_lengths(depth)}) is over a tenth of the radius ({both_lengths(radius)}): the "
+            f"nitriding models are for a flat surface, and on this {geometry.shape} the depth is reached {sooner} "
+            f"than shown."]
+
+
 def evaluate_nitriding(plan: "Plan") -> NitridingOutcome:
     setup = nitriding_setup(plan)
     low, aim, high = plan.targets()
@@ -488,6 +508,7 @@ def evaluate_nitriding(plan: "Plan") -> NitridingOutcome:
         raise InputError({"target": "case_max"}.get(error.field, error.field), error.message) from None
     window = (plan.compound_min, plan.compound_max)
     warnings = list(results[1].warnings)
+    warnings += _curvature_warnings(plan, high)
     try:
         kn_window = potential_for_compound_layer(setup, results[1].time, window)
     except InputError as error:

@@ -211,3 +211,16 @@ def test_cli_runs_a_saved_nitriding_plan(capsys):
     assert low <= data["nitrided_depth_mm"] <= high
     assert 5 <= data["compound_layer_um"] <= 10
     assert data["cautions"][0] == "Ammonia is toxic"
+
+
+def test_curvature_is_flagged_on_thin_parts():
+    """The internal-nitriding solution is for a flat surface (Wagner 1959): a depth over a tenth of a pin's radius
+    is flagged, a thick part is not."""
+    from casedepth.plan import Plan, evaluate
+
+    thin = evaluate(Plan(treatment="nitriding", steel="4140", shape="cylinder", size=4e-3, case_min=0.3e-3,
+                         case_max=0.5e-3, temperature=793.15, kn=3.0).values())
+    assert any("radius" in w for w in thin.warnings)
+    thick = evaluate(Plan(treatment="nitriding", steel="4140", shape="cylinder", size=60e-3, case_min=0.3e-3,
+                          case_max=0.5e-3, temperature=793.15, kn=3.0).values())
+    assert not any("radius" in w for w in thick.warnings)
