@@ -425,7 +425,7 @@ def _nitride(args) -> int:
           f"{units.format_temperature(setup.temperature)}, K_N {kn:.2f} atm^-1/2 "
           f"({out['dissociation_pct']:.0f} % dissociation)")
     print(f"  nitrided hardness depth {units.format_length(result.nitrided_depth)} (core {setup.core:.0f} HV + 50 HV)")
-    print(f"  compound layer          {result.layer.describe()}; surface phase {PHASE_NAMES[setup.phase]}")
+    print(f"  compound layer          {result.layer.describe()}; surface phase {PHASE_NAMES[result.layer.surface_phase]}")
     if window_kn is not None:
         print(f"  for a {out['compound_window_um'][0]:g}–{out['compound_window_um'][1]:g} µm layer: K_N "
               f"{window_kn:.2f} ({out['dissociation_for_compound_window_pct']:.0f} % dissociation)")
@@ -446,6 +446,10 @@ def _print_nitriding(plan, outcome, args) -> int:
                window_soak_time_h=[outcome.low.time / 3600.0, outcome.high.time / 3600.0],
                compound_window_um=[w * 1e6 for w in outcome.compound_window], kn_for_compound_window=outcome.kn_for_window,
                warnings=list(outcome.warnings), cautions=[c.title for c in outcome.cautions])
+    two = outcome.schedule
+    out["stages"] = ([{"time_h": outcome.aim.time / 3600.0, "kn": outcome.setup.nitriding_potential}] if two is None else
+                     [{"time_h": two.first_time / 3600.0, "kn": two.first_kn},
+                      {"time_h": two.second_time / 3600.0, "kn": two.second_kn}])
     if args.json:
         print(json.dumps(out))
         return 0
@@ -454,6 +458,10 @@ def _print_nitriding(plan, outcome, args) -> int:
     print(f"{plan.title} (gas nitriding)")
     print(f"  nitride {format_duration(outcome.aim.time)} at {units.format_temperature(s.temperature)}, K_N "
           f"{s.nitriding_potential:.2f} (window {format_duration(outcome.low.time)} to {format_duration(outcome.high.time)})")
+    if outcome.schedule is not None:
+        two = outcome.schedule
+        print(f"  in two stages: {format_duration(two.first_time)} at K_N {two.first_kn:.2f}, then "
+              f"{format_duration(two.second_time)} at K_N {two.second_kn:.2f}")
     print(f"  nitrided hardness depth {units.format_length(outcome.aim.nitrided_depth)}; compound layer "
           f"{outcome.aim.layer.describe()}")
     for warning in outcome.warnings:

@@ -138,6 +138,13 @@ class CompoundLayer:
     def thickness(self) -> float:
         return self.epsilon + self.gamma_prime
 
+    @property
+    def surface_phase(self) -> str:
+        """The phase at the surface: ``epsilon``, ``gamma'`` or ``alpha`` (no layer)."""
+        if self.epsilon > 0.0:
+            return "epsilon"
+        return "gamma'" if self.gamma_prime > 0.0 else "alpha"
+
     def describe(self) -> str:
         """The layer in words, e.g. ``8.5 µm (ε 5.3 over γ′ 3.2 µm)``."""
         if self.thickness < 0.05e-6:

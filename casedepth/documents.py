@@ -326,7 +326,10 @@ def _result_lines(outcome, u: DisplayUnits) -> list[str]:
                 f"dissociation); window {u.format_length(low)}–{u.format_length(high)}: "
                 f"{format_duration(outcome.low.time)} to {format_duration(outcome.high.time)}",
                 f"Nitrided hardness depth {u.format_length(a.nitrided_depth)} (core {s.core:.0f} HV + 50 HV); "
-                f"compound layer {a.layer.describe()}"]
+                f"compound layer {a.layer.describe()}"] + ([] if outcome.schedule is None else [
+                f"In two stages: {format_duration(outcome.schedule.first_time)} at K_N {outcome.schedule.first_kn:.2f}, "
+                f"then {format_duration(outcome.schedule.second_time)} at K_N {outcome.schedule.second_kn:.2f} "
+                f"({100 * dissociation_for_potential(outcome.schedule.second_kn):.0f} % dissociation)"])
     lines = []
     if outcome.process == "single":
         soak_low, soak, soak_high = outcome.soak_window

@@ -27,6 +27,7 @@ import numpy as np
 from .compound_layer import CompoundLayer, grow_compound_layer, substrate_uptake_coefficient
 from .compound_layer import compound_layer as _compound_layer
 from .errors import InputError, NotReachableError
+from .roots import illinois
 from .iron_nitrogen import PHASE_NAMES, Lehrer_boundaries, nitrogen_saturation_ferrite, surface_phase
 from .steels import Steel
 from .units import ZERO_CELSIUS, both_lengths, length_range
@@ -36,7 +37,8 @@ __all__ = ["PHASE_NAMES", "Bohnenkamp_1967_nitrogen_diffusivity", "CompoundLayer
            "NitridingResult", "NitridingSetup", "TwoStageSchedule", "Wagner_front_factor",
            "dissociation_for_potential", "nitride", "nitride_capacity", "nitriding_potential",
            "nitriding_potential_from_dissociation", "nitriding_time", "nitrogen_saturation_ferrite",
-           "potential_for_compound_layer", "surface_phase", "two_stage_schedule"]
+           "potential_for_compound_layer", "staged_layer_at", "surface_phase", "two_stage_for_depth",
+           "two_stage_schedule"]
 
 R = 8.314462618  # J/(mol K)
 M_N = 14.007
@@ -265,7 +267,7 @@ class NitridingResult:
         return {
             "soak_time_h": self.time / 3600.0, "compound_layer_um": self.compound_layer * 1e6,
             "epsilon_layer_um": self.layer.epsilon * 1e6, "gamma_prime_layer_um": self.layer.gamma_prime * 1e6,
-            "nitrided_depth_mm": self.nitrided_depth * 1e3, "surface_phase": s.phase,
+            "nitrided_depth_mm": self.nitrided_depth * 1e3, "surface_phase": self.layer.surface_phase,
             "nitriding_potential": s.nitriding_potential, "temperature_c": s.temperature - ZERO_CELSIUS,
             "dissociation_pct": 100.0 * dissociation_for_potential(s.nitriding_potential),
             "core_hardness_hv": s.core, "surface_hardness_hv": s.surface, "steel": s.steel.name,
@@ -384,14 +386,15 @@ class TwoStageSchedule:
 
 
 def two_stage_schedule(setup: NitridingSetup, total_time: float, window: tuple[float, float],
-                       second_kn: float | None = None) -> TwoStageSchedule:
+                       second_kn: float | None = None, guess: float | None = None) -> TwoStageSchedule:
     """Split ``total_time`` [s] into a stage at the setup's K_N and one at ``second_kn`` so that the
     compound layer ends in the middle of ``window`` [m].
 
     The second K_N defaults to just above the α/γ′ boundary (1.05 ×): there the layer gets almost no
     nitrogen from the gas while the diffusion zone keeps drawing on it, so it holds or thins, and the
     ferrite under it stays saturated, so the diffusion zone — and the nitrided depth — grow as in one
-    stage. The layer follows :func:`casedepth.compound_layer.grow_compound_layer`.
+    stage. The layer follows :func:`casedepth.compound_layer.grow_compound_layer`; the first stage's
+    length is found to 1e-4 of the layer (Illinois regula falsi), starting near ``guess`` [s] if given.
     """
     low, high = window
     T = setup.temperature
@@ -409,11 +412,62 @@ def two_stage_schedule(setup: NitridingSetup, total_time: float, window: tuple[f
         stages = [(first, k1)] + ([(total_time - first, k2)] if total_time - first > 1.0 else [])
         return grow_compound_layer(T, stages, uptake)
 
-    if not (layer_after(60.0).thickness <= aim <= layer_after(total_time).thickness):
+    def miss(t: float) -> float:
+        return layer_after(t).thickness - aim
+
+    lo, hi = 60.0, total_time
+    if guess is not None and lo < guess < hi:  # a bracket around the guess saves most of the trials
+        below, above = max(lo, 0.9 * guess), min(hi, 1.1 * guess)
+        f_below, f_above = miss(below), miss(above)
+        if f_below <= 0.0 <= f_above:
+            return _two_stage(setup, k1, k2, total_time, layer_after, illinois(
+                miss, below, f_below, above, f_above, 1.0, 1e-4 * aim))
+    f_lo, f_hi = miss(lo), miss(hi)
+    if not (f_lo <= 0.0 <= f_hi):
         raise NotReachableError("compound layer", f"a {aim * 1e6:.1f} µm layer cannot be reached in "
                                 f"{total_time / 3600:.1f} h with K_N {k1:.3g} then {k2:.3g}")
-    from scipy.optimize import brentq  # imported on first use: it is slow to import
+    return _two_stage(setup, k1, k2, total_time, layer_after, illinois(miss, lo, f_lo, hi, f_hi, 1.0, 1e-4 * aim))
 
-    first = brentq(lambda t: layer_after(t).thickness - aim, 60.0, total_time, xtol=1.0)
+
+def _two_stage(setup, k1, k2, total_time, layer_after, first) -> TwoStageSchedule:
     first = min(max(first, 60.0), total_time)
     return TwoStageSchedule(first, k1, total_time - first, k2, layer_after(first))
+
+
+def _front_time(setup: NitridingSetup, front_depth: float) -> float:
+    """Soak [s] after which the diffusion zone's nitrided depth (below the compound layer) is ``front_depth`` [m]:
+    the inverse of the analytic front of :func:`nitride`."""
+    D = setup.diffusivity
+    gamma = setup.front_factor
+    if gamma is not None:
+        return (front_depth / (2.0 * gamma)) ** 2 / D
+    rise = SOLUTION_HARDENING_HV_PER_PCT * setup.substrate_nitrogen
+    if rise <= 50.0:
+        raise NotReachableError("target", "dissolved nitrogen alone cannot raise the hardness by 50 HV in this steel")
+    return (front_depth / (2.0 * _erfcinv(50.0 / rise))) ** 2 / D
+
+
+def two_stage_for_depth(setup: NitridingSetup, target_depth: float, window: tuple[float, float],
+                        second_kn: float | None = None) -> tuple[TwoStageSchedule, NitridingResult]:
+    """A two-stage schedule (see :func:`two_stage_schedule`) whose total time gives the nitrided hardness
+    depth ``target_depth`` [m] with the layer the schedule leaves, and what it gives.
+
+    The front below the layer does not depend on K_N once the ferrite is saturated (every stage at or
+    above α/γ′), so the total time follows from the one-stage time with the depth taken up by the
+    staged layer instead of the one-stage layer (one correction: the layer hardly changes with the total).
+    """
+    total = nitriding_time(setup, target_depth).time
+    schedule = two_stage_schedule(setup, total, window, second_kn)
+    total = _front_time(setup, target_depth - schedule.compound_layer)
+    schedule = two_stage_schedule(setup, total, window, second_kn, guess=schedule.first_time)
+    return schedule, nitride(setup, total, layer=schedule.layer)
+
+
+def staged_layer_at(setup: NitridingSetup, schedule: TwoStageSchedule, time: float) -> CompoundLayer:
+    """The compound layer [m] ``time`` [s] into a two-stage schedule."""
+    first = min(time, schedule.first_time)
+    stages = [(max(first, 1.0), schedule.first_kn)]
+    if time > schedule.first_time + 1.0:
+        stages.append((time - schedule.first_time, schedule.second_kn))
+    return grow_compound_layer(setup.temperature, stages, setup.uptake)
+

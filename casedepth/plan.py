@@ -24,7 +24,8 @@ from .diffusivity import Diffusivity
 from .errors import InputError
 from .geometry import Geometry
 from .quote import Quote, ShopDefaults, make_quote
-from .nitriding import (NitridingResult, NitridingSetup, nitride, nitriding_time, potential_for_compound_layer,
+from .nitriding import (NitridingResult, NitridingSetup, TwoStageSchedule, nitride, nitriding_time,
+                        potential_for_compound_layer, staged_layer_at, two_stage_for_depth,
                         two_stage_schedule)
 from .atmosphere import probe_setpoints
 from .recipe import CycleResult, Stage, plan_boost_diffuse, plan_single_soak, run_recipe
@@ -33,7 +34,7 @@ from .steels import Steel
 from .surface import DEFAULT_BETA
 from .units import ZERO_CELSIUS, Threshold, both_lengths
 
-SCHEMA_VERSION = 3
+SCHEMA_VERSION = 4
 FILE_KIND = "casedepth plan"
 
 
@@ -87,6 +88,9 @@ FIELDS: dict[str, Field] = {
     "core_hardness": Field(None, "core_hardness_hv"),  # None: the grade's typical value
     "surface_hardness": Field(None, "nitrided_surface_hardness_hv"),
     "n_multiplier": Field(1.0, "nitrogen_diffusivity_multiplier"),  # calibration of the nitriding depth
+    # schema 4: two-stage nitriding
+    "two_stage": Field(False, "two_stage_nitriding"),  # a second, low-K_N stage brings the layer into its window
+    "kn_second": Field(None, "second_nitriding_potential"),  # None: just above the α/γ′ boundary
 }
 TREATMENTS = ("carburizing", "nitriding")
 PROCESSES = ("single", "boost-diffuse", "stages")
@@ -375,6 +379,9 @@ def migrate(data: dict) -> dict:
     if data["schema_version"] == 2:
         # schema 3 adds gas nitriding; every earlier plan is a carburizing plan
         data.update(treatment="carburizing", schema_version=3)
+    if data["schema_version"] == 3:
+        # schema 4 adds two-stage nitriding; earlier nitriding plans ran one stage
+        data.update(two_stage_nitriding=False, second_nitriding_potential=None, schema_version=4)
     return data
 
 
@@ -460,13 +467,17 @@ class NitridingOutcome:
     targets: tuple[float, float, float]
     warnings: list[str] = field(default_factory=list)
     process: str = "nitriding"
+    schedule: TwoStageSchedule | None = None  # two-stage nitriding: the stages of the aim's soak
 
     @property
     def duration(self) -> float:
         return self.aim.time
 
     def at(self, time: float) -> NitridingResult:
-        return nitride(self.setup, max(time, 60.0))
+        time = max(time, 60.0)
+        if self.schedule is None:
+            return nitride(self.setup, time)
+        return nitride(self.setup, time, layer=staged_layer_at(self.setup, self.schedule, time))
 
 
 def nitriding_setup(plan: "Plan") -> NitridingSetup:
@@ -514,19 +525,30 @@ def evaluate_nitriding(plan: "Plan") -> NitridingOutcome:
     except InputError as error:
         kn_window = None
         warnings.append(f"Compound-layer window: {error.message}")
+    schedule = None
+    if plan.two_stage:
+        try:
+            schedule, staged = two_stage_for_depth(setup, aim, window, plan.kn_second)
+        except InputError as error:
+            raise InputError({"second stage K_N": "kn_second"}.get(error.field, "compound_max"), error.message) from None
+        results[1] = staged
+        warnings.append(f"Two stages: {schedule.first_time / 3600:.1f} h at K_N {schedule.first_kn:.2f}, then "
+                        f"{schedule.second_time / 3600:.1f} h at K_N {schedule.second_kn:.2f}; the drawing window's "
+                        f"end times are for one stage at K_N {setup.nitriding_potential:.2f}.")
     layer = results[1].compound_layer
-    if kn_window is not None and not (window[0] <= layer <= window[1]):
+    if schedule is None and kn_window is not None and not (window[0] <= layer <= window[1]):
         advice = f"K_N {kn_window:.2f} would put it in the middle"
         try:
-            two = two_stage_schedule(setup, results[1].time, window)
+            two = two_stage_schedule(setup, results[1].time, window, plan.kn_second)
             advice += (f"; or nitride {two.first_time / 3600:.1f} h at K_N {two.first_kn:.2f}, then "
-                       f"{two.second_time / 3600:.1f} h at K_N {two.second_kn:.2f} (layer {two.layer.describe()})")
+                       f"{two.second_time / 3600:.1f} h at K_N {two.second_kn:.2f} (layer {two.layer.describe()}): "
+                       f"tick Two stages")
         except InputError:
             pass
         warnings.append(f"The compound layer ({layer * 1e6:.1f} µm) is outside {window[0] * 1e6:g}–{window[1] * 1e6:g} µm; "
                         f"{advice}.")
     return NitridingOutcome(setup, *results, window, kn_window, safety.cautions(ammonia=True), (low, aim, high),
-                            warnings)
+                            warnings, schedule=schedule)
 
 
 def evaluate(values: dict[str, Any]):

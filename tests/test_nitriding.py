@@ -218,9 +218,35 @@ def test_curvature_is_flagged_on_thin_parts():
     is flagged, a thick part is not."""
     from casedepth.plan import Plan, evaluate
 
-    thin = evaluate(Plan(treatment="nitriding", steel="4140", shape="cylinder", size=4e-3, case_min=0.3e-3,
-                         case_max=0.5e-3, temperature=793.15, kn=3.0).values())
-    assert any("radius" in w for w in thin.warnings)
-    thick = evaluate(Plan(treatment="nitriding", steel="4140", shape="cylinder", size=60e-3, case_min=0.3e-3,
-                          case_max=0.5e-3, temperature=793.15, kn=3.0).values())
-    assert not any("radius" in w for w in thick.warnings)
+    def plan(diameter):
+        p = Plan(treatment="nitriding", shape="cylinder", size=diameter, case_min=0.3e-3, case_max=0.5e-3,
+                 temperature=793.15, kn=3.0)
+        p.choose_steel("4140")
+        return evaluate(p.values())
+
+    assert any("radius" in w for w in plan(4e-3).warnings)
+    assert not any("radius" in w for w in plan(60e-3).warnings)
+
+
+def test_two_stage_plan_lands_depth_and_layer(tmp_path, capsys):
+    """Two-stage nitriding in a plan: the aim depth and the middle of the layer window both hold at the end; the
+    saved plan runs the same on the command line; the layer part-way is the one the staged model gives."""
+    from casedepth.plan import Plan, evaluate
+
+    p = Plan(treatment="nitriding", case_min=0.3e-3, case_max=0.5e-3, temperature=793.15, kn=8.0,
+             compound_min=2e-6, compound_max=5e-6, two_stage=True)
+    p.choose_steel("4140")
+    outcome = evaluate(p.values())
+    two = outcome.schedule
+    assert two is not None and two.first_kn == 8.0 and two.second_kn < 8.0
+    assert outcome.aim.nitrided_depth == pytest.approx(0.4e-3, rel=1e-5)
+    assert outcome.aim.compound_layer == pytest.approx(3.5e-6, rel=1e-3)
+    assert two.first_time + two.second_time == pytest.approx(outcome.aim.time, rel=1e-12)
+    assert outcome.at(two.first_time).layer.epsilon > 0  # ε from the first stage, gone by the end
+    assert outcome.aim.layer.epsilon == 0
+    path = tmp_path / "two.cdplan.json"
+    p.save(path)
+    assert main(["run", str(path), "--json"]) == 0
+    data = json.loads(capsys.readouterr().out)
+    assert [s["kn"] for s in data["stages"]] == pytest.approx([8.0, two.second_kn])
+    assert data["soak_time_h"] == pytest.approx(outcome.aim.time / 3600, rel=1e-9)

@@ -26,7 +26,7 @@ def changed_plan() -> Plan:
                 stages=[{"kind": "soak", "duration_h": 5.0, "temperature_c": 950.0, "carbon_potential_pct": 1.0}],
                 shop={"furnace_rate_per_h": 80.0, "parts_per_load": 50}, treatment="nitriding", kn=2.0,
                 compound_min=4e-6, compound_max=8e-6, core_hardness=310.0, surface_hardness=800.0,
-                n_multiplier=0.5)
+                n_multiplier=0.5, two_stage=True, kn_second=0.4)
     return plan
 
 

@@ -318,6 +318,26 @@ def test_nitriding_plan_saves_reopens_and_matches_the_command_line(window, qtbot
     assert chart.title.startswith("Nitriding chart") and len(chart.values["labels"]) == 3
 
 
+def test_two_stage_nitriding_from_the_window(window, qtbot):
+    with qtbot.waitSignal(window.result_shown, timeout=20000):
+        window.form.treatment.setCurrentIndex(window.form.treatment.findData("nitriding"))
+        window.form.treatment.activated.emit(window.form.treatment.currentIndex())
+    assert not window.form.kn_second.isVisibleTo(window)
+    with qtbot.waitSignal(window.result_shown, timeout=20000):
+        window.form.kn.setValue(8.0)
+    with qtbot.waitSignal(window.result_shown, timeout=20000):
+        window.form.two_stage.setChecked(True)
+    assert window.plan.two_stage and window.form.kn_second.isVisibleTo(window)
+    assert window.outcome.schedule is not None
+    assert "two stages" in window.results.subline.text()
+    low, high = window.plan.compound_min, window.plan.compound_max
+    assert low <= window.outcome.aim.compound_layer <= high
+    with qtbot.waitSignal(window.result_shown, timeout=20000):
+        window.form.kn_second.setValue(0.5)
+    assert window.plan.kn_second == pytest.approx(0.5)
+    assert window.outcome.schedule.second_kn == pytest.approx(0.5)
+
+
 def test_print_documents_through_qt(window, tmp_path):
     from casedepth.gui.printing import print_to_pdf
 

@@ -199,6 +199,16 @@ class PlanForm(QWidget):
         row.addWidget(self.compound_max)
         form.addRow("Compound layer", row)
         self.compound_row = row
+        self.two_stage = QCheckBox("Two stages: a low-K_N stage brings the layer into its window")
+        self.two_stage.setToolTip("Nitride at K_N first, then at the second K_N: the layer thins (ε turns to γ′) "
+                                  "while the diffusion zone keeps growing")
+        self.two_stage.toggled.connect(lambda on: self._set("two_stage", bool(on)))
+        form.addRow(self.two_stage)
+        self.kn_second = _spin(2, 0.0, 30.0, 0.05, " atm^-½")
+        self.kn_second.setSpecialValueText("just above α/γ′")
+        self.kn_second.setToolTip("K_N of the second stage; at or above the α/γ′ boundary so the ferrite stays saturated")
+        self.kn_second.valueChanged.connect(lambda v: self._set("kn_second", v or None))
+        form.addRow("Second-stage K_N", self.kn_second)
         self.core_hardness = _spin(0, 0.0, 1400.0, 10.0, " HV")
         self.core_hardness.setSpecialValueText("grade's typical")
         self.core_hardness.valueChanged.connect(lambda v: self._set("core_hardness", v or None))
@@ -628,6 +638,10 @@ class PlanForm(QWidget):
             for widget in (self.kn, self.dissociation, self.core_hardness, self.surface_hardness, self.n_multiplier):
                 self.furnace_form.setRowVisible(widget, nitriding)
             self.furnace_form.setRowVisible(self.compound_row, nitriding)
+            self.furnace_form.setRowVisible(self.two_stage, nitriding)
+            self.furnace_form.setRowVisible(self.kn_second, nitriding and bool(p.two_stage))
+            self.two_stage.setChecked(bool(p.two_stage))
+            self.kn_second.setValue(p.kn_second or 0.0)
             self.process_box.setVisible(not nitriding)
             self.model_outer.setVisible(not nitriding)
             self.callout_form.setRowVisible(self.threshold_row, not nitriding)

@@ -102,22 +102,32 @@ class ResultPanel(QFrame):
     def _show_nitriding(self, outcome, units: DisplayUnits) -> None:
         setup, aim = outcome.setup, outcome.aim
         self.headline.setText(f"Nitride {format_duration(aim.time)}")
-        self.subline.setText(
-            f"at {units.format_temperature(setup.temperature)}, K_N {setup.nitriding_potential:.2f} atm^-½ "
-            f"({100 * dissociation_for_potential(setup.nitriding_potential):.0f} % dissociation), for "
-            f"{units.format_length(aim.nitrided_depth)} nitrided hardness depth (core {setup.core:.0f} HV + 50 HV)")
+        two = outcome.schedule
+        if two is None:
+            how = (f"at {units.format_temperature(setup.temperature)}, K_N {setup.nitriding_potential:.2f} atm^-½ "
+                   f"({100 * dissociation_for_potential(setup.nitriding_potential):.0f} % dissociation)")
+        else:
+            how = (f"at {units.format_temperature(setup.temperature)} in two stages: {format_duration(two.first_time)} "
+                   f"at K_N {two.first_kn:.2f}, then {format_duration(two.second_time)} at K_N {two.second_kn:.2f} "
+                   f"({100 * dissociation_for_potential(two.second_kn):.0f} % dissociation)")
+        self.subline.setText(f"{how}, for {units.format_length(aim.nitrided_depth)} nitrided hardness depth "
+                             f"(core {setup.core:.0f} HV + 50 HV)")
         self._fact("window", "Drawing window",
                    f"{units.format_length(outcome.low.nitrided_depth)} in {format_duration(outcome.low.time)}  to  "
                    f"{units.format_length(outcome.high.nitrided_depth)} in {format_duration(outcome.high.time)}")
         self._fact("surface", "Compound layer", f"{aim.layer.describe()}; window "
                    f"{outcome.compound_window[0] * 1e6:g}–{outcome.compound_window[1] * 1e6:g} µm")
-        self._fact("reached", "Surface phase", PHASE_NAMES[setup.phase])
+        self._fact("reached", "Surface phase at the end", PHASE_NAMES[aim.layer.surface_phase])
         self._fact("threshold", "K_N for the layer window",
                    "—" if outcome.kn_for_window is None else f"{outcome.kn_for_window:.2f} atm^-½")
         self._fact("equilibrium", "Hardness", f"core {setup.core:.0f} HV, nitrided surface {setup.surface:.0f} HV")
         self._fact("saturation", "Nitride formers", f"bind {setup.capacity:.2f} wt % N")
-        d = dissociation_for_potential(setup.nitriding_potential)
-        self._fact("probe", "Exhaust (ammonia feed)", f"NH3 {100 * (1 - d):.0f} %, H2 {75 * d:.0f} %, N2 {25 * d:.0f} %")
+        potentials = [setup.nitriding_potential] if two is None else [two.first_kn, two.second_kn]
+        gases = []
+        for kn in potentials:
+            d = dissociation_for_potential(kn)
+            gases.append(f"NH3 {100 * (1 - d):.0f} %, H2 {75 * d:.0f} %, N2 {25 * d:.0f} %")
+        self._fact("probe", "Exhaust (ammonia feed)", "  then  ".join(gases))
 
     def _fact(self, key: str, name: str, value: str) -> None:
         self.fact_names[key].setText(name)
