@@ -446,6 +446,7 @@ def _print_nitriding(plan, outcome, args) -> int:
                window_soak_time_h=[outcome.low.time / 3600.0, outcome.high.time / 3600.0],
                compound_window_um=[w * 1e6 for w in outcome.compound_window], kn_for_compound_window=outcome.kn_for_window,
                warnings=list(outcome.warnings), cautions=[c.title for c in outcome.cautions])
+    out["quote"] = outcome.quote.to_dict()
     two = outcome.schedule
     out["stages"] = ([{"time_h": outcome.aim.time / 3600.0, "kn": outcome.setup.nitriding_potential}] if two is None else
                      [{"time_h": two.first_time / 3600.0, "kn": two.first_kn},
@@ -464,6 +465,8 @@ def _print_nitriding(plan, outcome, args) -> int:
               f"{format_duration(two.second_time)} at K_N {two.second_kn:.2f}")
     print(f"  nitrided hardness depth {units.format_length(outcome.aim.nitrided_depth)}; compound layer "
           f"{outcome.aim.layer.describe()}")
+    print("Cycle quote:")
+    print(outcome.quote.text())
     for warning in outcome.warnings:
         print(f"Warning: {warning}")
     return 0

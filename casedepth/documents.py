@@ -282,6 +282,15 @@ def process_sheet(plan, outcome, paper: str = "a4", units: str = "metric", shop:
     return Document(pages, plan.title)
 
 
+def _quote_line(quote) -> list[str]:
+    if quote is None:
+        return []
+    money = f" {quote.currency}" if quote.currency else ""
+    parts = ", ".join(f"{label.lower()} {hours:.2f} h" for label, hours in quote.lines)
+    return [f"Whole cycle {quote.total_h:.2f} h ({format_duration(quote.total_h * 3600)}): {parts}; cost "
+            f"{quote.cost_per_load:.2f}{money} per load, {quote.cost_per_part:.3f}{money} per part"]
+
+
 def _probe_cell(stage, carrier_co: float) -> str:
     """The ideal probe voltage of a held stage for the stage table, or blank."""
     try:
@@ -329,7 +338,7 @@ def _result_lines(outcome, u: DisplayUnits) -> list[str]:
                 f"compound layer {a.layer.describe()}"] + ([] if outcome.schedule is None else [
                 f"In two stages: {format_duration(outcome.schedule.first_time)} at K_N {outcome.schedule.first_kn:.2f}, "
                 f"then {format_duration(outcome.schedule.second_time)} at K_N {outcome.schedule.second_kn:.2f} "
-                f"({100 * dissociation_for_potential(outcome.schedule.second_kn):.0f} % dissociation)"])
+                f"({100 * dissociation_for_potential(outcome.schedule.second_kn):.0f} % dissociation)"]) + _quote_line(outcome.quote)
     lines = []
     if outcome.process == "single":
         soak_low, soak, soak_high = outcome.soak_window

@@ -23,7 +23,7 @@ from .carburizing import CarburizingResult, CarburizingSetup, soak_times_for_cas
 from .diffusivity import Diffusivity
 from .errors import InputError
 from .geometry import Geometry
-from .quote import Quote, ShopDefaults, make_quote
+from .quote import Quote, ShopDefaults, make_quote, nitriding_quote
 from .nitriding import (NitridingResult, NitridingSetup, TwoStageSchedule, nitride, nitriding_time,
                         potential_for_compound_layer, staged_layer_at, two_stage_for_depth,
                         two_stage_schedule)
@@ -468,6 +468,7 @@ class NitridingOutcome:
     warnings: list[str] = field(default_factory=list)
     process: str = "nitriding"
     schedule: TwoStageSchedule | None = None  # two-stage nitriding: the stages of the aim's soak
+    quote: Quote | None = None  # the whole cycle: load, purges, heat-up, nitriding, cool-down
 
     @property
     def duration(self) -> float:
@@ -547,8 +548,14 @@ def evaluate_nitriding(plan: "Plan") -> NitridingOutcome:
             pass
         warnings.append(f"The compound layer ({layer * 1e6:.1f} µm) is outside {window[0] * 1e6:g}–{window[1] * 1e6:g} µm; "
                         f"{advice}.")
+    soaks = ([(results[1].time, setup.nitriding_potential)] if schedule is None else
+             [(schedule.first_time, schedule.first_kn), (schedule.second_time, schedule.second_kn)])
+    try:
+        shop = plan.shop_defaults()
+    except InputError as error:
+        raise InputError("shop", f"{error.field}: {error.message}") from None
     return NitridingOutcome(setup, *results, window, kn_window, safety.cautions(ammonia=True), (low, aim, high),
-                            warnings, schedule=schedule)
+                            warnings, schedule=schedule, quote=nitriding_quote(soaks, shop))
 
 
 def evaluate(values: dict[str, Any]):

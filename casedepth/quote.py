@@ -30,6 +30,10 @@ class ShopDefaults:
     temper_h: float = 2.0
     temper_temperature_c: float = 180.0
     carrier_co_pct: float = 20.0  # CO in the endothermic carrier gas, vol % (common practice: 20 from natural gas)
+    # gas nitriding in a retort: nitrogen purges before ammonia goes in and after the load has cooled
+    nitriding_purge_h: float = 0.5
+    nitriding_heat_up_h: float = 3.0
+    nitriding_cool_h: float = 4.0
     furnace_rate_per_h: float = 95.0
     parts_per_load: int = 120
     currency: str = ""
@@ -105,7 +109,22 @@ class Quote:
 
 def make_quote(stages: list[Stage], shop: ShopDefaults) -> Quote:
     """Hours per stage, in order, summed; cost = furnace hours × rate, per part = per load / parts per load."""
-    lines = [(stage.label, stage.duration / 3600.0) for stage in stages]
+    return quote_lines([(stage.label, stage.duration / 3600.0) for stage in stages], shop)
+
+
+def quote_lines(lines: list[tuple[str, float]], shop: ShopDefaults) -> Quote:
+    """A quote from ``(label, hours)`` lines, costed at the shop's furnace rate."""
     total = sum(hours for _, hours in lines)
     per_load = total * shop.furnace_rate_per_h
-    return Quote(lines, total, per_load, per_load / shop.parts_per_load, shop.currency)
+    return Quote(list(lines), total, per_load, per_load / shop.parts_per_load, shop.currency)
+
+
+def nitriding_quote(soaks: list[tuple[float, float]], shop: ShopDefaults) -> Quote:
+    """The quote of a gas-nitriding cycle: load, nitrogen purge, heat-up, the nitriding stages
+    (``(time [s], K_N)`` each), cool-down, nitrogen purge. The nitrogen taken up while heating and
+    cooling is not counted in the case (ammonia goes in near temperature; common practice)."""
+    lines = [("Load and close", shop.load_h), ("Purge with nitrogen", shop.nitriding_purge_h),
+             ("Heat-up", shop.nitriding_heat_up_h)]
+    lines += [(f"Nitride at K_N {kn:.2f}", time / 3600.0) for time, kn in soaks]
+    lines += [("Cool down", shop.nitriding_cool_h), ("Purge with nitrogen", shop.nitriding_purge_h)]
+    return quote_lines([(label, hours) for label, hours in lines if hours > 0], shop)

@@ -250,3 +250,13 @@ def test_two_stage_plan_lands_depth_and_layer(tmp_path, capsys):
     data = json.loads(capsys.readouterr().out)
     assert [s["kn"] for s in data["stages"]] == pytest.approx([8.0, two.second_kn])
     assert data["soak_time_h"] == pytest.approx(outcome.aim.time / 3600, rel=1e-9)
+    # the quote: load, purge, heat-up, both nitriding stages, cool-down, purge, at the shop's rate
+    from casedepth.quote import ShopDefaults
+
+    shop = ShopDefaults()
+    hours = [line["hours"] for line in data["quote"]["stages"]]
+    assert len(hours) == 7 and sum(hours) == pytest.approx(data["quote"]["total_h"], rel=1e-12)
+    assert hours[3] + hours[4] == pytest.approx(outcome.aim.time / 3600, rel=1e-12)
+    assert data["quote"]["total_h"] == pytest.approx(outcome.aim.time / 3600 + shop.load_h + 2 * shop.nitriding_purge_h
+                                                     + shop.nitriding_heat_up_h + shop.nitriding_cool_h, rel=1e-12)
+    assert data["quote"]["cost_per_load"] == pytest.approx(data["quote"]["total_h"] * shop.furnace_rate_per_h)

@@ -199,7 +199,7 @@ class PlanForm(QWidget):
         row.addWidget(self.compound_max)
         form.addRow("Compound layer", row)
         self.compound_row = row
-        self.two_stage = QCheckBox("Two stages: a low-K_N stage brings the layer into its window")
+        self.two_stage = QCheckBox("Two stages (second K_N thins the layer)")
         self.two_stage.setToolTip("Nitride at K_N first, then at the second K_N: the layer thins (ε turns to γ′) "
                                   "while the diffusion zone keeps growing")
         self.two_stage.toggled.connect(lambda on: self._set("two_stage", bool(on)))

@@ -38,13 +38,14 @@ class ResultPanel(QFrame):
         names = [("window", "Drawing window"), ("surface", "Surface carbon at the end"),
                  ("reached", "Case depth reached"), ("threshold", "Threshold means"),
                  ("equilibrium", "Surface carbon in equilibrium"), ("saturation", "Saturation (Acm)"),
-                 ("probe", "Oxygen probe")]
+                 ("probe", "Oxygen probe"), ("cycle", "Whole cycle")]
         for i, (key, label) in enumerate(names):
             name = QLabel(label)
             name.setStyleSheet("color: #555;")
             value = QLabel("—")
             value.setObjectName(f"fact_{key}")
             value.setTextInteractionFlags(Qt.TextSelectableByMouse)
+            value.setWordWrap(True)  # long facts wrap rather than widen the window
             grid.addWidget(name, i // 2, (i % 2) * 2)
             grid.addWidget(value, i // 2, (i % 2) * 2 + 1)
             self.facts[key] = value
@@ -95,9 +96,11 @@ class ResultPanel(QFrame):
         self._fact("surface", "Surface carbon at the end", f"{cycle.surface_carbon:.3f} %C")
         self._fact("reached", "Case depth at the end", units.format_length(cycle.case_depth))
         self._fact("threshold", "Threshold means", f"{setup.threshold_carbon:.3f} %C")
-        self._fact("equilibrium", "Whole cycle", f"{format_duration(quote.total_h * 3600)} ({quote.total_h:.2f} h)")
-        self._fact("saturation", "Cost", f"{quote.cost_per_load:.2f}{money} per load, {quote.cost_per_part:.3f}{money} per part")
+        self._fact("equilibrium", "Richest gas, in equilibrium",
+                   f"{setup.equilibrium_carbon:.3f} %C (alloy factor {setup.alloy_factor:.3f})")
+        self._fact("saturation", "Saturation (Acm)", f"{setup.saturation_carbon:.2f} %C")
         self._show_probe(outcome)
+        self._show_quote(quote)
 
     def _show_nitriding(self, outcome, units: DisplayUnits) -> None:
         setup, aim = outcome.setup, outcome.aim
@@ -128,6 +131,7 @@ class ResultPanel(QFrame):
             d = dissociation_for_potential(kn)
             gases.append(f"NH3 {100 * (1 - d):.0f} %, H2 {75 * d:.0f} %, N2 {25 * d:.0f} %")
         self._fact("probe", "Exhaust (ammonia feed)", "  then  ".join(gases))
+        self._show_quote(outcome.quote)
 
     def _fact(self, key: str, name: str, value: str) -> None:
         self.fact_names[key].setText(name)
@@ -154,6 +158,16 @@ class ResultPanel(QFrame):
                    f"{setup.equilibrium_carbon:.3f} %C (alloy factor {setup.alloy_factor:.3f})")
         self._fact("saturation", "Saturation (Acm)", f"{setup.saturation_carbon:.2f} %C")
         self._show_probe(outcome)
+        self._show_quote(outcome.quote)
+
+    def _show_quote(self, quote) -> None:
+        """The furnace's whole cycle for one load and what it costs (Edit → Shop times and rates)."""
+        if quote is None:
+            self._fact("cycle", "Whole cycle", "—")
+            return
+        money = f" {quote.currency}" if quote.currency else ""
+        self._fact("cycle", "Whole cycle", f"{format_duration(quote.total_h * 3600)}; {quote.cost_per_load:.2f}{money} "
+                   f"per load, {quote.cost_per_part:.3f}{money} per part")
 
     def _show_probe(self, outcome) -> None:
         """Ideal oxygen-probe voltages of the held stages, for a controller that reads millivolts."""

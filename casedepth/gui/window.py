@@ -65,7 +65,9 @@ class ShopDialog(QDialog):
         "equalize_h": ("Equalize", " h"), "hardening_potential": ("Potential at hardening temperature", " %C"),
         "quench_h": ("Quench", " h"), "wash_h": ("Wash", " h"), "temper_h": ("Temper", " h"),
         "temper_temperature_c": ("Temper temperature", " °C"),
-        "carrier_co_pct": ("CO in the carrier gas (for probe mV)", " %"), "furnace_rate_per_h": ("Furnace rate per hour", ""),
+        "carrier_co_pct": ("CO in the carrier gas (for probe mV)", " %"),
+        "nitriding_purge_h": ("Nitriding: nitrogen purge", " h"), "nitriding_heat_up_h": ("Nitriding: heat-up", " h"),
+        "nitriding_cool_h": ("Nitriding: cool-down", " h"), "furnace_rate_per_h": ("Furnace rate per hour", ""),
         "parts_per_load": ("Parts per load", ""),
     }
 
