@@ -286,7 +286,7 @@ def _quote_line(quote) -> list[str]:
     if quote is None:
         return []
     money = f" {quote.currency}" if quote.currency else ""
-    parts = ", ".join(f"{label.lower()} {hours:.2f} h" for label, hours in quote.lines)
+    parts = ", ".join(f"{label} {hours:.2f} h" for label, hours in quote.lines)
     return [f"Whole cycle {quote.total_h:.2f} h ({format_duration(quote.total_h * 3600)}): {parts}; cost "
             f"{quote.cost_per_load:.2f}{money} per load, {quote.cost_per_part:.3f}{money} per part"]
 
