@@ -155,6 +155,11 @@ class CarburizingSetup:
             rel = HARDNESS_RELATIONS[self.hardness_relation]
             out.append(f"{self.threshold} is taken as {self.threshold_carbon:.2f} %C ({rel.display}; "
                        f"assumes {rel.assumptions}).")
+            c = self.steel.composition
+            if sum(float(c.get(el, 0.0)) for el in ("Cr", "Ni", "Mo")) < 0.3 and float(c.get("Mn", 0.0)) < 1.0:
+                out.append("This is a plain-carbon grade: its case hardens through to the threshold only with a fast "
+                           "(water or brine) quench or in thin sections; after an oil quench the hardness depth may "
+                           "fall short of this carbon-based estimate (common practice). Confirm on a test section.")
         return out
 
     # -- helpers for the solver ----------------------------------------------------------------

@@ -116,3 +116,13 @@ def test_warnings_for_carbides_and_grain_growth():
     hot = casedepth.setup("8620", "1000C", 1.0)
     assert any("grain" in w for w in hot.warnings())
     assert casedepth.setup("8620", "925C", 1.0).warnings() == []
+
+
+def test_plain_carbon_grades_with_a_hardness_threshold_are_flagged():
+    """Common practice: plain-carbon case-hardening grades need a fast quench for the case to harden through to a
+    hardness threshold; alloy grades do not get the note, nor do carbon thresholds."""
+    def notes(grade, at):
+        return [w for w in casedepth.setup(grade, "925C", 1.0, at=at).warnings() if "plain-carbon" in w]
+
+    assert notes("1018", "50HRC") and notes("C15E", "550HV")
+    assert not notes("8620", "50HRC") and not notes("1018", "0.40%C")
