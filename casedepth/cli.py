@@ -110,7 +110,8 @@ def _build_parser() -> argparse.ArgumentParser:
     ch.add_argument("--potential", help="with --temperatures: the carbon potential (wt %% C), default 1.0")
     ch.add_argument("--kn", help="nitriding, with --temperatures: the nitriding potential K_N (default 3)")
     ch.add_argument("--at", default="0.40%C", help="threshold: 0.40%%C, 550HV or 50HRC")
-    ch.add_argument("--hours", help="length of the time axis, h (default 24; 60 for nitriding)")
+    ch.add_argument("--hours", help="length of the time axis, h (default: long enough for the table, up to 96 h; "
+                                    "200 h for nitriding)")
     for flag in ("--pdf", "--svg", "--png"):
         ch.add_argument(flag, metavar="FILE", help=f"write the chart as {flag[2:].upper()}")
     ch.add_argument("--paper", default="a4", choices=["a4", "letter"], help="paper size")
@@ -490,7 +491,7 @@ def _nitriding_chart(args):
     from .documents import nitriding_chart
 
     steel = steel_from_text(args.steel, "steel", process="nitriding")
-    hours = parse_number(args.hours or "60", "hours")
+    hours = None if args.hours is None else parse_number(args.hours, "hours")
     if args.temperatures:
         temperatures = [parse_temperature(t, "temperatures") for t in args.temperatures.split(",") if t.strip()]
         if not 1 <= len(temperatures) <= 6:
@@ -536,7 +537,7 @@ def _chart_unchecked(args) -> int:
             raise InputError("temperatures", "give one to six temperatures")
         setup = api.setup(args.steel, f"{temperatures[0]}K", potential, at=args.at)
         document = case_depth_chart(setup, temperatures=temperatures, paper=args.paper, units=args.units,
-                                    hours=parse_number(args.hours or "24", "hours"))
+                                    hours=None if args.hours is None else parse_number(args.hours, "hours"))
     else:
         if args.temperature is None:
             raise InputError("temperature", "required with --potentials")
@@ -545,7 +546,7 @@ def _chart_unchecked(args) -> int:
             raise InputError("potentials", "give one to six carbon potentials")
         setup = api.setup(args.steel, f"{parse_temperature(args.temperature, 'temperature')}K", potentials[0], at=args.at)
         document = case_depth_chart(setup, potentials=potentials, paper=args.paper, units=args.units,
-                                    hours=parse_number(args.hours or "24", "hours"))
+                                    hours=None if args.hours is None else parse_number(args.hours, "hours"))
     for fmt, path in outputs:
         for written in save(document, path, fmt):
             print(f"wrote {written}")

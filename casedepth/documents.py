@@ -48,6 +48,14 @@ class Document:
     values: dict = field(default_factory=dict)  # numbers behind the table, SI
 
 
+def _axis_hours(hours: float | None, times: list[list[float]], choices: tuple[float, ...]) -> float:
+    """The time axis [h]: as given, or the shortest of ``choices`` that shows every finite time [s]."""
+    if hours is not None:
+        return hours
+    longest = max((t for row in times for t in row if math.isfinite(t)), default=0.0) / 3600.0
+    return next((h for h in choices if h >= longest), choices[-1])
+
+
 def _page(paper: str) -> Figure:
     if paper not in PAPER:
         raise InputError("paper", f"unknown paper {paper!r}; use a4 or letter")
@@ -77,9 +85,11 @@ def _table(ax, rows: list[list[str]], header: list[str], widths: list[float] | N
 # -- case-depth chart ---------------------------------------------------------------------------------
 def case_depth_chart(setup: CarburizingSetup, temperatures: list[float] | None = None,
                      potentials: list[float] | None = None, paper: str = "a4", units: str = "metric",
-                     hours: float = 24.0, date: _dt.date | None = None) -> Document:
+                     hours: float | None = None, date: _dt.date | None = None) -> Document:
     """Effective case depth against time for several temperatures [K] (or potentials [wt %]), with a
-    table of soak times for the standard depths of ``units``; one page."""
+    table of soak times for the standard depths of ``units``; one page. The time axis runs ``hours``
+    [h], by default the shortest of 12, 24, 48 or 96 h that shows every tabulated soak (times beyond
+    the axis are marked in the table)."""
     if bool(temperatures) == bool(potentials):
         raise InputError("temperatures", "give several temperatures or several potentials (not both)")
     u = DisplayUnits(units)
@@ -88,24 +98,30 @@ def case_depth_chart(setup: CarburizingSetup, temperatures: list[float] | None =
     labels = ([u.format_temperature(T) for T in temperatures] if temperatures
               else [f"{p:.2f} %C" for p in potentials])
     depths = [d * 1e-3 for d in METRIC_DEPTHS] if not u.imperial else [d * 0.0254 for d in IMPERIAL_DEPTHS]
+    values: dict = {"depths": depths, "labels": labels, "soak_times": []}
+    for variant in variants:
+        times = []
+        for depth in depths:
+            try:
+                times.append(soak_times_for_case_depths(variant, [depth])[0].soak_time)
+            except (InputError, NotReachableError):
+                times.append(math.nan)
+        values["soak_times"].append(times)
+    hours = _axis_hours(hours, values["soak_times"], (12.0, 24.0, 48.0, 96.0))
+    values["hours"] = hours
     fig = _page(paper)
     fig.subplots_adjust(left=0.1, right=0.95)
     ax = fig.add_axes([0.1, 0.50, 0.85, 0.36])
     rows = [[u.format_length(d)] for d in depths]
-    values: dict = {"depths": depths, "labels": labels, "soak_times": []}
+    beyond = False
     for k, (variant, label) in enumerate(zip(variants, labels)):
         curve = carburize(variant, hours * 3600.0)
         ax.plot(curve.history_time / 3600.0, u.length(curve.history_depth), color=COLOURS[k % len(COLOURS)], lw=2,
                 label=label)
-        times = []
-        for depth, row in zip(depths, rows):
-            try:
-                t = soak_times_for_case_depths(variant, [depth])[0].soak_time
-            except (InputError, NotReachableError):
-                t = math.nan
-            times.append(t)
-            row.append("—" if math.isnan(t) else f"{format_duration(t)}  ({t / 3600:.2f} h)")
-        values["soak_times"].append(times)
+        for t, row in zip(values["soak_times"][k], rows):
+            mark = " †" if t > hours * 3600.0 else ""
+            beyond = beyond or bool(mark)
+            row.append("—" if math.isnan(t) else f"{format_duration(t)}  ({t / 3600:.2f} h){mark}")
     ax.set_xlim(0, hours)
     ax.set_ylim(0, None)
     ax.set_xlabel("time at temperature [h]")
@@ -133,6 +149,8 @@ def case_depth_chart(setup: CarburizingSetup, temperatures: list[float] | None =
     header = [f"case depth ({u.length_unit})"] + [f"soak at {label}" for label in labels]
     _table(table_ax, rows, header, size=7.5 if len(labels) > 3 else 8)
     fig.text(0.1, 0.455, "Soak times for standard depths", fontsize=10, weight="bold", color=INK)
+    if beyond:
+        fig.text(0.1, 0.06, f"† beyond the {hours:g} h of the plot", fontsize=7.5, color="#555")
     _footer(fig, "Estimates from published diffusion models; confirm on the shop's own sections. "
                  "Local codes and licensed practice govern furnace operation.", 1, 1)
     return Document([fig], f"Case-depth chart {steel.name}", [header] + rows, values)
@@ -141,13 +159,14 @@ def case_depth_chart(setup: CarburizingSetup, temperatures: list[float] | None =
 # -- nitriding chart --------------------------------------------------------------------------------------
 def nitriding_chart(setup: NitridingSetup, temperatures: list[float] | None = None,
                     potentials: list[float] | None = None, paper: str = "a4", units: str = "metric",
-                    hours: float = 60.0, date: _dt.date | None = None) -> Document:
+                    hours: float | None = None, date: _dt.date | None = None) -> Document:
     """Nitrided hardness depth (core + 50 HV) and compound layer against time for several temperatures
     [K] (at the setup's K_N) or several nitriding potentials [atm^-1/2] (at its temperature), with a
-    table of nitriding times and the compound layer for standard depths; one page."""
+    table of nitriding times and the compound layer for standard depths; one page. The time axis runs
+    ``hours`` [h], by default the shortest of 24, 48, 96 or 200 h that shows every tabulated time."""
     if bool(temperatures) == bool(potentials):
         raise InputError("temperatures", "give several temperatures or several nitriding potentials (not both)")
-    if not (1.0 <= hours <= 500.0):
+    if hours is not None and not (1.0 <= hours <= 500.0):
         raise InputError("hours", f"{hours:g} h is outside 1–500 h")
     u = DisplayUnits(units)
     variants = ([replace(setup, temperature=T) for T in temperatures] if temperatures
@@ -156,29 +175,36 @@ def nitriding_chart(setup: NitridingSetup, temperatures: list[float] | None = No
               else [f"K_N {k:.2f}" for k in potentials])
     depths = ([d * 1e-3 for d in NITRIDED_METRIC_DEPTHS] if not u.imperial
               else [d * 0.0254 for d in NITRIDED_IMPERIAL_DEPTHS])
+    values: dict = {"depths": depths, "labels": labels, "times": [], "compound_layers": []}
+    for variant in variants:
+        times, layers = [], []
+        for depth in depths:
+            try:
+                result = nitriding_time(variant, depth)
+                times.append(result.time)
+                layers.append(result.compound_layer)
+            except (InputError, NotReachableError):
+                times.append(math.nan)
+                layers.append(math.nan)
+        values["times"].append(times)
+        values["compound_layers"].append(layers)
+    hours = _axis_hours(hours, values["times"], (24.0, 48.0, 96.0, 200.0))
+    values["hours"] = hours
     fig = _page(paper)
     ax = fig.add_axes([0.1, 0.555, 0.85, 0.27])
     layer_ax = fig.add_axes([0.1, 0.425, 0.85, 0.10], sharex=ax)
     rows = [[u.format_length(d)] for d in depths]
-    values: dict = {"depths": depths, "labels": labels, "times": [], "compound_layers": []}
+    beyond = False
     clock = np.linspace(0.0, hours, 121)[1:] * 3600.0
     for k, (variant, label) in enumerate(zip(variants, labels)):
         colour = COLOURS[k % len(COLOURS)]
         runs = [nitride(variant, t) for t in clock]
         ax.plot(clock / 3600.0, u.length(np.array([r.nitrided_depth for r in runs])), color=colour, lw=2, label=label)
         layer_ax.plot(clock / 3600.0, [r.compound_layer * 1e6 for r in runs], color=colour, lw=1.5)
-        times, layers = [], []
-        for depth, row in zip(depths, rows):
-            try:
-                result = nitriding_time(variant, depth)
-                t, layer = result.time, result.compound_layer
-            except (InputError, NotReachableError):
-                t, layer = math.nan, math.nan
-            times.append(t)
-            layers.append(layer)
-            row.append("—" if math.isnan(t) else f"{format_duration(t)}  ({layer * 1e6:.0f} µm)")
-        values["times"].append(times)
-        values["compound_layers"].append(layers)
+        for t, layer, row in zip(values["times"][k], values["compound_layers"][k], rows):
+            mark = " †" if t > hours * 3600.0 else ""
+            beyond = beyond or bool(mark)
+            row.append("—" if math.isnan(t) else f"{format_duration(t)}  ({layer * 1e6:.0f} µm){mark}")
     ax.set_xlim(0, hours)
     ax.set_ylim(0, None)
     ax.set_ylabel(f"nitrided hardness depth [{u.length_unit}]")
@@ -211,6 +237,8 @@ def nitriding_chart(setup: NitridingSetup, temperatures: list[float] | None = No
     _table(table_ax, rows, header, size=7.5 if len(labels) > 3 else 8)
     fig.text(0.1, 0.345, "Nitriding time for standard depths (and the compound layer it leaves)",
              fontsize=10, weight="bold", color=INK)
+    if beyond:
+        fig.text(0.1, 0.045, f"† beyond the {hours:g} h of the plot", fontsize=7.5, color="#555")
     _footer(fig, "Estimates from published models; confirm on the shop's own sections. Ammonia is toxic and "
                  "flammable; local codes govern.", 1, 1)
     return Document([fig], f"Nitriding chart {steel.name}", [header] + rows, values)

@@ -130,3 +130,17 @@ def test_cli_chart_and_sheet(tmp_path, capsys):
     assert (tmp_path / "s.pdf").stat().st_size > 5000
     assert main(["chart", "--steel", "8620", "--temperatures", "900"]) == 2
     assert "--pdf" in capsys.readouterr().err
+
+
+def test_chart_time_axis_covers_its_table():
+    """By default the curves run long enough to show every tabulated time; a shorter axis given on purpose marks
+    the times beyond it."""
+    setup = casedepth.setup("8620", "925C", 1.0)
+    document = case_depth_chart(setup, temperatures=[900 + K, 950 + K])
+    longest = max(t for row in document.values["soak_times"] for t in row if not math.isnan(t))
+    assert document.values["hours"] * 3600 >= longest
+    short = case_depth_chart(setup, temperatures=[900 + K, 950 + K], hours=12)
+    assert any("†" in cell for row in short.table[1:] for cell in row)
+    nitrided = nitriding_chart(NitridingSetup(find("4140"), 520 + K, 3.0), temperatures=[500 + K, 520 + K])
+    longest = max(t for row in nitrided.values["times"] for t in row if not math.isnan(t))
+    assert nitrided.values["hours"] * 3600 >= longest or nitrided.values["hours"] == 200
