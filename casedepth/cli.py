@@ -133,6 +133,13 @@ def _build_parser() -> argparse.ArgumentParser:
     r.add_argument("--units", default="metric", choices=["metric", "imperial"], help="units of the printed result")
     r.add_argument("--json", action="store_true", help="print one JSON object instead of text")
 
+    ld = commands.add_parser("load", help="one soak for several parts in one furnace load",
+                             description="Combine saved one-soak plans that share the furnace step into one load: the "
+                                         "soak every part's drawing window allows, and each part's case at it.")
+    ld.add_argument("plans", nargs="+", metavar="PLAN", help="plan files (*.cdplan.json)")
+    ld.add_argument("--units", default="metric", choices=["metric", "imperial"], help="units of the printed result")
+    ld.add_argument("--json", action="store_true", help="print one JSON object instead of text")
+
     pr = commands.add_parser("probe", help="oxygen-probe millivolts <-> carbon potential in endothermic gas",
                              description="Convert between an oxygen probe's voltage (air reference) and the carbon "
                                          "potential it means, at a temperature and CO content (ideal probe; trim "
@@ -161,7 +168,7 @@ FLAGS = {
     "nitriding atmosphere": "--exhaust",
     "core hardness": "--core-hardness", "nitrided surface hardness": "--surface-hardness",
     "second stage K_N": "--compound", "temperatures": "--temperatures", "potentials": "--potentials", "hours": "--hours", "output": "--pdf/--svg/--png",
-    "paper": "--paper", "CO": "--carrier-co", "probe": "--mv",
+    "paper": "--paper", "CO": "--carrier-co", "probe": "--mv", "plan": "PLAN",
 }
 
 
@@ -566,6 +573,17 @@ def _sheet(args) -> int:
     return 0
 
 
+def _load(args) -> int:
+    from .loads import plan_load
+
+    load = plan_load([Plan.load(path) for path in args.plans])
+    if args.json:
+        print(json.dumps(load.to_dict()))
+        return 0
+    print(load.text(DisplayUnits(args.units)))
+    return 0
+
+
 def _probe(args) -> int:
     T = parse_temperature(args.temperature, "temperature")
     co = parse_number(args.carrier_co.rstrip("%"), "CO") / 100.0
@@ -601,7 +619,7 @@ def main(argv: list[str] | None = None) -> int:
     try:
         args = parser.parse_args(argv)
         handler = {"carburize": _carburize, "steels": _steels, "run": _run, "nitride": _nitride, "chart": _chart,
-                   "sheet": _sheet, "probe": _probe}.get(args.command)
+                   "sheet": _sheet, "probe": _probe, "load": _load}.get(args.command)
         if handler is not None:
             return handler(args)
         parser.print_help()

@@ -345,3 +345,18 @@ def test_print_documents_through_qt(window, tmp_path):
         document = window.document(kind)
         print_to_pdf(document, str(tmp_path / f"{kind}.pdf"), window.paper)
         assert (tmp_path / f"{kind}.pdf").stat().st_size > 10000
+
+
+def test_plan_a_load_from_saved_plans(window, tmp_path):
+    from casedepth.plan import Plan
+
+    first = Plan.load(Path(__file__).resolve().parent.parent / "resources" / "examples" / "pinion-shaft.cdplan.json")
+    first.save(tmp_path / "a.cdplan.json")
+    first.update(title="Idler pin IP-4 (demo)", case_min=0.9e-3, case_max=1.3e-3)
+    first.save(tmp_path / "b.cdplan.json")
+    text = window.show_load([str(tmp_path / "a.cdplan.json"), str(tmp_path / "b.cdplan.json")])
+    assert text.startswith("Load soak") and "Idler pin" in text and "OUTSIDE" not in text
+    hot = Plan(temperature=950 + 273.15)
+    hot.save(tmp_path / "c.cdplan.json")
+    assert "cannot share a load" in window.show_load([str(tmp_path / "a.cdplan.json"), str(tmp_path / "c.cdplan.json")])
+    window.load_view.close()

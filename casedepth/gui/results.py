@@ -80,7 +80,6 @@ class ResultPanel(QFrame):
 
     def _show_cycle(self, outcome, units: DisplayUnits) -> None:
         setup, cycle, quote = outcome.setup, outcome.cycle, outcome.quote
-        money = f" {quote.currency}" if quote.currency else ""
         if outcome.boost_time is not None:
             self.headline.setText(f"Boost {format_duration(outcome.boost_time)}, diffuse {format_duration(outcome.diffuse_time)}")
             self.subline.setText(f"at {units.format_temperature(setup.temperature)}: the cycle ends with "

@@ -12,8 +12,8 @@ from pathlib import Path
 from PySide6.QtCore import QSettings, Qt, Signal
 from PySide6.QtGui import QAction, QActionGroup, QKeySequence
 from PySide6.QtWidgets import (QCheckBox, QDialog, QDialogButtonBox, QDoubleSpinBox, QFileDialog, QFormLayout,
-                               QHBoxLayout, QLabel, QLineEdit, QMainWindow, QMessageBox, QScrollArea, QSlider, QSplitter,
-                               QVBoxLayout, QWidget)
+                               QHBoxLayout, QLabel, QLineEdit, QMainWindow, QMessageBox, QPlainTextEdit, QScrollArea,
+                               QSlider, QSplitter, QVBoxLayout, QWidget)
 
 from .. import __version__, safety
 from ..diffusivity import METHODS
@@ -207,6 +207,8 @@ class MainWindow(QMainWindow):
         self._action(file_menu, "Print case-depth &chart…", lambda: self.print_document("chart"))
         self._action(file_menu, "Preview case-depth chart…", lambda: self.preview_document("chart"))
         self._action(file_menu, "Export case-depth chart…", lambda: self.export_document_dialog("chart"))
+        file_menu.addSeparator()
+        self._action(file_menu, "Plan a &load from saved plans…", self.load_dialog)
         paper_menu = file_menu.addMenu("Paper")
         paper_group = QActionGroup(self)
         for key, text in (("a4", "A4"), ("letter", "US Letter")):
@@ -370,6 +372,39 @@ class MainWindow(QMainWindow):
         self.plan.set("shop", shop.to_dict())
         if keep:
             self.settings.setValue("shop_defaults", json.dumps(shop.to_dict()))
+
+    def load_dialog(self) -> None:
+        """Pick saved plans that share a furnace step and show the soak they can share."""
+        start = str(self.path.parent) if self.path else str(self.settings.value("last_folder", str(Path.home())))
+        paths, _ = QFileDialog.getOpenFileNames(self, "Plans for one load", start, PLAN_FILTER)
+        if paths:
+            self.show_load(paths)
+
+    def show_load(self, paths: list[str]) -> str:
+        """Combine the plans in ``paths`` into one load and show the answer (returned as text too)."""
+        from ..loads import plan_load
+
+        try:
+            text = plan_load([Plan.load(p) for p in paths]).text(self.units)
+        except InputError as error:
+            text = f"These plans cannot share a load: {error.message}"
+        dialog = QDialog(self)
+        dialog.setWindowTitle("One load")
+        layout = QVBoxLayout(dialog)
+        view = QPlainTextEdit(text)
+        view.setReadOnly(True)
+        view.setLineWrapMode(QPlainTextEdit.NoWrap)
+        font = view.font()
+        font.setFamily("monospace")
+        view.setFont(font)
+        view.setMinimumSize(760, 220)
+        layout.addWidget(view)
+        buttons = QDialogButtonBox(QDialogButtonBox.Close)
+        buttons.rejected.connect(dialog.reject)
+        layout.addWidget(buttons)
+        self.load_view = dialog
+        dialog.show()
+        return text
 
     def open_dialog(self) -> None:
         if not self._may_discard():
