@@ -133,6 +133,17 @@ def _build_parser() -> argparse.ArgumentParser:
     r.add_argument("--units", default="metric", choices=["metric", "imperial"], help="units of the printed result")
     r.add_argument("--json", action="store_true", help="print one JSON object instead of text")
 
+    cb = commands.add_parser("calibrate", help="the diffusivity multiplier that reproduces a measured section",
+                             description="From a plan, the soak a load actually had and the depth measured on its "
+                                         "section, the diffusivity multiplier with which the plan's models give that "
+                                         "depth (carburizing: effective case depth at the plan's threshold; nitriding: "
+                                         "nitrided hardness depth).")
+    cb.add_argument("plan", metavar="PLAN", help="the plan file (one soak, or one nitriding stage)")
+    cb.add_argument("--soak", required=True, help="the soak the load had at temperature: 6h, 6h30min, 390min")
+    cb.add_argument("--measured", required=True, help="the depth measured on the section: 0.95mm, 0.037in")
+    cb.add_argument("--write", action="store_true", help="store the multiplier in the plan file")
+    cb.add_argument("--json", action="store_true", help="print one JSON object instead of text")
+
     ld = commands.add_parser("load", help="one soak for several parts in one furnace load",
                              description="Combine saved one-soak plans that share the furnace step into one load: the "
                                          "soak every part's drawing window allows, and each part's case at it.")
@@ -168,7 +179,8 @@ FLAGS = {
     "nitriding atmosphere": "--exhaust",
     "core hardness": "--core-hardness", "nitrided surface hardness": "--surface-hardness",
     "second stage K_N": "--compound", "temperatures": "--temperatures", "potentials": "--potentials", "hours": "--hours", "output": "--pdf/--svg/--png",
-    "paper": "--paper", "CO": "--carrier-co", "probe": "--mv", "plan": "PLAN",
+    "paper": "--paper", "CO": "--carrier-co", "probe": "--mv", "plan": "PLAN", "soak": "--soak",
+    "measured": "--measured",
 }
 
 
@@ -573,6 +585,25 @@ def _sheet(args) -> int:
     return 0
 
 
+def _calibrate(args) -> int:
+    from .calibration import calibrate_plan
+
+    plan = Plan.load(args.plan)
+    found = calibrate_plan(plan, parse_time(args.soak, "soak"), parse_length(args.measured, "measured"))
+    if args.write:
+        plan.set(found.field, round(found.multiplier, 3))
+        plan.save(args.plan)
+    if args.json:
+        print(json.dumps({"multiplier": found.multiplier, "field": found.field, "predicted_mm": found.predicted * 1e3,
+                          "measured_mm": found.measured * 1e3, "soak_time_h": found.soak_time / 3600.0,
+                          "written": bool(args.write)}))
+        return 0
+    print(found.describe())
+    print(f"  {'stored in ' + str(args.plan) if args.write else 'add --write to store it in the plan'} "
+          f"({'nitrogen' if found.field == 'n_multiplier' else 'carbon'} diffusivity multiplier)")
+    return 0
+
+
 def _load(args) -> int:
     from .loads import plan_load
 
@@ -619,7 +650,7 @@ def main(argv: list[str] | None = None) -> int:
     try:
         args = parser.parse_args(argv)
         handler = {"carburize": _carburize, "steels": _steels, "run": _run, "nitride": _nitride, "chart": _chart,
-                   "sheet": _sheet, "probe": _probe, "load": _load}.get(args.command)
+                   "sheet": _sheet, "probe": _probe, "load": _load, "calibrate": _calibrate}.get(args.command)
         if handler is not None:
             return handler(args)
         parser.print_help()

@@ -360,3 +360,14 @@ def test_plan_a_load_from_saved_plans(window, tmp_path):
     hot.save(tmp_path / "c.cdplan.json")
     assert "cannot share a load" in window.show_load([str(tmp_path / "a.cdplan.json"), str(tmp_path / "c.cdplan.json")])
     window.load_view.close()
+
+
+def test_calibrate_from_a_measured_section(window, qtbot):
+    soak = 6 * 3600.0
+    with qtbot.waitSignal(window.result_shown, timeout=20000):
+        message = window.calibrate(soak, 0.95e-3)
+    assert "Multiplier" in message and window.plan.d_multiplier < 1.0
+    assert window.form.d_multiplier.value() == pytest.approx(window.plan.d_multiplier)
+    window.undo_action.trigger()
+    assert window.plan.d_multiplier == pytest.approx(1.0)
+    assert "outside" in window.calibrate(soak, 9e-3)

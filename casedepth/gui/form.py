@@ -217,7 +217,7 @@ class PlanForm(QWidget):
         self.surface_hardness.setSpecialValueText("grade's typical")
         self.surface_hardness.valueChanged.connect(lambda v: self._set("surface_hardness", v or None))
         form.addRow("Surface hardness", self.surface_hardness)
-        self.n_multiplier = _spin(2, 0.1, 10.0, 0.05, " ×")
+        self.n_multiplier = _spin(3, 0.1, 10.0, 0.05, " ×")
         self.n_multiplier.setToolTip("Calibration factor on the nitrogen diffusivity: the internal-nitriding model tends "
                                      "to run ahead of measured depths; fit it to your own sections")
         self.n_multiplier.valueChanged.connect(lambda v: self._set("n_multiplier", v))
@@ -446,7 +446,7 @@ class PlanForm(QWidget):
                                          Qt.ToolTipRole)
         self.diffusivity.activated.connect(lambda i: self._set("diffusivity", self.diffusivity.itemData(i)))
         form.addRow("Carbon diffusivity", self.diffusivity)
-        self.d_multiplier = _spin(2, 0.1, 10.0, 0.05, " ×")
+        self.d_multiplier = _spin(3, 0.1, 10.0, 0.05, " ×")
         self.d_multiplier.setToolTip("Calibration factor on D (1 = the published model)")
         self.d_multiplier.valueChanged.connect(lambda v: self._set("d_multiplier", v))
         form.addRow("D multiplier", self.d_multiplier)

@@ -223,6 +223,7 @@ class MainWindow(QMainWindow):
         self.undo_action = self._action(edit_menu, "&Undo", self.undo, QKeySequence.Undo)
         self.redo_action = self._action(edit_menu, "&Redo", self.redo, QKeySequence.Redo)
         edit_menu.addSeparator()
+        self._action(edit_menu, "Calibrate from a measured &section…", self.calibrate_dialog)
         self._action(edit_menu, "&Shop times and rates…", self.edit_shop, "Ctrl+J",
                      "Load, heat-up, drop, quench, wash and temper times, furnace rate and parts per load")
         view_menu = bar.addMenu("&View")
@@ -357,6 +358,46 @@ class MainWindow(QMainWindow):
                     pass
             self._attach(plan)
             self.calculate()
+
+    def calibrate_dialog(self) -> None:
+        """Ask for the soak a load had and the depth measured on its section, then calibrate."""
+        dialog = QDialog(self)
+        dialog.setWindowTitle("Calibrate from a measured section")
+        form = QFormLayout(dialog)
+        form.addRow(QLabel("The soak a load of this plan had, and the depth measured on its section\n"
+                           "(effective case depth at the plan's threshold, or nitrided hardness depth)."))
+        soak = QDoubleSpinBox()
+        soak.setRange(0.1, 200.0)
+        soak.setDecimals(2)
+        soak.setSuffix(" h")
+        soak.setValue(round(self.outcome.duration / 3600.0, 2) if self.outcome is not None else 6.0)
+        form.addRow("Soak at temperature", soak)
+        depth = QDoubleSpinBox()
+        depth.setDecimals(self.units.length_decimals)
+        depth.setRange(0.0, 400.0)
+        depth.setSuffix(f" {self.units.length_unit}")
+        depth.setValue(self.units.length(self.plan.targets()[1]))
+        form.addRow("Measured depth", depth)
+        buttons = QDialogButtonBox(QDialogButtonBox.Ok | QDialogButtonBox.Cancel)
+        buttons.accepted.connect(dialog.accept)
+        buttons.rejected.connect(dialog.reject)
+        form.addRow(buttons)
+        if dialog.exec() == QDialog.Accepted:
+            self.calibrate(soak.value() * 3600.0, self.units.length_si(depth.value()))
+
+    def calibrate(self, soak_time: float, measured_depth: float) -> str:
+        """Set the plan's diffusivity multiplier from a measured section (one undoable edit); returns the message."""
+        from ..calibration import calibrate_plan
+
+        try:
+            found = calibrate_plan(self.plan, soak_time, measured_depth)
+        except InputError as error:
+            QMessageBox.warning(self, "Cannot calibrate", error.message)
+            return error.message
+        self.plan.set(found.field, round(found.multiplier, 3))
+        message = found.describe() + " It is now the plan's diffusivity multiplier (Edit → Undo takes it back)."
+        QMessageBox.information(self, "Calibrated", message)
+        return message
 
     def edit_shop(self) -> None:
         """Edit the shop's times and rates for this plan, and optionally keep them for new plans."""
