@@ -25,7 +25,6 @@ from .carburizing import CarburizingSetup, carburize, soak_times_for_case_depths
 from .errors import InputError, NotReachableError
 from .hardness import HARDNESS_RELATIONS
 from .nitriding import NitridingSetup, dissociation_for_potential, nitride, nitriding_time
-from .recipe import timeline
 from .units import DisplayUnits, format_duration
 
 PAPER = {"a4": (8.27, 11.69), "letter": (8.5, 11.0)}  # inches, portrait
@@ -281,29 +280,35 @@ def process_sheet(plan, outcome, paper: str = "a4", units: str = "metric", shop:
         y = _wrapped(first, 0.06, y, f"• {c.title}. {c.text}", 7.5, 125)
     y -= 0.02
     _wrapped(first, 0.06, y, safety.DEFERENCE, 7.5, 125, style="italic")
-    if not nitriding:
+    if nitriding:
+        stage_rows = [[label, f"{hours:.2f}", u.format_temperature(t_end),
+                       "" if kn is None else f"{kn:.2f}",
+                       "" if kn is None else f"{100 * dissociation_for_potential(kn):.0f}"]
+                      for label, hours, t_end, kn in outcome.segments]
+        header = ["stage", "hours", "ends at", "K_N", "dissociation %"]
+    else:
         stage_rows = [[s.label, f"{s.duration / 3600:.2f}",
                        "" if s.temperature is None else u.format_temperature(s.temperature),
                        "" if s.carbon_potential is None else f"{s.carbon_potential:.2f}",
                        _probe_cell(s, outcome.carrier_co)] for s in outcome.stages]
-        quote = outcome.quote
-        chunks = [stage_rows[i:i + STAGES_PER_PAGE] for i in range(0, len(stage_rows), STAGES_PER_PAGE)] or [[]]
-        for index, chunk in enumerate(chunks):
-            page = _page(paper)
-            pages.append(page)
-            page.text(0.06, 0.95, f"{plan.title} — cycle" + (f" (continued, {index + 1} of {len(chunks)})" if len(chunks) > 1 else ""),
-                      fontsize=12, weight="bold", color=INK)
-            if index == 0:
-                ax = page.add_axes([0.10, 0.64, 0.80, 0.26])
-                _timeline(ax, outcome, u)
-            table_ax = page.add_axes([0.06, 0.08, 0.88, 0.50 if index == 0 else 0.82])
-            _table(table_ax, chunk, ["stage", "hours", "temperature", "potential %C", "probe mV"],
-                   [0.36, 0.12, 0.18, 0.17, 0.17])
-            if index == len(chunks) - 1:
-                money = f" {quote.currency}" if quote.currency else ""
-                page.text(0.06, 0.055, f"Whole cycle {quote.total_h:.2f} h ({format_duration(quote.total_h * 3600)}); "
-                                       f"cost {quote.cost_per_load:.2f}{money} per load, {quote.cost_per_part:.3f}{money} "
-                                       f"per part", fontsize=9, weight="bold")
+        header = ["stage", "hours", "temperature", "potential %C", "probe mV"]
+    quote = outcome.quote
+    chunks = [stage_rows[i:i + STAGES_PER_PAGE] for i in range(0, len(stage_rows), STAGES_PER_PAGE)] or [[]]
+    for index, chunk in enumerate(chunks):
+        page = _page(paper)
+        pages.append(page)
+        page.text(0.06, 0.95, f"{plan.title} — cycle" + (f" (continued, {index + 1} of {len(chunks)})" if len(chunks) > 1 else ""),
+                  fontsize=12, weight="bold", color=INK)
+        if index == 0:
+            ax = page.add_axes([0.10, 0.64, 0.80, 0.26])
+            _timeline(ax, outcome, u)
+        table_ax = page.add_axes([0.06, 0.08, 0.88, 0.50 if index == 0 else 0.82])
+        _table(table_ax, chunk, header, [0.34, 0.12, 0.20, 0.17, 0.17])
+        if index == len(chunks) - 1:
+            money = f" {quote.currency}" if quote.currency else ""
+            page.text(0.06, 0.055, f"Whole cycle {quote.total_h:.2f} h ({format_duration(quote.total_h * 3600)}); "
+                                   f"cost {quote.cost_per_load:.2f}{money} per load, {quote.cost_per_part:.3f}{money} "
+                                   f"per part", fontsize=9, weight="bold")
     footer = f"{plan.title} — revision {revision} — casedepth {__version__} — estimates; local codes and licensed practice govern"
     for number, page in enumerate(pages, 1):
         _footer(page, footer, number, len(pages))
@@ -418,7 +423,7 @@ def _profiles(ax, hax, outcome, u: DisplayUnits) -> None:
 
 
 def _timeline(ax, outcome, u: DisplayUnits) -> None:
-    times, temps, pots, labels = timeline(outcome.stages)
+    times, temps, pots, labels = outcome.timeline()
     ax.plot(times / 3600, [u.temperature(t) for t in temps], color=INK, lw=1.8)
     ax.set_ylabel(f"temperature [{u.temperature_unit}]", fontsize=8)
     ax.set_xlabel("time in the cycle [h]", fontsize=8)
@@ -426,11 +431,11 @@ def _timeline(ax, outcome, u: DisplayUnits) -> None:
     ax.tick_params(labelsize=7)
     pax = ax.twinx()
     pax.plot(times / 3600, pots, color="#d1495b", ls="--", lw=1.4)
-    pax.set_ylabel("carbon potential [%C]", fontsize=8, color="#d1495b")
+    pax.set_ylabel(outcome.potential_name, fontsize=8, color="#d1495b")
     pax.tick_params(labelsize=7)
     if np.isfinite(pots).any():
-        pax.set_ylim(0, max(1.6, np.nanmax(pots) * 1.15))
-    ax.set_title("Temperature (solid) and carbon potential (dashed)", fontsize=9)
+        pax.set_ylim(0, max(1.6 if outcome.process != "nitriding" else 1.0, np.nanmax(pots) * 1.15))
+    ax.set_title(f"Temperature (solid) and {outcome.potential_name.split(' [')[0]} (dashed)", fontsize=9)
 
 
 def _wrapped(fig: Figure, x: float, y: float, text: str, size: float, width: int, style: str = "normal") -> float:

@@ -18,17 +18,19 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any, Callable
 
+import numpy as np
+
 from . import safety, steels
 from .carburizing import CarburizingResult, CarburizingSetup, soak_times_for_case_depths
 from .diffusivity import Diffusivity
 from .errors import InputError
 from .geometry import Geometry
-from .quote import Quote, ShopDefaults, make_quote, nitriding_quote
+from .quote import ROOM, Quote, ShopDefaults, make_quote, nitriding_cycle, nitriding_quote
 from .nitriding import (NitridingResult, NitridingSetup, TwoStageSchedule, nitride, nitriding_time,
                         potential_for_compound_layer, staged_layer_at, two_stage_for_depth,
                         two_stage_schedule)
 from .atmosphere import probe_setpoints
-from .recipe import CycleResult, Stage, plan_boost_diffuse, plan_single_soak, run_recipe
+from .recipe import CycleResult, Stage, plan_boost_diffuse, plan_single_soak, run_recipe, timeline
 from .safety import Caution
 from .steels import Steel
 from .surface import DEFAULT_BETA
@@ -420,6 +422,12 @@ class PlanOutcome:
     def case_depth(self) -> float:
         return self.aim.case_depth if self.cycle is None else self.cycle.case_depth
 
+    potential_name = "carbon potential [%C]"
+
+    def timeline(self):
+        """Temperature [K] and carbon potential against time [s] through the cycle (:func:`casedepth.recipe.timeline`)."""
+        return timeline(self.stages)
+
     @property
     def soak_window(self) -> tuple[float, float, float]:
         """Single soak: soak times [s] at temperature for the drawing's minimum, aim and maximum case
@@ -469,6 +477,21 @@ class NitridingOutcome:
     process: str = "nitriding"
     schedule: TwoStageSchedule | None = None  # two-stage nitriding: the stages of the aim's soak
     quote: Quote | None = None  # the whole cycle: load, purges, heat-up, nitriding, cool-down
+    segments: list = field(default_factory=list)  # (label, hours, end temperature [K], K_N or None)
+    potential_name: str = "nitriding potential K_N [atm^-½]"
+
+    def timeline(self):
+        """Temperature [K] and K_N against time [s] through the whole cycle, for plots (as
+        :func:`casedepth.recipe.timeline`): (times, temperatures, potentials, labels)."""
+        times, temps, pots, labels = [0.0], [ROOM], [math.nan], []
+        now, t_now = 0.0, ROOM
+        for label, hours, t_end, kn in self.segments:
+            labels.append((now, now + hours * 3600.0, label))
+            times += [now, now + hours * 3600.0]
+            temps += [t_now, t_end]
+            pots += [math.nan if kn is None else kn] * 2
+            now, t_now = now + hours * 3600.0, t_end
+        return np.array(times), np.array(temps), np.array(pots, dtype=float), labels
 
     @property
     def duration(self) -> float:
@@ -555,7 +578,8 @@ def evaluate_nitriding(plan: "Plan") -> NitridingOutcome:
     except InputError as error:
         raise InputError("shop", f"{error.field}: {error.message}") from None
     return NitridingOutcome(setup, *results, window, kn_window, safety.cautions(ammonia=True), (low, aim, high),
-                            warnings, schedule=schedule, quote=nitriding_quote(soaks, shop))
+                            warnings, schedule=schedule, quote=nitriding_quote(soaks, shop, setup.temperature),
+                            segments=nitriding_cycle(soaks, setup.temperature, shop))
 
 
 def evaluate(values: dict[str, Any]):

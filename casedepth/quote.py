@@ -119,12 +119,28 @@ def quote_lines(lines: list[tuple[str, float]], shop: ShopDefaults) -> Quote:
     return Quote(list(lines), total, per_load, per_load / shop.parts_per_load, shop.currency)
 
 
-def nitriding_quote(soaks: list[tuple[float, float]], shop: ShopDefaults) -> Quote:
-    """The quote of a gas-nitriding cycle: load, nitrogen purge, heat-up, the nitriding stages
-    (``(time [s], K_N)`` each), cool-down, nitrogen purge. The nitrogen taken up while heating and
-    cooling is not counted in the case (ammonia goes in near temperature; common practice)."""
-    lines = [("Load and close", shop.load_h), ("Purge with nitrogen", shop.nitriding_purge_h),
-             ("Heat-up", shop.nitriding_heat_up_h)]
-    lines += [(f"Nitride at K_N {kn:.2f}", time / 3600.0) for time, kn in soaks]
-    lines += [("Cool down", shop.nitriding_cool_h), ("Purge with nitrogen", shop.nitriding_purge_h)]
-    return quote_lines([(label, hours) for label, hours in lines if hours > 0], shop)
+#: where a nitriding retort is opened after cooling under nitrogen, about 150 °C (common practice; display only)
+NITRIDING_UNLOAD = 150.0 + ZERO_CELSIUS
+ROOM = 20.0 + ZERO_CELSIUS
+
+
+def nitriding_cycle(soaks: list[tuple[float, float]], temperature: float,
+                    shop: ShopDefaults) -> list[tuple[str, float, float, float | None]]:
+    """The segments of a gas-nitriding cycle: ``(label, hours, temperature at the end [K], K_N or None)``.
+
+    Load, nitrogen purge, heat-up to ``temperature``, the nitriding stages (``(time [s], K_N)`` each),
+    cool-down under nitrogen, nitrogen purge; segments of zero length are left out. The nitrogen taken
+    up while heating and cooling is not counted in the case (ammonia goes in near temperature;
+    common practice).
+    """
+    segments = [("Load and close", shop.load_h, ROOM, None), ("Purge with nitrogen", shop.nitriding_purge_h, ROOM, None),
+                ("Heat-up", shop.nitriding_heat_up_h, temperature, None)]
+    segments += [(f"Nitride at K_N {kn:.2f}", time / 3600.0, temperature, kn) for time, kn in soaks]
+    segments += [("Cool down", shop.nitriding_cool_h, NITRIDING_UNLOAD, None),
+                 ("Purge with nitrogen", shop.nitriding_purge_h, NITRIDING_UNLOAD, None)]
+    return [segment for segment in segments if segment[1] > 0]
+
+
+def nitriding_quote(soaks: list[tuple[float, float]], shop: ShopDefaults, temperature: float = 793.15) -> Quote:
+    """The quote of a gas-nitriding cycle (see :func:`nitriding_cycle`)."""
+    return quote_lines([(label, hours) for label, hours, _, _ in nitriding_cycle(soaks, temperature, shop)], shop)

@@ -273,7 +273,10 @@ def test_gas_nitriding_in_the_window(window, qtbot):
     assert window.plan.treatment == "nitriding" and window.plan.steel == "4140"
     assert window.form.temperature.value() == pytest.approx(520)
     assert window.results.headline.text().startswith("Nitride ")
-    assert window.plots.tabText(0) == "Nitrogen profile" and not window.plots.isTabVisible(2)
+    assert window.plots.tabText(0) == "Nitrogen profile" and not window.plots.isTabVisible(3)
+    window.plots.setCurrentIndex(2)  # the cycle: heat-up, nitriding, cool-down, with K_N; and its quote
+    assert window.plots.cycle_page.table.rowCount() == len(window.outcome.quote.lines)
+    assert "K_N" in window.plots.cycle_page.potential_axes.get_ylabel()
     assert window.cautions.items[0].key == "ammonia-toxic"
     low, _, high = window.outcome.targets
     assert low <= window.outcome.aim.nitrided_depth <= high

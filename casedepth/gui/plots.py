@@ -15,7 +15,7 @@ from PySide6.QtWidgets import (QHeaderView, QLabel, QSplitter, QTableWidget, QTa
 
 from ..hardness import HARDNESS_RELATIONS, ASTM_E140_hrc_to_hv, ASTM_E140_hv_to_hrc
 from ..errors import InputError
-from ..recipe import temperature_tradeoff, timeline
+from ..recipe import temperature_tradeoff
 from ..units import ZERO_CELSIUS
 from ..units import DisplayUnits, format_duration
 
@@ -138,13 +138,13 @@ class _CyclePage(QSplitter):
         self.setSizes([320, 220])
 
     def show_outcome(self, outcome, units: DisplayUnits) -> None:
-        times, temps, pots, labels = timeline(outcome.stages)
+        times, temps, pots, labels = outcome.timeline()
         ax, pax = self.axes, self.potential_axes
         ax.clear()
         pax.clear()
         hours = times / 3600.0
         ax.plot(hours, [units.temperature(t) for t in temps], color=INK, lw=2.0, label="temperature")
-        pax.plot(hours, pots, color=THRESHOLD, lw=1.6, ls="--", label="carbon potential")
+        pax.plot(hours, pots, color=THRESHOLD, lw=1.6, ls="--", label=outcome.potential_name)
         for i, (start, end, label) in enumerate(labels):
             if i % 2 == 0:
                 ax.axvspan(start / 3600.0, end / 3600.0, color="#eef2f6", lw=0, zorder=0)
@@ -155,11 +155,12 @@ class _CyclePage(QSplitter):
         ax.set_ylabel(f"temperature [{units.temperature_unit}]")
         pax.yaxis.set_label_position("right")
         pax.yaxis.tick_right()
-        pax.set_ylabel("carbon potential [%C]", color=THRESHOLD)
-        pax.set_ylim(0, max(1.6, np.nanmax(pots) * 1.15) if np.isfinite(pots).any() else 1.6)
+        pax.set_ylabel(outcome.potential_name, color=THRESHOLD)
+        pax.set_ylim(0, max(1.6 if outcome.process != "nitriding" else 1.0, np.nanmax(pots) * 1.15)
+                     if np.isfinite(pots).any() else 1.6)
         ax.set_xlim(0, max(hours[-1], 0.1))
         ax.grid(True, color="#dddddd", lw=0.6)
-        ax.set_title("The cycle: temperature (solid) and carbon potential (dashed)", fontsize=10)
+        ax.set_title(f"The cycle: temperature (solid) and {outcome.potential_name.split(' [')[0]} (dashed)", fontsize=10)
         self.canvas.draw_idle()
         quote = outcome.quote
         self.table.setRowCount(len(quote.lines))
@@ -285,9 +286,8 @@ class ProfilePlots(QTabWidget):
             return
         nitriding = self.outcome.process == "nitriding"
         self.setTabText(0, "Nitrogen profile" if nitriding else "Carbon profile")
-        for index in (2, 3):
-            self.setTabVisible(index, not nitriding)
-        if nitriding and self.currentIndex() > 1:
+        self.setTabVisible(3, not nitriding)
+        if nitriding and self.currentIndex() > 2:
             self.setCurrentIndex(0)
         self._stale = {0: True, 1: True, 2: True, 3: True}
         self._page_shown(self.currentIndex())
