@@ -633,6 +633,7 @@ class PlanForm(QWidget):
             nitriding = p.treatment == "nitriding"
             self.treatment.setCurrentIndex(self.treatment.findData(p.treatment))
             self._fill_steels(p.treatment)
+            self.steel.lineEdit().setCursorPosition(0)  # refilling the list may have moved it to the end
             for widget in (self.carbon_potential,):
                 self.furnace_form.setRowVisible(widget, not nitriding)
             for widget in (self.kn, self.dissociation, self.core_hardness, self.surface_hardness, self.n_multiplier):

@@ -248,6 +248,8 @@ class MainWindow(QMainWindow):
         self.plan = plan
         plan.subscribe(self._plan_changed)
         self.form.plan_replaced(plan)
+        if hasattr(self, "scroll"):
+            self._fit_form()
         self._update_title()
         self._update_undo()
 
@@ -256,7 +258,7 @@ class MainWindow(QMainWindow):
         self.scroll.setMinimumWidth(self.form.minimumSizeHint().width() + self.scroll.verticalScrollBar().sizeHint().width() + 6)
 
     def _plan_changed(self, name, value) -> None:
-        if name in ("treatment", "process"):
+        if name in ("treatment", "process", "two_stage"):
             self._fit_form()
         self._update_title()
         self._update_undo()
