@@ -222,6 +222,8 @@ class Diffusivity:
 
     def __call__(self, carbon, T):
         """Diffusivity [m²/s] at carbon [wt %] and temperature [K]."""
+        if self.method == "tibbetts" and isinstance(carbon, np.ndarray):  # the solver's hot path: one exponential
+            return (self.multiplier * 0.47e-4) * np.exp((-1.6 + 6600.0 / (R_CAL * T)) * carbon - 37000.0 / (R_CAL * T))
         return self.multiplier * self._function(carbon, T)
 
     def with_derivative(self, carbon: np.ndarray, T: float, step: float = 1e-5):

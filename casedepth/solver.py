@@ -74,7 +74,7 @@ class Accuracy:
     stretch: float = 8.0  # last cell over first cell within the domain
     domain: float = 8.0  # domain depth in length scales (semi-infinite bodies)
     first_step: float = 1e-3  # first time step over the time scale
-    step_growth: float = 1.2  # ratio of neighbouring time steps
+    step_growth: float = 1.25  # ratio of neighbouring time steps
 
     def refined(self, factor: int = 2) -> "Accuracy":
         """Settings with cells and time steps about ``factor`` times finer."""

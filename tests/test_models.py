@@ -139,3 +139,14 @@ def test_hardness_threshold_conversions():
     assert hardness.threshold_carbon(Threshold(0.4, "carbon")) == 0.4
     with pytest.raises(InputError, match="HRC"):
         hardness.threshold_carbon(Threshold(66, "HRC"), "tempered")
+
+
+def test_tibbetts_fast_path_is_the_published_form():
+    """The solver's one-exponential path for Tibbetts (1980) equals the function as published (1e-12)."""
+    import numpy as np
+
+    from casedepth.diffusivity import Diffusivity, Tibbetts_1980
+
+    c = np.linspace(0.1, 1.3, 13)
+    for T in (1123.15, 1198.15, 1273.15):
+        assert np.allclose(Diffusivity("tibbetts", 1.3)(c, T), 1.3 * Tibbetts_1980(c, T), rtol=1e-12, atol=0)
