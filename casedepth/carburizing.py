@@ -126,7 +126,9 @@ class CarburizingSetup:
 
     @property
     def threshold_carbon(self) -> float:
-        """The carbon content [wt %] that the threshold stands for."""
+        """The carbon content [wt %] that the threshold stands for (total case: the core's carbon plus the excess)."""
+        if self.threshold.kind == "above core":
+            return self.steel.carbon + self.threshold.value
         return threshold_carbon(self.threshold, self.hardness_relation)
 
     @property
@@ -151,7 +153,7 @@ class CarburizingSetup:
         if self.temperature > GRAIN_GROWTH_TEMPERATURE:
             out.append(f"{T_c:.0f} °C is above about 980 °C, where most carburizing grades coarsen their grain "
                        f"unless made fine-grained (common practice); check the steel's grain-size control.")
-        if self.threshold.kind != "carbon":
+        if self.threshold.is_hardness:
             rel = HARDNESS_RELATIONS[self.hardness_relation]
             out.append(f"{self.threshold} is taken as {self.threshold_carbon:.2f} %C ({rel.display}; "
                        f"assumes {rel.assumptions}).")

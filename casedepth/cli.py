@@ -55,7 +55,8 @@ def _build_parser() -> argparse.ArgumentParser:
     goal = c.add_mutually_exclusive_group(required=True)
     goal.add_argument("--target", help="effective case depth wanted: 1.0mm, 0.040in")
     goal.add_argument("--time", help="soak length instead of a target: 6h, 90min, 5h30min")
-    c.add_argument("--at", default="0.40%C", help="threshold: 0.40%%C, 550HV or 50HRC (default 0.40%%C)")
+    c.add_argument("--at", default="0.40%C", help="threshold: 0.40%%C, 550HV, 50HRC, or total (core + 0.04 %%C, "
+                                                  "SAE J423) (default 0.40%%C)")
     c.add_argument("--carbon-at", help="with --time: also report the carbon at this depth (0.5mm)")
     c.add_argument("--diffusivity", default="tibbetts", choices=list(DIFFUSIVITY_METHODS), help="carbon diffusivity model")
     c.add_argument("--d0", help="arrhenius only: D0 in m2/s (default 2.3e-5)")
@@ -109,7 +110,7 @@ def _build_parser() -> argparse.ArgumentParser:
     ch.add_argument("--temperature", help="with --potentials: the furnace temperature")
     ch.add_argument("--potential", help="with --temperatures: the carbon potential (wt %% C), default 1.0")
     ch.add_argument("--kn", help="nitriding, with --temperatures: the nitriding potential K_N (default 3)")
-    ch.add_argument("--at", default="0.40%C", help="threshold: 0.40%%C, 550HV or 50HRC")
+    ch.add_argument("--at", default="0.40%C", help="threshold: 0.40%%C, 550HV, 50HRC or total")
     ch.add_argument("--hours", help="length of the time axis, h (default: long enough for the table, up to 96 h; "
                                     "200 h for nitriding)")
     for flag in ("--pdf", "--svg", "--png"):
@@ -212,7 +213,7 @@ def _format(result, units: DisplayUnits) -> str:
                      f"carbon potential {s.carbon_potential:.2f} %C")
     else:
         lines.append(f"Soak of {format_duration(result.soak_time)} at {temp}, carbon potential {s.carbon_potential:.2f} %C")
-    lines.append(f"  effective case depth  {length(result.case_depth)} at {s.threshold}"
+    lines.append(f"  {s.threshold.depth_name:<21} {length(result.case_depth)} at {s.threshold}"
                  + (f" (= {s.threshold_carbon:.3f} %C)" if s.threshold.kind != "carbon" else ""))
     lines.append(f"  surface carbon        {result.surface_carbon:.3f} %C at the end "
                  f"(equilibrium {s.equilibrium_carbon:.3f} %C, saturation {s.saturation_carbon:.2f} %C)")
@@ -277,7 +278,7 @@ def _boost_diffuse(args, setup: CarburizingSetup) -> int:
     units = DisplayUnits(args.units)
     print(f"Boost {format_duration(plan.boost_time)} at carbon potential {args.boost_potential} %C, then diffuse "
           f"{format_duration(plan.diffuse_time)} at {setup.carbon_potential:.2f} %C, at {units.format_temperature(setup.temperature)}")
-    print(f"  effective case depth  {units.format_length(cycle.case_depth)} at {setup.threshold}")
+    print(f"  {setup.threshold.depth_name:<21} {units.format_length(cycle.case_depth)} at {setup.threshold}")
     print(f"  surface carbon        {cycle.surface_carbon:.3f} %C at the end (window {plan.surface_target[0]:.2f}–"
           f"{plan.surface_target[1]:.2f} %C, aimed at {plan.surface_aim:.3f})")
     print(f"  time at temperature   {format_duration(plan.boost_time + plan.diffuse_time)}")
@@ -372,7 +373,7 @@ def _run(args) -> int:
         print(f"  boost {format_duration(outcome.boost_time)} at {plan.boost_potential:.2f} %C, diffuse "
               f"{format_duration(outcome.diffuse_time)} at {plan.diffuse_potential:.2f} %C, at "
               f"{units.format_temperature(setup.temperature)}")
-    print(f"  effective case depth {units.format_length(outcome.case_depth)} at {setup.threshold}; surface carbon "
+    print(f"  {setup.threshold.depth_name} {units.format_length(outcome.case_depth)} at {setup.threshold}; surface carbon "
           f"{outcome.surface_carbon:.3f} %C at the end")
     if outcome.probe:
         print("  oxygen probe (ideal, " + f"{outcome.carrier_co * 100:g} % CO): "

@@ -169,6 +169,8 @@ def threshold_carbon(threshold: Threshold, relation: str = "tempered") -> float:
     """The carbon content [wt %] equivalent to a case-depth threshold (carbon passes through)."""
     if threshold.kind == "carbon":
         return threshold.value
+    if threshold.kind == "above core":
+        raise InputError("threshold", "a threshold above the core's carbon needs the steel: use the setup's threshold_carbon")
     if relation not in HARDNESS_RELATIONS:
         raise InputError("hardness relation", f"unknown relation {relation!r}; choose one of {', '.join(HARDNESS_RELATIONS)}")
     hrc = threshold.value if threshold.kind == "HRC" else ASTM_E140_hv_to_hrc(threshold.value)

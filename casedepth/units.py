@@ -109,18 +109,42 @@ class Threshold:
     """A case-depth threshold as written on a drawing: a carbon content or a hardness."""
 
     value: float
-    kind: str  # "carbon" (wt %), "HV" or "HRC"
+    kind: str  # "carbon" (wt %), "HV", "HRC", or "above core" (wt % over the core's carbon: total case)
 
     def __str__(self) -> str:
         if self.kind == "carbon":
             return f"{self.value:.2f} %C"
+        if self.kind == "above core":
+            return f"core + {self.value:.2f} %C"
         return f"{self.value:g} {self.kind}"
+
+    @property
+    def is_hardness(self) -> bool:
+        return self.kind in ("HV", "HRC")
+
+    @property
+    def depth_name(self) -> str:
+        """What the depth to this threshold is called: total case depth (SAE J423) or effective case depth."""
+        return "total case depth" if self.kind == "above core" else "effective case depth"
+
+
+#: total case depth: where the carbon is this much above the core's, wt % (SAE J423)
+TOTAL_CASE_EXCESS = 0.04
 
 
 def parse_threshold(text: str | float, field: str = "threshold") -> Threshold:
-    """Read a threshold: ``0.40%C`` (carbon, wt %), ``550HV`` or ``50HRC``; a bare number is carbon."""
+    """Read a threshold: ``0.40%C`` (carbon, wt %), ``550HV``, ``50HRC``, ``total`` (total case: core +
+    0.04 %C, SAE J423) or ``core+0.05%C``; a bare number is carbon."""
     if isinstance(text, (int, float)):
         return Threshold(float(text), "carbon")
+    compact = str(text).strip().lower().replace(" ", "")
+    if compact in ("total", "totalcase"):
+        return Threshold(TOTAL_CASE_EXCESS, "above core")
+    if compact.startswith("core+"):
+        value, unit = _split(compact[len("core+"):], field)
+        if unit not in ("", "%c", "%", "c", "wt%c", "wt%") or not (0.005 <= value <= 0.5):
+            raise InputError(field, f"cannot read threshold {text!r}; write core+0.04%C (0.005–0.5 %C above the core)")
+        return Threshold(value, "above core")
     value, unit = _split(text, field)
     unit = unit.replace(" ", "")
     if unit in ("", "%c", "%", "c", "wt%c", "wt%"):
@@ -129,7 +153,8 @@ def parse_threshold(text: str | float, field: str = "threshold") -> Threshold:
         return Threshold(value, "HV")
     if unit == "hrc":
         return Threshold(value, "HRC")
-    raise InputError(field, f"cannot read threshold {text!r}; write a carbon content (0.40%C) or a hardness (550HV, 50HRC)")
+    raise InputError(field, f"cannot read threshold {text!r}; write a carbon content (0.40%C), a hardness (550HV, 50HRC) "
+                     f"or the total case (total, core+0.04%C)")
 
 
 def celsius(kelvin: float) -> float:

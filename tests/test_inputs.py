@@ -126,3 +126,21 @@ def test_plain_carbon_grades_with_a_hardness_threshold_are_flagged():
 
     assert notes("1018", "50HRC") and notes("C15E", "550HV")
     assert not notes("8620", "50HRC") and not notes("1018", "0.40%C")
+
+
+def test_total_case_threshold():
+    """SAE J423: total case depth is where the carbon is 0.04 %C above the core. 'total' on 8620 (core 0.205 %C)
+    must give exactly the soak of a 0.245 %C carbon threshold."""
+    from casedepth.units import Threshold, parse_threshold
+
+    assert parse_threshold("total") == Threshold(0.04, "above core")
+    assert parse_threshold("core+0.05%C") == Threshold(0.05, "above core")
+    with pytest.raises(InputError):
+        parse_threshold("core+2%C")
+    total = casedepth.setup("8620", "925C", 1.0, at="total")
+    carbon = casedepth.setup("8620", "925C", 1.0, at=0.205 + 0.04)
+    assert total.threshold_carbon == pytest.approx(0.245)
+    assert str(total.threshold) == "core + 0.04 %C"
+    assert casedepth.soak_time_for_case_depth(total, 1.5e-3).soak_time == pytest.approx(
+        casedepth.soak_time_for_case_depth(carbon, 1.5e-3).soak_time, rel=1e-12)
+    assert not any("taken as" in w for w in total.warnings())  # no hardness relation is involved

@@ -374,3 +374,15 @@ def test_calibrate_from_a_measured_section(window, qtbot):
     window.undo_action.trigger()
     assert window.plan.d_multiplier == pytest.approx(1.0)
     assert "outside" in window.calibrate(soak, 9e-3)
+
+
+def test_total_case_threshold_from_the_window(window, qtbot):
+    """SAE J423 total case: the threshold list offers carbon above the core; picking it sets 0.04 %C."""
+    index = window.form.threshold_kind.findText("%C above core (total case)")
+    assert index >= 0
+    with qtbot.waitSignal(window.result_shown, timeout=20000):
+        window.form.threshold_kind.setCurrentIndex(index)
+        window.form.threshold_kind.activated.emit(index)
+    assert window.plan.threshold_kind == "above core" and window.plan.threshold_value == pytest.approx(0.04)
+    assert window.outcome.setup.threshold_carbon == pytest.approx(window.outcome.setup.steel.carbon + 0.04)
+    assert "total case depth" in window.results.subline.text()

@@ -41,7 +41,8 @@ PROCESS_NOTES = {
                      "the whole cycle; the shop's heat-up, drop and equalize are counted.",
     "stages": "Runs the stages as entered (temperatures ramp from the previous stage) and shows what they give.",
 }
-THRESHOLD_KINDS = [("%C", "carbon", 2, 0.05, 1.5), ("HV", "HV", 0, 100.0, 1000.0), ("HRC", "HRC", 1, 10.0, 70.0)]
+THRESHOLD_KINDS = [("%C", "carbon", 2, 0.05, 1.5), ("HV", "HV", 0, 100.0, 1000.0), ("HRC", "HRC", 1, 10.0, 70.0),
+                   ("%C above core (total case)", "above core", 2, 0.01, 0.5)]
 
 INVALID_STYLE = "border: 2px solid #d1495b; background: #fdecee;"
 
@@ -531,7 +532,8 @@ class PlanForm(QWidget):
         _, kind, _, _, _ = THRESHOLD_KINDS[index]
         if kind == self.plan.threshold_kind:
             return
-        usual = {"carbon": 0.40, "HV": 550.0, "HRC": 50.0}[kind]  # ISO 18203 550 HV, SAE J423 50 HRC
+        # ISO 18203 550 HV; SAE J423 50 HRC, and total case at 0.04 %C above the core
+        usual = {"carbon": 0.40, "HV": 550.0, "HRC": 50.0, "above core": 0.04}[kind]
         self.clear_mark("threshold_value")
         self.plan.update(threshold_kind=kind, threshold_value=usual)
 

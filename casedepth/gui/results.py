@@ -144,7 +144,7 @@ class ResultPanel(QFrame):
         counted = "heat-up and drop counted" if outcome.counts_shop_stages else "no heat-up or drop counted"
         self.subline.setText(
             f"at {units.format_temperature(setup.temperature)}, carbon potential {setup.carbon_potential:.2f} %C, "
-            f"for {units.format_length(aim)} effective case depth at {setup.threshold} "
+            f"for {units.format_length(aim)} {setup.threshold.depth_name} at {setup.threshold} "
             f"({soak / 3600:.2f} h at temperature; {counted})")
         self._fact("window", "Drawing window",
                    f"{units.format_length(low)} in {format_duration(soak_low)}  to  "
