@@ -21,7 +21,7 @@ from typing import Any, Callable
 import numpy as np
 
 from . import safety, steels
-from .carburizing import CarburizingResult, CarburizingSetup, soak_times_for_case_depths
+from .carburizing import CarburizingResult, CarburizingSetup, soak_times_for_case_depths, surface_carbon_warning
 from .diffusivity import Diffusivity
 from .errors import InputError
 from .geometry import Geometry
@@ -612,7 +612,11 @@ def evaluate(values: dict[str, Any]):
             if any(s.moves_carbon and s.duration > 0 for s in (*before, *after)):
                 counted = plan_single_soak(setup, [low, aim, high], before, after)
                 soak_times, cycle = tuple(counted.soak_times), counted.cycle
+                # the surface carbon that counts is the one after the drop, not the soak's
+                warnings = [w for w in warnings if w != surface_carbon_warning(setup, results[1].surface_carbon)]
                 warnings += [w for w in cycle.warnings if w not in warnings]
+                high_surface = surface_carbon_warning(setup, cycle.surface_carbon)
+                warnings += [high_surface] if high_surface else []
             soak = results[1].soak_time if soak_times is None else soak_times[1]
             stages = [*before, Stage("soak", soak, T, setup.carbon_potential), *after]
             outcome = PlanOutcome(setup, plan.process, make_quote(stages, shop), [], stages, *results, cycle=cycle,

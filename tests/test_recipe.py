@@ -220,3 +220,14 @@ def test_cli_runs_a_saved_plan(capsys, name):
     assert low <= data["case_depth_mm"] <= high
     assert main(["run", str(EXAMPLES / name)]) == 0
     assert "Cycle quote" in capsys.readouterr().out
+
+
+def test_high_surface_carbon_is_flagged_after_the_drop_not_before():
+    """Common practice aims case-hardened surfaces at about 0.7–0.9 %C: a soak at 1.2 %C ending at 1.1 %C is
+    flagged; with the shop's drop to the hardening potential (0.80 %C) the surface ends lower and is not."""
+    from casedepth.plan import Plan, evaluate
+
+    alone = evaluate(Plan(carbon_potential=1.2, shop={"heat_up_h": 0, "drop_h": 0, "equalize_h": 0}).values())
+    assert alone.surface_carbon > 0.95 and any(w.startswith("The surface ends at") for w in alone.warnings)
+    dropped = evaluate(Plan(carbon_potential=1.2).values())
+    assert dropped.surface_carbon < 0.95 and not any(w.startswith("The surface ends at") for w in dropped.warnings)
