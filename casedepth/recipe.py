@@ -322,11 +322,7 @@ def plan_boost_diffuse(setup: CarburizingSetup, target_depth: float, surface_tar
     t_full = template.history_time[-1] - boost_start
 
     def boost_state(tb: float) -> CarbonSolver:
-        t = boost_start + tb
-        k = int(np.searchsorted(template.history_time, t))
-        carbon = template.snapshot(k) if template.history_time[k] == t else \
-            template.retake(k, t - template.history_time[k - 1]).carbon
-        return template.fork(carbon, t)
+        return _state_at(template, boost_start + tb)
 
     def ending(state: CarbonSolver) -> tuple[float, float]:
         """Case depth and surface carbon after the 'after' stages, from ``state``."""
@@ -451,11 +447,7 @@ def plan_single_soak(setup: CarburizingSetup, targets: list[float], before: tupl
         return template.history_time[k - 1] - start + _land(template, k, depth, thr)
 
     def state_after(ts: float) -> CarbonSolver:
-        t = start + ts
-        k = int(np.searchsorted(template.history_time, t))
-        carbon = template.snapshot(k) if template.history_time[k] == t else \
-            template.retake(k, t - template.history_time[k - 1]).carbon
-        return template.fork(carbon, t)
+        return _state_at(template, start + ts)
 
     def ending(ts: float) -> tuple[float, CycleResult | None]:
         state = state_after(ts)
@@ -524,6 +516,13 @@ def _joined_cycle(setup, stages, head, template, start, ts, uptake_at_start, sta
     depth = tail.case_depth if tail is not None else profile.depth_at(setup.threshold_carbon)
     return CycleResult(setup, list(stages), starts, uptake, profile, depth, np.array(head_times + tail_times),
                        head_carbon + tail_carbon, check_recipe(setup, stages))
+
+
+def _state_at(march: CarbonSolver, t: float) -> CarbonSolver:
+    """A fork of ``march`` at time ``t`` [s] within its history: the step that spans ``t`` is re-taken to it."""
+    k = int(np.searchsorted(march.history_time, t))
+    carbon = march.snapshot(k) if march.history_time[k] == t else march.retake(k, t - march.history_time[k - 1]).carbon
+    return march.fork(carbon, t)
 
 
 def _land(solver: CarbonSolver, k: int, target: float, thr: float) -> float:
