@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from PySide6.QtCore import Qt
-from PySide6.QtWidgets import QFrame, QGridLayout, QLabel, QVBoxLayout
+from PySide6.QtWidgets import QFrame, QGridLayout, QLabel, QScrollArea, QVBoxLayout
 
 from ..nitriding import PHASE_NAMES, dissociation_for_potential
 from ..units import DisplayUnits, format_duration
@@ -54,9 +54,17 @@ class ResultPanel(QFrame):
         self.warnings = QLabel()
         self.warnings.setObjectName("warnings")
         self.warnings.setWordWrap(True)
-        self.warnings.setStyleSheet("background: #fff4d6; border: 1px solid #e0b84c; border-radius: 4px; padding: 4px;")
-        self.warnings.hide()
-        layout.addWidget(self.warnings)
+        self.warnings.setStyleSheet("background: #fff4d6; padding: 4px;")
+        self.warnings.setTextInteractionFlags(Qt.TextSelectableByMouse)
+        # several warnings scroll inside about four lines, so the plots keep their room
+        self.warnings_box = QScrollArea()
+        self.warnings_box.setWidget(self.warnings)
+        self.warnings_box.setWidgetResizable(True)
+        self.warnings_box.setHorizontalScrollBarPolicy(Qt.ScrollBarAlwaysOff)
+        self.warnings_box.setStyleSheet("QScrollArea { border: 1px solid #e0b84c; border-radius: 4px; background: #fff4d6; }")
+        self.warnings_box.setMaximumHeight(4 * self.warnings.fontMetrics().lineSpacing() + 14)
+        self.warnings_box.hide()
+        layout.addWidget(self.warnings_box)
         self.status = QLabel()
         self.status.setObjectName("status")
         self.status.setWordWrap(True)
@@ -73,9 +81,9 @@ class ResultPanel(QFrame):
             self._show_cycle(outcome, units)
         if outcome.warnings:
             self.warnings.setText("\n".join(f"• {w}" for w in outcome.warnings))
-            self.warnings.show()
+            self.warnings_box.show()
         else:
-            self.warnings.hide()
+            self.warnings_box.hide()
         self.set_stale(False)
 
     def _show_cycle(self, outcome, units: DisplayUnits) -> None:
