@@ -5,6 +5,7 @@ from __future__ import annotations
 import argparse
 import os
 import sys
+import tempfile
 
 
 def main(argv: list[str] | None = None) -> int:
@@ -38,10 +39,9 @@ def main(argv: list[str] | None = None) -> int:
             print(f"casedepth: error: {args.plan}: {error.message}", file=sys.stderr)
             return 2
     settings = QSettings("casedepth", "casedepth")
-    if args.screenshot:  # a fixed look for pictures, whatever this user's saved layout
-        settings = QSettings(os.path.join(os.path.dirname(os.path.abspath(args.screenshot)), ".casedepth-shot.ini"),
-                             QSettings.IniFormat)
-        settings.clear()
+    if args.screenshot:  # a fixed look for pictures, whatever this user's saved layout; nothing left behind
+        scratch = tempfile.TemporaryDirectory()
+        settings = QSettings(os.path.join(scratch.name, "settings.ini"), QSettings.IniFormat)
     if args.units:
         settings.setValue("units", args.units)
     window = MainWindow(plan, settings, args.plan)
@@ -60,10 +60,7 @@ def main(argv: list[str] | None = None) -> int:
         app.exec()
         window.plan.modified = False
         window.close()
-        try:
-            os.unlink(settings.fileName())
-        except OSError:
-            pass
+        scratch.cleanup()
         return outcome["code"]
     window.show()
     return app.exec()
