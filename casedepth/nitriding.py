@@ -24,7 +24,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .compound_layer import CompoundLayer, grow_compound_layer, substrate_uptake_coefficient
+from .compound_layer import CompoundLayer, grow_compound_layer, parabolic_constants, substrate_uptake_coefficient
 from .compound_layer import compound_layer as _compound_layer
 from .errors import InputError, NotReachableError
 from .roots import illinois
@@ -304,14 +304,12 @@ def nitride(setup: NitridingSetup, time: float, layer: CompoundLayer | None = No
         dissolved = np.where(x < front, c_s * (1.0 - erf(x / length) / erf(gamma)), 0.0)
         nitrogen = dissolved + np.where(x < front, c_m, 0.0)
         hardness = np.where(x < front, surface, core)
-        depth = front
     else:
         front = 0.0
         dissolved = c_s * np.array([math.erfc(v) for v in x / length])
         nitrogen = dissolved
         hardness = core + SOLUTION_HARDENING_HV_PER_PCT * dissolved
-        rise = SOLUTION_HARDENING_HV_PER_PCT * c_s
-        depth = length * _erfcinv(50.0 / rise) if rise > 50.0 else 0.0
+    depth = _front_rate(setup) * math.sqrt(time)  # core + 50 HV: the front, or where solution hardening adds 50 HV
     warnings = setup.warnings()
     return NitridingResult(setup, time, layer, s + front, s + depth, s + x, nitrogen, hardness, warnings)
 
@@ -322,23 +320,31 @@ def _erfcinv(y: float) -> float:
     return brentq(lambda v: math.erfc(v) - y, 0.0, 10.0, xtol=1e-14)
 
 
+def _front_rate(setup: NitridingSetup) -> float:
+    """Nitrided depth below the compound layer per √time [m/√s], as :func:`nitride` draws it: 2γ√D for the
+    Wagner front, 2 erfc⁻¹(50 HV / rise)√D without nitride formers (0 if dissolved nitrogen cannot add 50 HV)."""
+    gamma = setup.front_factor
+    if gamma is not None:
+        return 2.0 * gamma * math.sqrt(setup.diffusivity)
+    rise = SOLUTION_HARDENING_HV_PER_PCT * setup.substrate_nitrogen
+    return 2.0 * _erfcinv(50.0 / rise) * math.sqrt(setup.diffusivity) if rise > 50.0 else 0.0
+
+
 def nitriding_time(setup: NitridingSetup, target_depth: float) -> NitridingResult:
-    """The soak [s] for a nitrided hardness depth (core + 50 HV) of ``target_depth`` [m], and what it gives."""
+    """The soak [s] for a nitrided hardness depth (core + 50 HV) of ``target_depth`` [m], and what it gives.
+
+    At one temperature and K_N the compound layer and the front below it both advance as √t, so the
+    soak is (target / (k_layer + k_front))², with no search.
+    """
     if not (math.isfinite(target_depth) and 0.02e-3 <= target_depth <= 2e-3):
         raise InputError("target", f"{both_lengths(target_depth)} is outside {length_range(0.02e-3, 2e-3)}")
-
-    from scipy.optimize import brentq  # imported on first use: it is slow to import
-
-    def miss(log_t):
-        return nitride(setup, math.exp(log_t)).nitrided_depth - target_depth
-
-    lo, hi = math.log(60.0), math.log(500 * 3600.0)
-    if miss(hi) < 0:
+    rate = parabolic_constants(float(setup.temperature), float(setup.nitriding_potential), float(setup.uptake))[1]
+    rate += _front_rate(setup)
+    time = (target_depth / rate) ** 2 if rate > 0.0 else math.inf
+    if time > 500 * 3600.0 * (1 + 1e-9):
         raise NotReachableError("target", f"{both_lengths(target_depth)} is not reached within 500 h at "
                                 f"{setup.temperature - ZERO_CELSIUS:.0f} °C")
-    if miss(lo) > 0:
-        return nitride(setup, 60.0)
-    return nitride(setup, math.exp(brentq(miss, lo, hi, xtol=1e-10)))
+    return nitride(setup, max(time, 60.0))
 
 
 def potential_for_compound_layer(setup: NitridingSetup, time: float, window: tuple[float, float]) -> float:
@@ -435,16 +441,11 @@ def _two_stage(setup, k1, k2, total_time, layer_after, first) -> TwoStageSchedul
 
 
 def _front_time(setup: NitridingSetup, front_depth: float) -> float:
-    """Soak [s] after which the diffusion zone's nitrided depth (below the compound layer) is ``front_depth`` [m]:
-    the inverse of the analytic front of :func:`nitride`."""
-    D = setup.diffusivity
-    gamma = setup.front_factor
-    if gamma is not None:
-        return (front_depth / (2.0 * gamma)) ** 2 / D
-    rise = SOLUTION_HARDENING_HV_PER_PCT * setup.substrate_nitrogen
-    if rise <= 50.0:
+    """Soak [s] after which the diffusion zone's nitrided depth (below the compound layer) is ``front_depth`` [m]."""
+    rate = _front_rate(setup)
+    if rate <= 0.0:
         raise NotReachableError("target", "dissolved nitrogen alone cannot raise the hardness by 50 HV in this steel")
-    return (front_depth / (2.0 * _erfcinv(50.0 / rise))) ** 2 / D
+    return (front_depth / rate) ** 2
 
 
 def two_stage_for_depth(setup: NitridingSetup, target_depth: float, window: tuple[float, float],
