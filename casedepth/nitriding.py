@@ -21,6 +21,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
+from functools import cached_property
 
 import numpy as np
 
@@ -214,14 +215,14 @@ class NitridingSetup:
     def capacity(self) -> float:
         return nitride_capacity(self.steel.composition)
 
-    @property
+    @cached_property  # a root solve, needed several times per result
     def front_factor(self) -> float | None:
         """γ of the internal-nitriding front (Wagner 1959), or None for a steel without nitride formers."""
         if self.capacity < _MIN_CAPACITY:
             return None
         return Wagner_front_factor(self.substrate_nitrogen, self.capacity)
 
-    @property
+    @cached_property
     def uptake(self) -> float:
         """A of the nitrogen flux A/√t the diffusion zone draws from under the compound layer [wt % m/√s]."""
         gamma = self.front_factor
