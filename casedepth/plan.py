@@ -577,9 +577,9 @@ def evaluate_nitriding(plan: "Plan") -> NitridingOutcome:
         shop = plan.shop_defaults()
     except InputError as error:
         raise InputError("shop", f"{error.field}: {error.message}") from None
+    segments = nitriding_cycle(soaks, setup.temperature, shop)
     return NitridingOutcome(setup, *results, window, kn_window, safety.cautions(ammonia=True), (low, aim, high),
-                            warnings, schedule=schedule, quote=nitriding_quote(soaks, shop, setup.temperature),
-                            segments=nitriding_cycle(soaks, setup.temperature, shop))
+                            warnings, schedule=schedule, quote=nitriding_quote(segments, shop), segments=segments)
 
 
 def evaluate(values: dict[str, Any]):

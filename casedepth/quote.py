@@ -141,6 +141,6 @@ def nitriding_cycle(soaks: list[tuple[float, float]], temperature: float,
     return [segment for segment in segments if segment[1] > 0]
 
 
-def nitriding_quote(soaks: list[tuple[float, float]], shop: ShopDefaults, temperature: float = 793.15) -> Quote:
-    """The quote of a gas-nitriding cycle (see :func:`nitriding_cycle`)."""
-    return quote_lines([(label, hours) for label, hours, _, _ in nitriding_cycle(soaks, temperature, shop)], shop)
+def nitriding_quote(segments: list[tuple[str, float, float, float | None]], shop: ShopDefaults) -> Quote:
+    """The quote of a gas-nitriding cycle from its segments (:func:`nitriding_cycle`)."""
+    return quote_lines([(label, hours) for label, hours, _, _ in segments], shop)
