@@ -15,9 +15,8 @@ import sys
 from . import __version__, api
 from .carburizing import CarburizingSetup, carburize, soak_time_for_case_depth
 from .plan import Plan, evaluate, stage_to_dict
-from .nitriding import (PHASE_NAMES, NitridingSetup, dissociation_for_potential, nitride, nitriding_potential,
-                        nitriding_potential_from_dissociation, nitriding_time, potential_for_compound_layer,
-                        two_stage_schedule)
+from .nitriding import (PHASE_NAMES, NitridingSetup, compound_layer_advice, dissociation_for_potential, nitride,
+                        nitriding_potential, nitriding_potential_from_dissociation, nitriding_time)
 from .recipe import plan_boost_diffuse, temperature_tradeoff
 from .steels import steel_from_text
 from .diffusivity import METHODS as DIFFUSIVITY_METHODS
@@ -418,26 +417,22 @@ def _nitride(args) -> int:
     else:
         result = nitride(setup, parse_time(args.time, "time"))
     out = result.to_dict()
-    window_kn = None
+    window_kn, stages = None, None
     if args.compound:
         window = _window_um(args.compound)
-        window_kn = potential_for_compound_layer(setup, result.time, window)
+        advice = compound_layer_advice(setup, result, window)
+        window_kn, stages = advice.kn_for_window, advice.two_stage
         out["compound_window_um"] = [w * 1e6 for w in window]
         out["kn_for_compound_window"] = window_kn
         out["dissociation_for_compound_window_pct"] = 100.0 * dissociation_for_potential(window_kn)
-        if not window[0] <= result.compound_layer <= window[1]:
-            try:
-                stages = two_stage_schedule(setup, result.time, window)
-                out["two_stage"] = {"first_time_h": stages.first_time / 3600.0, "first_kn": stages.first_kn,
-                                    "second_time_h": stages.second_time / 3600.0, "second_kn": stages.second_kn,
-                                    "compound_layer_um": stages.compound_layer * 1e6,
-                                    "epsilon_layer_um": stages.layer.epsilon * 1e6,
-                                    "gamma_prime_layer_um": stages.layer.gamma_prime * 1e6}
-            except InputError:
-                pass
-            out["warnings"].append(f"The compound layer ({result.compound_layer * 1e6:.1f} µm) is outside "
-                                   f"{window[0] * 1e6:g}–{window[1] * 1e6:g} µm at K_N {kn:g}; K_N {window_kn:.2f} "
-                                   f"would put it in the middle.")
+        if stages is not None:
+            out["two_stage"] = {"first_time_h": stages.first_time / 3600.0, "first_kn": stages.first_kn,
+                                "second_time_h": stages.second_time / 3600.0, "second_kn": stages.second_kn,
+                                "compound_layer_um": stages.compound_layer * 1e6,
+                                "epsilon_layer_um": stages.layer.epsilon * 1e6,
+                                "gamma_prime_layer_um": stages.layer.gamma_prime * 1e6}
+        if advice.message:
+            out["warnings"].append(advice.message)
     if args.json:
         print(json.dumps(out))
         return 0
@@ -450,10 +445,9 @@ def _nitride(args) -> int:
     if window_kn is not None:
         print(f"  for a {out['compound_window_um'][0]:g}–{out['compound_window_um'][1]:g} µm layer: K_N "
               f"{window_kn:.2f} ({out['dissociation_for_compound_window_pct']:.0f} % dissociation)")
-    if "two_stage" in out:
-        two = out["two_stage"]
-        print(f"  or two stages: {two['first_time_h']:.1f} h at K_N {two['first_kn']:.2f}, then "
-              f"{two['second_time_h']:.1f} h at K_N {two['second_kn']:.2f} (layer {stages.layer.describe()})")
+    if stages is not None:
+        print(f"  or two stages: {stages.first_time / 3600:.1f} h at K_N {stages.first_kn:.2f}, then "
+              f"{stages.second_time / 3600:.1f} h at K_N {stages.second_kn:.2f} (layer {stages.layer.describe()})")
     for warning in out["warnings"]:
         print(f"Warning: {warning}")
     print("Caution: ammonia is toxic (exposure limits of tens of ppm) and flammable; purge before opening; "

@@ -38,7 +38,7 @@ __all__ = ["PHASE_NAMES", "Bohnenkamp_1967_nitrogen_diffusivity", "CompoundLayer
            "NitridingResult", "NitridingSetup", "TwoStageSchedule", "Wagner_front_factor",
            "dissociation_for_potential", "nitride", "nitride_capacity", "nitriding_potential",
            "nitriding_potential_from_dissociation", "nitriding_time", "nitrogen_saturation_ferrite",
-           "potential_for_compound_layer", "staged_layer_at", "surface_phase", "two_stage_for_depth",
+           "potential_for_compound_layer", "compound_layer_advice", "LayerAdvice", "staged_layer_at", "surface_phase", "two_stage_for_depth",
            "two_stage_schedule"]
 
 R = 8.314462618  # J/(mol K)
@@ -434,6 +434,37 @@ def two_stage_schedule(setup: NitridingSetup, total_time: float, window: tuple[f
         raise NotReachableError("compound layer", f"a {aim * 1e6:.1f} µm layer cannot be reached in "
                                 f"{total_time / 3600:.1f} h with K_N {k1:.3g} then {k2:.3g}")
     return _two_stage(setup, k1, k2, total_time, layer_after, illinois(miss, lo, f_lo, hi, f_hi, 1.0, 1e-4 * aim))
+
+
+@dataclass
+class LayerAdvice:
+    """What to change when the compound layer misses its window: the one K_N that centres it
+    [atm^-1/2], a two-stage schedule that does (or None), and the sentence saying so (None if the
+    layer is inside the window)."""
+
+    kn_for_window: float
+    two_stage: TwoStageSchedule | None
+    message: str | None
+
+
+def compound_layer_advice(setup: NitridingSetup, result: NitridingResult, window: tuple[float, float],
+                          second_kn: float | None = None) -> LayerAdvice:
+    """Advice on the compound layer of ``result`` against ``window`` [m]; raises :class:`InputError`
+    (field ``compound layer``) if no K_N in range centres the layer in that time."""
+    kn = potential_for_compound_layer(setup, result.time, window)
+    layer = result.compound_layer
+    if window[0] <= layer <= window[1]:
+        return LayerAdvice(kn, None, None)
+    try:
+        two = two_stage_schedule(setup, result.time, window, second_kn)
+    except InputError:
+        two = None
+    message = (f"The compound layer ({layer * 1e6:.1f} µm) is outside {window[0] * 1e6:g}–{window[1] * 1e6:g} µm at "
+               f"K_N {setup.nitriding_potential:.2f}; K_N {kn:.2f} would put it in the middle")
+    if two is not None:
+        message += (f"; or nitride {two.first_time / 3600:.1f} h at K_N {two.first_kn:.2f}, then "
+                    f"{two.second_time / 3600:.1f} h at K_N {two.second_kn:.2f} (layer {two.layer.describe()})")
+    return LayerAdvice(kn, two, message + ".")
 
 
 def _two_stage(setup, k1, k2, total_time, layer_after, first) -> TwoStageSchedule:

@@ -26,9 +26,8 @@ from .diffusivity import Diffusivity
 from .errors import InputError
 from .geometry import Geometry
 from .quote import ROOM, Quote, ShopDefaults, make_quote, nitriding_cycle, nitriding_quote
-from .nitriding import (NitridingResult, NitridingSetup, TwoStageSchedule, nitride, nitriding_time,
-                        potential_for_compound_layer, staged_layer_at, two_stage_for_depth,
-                        two_stage_schedule)
+from .nitriding import (NitridingResult, NitridingSetup, TwoStageSchedule, compound_layer_advice, nitride,
+                        nitriding_time, staged_layer_at, two_stage_for_depth)
 from .atmosphere import probe_setpoints
 from .recipe import CycleResult, Stage, plan_boost_diffuse, plan_single_soak, run_recipe, timeline
 from .safety import Caution
@@ -545,32 +544,24 @@ def evaluate_nitriding(plan: "Plan") -> NitridingOutcome:
     warnings = list(results[1].warnings)
     warnings += _curvature_warnings(plan, high)
     try:
-        kn_window = potential_for_compound_layer(setup, results[1].time, window)
+        advice = compound_layer_advice(setup, results[1], window, plan.kn_second)
+        kn_window = advice.kn_for_window
     except InputError as error:
-        kn_window = None
+        advice, kn_window = None, None
         warnings.append(f"Compound-layer window: {error.message}")
     schedule = None
     if plan.two_stage:
         try:
             schedule, staged = two_stage_for_depth(setup, aim, window, plan.kn_second)
         except InputError as error:
-            raise InputError({"second stage K_N": "kn_second"}.get(error.field, "compound_max"), error.message) from None
+            field_name = {"second stage K_N": "kn_second", "compound layer": "compound_max"}.get(error.field, "case_max")
+            raise InputError(field_name, error.message) from None
         results[1] = staged
         warnings.append(f"Two stages: {schedule.first_time / 3600:.1f} h at K_N {schedule.first_kn:.2f}, then "
                         f"{schedule.second_time / 3600:.1f} h at K_N {schedule.second_kn:.2f}; the drawing window's "
                         f"end times are for one stage at K_N {setup.nitriding_potential:.2f}.")
-    layer = results[1].compound_layer
-    if schedule is None and kn_window is not None and not (window[0] <= layer <= window[1]):
-        advice = f"K_N {kn_window:.2f} would put it in the middle"
-        try:
-            two = two_stage_schedule(setup, results[1].time, window, plan.kn_second)
-            advice += (f"; or nitride {two.first_time / 3600:.1f} h at K_N {two.first_kn:.2f}, then "
-                       f"{two.second_time / 3600:.1f} h at K_N {two.second_kn:.2f} (layer {two.layer.describe()}): "
-                       f"tick Two stages")
-        except InputError:
-            pass
-        warnings.append(f"The compound layer ({layer * 1e6:.1f} µm) is outside {window[0] * 1e6:g}–{window[1] * 1e6:g} µm; "
-                        f"{advice}.")
+    elif advice is not None and advice.message:
+        warnings.append(advice.message)
     soaks = ([(results[1].time, setup.nitriding_potential)] if schedule is None else
              [(schedule.first_time, schedule.first_kn), (schedule.second_time, schedule.second_kn)])
     try:
