@@ -11,7 +11,7 @@ multiplier is roughly (measured / predicted)²; it is found exactly by a root se
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 from .diffusivity import Diffusivity
 from .errors import InputError, NotReachableError
@@ -38,29 +38,14 @@ class Calibration:
 
 
 def _depth_function(plan: Plan, soak_time: float):
-    """depth(multiplier) [m] after ``soak_time`` [s] with the plan's models, and the plan's own outcome."""
-    from .loads import _depth_at
-
+    """depth(multiplier) [m] after ``soak_time`` [s] with the plan's models, and the plan field it belongs in."""
     outcome = evaluate(plan.values())
-    if isinstance(outcome, NitridingOutcome):
-        from dataclasses import replace
-
-        from .nitriding import nitride
-
-        def depth(m: float) -> float:
-            return nitride(replace(outcome.setup, diffusivity_multiplier=m), soak_time).nitrided_depth
-
-        return depth, outcome, "n_multiplier"
     base = outcome.setup
-
-    def depth(m: float) -> float:
-        from dataclasses import replace
-
-        d = base.diffusivity
-        setup = replace(base, diffusivity=Diffusivity(d.method, m, d.D0, d.Q))
-        return _depth_at(replace(outcome, setup=setup), soak_time)
-
-    return depth, outcome, "d_multiplier"
+    if isinstance(outcome, NitridingOutcome):
+        return (lambda m: outcome.depth_after(soak_time, replace(base, diffusivity_multiplier=m))), "n_multiplier"
+    d = base.diffusivity
+    return (lambda m: outcome.depth_after(soak_time, replace(base, diffusivity=Diffusivity(d.method, m, d.D0, d.Q))),
+            "d_multiplier")
 
 
 def calibrate_plan(plan: Plan, soak_time: float, measured_depth: float) -> Calibration:
@@ -77,7 +62,7 @@ def calibrate_plan(plan: Plan, soak_time: float, measured_depth: float) -> Calib
         raise InputError("soak", f"{soak_time / 3600:g} h is outside 1 min–200 h")
     if not (math.isfinite(measured_depth) and 0.01e-3 <= measured_depth <= 10e-3):
         raise InputError("measured", f"{both_lengths(measured_depth)} is outside 0.01–10 mm")
-    depth, outcome, field = _depth_function(plan, soak_time)
+    depth, field = _depth_function(plan, soak_time)
     present = float(plan.n_multiplier if field == "n_multiplier" else plan.d_multiplier)
     predicted = depth(present)
     lo, hi = MULTIPLIER_RANGE

@@ -13,11 +13,8 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, field
 
-from .carburizing import carburize
 from .errors import InputError
-from .nitriding import nitride
 from .plan import NitridingOutcome, Plan, evaluate
-from .recipe import Stage, run_recipe
 from .units import ZERO_CELSIUS, both_lengths, format_duration
 
 #: furnace steps this close count as the same (temperature [K], carbon potential [wt %], K_N [atm^-1/2])
@@ -137,18 +134,7 @@ def plan_load(plans: list[Plan]) -> LoadPlan:
                         f"{late.plan.title!r} needs {format_duration(late.soak_range[0])}; split the load.")
     else:
         for part, outcome in zip(parts, outcomes):
-            part.case_depth = _depth_at(outcome, soak)
+            part.case_depth = outcome.depth_after(soak)
             if not part.inside:
                 warnings.append(f"{part.plan.title!r} ends at {both_lengths(part.case_depth)}, outside its window.")
     return LoadPlan(parts, common, soak, first[0], warnings)
-
-
-def _depth_at(outcome, soak: float) -> float:
-    """The part's case [m] after a soak of ``soak`` [s], with the stages its own plan counts."""
-    if isinstance(outcome, NitridingOutcome):
-        return nitride(outcome.setup, soak).nitrided_depth
-    setup = outcome.setup
-    if outcome.counts_shop_stages:
-        stages = [s if s.kind != "soak" else Stage("soak", soak, s.temperature, s.carbon_potential) for s in outcome.stages]
-        return run_recipe(setup, stages).case_depth
-    return carburize(setup, soak).case_depth

@@ -21,7 +21,8 @@ from typing import Any, Callable
 import numpy as np
 
 from . import safety, steels
-from .carburizing import CarburizingResult, CarburizingSetup, soak_times_for_case_depths, surface_carbon_warning
+from .carburizing import (CarburizingResult, CarburizingSetup, carburize, soak_times_for_case_depths,
+                          surface_carbon_warning)
 from .diffusivity import Diffusivity
 from .errors import InputError
 from .geometry import Geometry
@@ -439,6 +440,17 @@ class PlanOutcome:
     def counts_shop_stages(self) -> bool:
         return self.soak_times is not None
 
+    def depth_after(self, soak: float, setup: CarburizingSetup | None = None) -> float:
+        """One soak: the case [m] after a soak of ``soak`` [s], with the shop's stages counted as this
+        plan counts them (optionally with another ``setup``, e.g. another diffusivity)."""
+        if self.process != "single":
+            raise InputError("plan", f"a {self.process} cycle has no single soak to vary")
+        setup = setup or self.setup
+        if self.counts_shop_stages:
+            stages = [s if s.kind != "soak" else Stage("soak", soak, s.temperature, s.carbon_potential) for s in self.stages]
+            return run_recipe(setup, stages).case_depth
+        return carburize(setup, soak).case_depth
+
     @property
     def duration(self) -> float:
         """Time [s] the profile history covers: the soak, or the whole cycle."""
@@ -495,6 +507,10 @@ class NitridingOutcome:
     @property
     def duration(self) -> float:
         return self.aim.time
+
+    def depth_after(self, soak: float, setup: NitridingSetup | None = None) -> float:
+        """One stage: the nitrided hardness depth [m] after ``soak`` [s] (optionally with another ``setup``)."""
+        return nitride(setup or self.setup, soak).nitrided_depth
 
     def at(self, time: float) -> NitridingResult:
         time = max(time, 60.0)

@@ -13,8 +13,6 @@ import pytest
 from casedepth.calibration import calibrate_plan
 from casedepth.cli import main
 from casedepth.errors import InputError, NotReachableError
-from casedepth.loads import _depth_at
-from casedepth.nitriding import nitride
 from casedepth.plan import Plan, evaluate
 
 EXAMPLES = Path(__file__).resolve().parent.parent / "resources" / "examples"
@@ -37,7 +35,7 @@ def test_a_known_multiplier_comes_back(name, field, value):
     made.set(field, value)
     soak = 8 * 3600.0 if field == "d_multiplier" else 30 * 3600.0
     outcome = evaluate(made.values())
-    depth = _depth_at(outcome, soak) if field == "d_multiplier" else nitride(outcome.setup, soak).nitrided_depth
+    depth = outcome.depth_after(soak)
     found = calibrate_plan(Plan.load(EXAMPLES / name), soak, depth)
     assert found.field == field and found.multiplier == pytest.approx(value, rel=1e-4)
 

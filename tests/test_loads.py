@@ -14,7 +14,7 @@ import pytest
 
 from casedepth.cli import main
 from casedepth.errors import InputError
-from casedepth.loads import _depth_at, plan_load
+from casedepth.loads import plan_load
 from casedepth.plan import Plan, evaluate
 
 EXAMPLES = Path(__file__).resolve().parent.parent / "resources" / "examples"
@@ -43,8 +43,8 @@ def test_a_parts_range_ends_give_its_window_ends_when_rerun():
     plan = pinion()
     outcome = evaluate(plan.values())
     low, _, high = outcome.soak_window
-    assert _depth_at(outcome, low) == pytest.approx(plan.case_min, rel=2e-4)
-    assert _depth_at(outcome, high) == pytest.approx(plan.case_max, rel=2e-4)
+    assert outcome.depth_after(low) == pytest.approx(plan.case_min, rel=2e-4)
+    assert outcome.depth_after(high) == pytest.approx(plan.case_max, rel=2e-4)
 
 
 def test_windows_that_do_not_overlap_split_the_load():
