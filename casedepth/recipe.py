@@ -421,8 +421,7 @@ def plan_single_soak(setup: CarburizingSetup, targets: list[float], before: tupl
     T = setup.temperature
     thr = setup.threshold_carbon
     soak = setup.surface_condition
-    stages_for_check = [*before, Stage("soak", 1.0, T, setup.carbon_potential), *after]
-    check_recipe(setup, stages_for_check)
+    check_recipe(setup, [*before, Stage("soak", 1.0, T, setup.carbon_potential), *after])
     deepest = max(targets)
     template = setup.solver(case_depth=targets[cycle_for])
     head = run_recipe(setup, list(before), solver=template) if before else None
@@ -493,29 +492,25 @@ def plan_single_soak(setup: CarburizingSetup, targets: list[float], before: tupl
     return SoakPlan(times, cycle)
 
 
-def _joined_cycle(setup, stages, head, template, start, ts, uptake_at_start, state, end) -> CycleResult:
-    """The whole cycle from the pieces already run: the heat-up (``head``), the soak's march
-    (``template`` up to ``start + ts``, whose state is ``state``) and the stages after it (``end``).
+def _joined_cycle(setup, stages, head, template, start, ts, uptake_at_start, state, tail) -> CycleResult:
+    """The whole cycle from the pieces already run: the heat-up (``head``, or None), the soak's march
+    (``template`` up to ``start + ts``, whose state is ``state``) and the stages after it (``tail``, or None).
     Runs the cycle afresh if the pieces do not fit (the grid was extended on the way)."""
     t = start + ts
     k = int(np.searchsorted(template.history_time, t))
-    head_times = list(template.history_time[:k])
     head_carbon = [template.snapshot(i) for i in range(k)]
-    tail = end if end is not None else None
     tail_times = list(tail.history_time) if tail is not None else [t]
     tail_carbon = list(tail.history_carbon) if tail is not None else [state.carbon]
     if any(len(c) != len(state.carbon) for c in (*head_carbon, *tail_carbon)):
         return run_recipe(setup, stages)
-    n_before = len(head.stages) if head is not None else 0
-    starts = (list(head.stage_start) if head is not None else []) + [start] + \
-        (list(tail.stage_start) if tail is not None else [])
-    uptake = (list(head.stage_uptake) if head is not None else []) + [state.carbon_uptake() - uptake_at_start] + \
-        (list(tail.stage_uptake) if tail is not None else [])
-    assert len(starts) == len(stages) == n_before + 1 + (len(tail.stages) if tail is not None else 0)
+    starts = [*(head.stage_start if head else []), start, *(tail.stage_start if tail else [])]
+    uptake = [*(head.stage_uptake if head else []), state.carbon_uptake() - uptake_at_start,
+              *(tail.stage_uptake if tail else [])]
     profile = tail.profile if tail is not None else state.profile()
     depth = tail.case_depth if tail is not None else profile.depth_at(setup.threshold_carbon)
-    return CycleResult(setup, list(stages), starts, uptake, profile, depth, np.array(head_times + tail_times),
-                       head_carbon + tail_carbon, check_recipe(setup, stages))
+    return CycleResult(setup, list(stages), starts, uptake, profile, depth,
+                       np.array(list(template.history_time[:k]) + tail_times), head_carbon + tail_carbon,
+                       check_recipe(setup, stages))
 
 
 def _state_at(march: CarbonSolver, t: float) -> CarbonSolver:
