@@ -231,3 +231,16 @@ def test_high_surface_carbon_is_flagged_after_the_drop_not_before():
     assert alone.surface_carbon > 0.95 and any(w.startswith("The surface ends at") for w in alone.warnings)
     dropped = evaluate(Plan(carbon_potential=1.2).values())
     assert dropped.surface_carbon < 0.95 and not any(w.startswith("The surface ends at") for w in dropped.warnings)
+
+
+def test_joined_cycle_matches_a_fresh_run():
+    """The one-soak cycle is joined from pieces already run; a fresh run of the same stages gives the same stage
+    starts, carbon per stage (1e-3 relative, the solver's reproducibility over other step sequences) and case."""
+    setup = casedepth.setup("8620", "925C", 1.0)
+    shop = ShopDefaults()
+    counted = plan_single_soak(setup, [1.0e-3], tuple(shop.before(T925, 1.0)), tuple(shop.after(T925)), cycle_for=0)
+    fresh = run_recipe(setup, counted.cycle.stages)
+    assert counted.cycle.stage_start == pytest.approx(fresh.stage_start, rel=1e-12)
+    assert counted.cycle.stage_uptake == pytest.approx(fresh.stage_uptake, rel=1e-3, abs=1e-9)
+    assert counted.cycle.case_depth == pytest.approx(fresh.case_depth, rel=1e-4)
+    assert counted.cycle.history_time[-1] == pytest.approx(fresh.history_time[-1], rel=1e-12)
