@@ -313,8 +313,7 @@ def carburize(setup: CarburizingSetup, soak_time: float, probe_depth: float | No
     profile = solver.profile()
     depth = profile.depth_at(setup.threshold_carbon)
     times, carbon = _history(solver, len(solver.history_time) - 1, profile)
-    warnings = setup.warnings()
-    _section_warning(setup, depth, warnings, profile.surface_carbon)
+    warnings = case_warnings(setup, depth, profile.surface_carbon)
     return CarburizingResult(setup, soak_time, profile, depth, times, carbon, warnings, solver.carbon_uptake(),
                              carbon_at_depth=None if probe_depth is None else profile.carbon_at(probe_depth),
                              probe_depth=probe_depth)
@@ -325,21 +324,16 @@ def carburize(setup: CarburizingSetup, soak_time: float, probe_depth: float | No
 HIGH_SURFACE_CARBON = 0.95
 
 
-def surface_carbon_warning(setup: CarburizingSetup, surface: float) -> str | None:
-    """A note when the case ends with more surface carbon than a quenched case carries well (or None)."""
-    if surface > HIGH_SURFACE_CARBON and setup.equilibrium_carbon <= setup.saturation_carbon:
-        return (f"The surface ends at {surface:.2f} %C: above about 0.9 %C a quenched case holds retained austenite "
-                f"and may form carbides (common practice aims at 0.7–0.9 %C); a diffuse stage at a lower potential "
-                f"brings it down.")
-    return None
-
-
-def _section_warning(setup: CarburizingSetup, depth: float, warnings: list[str], surface: float | None = None) -> None:
+def case_warnings(setup: CarburizingSetup, depth: float, surface: float) -> list[str]:
+    """The setup's warnings and those about the case it ended with: ``depth`` [m], ``surface`` carbon [wt %]."""
+    warnings = setup.warnings()
     if setup.geometry.finite and depth >= setup.geometry.half_section * (1 - 1e-9):
         warnings.append("The threshold carbon reaches the centre of the section: the part is carburized through.")
-    note = None if surface is None else surface_carbon_warning(setup, surface)
-    if note:
-        warnings.append(note)
+    if surface > HIGH_SURFACE_CARBON and setup.equilibrium_carbon <= setup.saturation_carbon:
+        warnings.append(f"The surface ends at {surface:.2f} %C: above about 0.9 %C a quenched case holds retained "
+                        f"austenite and may form carbides (common practice aims at 0.7–0.9 %C); a diffuse stage at a "
+                        f"lower potential brings it down.")
+    return warnings
 
 
 def _land_on(depth_after, target: float, step: float, depth_start: float, depth_end: float) -> float:
@@ -391,7 +385,6 @@ def soak_times_for_case_depths(setup: CarburizingSetup, targets: list[float],
     if reached < deepest:
         raise NotReachableError("target", f"{both_lengths(deepest)} is not reached within {SOAK_RANGE[1] / 3600:g} h "
                                 f"(reached {reached * 1e3:.3f} mm); raise the temperature or the carbon potential")
-    warnings = setup.warnings()
     results = []
     for target in targets:
         k = int(np.searchsorted(depths, target, side="left"))
@@ -401,8 +394,7 @@ def soak_times_for_case_depths(setup: CarburizingSetup, targets: list[float],
         profile = solver.retake(k, tau)
         depth = profile.depth_at(thr)
         times, carbon = _history(solver, k, profile)
-        own_warnings = list(warnings)
-        _section_warning(setup, depth, own_warnings, profile.surface_carbon)
+        own_warnings = case_warnings(setup, depth, profile.surface_carbon)
         uptake = float(np.sum(solver.volume * (profile.carbon - setup.steel.carbon)))
         results.append(CarburizingResult(setup, profile.time, profile, depth, times, carbon, own_warnings, uptake,
                                          target_depth=target))

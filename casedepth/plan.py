@@ -21,8 +21,8 @@ from typing import Any, Callable
 import numpy as np
 
 from . import safety, steels
-from .carburizing import (CarburizingResult, CarburizingSetup, carburize, soak_times_for_case_depths,
-                          surface_carbon_warning)
+from .carburizing import (CarburizingResult, CarburizingSetup, carburize, case_warnings,
+                          soak_times_for_case_depths)
 from .diffusivity import Diffusivity
 from .errors import InputError
 from .geometry import Geometry
@@ -391,11 +391,11 @@ def migrate(data: dict) -> dict:
 class PlanOutcome:
     """What a plan gives.
 
-    For a single soak: soaks for the drawing's minimum, aim and maximum case depth at temperature
-    alone (``low``, ``aim``, ``high``) and, when the shop's heat-up or drop move carbon, the soaks
-    with them counted (``soak_times``, see :attr:`soak_window`) and the aim's whole ``cycle``; for
-    boost-diffuse and own stages: the whole ``cycle`` (and the boost and diffuse times). Always the
-    quote of the whole cycle and the cautions.
+    For a single soak: when the shop's heat-up or drop move carbon, the soaks for the drawing's
+    minimum, aim and maximum with them counted (``soak_times``, see :attr:`soak_window`) and the
+    aim's whole ``cycle``; the soaks at temperature alone (``low``, ``aim``, ``high``) are solved
+    on first use then, and up front otherwise. For boost-diffuse and own stages: the whole ``cycle``
+    (and the boost and diffuse times). Always the quote of the whole cycle and the cautions.
     """
 
     setup: CarburizingSetup
@@ -403,9 +403,7 @@ class PlanOutcome:
     quote: Quote
     cautions: list[Caution]
     stages: list[Stage]
-    low: CarburizingResult | None = None
-    aim: CarburizingResult | None = None
-    high: CarburizingResult | None = None
+    isothermal: list[CarburizingResult] | None = None  # one soak alone: min, aim, max (see ``low``, ``aim``, ``high``)
     cycle: CycleResult | None = None
     boost_time: float | None = None
     diffuse_time: float | None = None
@@ -421,6 +419,26 @@ class PlanOutcome:
     @property
     def case_depth(self) -> float:
         return self.aim.case_depth if self.cycle is None else self.cycle.case_depth
+
+    def _alone(self, index: int) -> CarburizingResult | None:
+        """One soak at temperature alone for the drawing's min, aim or max (solved on first use)."""
+        if self.process != "single":
+            return None
+        if self.isothermal is None:
+            self.isothermal = soak_times_for_case_depths(self.setup, list(self.targets), size_for=self.targets[1])
+        return self.isothermal[index]
+
+    @property
+    def low(self) -> CarburizingResult | None:
+        return self._alone(0)
+
+    @property
+    def aim(self) -> CarburizingResult | None:
+        return self._alone(1)
+
+    @property
+    def high(self) -> CarburizingResult | None:
+        return self._alone(2)
 
     potential_name = "carbon potential [%C]"
 
@@ -613,20 +631,20 @@ def evaluate(values: dict[str, Any]):
              "diffuse potential": "diffuse_potential"}
     try:
         if plan.process == "single":
-            results = soak_times_for_case_depths(setup, [low, aim, high], size_for=aim)
             before, after = tuple(shop.before(T, setup.carbon_potential)), tuple(shop.after(T))
-            soak_times, cycle, warnings = None, None, list(results[1].warnings)
             if any(s.moves_carbon and s.duration > 0 for s in (*before, *after)):
                 counted = plan_single_soak(setup, [low, aim, high], before, after)
-                soak_times, cycle = tuple(counted.soak_times), counted.cycle
-                # the surface carbon that counts is the one after the drop, not the soak's
-                warnings = [w for w in warnings if w != surface_carbon_warning(setup, results[1].surface_carbon)]
+                soak_times, cycle, isothermal = tuple(counted.soak_times), counted.cycle, None
+                # the case that counts is the one at the end of the cycle, after the drop
+                warnings = case_warnings(setup, cycle.case_depth, cycle.surface_carbon)
                 warnings += [w for w in cycle.warnings if w not in warnings]
-                high_surface = surface_carbon_warning(setup, cycle.surface_carbon)
-                warnings += [high_surface] if high_surface else []
-            soak = results[1].soak_time if soak_times is None else soak_times[1]
+                soak = soak_times[1]
+            else:
+                isothermal = soak_times_for_case_depths(setup, [low, aim, high], size_for=aim)
+                soak_times, cycle, warnings = None, None, list(isothermal[1].warnings)
+                soak = isothermal[1].soak_time
             stages = [*before, Stage("soak", soak, T, setup.carbon_potential), *after]
-            outcome = PlanOutcome(setup, plan.process, make_quote(stages, shop), [], stages, *results, cycle=cycle,
+            outcome = PlanOutcome(setup, plan.process, make_quote(stages, shop), [], stages, isothermal, cycle=cycle,
                                   soak_times=soak_times, warnings=warnings)
         elif plan.process == "boost-diffuse":
             planned = plan_boost_diffuse(setup, aim, (plan.surface_min, plan.surface_max), plan.boost_potential,
