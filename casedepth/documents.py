@@ -47,6 +47,23 @@ class Document:
     values: dict = field(default_factory=dict)  # numbers behind the table, SI
 
 
+def _chart_heading(fig: Figure, title: str, lines: list[str], date: _dt.date | None) -> None:
+    """A chart's title and its lines of settings and models, with the date printed."""
+    fig.text(0.1, 0.955, title, fontsize=15, weight="bold", color=INK)
+    y = 0.925
+    for line in [*lines, f"Printed {(date or _dt.date.today()).isoformat()} by casedepth {__version__}."]:
+        y = _wrapped(fig, 0.1, y, line, 7.5, 118) - 0.016
+
+
+def _chart_table(fig: Figure, box: list[float], title: str, header: list[str], rows: list[list[str]],
+                 beyond_hours: float | None) -> None:
+    """A chart's table in ``box`` (figure fraction) under its title; a note if some times lie beyond the axis."""
+    _table(fig.add_axes(box), rows, header, size=7.5 if len(header) > 4 else 8)
+    fig.text(0.1, box[1] + box[3] + 0.015, title, fontsize=10, weight="bold", color=INK)
+    if beyond_hours is not None:
+        fig.text(0.1, box[1] - 0.02, f"† beyond the {beyond_hours:g} h of the plot", fontsize=7.5, color="#555")
+
+
 def _axis_hours(hours: float | None, times: list[list[float]], choices: tuple[float, ...]) -> float:
     """The time axis [h]: as given, or the shortest of ``choices`` that shows every finite time [s]."""
     if hours is not None:
@@ -124,11 +141,10 @@ def case_depth_chart(setup: CarburizingSetup, temperatures: list[float] | None =
     ax.set_xlim(0, hours)
     ax.set_ylim(0, None)
     ax.set_xlabel("time at temperature [h]")
-    ax.set_ylabel(f"effective case depth [{u.length_unit}] at {setup.threshold}")
+    ax.set_ylabel(f"{setup.threshold.depth_name} [{u.length_unit}] at {setup.threshold}")
     ax.grid(True, color="#dddddd", lw=0.6)
     ax.legend(title="temperature" if temperatures else "carbon potential", fontsize=8, title_fontsize=8)
     steel = setup.steel
-    fig.text(0.1, 0.955, f"Case-depth chart — {steel.name}", fontsize=15, weight="bold", color=INK)
     what = (f"carbon potential {setup.carbon_potential:.2f} %C" if temperatures
             else f"temperature {u.format_temperature(setup.temperature)}")
     beta = "surface held at equilibrium" if math.isinf(setup.beta) else f"β = {setup.beta * 100:.3g} cm/s"
@@ -140,17 +156,10 @@ def case_depth_chart(setup: CarburizingSetup, temperatures: list[float] | None =
         f"Models: D {setup.diffusivity.display}; {beta}; alloy factor "
         + (f"{setup.alloy_factor:.3f} (Gunnarson)" if setup.alloy_factor_on else "off")
         + f"; {setup.geometry.describe()}. Time at temperature only: heat-up and drop are not included.",
-        f"Printed {(date or _dt.date.today()).isoformat()} by casedepth {__version__}.",
     ]
-    y = 0.925
-    for line in lines:
-        y = _wrapped(fig, 0.1, y, line, 7.5, 118) - 0.016
-    table_ax = fig.add_axes([0.1, 0.08, 0.83, 0.36])
+    _chart_heading(fig, f"Case-depth chart — {steel.name}", lines, date)
     header = [f"case depth ({u.length_unit})"] + [f"soak at {label}" for label in labels]
-    _table(table_ax, rows, header, size=7.5 if len(labels) > 3 else 8)
-    fig.text(0.1, 0.455, "Soak times for standard depths", fontsize=10, weight="bold", color=INK)
-    if beyond:
-        fig.text(0.1, 0.06, f"† beyond the {hours:g} h of the plot", fontsize=7.5, color="#555")
+    _chart_table(fig, [0.1, 0.08, 0.83, 0.36], "Soak times for standard depths", header, rows, hours if beyond else None)
     _footer(fig, "Estimates from published diffusion models; confirm on the shop's own sections. "
                  "Local codes and licensed practice govern furnace operation.", 1, 1)
     return Document([fig], f"Case-depth chart {steel.name}", [header] + rows, values)
@@ -216,7 +225,6 @@ def nitriding_chart(setup: NitridingSetup, temperatures: list[float] | None = No
     layer_ax.set_xlabel("time at temperature [h]")
     layer_ax.grid(True, color="#dddddd", lw=0.6)
     steel = setup.steel
-    fig.text(0.1, 0.955, f"Nitriding chart — {steel.name}", fontsize=15, weight="bold", color=INK)
     what = (f"K_N {setup.nitriding_potential:.2f} atm^-1/2 "
             f"({100 * dissociation_for_potential(setup.nitriding_potential):.0f} % dissociation)" if temperatures
             else f"temperature {u.format_temperature(setup.temperature)}")
@@ -227,18 +235,11 @@ def nitriding_chart(setup: NitridingSetup, temperatures: list[float] | None = No
         f"Models: nitrogen in ferrite after Bohnenkamp (1967){multiplier}; internal-nitriding front after Wagner "
         f"(1959); compound layer after Somers & Mittemeijer (1995), ±50 %. Time at temperature only: heat-up, "
         f"purge and cool-down are not included.",
-        f"Printed {(date or _dt.date.today()).isoformat()} by casedepth {__version__}.",
     ]
-    y = 0.925
-    for line in lines:
-        y = _wrapped(fig, 0.1, y, line, 7.5, 118) - 0.016
-    table_ax = fig.add_axes([0.1, 0.05, 0.83, 0.28])
+    _chart_heading(fig, f"Nitriding chart — {steel.name}", lines, date)
     header = [f"nitrided depth ({u.length_unit})"] + [f"at {label}" for label in labels]
-    _table(table_ax, rows, header, size=7.5 if len(labels) > 3 else 8)
-    fig.text(0.1, 0.345, "Nitriding time for standard depths (and the compound layer it leaves)",
-             fontsize=10, weight="bold", color=INK)
-    if beyond:
-        fig.text(0.1, 0.045, f"† beyond the {hours:g} h of the plot", fontsize=7.5, color="#555")
+    _chart_table(fig, [0.1, 0.065, 0.83, 0.265], "Nitriding time for standard depths (and the compound layer it leaves)",
+                 header, rows, hours if beyond else None)
     _footer(fig, "Estimates from published models; confirm on the shop's own sections. Ammonia is toxic and "
                  "flammable; local codes govern.", 1, 1)
     return Document([fig], f"Nitriding chart {steel.name}", [header] + rows, values)
