@@ -39,6 +39,22 @@ class _Parser(argparse.ArgumentParser):
         raise _UsageError(message)
 
 
+def _printing(parser, units: bool = True, as_json: bool = True) -> None:
+    """The options that say how a result is printed: --units and --json."""
+    if units:
+        parser.add_argument("--units", default="metric", choices=["metric", "imperial"], help="units of the printed result")
+    if as_json:
+        parser.add_argument("--json", action="store_true", help="print one JSON object instead of text")
+
+
+def _document_outputs(parser, what: str) -> None:
+    """Where and how a printed document is written: --pdf/--svg/--png FILE, --paper, --units."""
+    for flag in ("--pdf", "--svg", "--png"):
+        parser.add_argument(flag, metavar="FILE", help=f"write the {what} as {flag[2:].upper()}")
+    parser.add_argument("--paper", default="a4", choices=["a4", "letter"], help="paper size")
+    parser.add_argument("--units", default="metric", choices=["metric", "imperial"], help=f"units on the {what}")
+
+
 def _build_parser() -> argparse.ArgumentParser:
     parser = _Parser(prog="casedepth", description="Turn a case-depth callout into a furnace cycle.")
     parser.add_argument("--version", action="version", version=f"casedepth {__version__}")
@@ -68,14 +84,14 @@ def _build_parser() -> argparse.ArgumentParser:
     c.add_argument("--geometry", default="plate", choices=list(SHAPES), help="plate (default), cylinder, bore or sphere")
     c.add_argument("--diameter", help="cylinder, sphere or bore diameter: 40mm")
     c.add_argument("--thickness", help="plate thickness, carburized from both faces: 10mm (default: thick section)")
-    c.add_argument("--units", default="metric", choices=["metric", "imperial"], help="units of the printed result")
+    _printing(c, as_json=False)
     c.add_argument("--compare-temperatures", metavar="900C,925C,950C",
                    help="with --target: also the soak time at each of these temperatures (furnace time against "
                         "grain growth and distortion)")
     c.add_argument("--surface-target", help="plan boost and diffuse for a final surface carbon: 0.80 (±0.05) or 0.75-0.85")
     c.add_argument("--boost-potential", help="with --surface-target: carbon potential of the boost, wt %% C")
     c.add_argument("--diffuse-potential", help="with --surface-target: carbon potential of the diffuse, wt %% C")
-    c.add_argument("--json", action="store_true", help="print one JSON object instead of text")
+    _printing(c, units=False)
 
     n = commands.add_parser("nitride", help="gas nitriding: time for a nitrided hardness depth, compound layer",
                             description="Gas nitriding: the soak for a nitrided hardness depth (core + 50 HV), the "
@@ -93,8 +109,7 @@ def _build_parser() -> argparse.ArgumentParser:
     n.add_argument("--core-hardness", help="core hardness after quench and temper, HV (default: the grade's typical value)")
     n.add_argument("--surface-hardness", help="nitrided surface hardness, HV (default: the grade's typical value)")
     n.add_argument("--d-multiplier", default="1", help="calibration factor on the nitrogen diffusivity (default 1)")
-    n.add_argument("--units", default="metric", choices=["metric", "imperial"], help="units of the printed result")
-    n.add_argument("--json", action="store_true", help="print one JSON object instead of text")
+    _printing(n)
 
     ch = commands.add_parser("chart", help="print a case-depth chart (PDF, SVG or PNG)",
                              description="A case-depth chart: effective case depth (or, for nitriding, nitrided "
@@ -112,17 +127,11 @@ def _build_parser() -> argparse.ArgumentParser:
     ch.add_argument("--at", default="0.40%C", help="threshold: 0.40%%C, 550HV, 50HRC or total")
     ch.add_argument("--hours", help="length of the time axis, h (default: long enough for the table, up to 96 h; "
                                     "200 h for nitriding)")
-    for flag in ("--pdf", "--svg", "--png"):
-        ch.add_argument(flag, metavar="FILE", help=f"write the chart as {flag[2:].upper()}")
-    ch.add_argument("--paper", default="a4", choices=["a4", "letter"], help="paper size")
-    ch.add_argument("--units", default="metric", choices=["metric", "imperial"], help="units on the chart")
+    _document_outputs(ch, "chart")
 
     sh = commands.add_parser("sheet", help="print the process sheet of a saved plan (PDF, SVG or PNG)")
     sh.add_argument("plan", help="the plan file")
-    for flag in ("--pdf", "--svg", "--png"):
-        sh.add_argument(flag, metavar="FILE", help=f"write the sheet as {flag[2:].upper()}")
-    sh.add_argument("--paper", default="a4", choices=["a4", "letter"], help="paper size")
-    sh.add_argument("--units", default="metric", choices=["metric", "imperial"], help="units on the sheet")
+    _document_outputs(sh, "sheet")
     sh.add_argument("--shop", default="", help="shop name for the title block")
     sh.add_argument("--logo", help="logo image (PNG) for the title block")
     sh.add_argument("--revision", help="revision (default: the plan's)")
@@ -130,8 +139,7 @@ def _build_parser() -> argparse.ArgumentParser:
     r = commands.add_parser("run", help="run a saved plan and print its results and the cycle quote",
                             description="Run a saved plan (*.cdplan.json) and print its results and the cycle quote.")
     r.add_argument("plan", help="the plan file")
-    r.add_argument("--units", default="metric", choices=["metric", "imperial"], help="units of the printed result")
-    r.add_argument("--json", action="store_true", help="print one JSON object instead of text")
+    _printing(r)
 
     cb = commands.add_parser("calibrate", help="the diffusivity multiplier that reproduces a measured section",
                              description="From a plan, the soak a load actually had and the depth measured on its "
@@ -142,14 +150,13 @@ def _build_parser() -> argparse.ArgumentParser:
     cb.add_argument("--soak", required=True, help="the soak the load had at temperature: 6h, 6h30min, 390min")
     cb.add_argument("--measured", required=True, help="the depth measured on the section: 0.95mm, 0.037in")
     cb.add_argument("--write", action="store_true", help="store the multiplier in the plan file")
-    cb.add_argument("--json", action="store_true", help="print one JSON object instead of text")
+    _printing(cb, units=False)
 
     ld = commands.add_parser("load", help="one soak for several parts in one furnace load",
                              description="Combine saved one-soak plans that share the furnace step into one load: the "
                                          "soak every part's drawing window allows, and each part's case at it.")
     ld.add_argument("plans", nargs="+", metavar="PLAN", help="plan files (*.cdplan.json)")
-    ld.add_argument("--units", default="metric", choices=["metric", "imperial"], help="units of the printed result")
-    ld.add_argument("--json", action="store_true", help="print one JSON object instead of text")
+    _printing(ld)
 
     pr = commands.add_parser("probe", help="oxygen-probe millivolts <-> carbon potential in endothermic gas",
                              description="Convert between an oxygen probe's voltage (air reference) and the carbon "
@@ -160,7 +167,7 @@ def _build_parser() -> argparse.ArgumentParser:
     reading.add_argument("--potential", help="carbon potential, wt %% C: prints the probe voltage")
     reading.add_argument("--mv", help="probe voltage, mV: prints the carbon potential")
     pr.add_argument("--carrier-co", default="20", help="CO in the carrier gas, vol %% (default 20)")
-    pr.add_argument("--json", action="store_true", help="print one JSON object instead of text")
+    _printing(pr, units=False)
 
     commands.add_parser("steels", help="list the steel library")
     commands.add_parser("gui", help="open the window: casedepth gui [PLAN.json] [--screenshot OUT.png]", add_help=False)
