@@ -2,13 +2,13 @@
 
 * the alloy factor (Gunnarson) between the atmosphere's carbon potential, which is defined
   on plain carbon steel, and the equilibrium surface carbon of an alloy steel;
-* the mass-transfer (surface reaction) boundary J = β (C_eq − C_s);
+* the mass-transfer (surface reaction) coefficient β of the boundary J = β (C_eq − C_s) (EN 10052
+  definition; the solver applies it);
 * the carbon saturation of the steel, for the carbide/soot warning.
 """
 
 from __future__ import annotations
 
-import math
 
 from .austenite import saturation_carbon
 
@@ -74,30 +74,3 @@ def steel_saturation_carbon(T: float, alloy_factor: float = 1.0) -> float:
     treats the alloy effect on the activity as a constant factor (as the Gunnarson relation does).
     """
     return saturation_carbon(T) * alloy_factor
-
-
-def mass_transfer_flux(beta: float, equilibrium_carbon: float, surface_carbon: float) -> float:
-    r"""Carbon flux into the surface, J = β (C_eq − C_s).
-
-    Parameters
-    ----------
-    beta : float
-        Mass-transfer coefficient, [m/s]; ``math.inf`` means the surface is held at C_eq
-    equilibrium_carbon : float
-        Surface carbon in equilibrium with the atmosphere, [wt %]
-    surface_carbon : float
-        Present surface carbon, [wt %]
-
-    Returns
-    -------
-    J : float
-        Flux, [wt % · m/s] (multiply by the steel's density / 100 for kg/(m² s))
-
-    References
-    ----------
-    .. [1] EN 10052:1993, Vocabulary of heat treatment terms for ferrous products
-       (carbon transfer coefficient).
-    """
-    if math.isinf(beta):
-        raise ValueError("with beta = inf the surface is held at C_eq; the flux follows from the diffusion side")
-    return beta * (equilibrium_carbon - surface_carbon)

@@ -262,9 +262,6 @@ class ProfilePlots(QTabWidget):
         self._stale = {0: False, 1: False, 2: False, 3: False}
         self.currentChanged.connect(self._page_shown)
 
-    def current_figure(self) -> Figure:
-        return (self.carbon_page, self.hardness_page, self.cycle_page, self.tradeoff_page)[self.currentIndex()].figure
-
     def save_current(self, path: str, dpi: int = 200) -> None:
         page = (self.carbon_page, self.hardness_page, self.cycle_page, self.tradeoff_page)[self.currentIndex()]
         if isinstance(page, _PlotPage):
