@@ -9,7 +9,6 @@
 
 from __future__ import annotations
 
-
 from .austenite import saturation_carbon
 
 # Mass-transfer coefficient for endothermic-gas carburizing at 900–950 °C. Published values
