@@ -448,15 +448,16 @@ class LayerAdvice:
 
 
 def compound_layer_advice(setup: NitridingSetup, result: NitridingResult, window: tuple[float, float],
-                          second_kn: float | None = None) -> LayerAdvice:
-    """Advice on the compound layer of ``result`` against ``window`` [m]; raises :class:`InputError`
-    (field ``compound layer``) if no K_N in range centres the layer in that time."""
+                          second_kn: float | None = None, with_schedule: bool = True) -> LayerAdvice:
+    """Advice on the compound layer of ``result`` against ``window`` [m] (a two-stage schedule only if
+    ``with_schedule``: it costs a search); raises :class:`InputError` (field ``compound layer``) if no
+    K_N in range centres the layer in that time."""
     kn = potential_for_compound_layer(setup, result.time, window)
     layer = result.compound_layer
     if window[0] <= layer <= window[1]:
         return LayerAdvice(kn, None, None)
     try:
-        two = two_stage_schedule(setup, result.time, window, second_kn)
+        two = two_stage_schedule(setup, result.time, window, second_kn) if with_schedule else None
     except InputError:
         two = None
     message = (f"The compound layer ({layer * 1e6:.1f} µm) is outside {window[0] * 1e6:g}–{window[1] * 1e6:g} µm at "

@@ -578,7 +578,8 @@ def evaluate_nitriding(plan: "Plan") -> NitridingOutcome:
     warnings = list(results[1].warnings)
     warnings += _curvature_warnings(plan, high)
     try:
-        advice = compound_layer_advice(setup, results[1], window, plan.kn_second)
+        # with two stages ticked, the plan's own schedule replaces the advice's
+        advice = compound_layer_advice(setup, results[1], window, plan.kn_second, with_schedule=not plan.two_stage)
         kn_window = advice.kn_for_window
     except InputError as error:
         advice, kn_window = None, None
