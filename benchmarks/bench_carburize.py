@@ -37,7 +37,7 @@ import time
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
 
 import casedepth  # noqa: E402
-from casedepth.solver import Accuracy  # noqa: E402
+from casedepth.numerics.solver import Accuracy  # noqa: E402
 from peer_mol import MolPeer, domain_depth  # noqa: E402
 
 SOAK = 8 * 3600.0  # s, forward soak
@@ -118,8 +118,8 @@ def main() -> None:
     print(f"peer work: forward {f.steps} steps, {f.nfev} f-evals, {f.njev} Jacobians, {f.nlu} LUs; "
           f"inverse {i.steps} steps, {i.nfev} f-evals, {i.njev} Jacobians, {i.nlu} LUs")
     cf, ci = casedepth.carburize(setup, SOAK), casedepth.soak_time_for_case_depth(setup, TARGET)
-    print(f"casedepth work: {len(cf.profile.depth)} nodes, forward {len(cf.history_time)} steps, "
-          f"inverse {len(ci.history_time)} steps plus the bracketed re-take of the last one\n")
+    print(f"casedepth work: {len(cf.profile.depth)} nodes, forward {len(cf.history.times)} steps, "
+          f"inverse {len(ci.history.times)} steps plus the bracketed re-take of the last one\n")
 
     print("neighbouring cases, error % against casedepth refined(4), casedepth default | peer:")
     for soak, target in NEIGHBOURS:

@@ -5,7 +5,7 @@ diffuse potential 0.80, effective case depth 1.2 mm at 0.40 %C and final surface
 (meaning 0.75–0.85, aimed at the middle of what the two potentials can reach), isothermal, no
 ramps; then the same with the demo shop's heat-up, drop and equalize counted; then a single soak at
 potential 1.00 for 0.8, 1.0 and 1.2 mm with those shop stages counted (what the window solves in its
-one-soak mode). Median of 15 runs after one warm-up. Goal (issue: whole furnace cycles): ≤ 150 ms on a
+one-soak mode); then a new plan through the whole evaluation path (what every edit costs). Median of 15 runs after one warm-up. Goal (issue: whole furnace cycles): ≤ 150 ms on a
 2-core machine.
 
 How to run, from the repository root::
@@ -19,8 +19,9 @@ import statistics
 import time
 
 import casedepth
-from casedepth.quote import ShopDefaults
-from casedepth.recipe import plan_boost_diffuse, plan_single_soak
+from casedepth.carburizing.cycle import shop_stages
+from casedepth.carburizing.planners import plan_boost_diffuse, plan_single_soak
+from casedepth.shop.quote import ShopDefaults
 
 
 def timed(run, repeats: int = 15) -> tuple[float, object]:
@@ -37,10 +38,12 @@ def main() -> None:
     setup = casedepth.setup("8620", "925C", 0.80)
     shop = ShopDefaults()
     T = setup.temperature
+    boost_before, after = shop_stages(shop, T, 1.15)
+    soak_before, _ = shop_stages(shop, T, 1.0)
     cases = {
         "isothermal boost/diffuse": lambda: plan_boost_diffuse(setup, 1.2e-3, 0.80, 1.15, 0.80),
         "with heat-up, drop, equalize": lambda: plan_boost_diffuse(
-            setup, 1.2e-3, 0.80, 1.15, 0.80, before=tuple(shop.before(T, 1.15)), after=tuple(shop.after(T))),
+            setup, 1.2e-3, 0.80, 1.15, 0.80, before=boost_before, after=after),
     }
     for name, run in cases.items():
         seconds, plan = timed(run)
@@ -48,11 +51,14 @@ def main() -> None:
               f"{plan.diffuse_time / 3600:.3f} h, ECD {plan.cycle.case_depth * 1e3:.4f} mm, surface "
               f"{plan.cycle.surface_carbon:.3f} %C (aim {plan.surface_aim:.3f})   goal ≤ 150 ms")
     soak_setup = casedepth.setup("8620", "925C", 1.00)
-    seconds, plan = timed(lambda: plan_single_soak(soak_setup, [0.8e-3, 1.0e-3, 1.2e-3], tuple(shop.before(T, 1.0)),
-                                                   tuple(shop.after(T))))
+    seconds, plan = timed(lambda: plan_single_soak(soak_setup, [0.8e-3, 1.0e-3, 1.2e-3], soak_before, after))
     print(f"{'single soak, shop stages':30s} median {seconds * 1e3:6.1f} ms   soaks "
           f"{', '.join(f'{t / 3600:.3f}' for t in plan.soak_times)} h for 0.8, 1.0, 1.2 mm; ECD "
           f"{plan.cycle.case_depth * 1e3:.4f} mm")
+    new_plan = casedepth.Plan()
+    seconds, outcome = timed(lambda: casedepth.evaluate(new_plan))
+    print(f"{'a new plan, evaluated':30s} median {seconds * 1e3:6.1f} ms   soak {outcome.soak_time / 3600:.3f} h "
+          f"(the window's default: one soak, shop stages counted; the whole evaluation path)")
 
 
 if __name__ == "__main__":

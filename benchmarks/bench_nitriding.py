@@ -15,9 +15,9 @@ from __future__ import annotations
 import statistics
 import time
 
-from casedepth.compound_layer import parabolic_constants
+from casedepth.nitriding.layer import parabolic_constants
 from casedepth.nitriding import NitridingSetup, nitriding_time, potential_for_compound_layer, two_stage_schedule
-from casedepth.steels import find
+from casedepth.models.steels import find
 
 
 def median_ms(run) -> tuple[float, object]:

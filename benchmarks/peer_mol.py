@@ -23,7 +23,7 @@ import numpy as np
 import scipy.sparse as sp
 from scipy.integrate import solve_ivp
 
-from casedepth.diffusivity import R_CAL
+from casedepth.constants import GAS_CONSTANT_CAL as R_CAL
 
 
 def graded_grid(depth: float, n_cells: int, growth: float) -> np.ndarray:

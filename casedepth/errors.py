@@ -1,19 +1,26 @@
 """Exceptions raised by the casedepth library.
 
-Every input problem is an :class:`InputError` that names the field and the allowed
-range, so the command line and the window can show it as one plain sentence.
+Every problem the library reports is a :class:`CasedepthError`. An input problem is an
+:class:`InputError` that names the field (the key of the parameter table, :mod:`casedepth.parameters`,
+where the input is a plan's) and the allowed range, so the command line can name the flag, the
+window can mark the widget and a plan file can name its key.
 """
 
 from __future__ import annotations
 
 
-class InputError(ValueError):
+class CasedepthError(Exception):
+    """Base of every error the library raises on purpose."""
+
+
+class InputError(CasedepthError, ValueError):
     """A value given by the user is outside what the models accept.
 
     Parameters
     ----------
     field : str
-        The name of the input as the user knows it (``"temperature"``, ``"--target"``).
+        The input at fault: a parameter key (``"temperature"``, ``"case_max"``) or, for inputs
+        that are not a plan's (a soak given to a function), the argument's name.
     message : str
         What is wrong, including the allowed range.
     """
@@ -23,10 +30,15 @@ class InputError(ValueError):
         self.field = field
         self.message = message
 
+    def renamed(self, field: str) -> "InputError":
+        """The same error against another field (same class, same message)."""
+        return type(self)(field, self.message)
+
 
 class NotReachableError(InputError):
     """The target cannot be reached with the given furnace step (e.g. a threshold above the surface carbon)."""
 
 
-class SolverError(ArithmeticError):
-    """The numerical solver could not continue (a step that stays unstable however short it is)."""
+class SolverError(CasedepthError, ArithmeticError):
+    """The numerical solver could not continue (a step that stays unstable however short it is, an
+    iteration that does not converge)."""

@@ -9,7 +9,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from .units import ZERO_CELSIUS
+from .constants import ZERO_CELSIUS
 
 #: Lowest furnace temperature at which a flammable atmosphere is admitted without a purge with
 #: inert gas, 760 °C / 1400 °F (NFPA 86 practice; edition-dependent).
@@ -79,3 +79,10 @@ def cautions(temperature: float | None = None, equilibrium_carbon: float | None 
             "A carbon potential above saturation deposits soot; burning it out is an exothermic operation that "
             "needs controlled air admission under the furnace's burn-out procedure.", True))
     return pressing + standing
+
+
+def caution_line(items: list[Caution]) -> str:
+    """The cautions in one line, for the command line's text output."""
+    return ("Caution: " + "; ".join(c.title.lower() for c in items)
+            + ". Local codes (such as NFPA 86) and licensed practice govern.")
+

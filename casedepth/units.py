@@ -10,9 +10,8 @@ import math
 import re
 from dataclasses import dataclass
 
+from .constants import ZERO_CELSIUS
 from .errors import InputError
-
-ZERO_CELSIUS = 273.15
 
 _NUMBER = r"[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?"
 
@@ -99,7 +98,7 @@ def parse_time(text: str | float, field: str = "time", default_unit: str = "h") 
 
 def parse_velocity(text: str | float, field: str = "beta", default_unit: str = "cm/s") -> float:
     """Read a mass-transfer coefficient such as ``1.5e-5cm/s`` or ``inf``; returns m/s (``math.inf`` for inf)."""
-    if isinstance(text, str) and text.strip().lower() in ("inf", "infinite", "infinity"):
+    if isinstance(text, str) and re.fullmatch(r"\s*(inf|infinite|infinity)\s*([a-zµ/]*)\s*", text.lower()):
         return math.inf
     return _parse_scaled(text, field, VELOCITY_UNITS, default_unit, "velocity", "1.5e-5cm/s or inf")
 
@@ -165,6 +164,16 @@ def fahrenheit(kelvin: float) -> float:
     return (kelvin - ZERO_CELSIUS) * 9.0 / 5.0 + 32.0
 
 
+def both_temperatures(kelvin: float) -> str:
+    """A temperature for messages in both systems: ``1198.15`` -> ``"925 °C (1697 °F)"``."""
+    return f"{celsius(kelvin):.0f} °C ({fahrenheit(kelvin):.0f} °F)"
+
+
+def temperature_range(low: float, high: float) -> str:
+    """A range of temperatures [K] for messages in both systems: ``"800–1100 °C (1472–2012 °F)"``."""
+    return f"{celsius(low):.0f}–{celsius(high):.0f} °C ({fahrenheit(low):.0f}–{fahrenheit(high):.0f} °F)"
+
+
 def both_lengths(metres: float) -> str:
     """A length for messages in both systems: ``0.0012`` -> ``"1.2 mm (0.0472 in)"``."""
     return f"{metres * 1e3:g} mm ({metres / 0.0254:.3g} in)"
@@ -223,3 +232,27 @@ class DisplayUnits:
 
     def format_temperature(self, kelvin: float) -> str:
         return f"{self.temperature(kelvin):.0f} {self.temperature_unit}"
+
+    def read(self, quantity: str, text: str, field: str) -> float:
+        """A value a person typed, with any unit the command line takes; a bare number is in this system's
+        unit (°C or °F, mm or in; µm for ``thin length``). Returns SI."""
+        if quantity == "temperature":
+            return parse_temperature(text, field, default_unit="f" if self.imperial else "c")
+        if quantity == "length":
+            return parse_length(text, field, default_unit="in" if self.imperial else "mm")
+        if quantity == "thin length":
+            return parse_length(text, field, default_unit="um")
+        raise ValueError(f"no unit system for {quantity!r}")
+
+    def shown(self, quantity: str, si: float) -> float:
+        """An SI value in this system's unit for ``quantity`` (see :meth:`read`)."""
+        if quantity == "temperature":
+            return self.temperature(si)
+        if quantity == "length":
+            return self.length(si)
+        if quantity == "thin length":
+            return si * 1e6
+        raise ValueError(f"no unit system for {quantity!r}")
+
+    def unit(self, quantity: str) -> str:
+        return {"temperature": self.temperature_unit, "length": self.length_unit, "thin length": "µm"}[quantity]

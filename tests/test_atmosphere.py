@@ -12,8 +12,8 @@ import math
 
 import pytest
 
-from casedepth import atmosphere as A
-from casedepth.austenite import saturation_carbon
+from casedepth.models import atmosphere as A
+from casedepth.models.austenite import saturation_carbon
 from casedepth.cli import main
 from casedepth.errors import InputError
 from casedepth.plan import Plan, evaluate
@@ -56,10 +56,10 @@ def test_round_trip_and_directions():
 
 
 @pytest.mark.parametrize("call,field", [
-    (lambda: A.carbon_potential_from_probe(500.0, 1198.15), "probe"),
-    (lambda: A.carbon_potential_from_probe(1150.0, 1198.15, 0.9), "CO"),
+    (lambda: A.carbon_potential_from_probe(500.0, 1198.15), "mv"),
+    (lambda: A.carbon_potential_from_probe(1150.0, 1198.15, 0.9), "carrier_co"),
     (lambda: A.probe_voltage_for_potential(1.0, 600 + K), "temperature"),
-    (lambda: A.probe_voltage_for_potential(3.0, 1198.15), "carbon potential"),
+    (lambda: A.probe_voltage_for_potential(3.0, 1198.15), "carbon_potential"),
 ])
 def test_bad_input_names_the_field(call, field):
     with pytest.raises(InputError) as error:

@@ -12,10 +12,10 @@ import math
 import pytest
 from scipy.optimize import brentq
 
-from casedepth import compound_layer as CL
-from casedepth import iron_nitrogen as fen
+from casedepth.nitriding import layer as CL
+from casedepth.models import iron_nitrogen as fen
 from casedepth import nitriding as N
-from casedepth.steels import Steel, find
+from casedepth.models.steels import Steel, find
 
 K = 273.15
 T = 843.0  # K, 570 °C: the temperature of Somers & Mittemeijer (1995)

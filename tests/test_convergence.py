@@ -11,7 +11,7 @@ import dataclasses
 import pytest
 
 import casedepth
-from casedepth.solver import Accuracy
+from casedepth.numerics.solver import Accuracy
 
 CASES = [
     ("plate, Tibbetts, finite beta", {}, "tibbetts", 1.5e-7),
@@ -24,7 +24,7 @@ CASES = [
 
 @pytest.mark.parametrize("name,shape,model,beta", CASES, ids=[c[0] for c in CASES])
 def test_forward_depth_converged(name, shape, model, beta):
-    setup = casedepth.setup("8620", "925C", 1.0, diffusivity=model, beta=beta, **shape)
+    setup = casedepth.setup("8620", "925C", 1.0, diffusivity=model, beta=f"{beta}m/s", **shape)
     coarse = casedepth.carburize(setup, 6 * 3600.0).case_depth
     fine = casedepth.carburize(dataclasses.replace(setup, accuracy=Accuracy().refined(4)), 6 * 3600.0).case_depth
     assert coarse == pytest.approx(fine, rel=1e-3)

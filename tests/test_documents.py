@@ -10,10 +10,10 @@ import pytest
 
 import casedepth
 from casedepth.cli import main
-from casedepth.documents import case_depth_chart, nitriding_chart, process_sheet, save
+from casedepth.report.documents import case_depth_chart, nitriding_chart, process_sheet, save
 from casedepth.nitriding import NitridingSetup, nitriding_time
-from casedepth.steels import find
-from casedepth.plan import Plan, evaluate
+from casedepth.models.steels import find
+from casedepth.plan import Plan, evaluate, load
 
 K = 273.15
 EXAMPLES = Path(__file__).resolve().parent.parent / "resources" / "examples"
@@ -96,7 +96,7 @@ def test_nitriding_chart_over_potentials_and_on_the_command_line(tmp_path, capsy
                                   "piston-rod-nitrided.cdplan.json"])
 @pytest.mark.parametrize("paper,units", [("a4", "metric"), ("letter", "imperial")])
 def test_process_sheets(name, paper, units, tmp_path):
-    plan = Plan.load(EXAMPLES / name)
+    plan = load(EXAMPLES / name)
     document = process_sheet(plan, evaluate(plan.values()), paper=paper, units=units, shop="Demo shop (invented)")
     assert all(page_is_not_blank(page) for page in document.pages)
     texts = [t.get_text() for page in document.pages for t in page.texts]

@@ -14,7 +14,7 @@ import math
 import pytest
 
 import casedepth
-from casedepth.austenite import saturation_carbon
+from casedepth.models.austenite import saturation_carbon
 from casedepth.units import parse_temperature
 
 

@@ -5,8 +5,8 @@ import math
 import pytest
 
 import casedepth
-from casedepth import steels
-from casedepth.austenite import Andrews_1965_Ac3
+from casedepth.models import steels
+from casedepth.models.austenite import Andrews_1965_Ac3
 from casedepth.errors import InputError
 from casedepth.units import format_duration, parse_length, parse_temperature, parse_threshold, parse_time, parse_velocity
 
@@ -44,6 +44,8 @@ def test_thresholds():
     (lambda: parse_time("6 days"), "time"),
     (lambda: parse_velocity("fast"), "beta"),
     (lambda: parse_threshold("50 Brinell"), "threshold"),
+    (lambda: casedepth.plan(steel="8620", temperature="925C", potential="lots"), "potential"),
+    (lambda: casedepth.plan(steel="8620", temperature="1700 furlongs"), "temperature"),
 ])
 def test_unreadable_values(call, field):
     with pytest.raises(InputError) as error:
@@ -75,18 +77,18 @@ def test_custom_compositions():
 @pytest.mark.parametrize("kwargs,field,words", [
     ({"temperature": "700C"}, "temperature", "below the Ac3"),
     ({"temperature": "1200C"}, "temperature", "798–1100 °C"),
-    ({"potential": 3.0}, "carbon potential", "0.05–2"),
-    ({"potential": "nan"}, "carbon potential", "finite"),
+    ({"potential": 3.0}, "potential", "0.05–2"),
+    ({"potential": "nan"}, "potential", "finite"),
     ({"beta": "1e-12"}, "beta", "cm/s"),
-    ({"at": "0.15%C"}, "threshold", "core carbon"),
-    ({"at": "40HRC"}, "threshold", "core carbon"),
-    ({"at": "70HRC"}, "threshold", "13.5–60.0 HRC"),
-    ({"at": "1000HV"}, "hardness", "238–940 HV"),
+    ({"at": "0.15%C"}, "at", "core carbon"),
+    ({"at": "40HRC"}, "at", "core carbon"),
+    ({"at": "70HRC"}, "at", "13.5–60.0 HRC"),
+    ({"at": "1000HV"}, "at", "238–940 HV"),
     ({"geometry": "cylinder"}, "diameter", "needs its diameter"),
     ({"geometry": "cylinder", "diameter": "0.01mm"}, "diameter", "0.1–2000 mm"),
     ({"geometry": "cube"}, "geometry", "plate, cylinder, bore, sphere"),
-    ({"diffusivity": "agren", "d0": 1e-5}, "D0", "arrhenius"),
-    ({"hardness_relation": "annealed"}, "hardness relation", "tempered"),
+    ({"diffusivity": "agren", "d0": 1e-5}, "d0", "arrhenius"),
+    ({"hardness_relation": "annealed"}, "hardness_relation", "tempered"),
 ])
 def test_setup_refusals(kwargs, field, words):
     args = {"steel": "8620", "temperature": "925C", "potential": 1.0, **kwargs}

@@ -14,14 +14,14 @@ import pytest
 
 from casedepth.cli import main
 from casedepth.errors import InputError
-from casedepth.loads import plan_load
-from casedepth.plan import Plan, evaluate
+from casedepth.shop.loads import plan_load
+from casedepth.plan import Plan, evaluate, load, save
 
 EXAMPLES = Path(__file__).resolve().parent.parent / "resources" / "examples"
 
 
 def pinion(**changes) -> Plan:
-    plan = Plan.load(EXAMPLES / "pinion-shaft.cdplan.json")
+    plan = load(EXAMPLES / "pinion-shaft.cdplan.json")
     if "steel" in changes:
         plan.choose_steel(changes.pop("steel"))
     plan.update(**changes)
@@ -31,12 +31,12 @@ def pinion(**changes) -> Plan:
 def test_two_parts_share_a_soak_inside_both_windows():
     a = pinion()
     b = pinion(steel="20MnCr5", title="Idler pin IP-4 (demo)", case_min=0.9e-3, case_max=1.3e-3)
-    load = plan_load([a, b])
-    lo, hi = load.common
-    assert lo == pytest.approx(max(p.soak_range[0] for p in load.parts))
-    assert hi == pytest.approx(min(p.soak_range[1] for p in load.parts))
-    assert lo <= load.soak <= hi
-    assert all(part.inside for part in load.parts) and not load.warnings
+    loaded = plan_load([a, b])
+    lo, hi = loaded.common
+    assert lo == pytest.approx(max(p.soak_range[0] for p in loaded.parts))
+    assert hi == pytest.approx(min(p.soak_range[1] for p in loaded.parts))
+    assert lo <= loaded.soak <= hi
+    assert all(part.inside for part in loaded.parts) and not loaded.warnings
 
 
 def test_a_parts_range_ends_give_its_window_ends_when_rerun():
@@ -48,17 +48,17 @@ def test_a_parts_range_ends_give_its_window_ends_when_rerun():
 
 
 def test_windows_that_do_not_overlap_split_the_load():
-    load = plan_load([pinion(), pinion(title="Spacer SP-2 (demo)", case_min=0.5e-3, case_max=0.7e-3)])
-    assert load.common is None and load.soak is None
-    assert any("split the load" in w for w in load.warnings)
+    loaded = plan_load([pinion(), pinion(title="Spacer SP-2 (demo)", case_min=0.5e-3, case_max=0.7e-3)])
+    assert loaded.common is None and loaded.soak is None
+    assert any("split the load" in w for w in loaded.warnings)
 
 
 def test_nitrided_parts_share_a_load():
-    rod = Plan.load(EXAMPLES / "piston-rod-nitrided.cdplan.json")
-    pin = Plan.load(EXAMPLES / "piston-rod-nitrided.cdplan.json")
+    rod = load(EXAMPLES / "piston-rod-nitrided.cdplan.json")
+    pin = load(EXAMPLES / "piston-rod-nitrided.cdplan.json")
     pin.update(title="Guide pin GP-7 (demo)", case_min=0.35e-3, case_max=0.6e-3)
-    load = plan_load([rod, pin])
-    assert load.treatment == "nitriding" and all(part.inside for part in load.parts)
+    loaded = plan_load([rod, pin])
+    assert loaded.treatment == "nitriding" and all(part.inside for part in loaded.parts)
 
 
 @pytest.mark.parametrize("other", [
@@ -71,11 +71,11 @@ def test_parts_must_share_the_furnace_step(other):
 
 
 def test_load_command(tmp_path, capsys):
-    pinion().save(tmp_path / "a.cdplan.json")
-    pinion(steel="20MnCr5", title="Idler pin IP-4 (demo)", case_min=0.9e-3, case_max=1.3e-3).save(tmp_path / "b.cdplan.json")
+    save(pinion(), tmp_path / "a.cdplan.json")
+    save(pinion(steel="20MnCr5", title="Idler pin IP-4 (demo)", case_min=0.9e-3, case_max=1.3e-3), tmp_path / "b.cdplan.json")
     assert main(["load", str(tmp_path / "a.cdplan.json"), str(tmp_path / "b.cdplan.json"), "--json"]) == 0
     data = json.loads(capsys.readouterr().out)
     assert data["soak_time_h"] is not None and all(p["inside"] for p in data["parts"])
-    pinion(temperature=950 + 273.15).save(tmp_path / "c.cdplan.json")
+    save(pinion(temperature=950 + 273.15), tmp_path / "c.cdplan.json")
     assert main(["load", str(tmp_path / "a.cdplan.json"), str(tmp_path / "c.cdplan.json")]) == 2
     assert "PLAN" in capsys.readouterr().err

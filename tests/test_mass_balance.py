@@ -10,7 +10,7 @@ import math
 import pytest
 
 import casedepth
-from casedepth.solver import CarbonSolver
+from casedepth.numerics.solver import CarbonSolver
 
 SHAPES = [
     {}, {"thickness": "2mm"}, {"geometry": "cylinder", "diameter": "6mm"},
@@ -22,7 +22,7 @@ SHAPES = [
 @pytest.mark.parametrize("beta", [1.5e-7, math.inf], ids=["beta", "held"])
 @pytest.mark.parametrize("model", ["tibbetts", "agren"])
 def test_uptake_equals_integrated_surface_flux(shape, beta, model):
-    setup = casedepth.setup("8620", "940C", 1.1, beta=beta, diffusivity=model, **shape)
+    setup = casedepth.setup("8620", "940C", 1.1, beta=f"{beta}m/s", diffusivity=model, **shape)
     solver = setup.solver(6 * 3600.0)
     solver.advance(6 * 3600.0, setup.surface_condition)
     uptake = solver.carbon_uptake()

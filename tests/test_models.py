@@ -9,11 +9,11 @@ import math
 import numpy as np
 import pytest
 
-from casedepth import hardness
-from casedepth.austenite import Andrews_1965_Ac3, saturation_carbon
-from casedepth.diffusivity import Agren_1986, Arrhenius, Diffusivity, Tibbetts_1980
+from casedepth.models import hardness
+from casedepth.models.austenite import Andrews_1965_Ac3, saturation_carbon
+from casedepth.models.diffusivity import Agren_1986, Arrhenius, Diffusivity, Tibbetts_1980
 from casedepth.errors import InputError
-from casedepth.surface import Gunnarson_alloy_factor
+from casedepth.models.surface import Gunnarson_alloy_factor
 from casedepth.units import Threshold
 
 K = 273.15
@@ -145,7 +145,7 @@ def test_tibbetts_fast_path_is_the_published_form():
     """The solver's one-exponential path for Tibbetts (1980) equals the function as published (1e-12)."""
     import numpy as np
 
-    from casedepth.diffusivity import Diffusivity, Tibbetts_1980
+    from casedepth.models.diffusivity import Diffusivity, Tibbetts_1980
 
     c = np.linspace(0.1, 1.3, 13)
     for T in (1123.15, 1198.15, 1273.15):

@@ -16,7 +16,8 @@ from hypothesis import strategies as st
 from casedepth import nitriding as N
 from casedepth.cli import main
 from casedepth.errors import InputError
-from casedepth.steels import Steel, find
+from casedepth.models.steels import Steel, find
+from casedepth.plan import evaluate, load
 
 K = 273.15
 
@@ -189,7 +190,8 @@ def test_calibration_multiplier_scales_the_front():
     (["--temperature", "520C", "--exhaust", "NH3=40", "--target", "0.4mm"], "--exhaust"),
     (["--temperature", "520C", "--exhaust", "NH3=80,H2=45", "--target", "0.4mm"], "--exhaust"),
     (["--temperature", "520C", "--exhaust", "CO=20,H2=45", "--target", "0.4mm"], "--exhaust"),
-    (["--temperature", "520C", "--target", "0.4mm"], "--kn"),
+    (["--temperature", "520C", "--kn", "0.01", "--target", "0.4mm"], "--kn"),
+    (["--temperature", "520C", "--kn", "3", "--target", "0.4mm", "--second-kn", "0.5"], "--second-kn"),
     (["--temperature", "520C", "--kn", "3", "--target", "5mm"], "--target"),
     (["--temperature", "520C", "--kn", "3", "--target", "0.4mm", "--compound", "ten"], "--compound"),
     (["--temperature", "520C", "--kn", "3", "--target", "0.4mm", "--core-hardness", "5000"], "--core-hardness"),
@@ -209,8 +211,13 @@ def test_cli_runs_a_saved_nitriding_plan(capsys):
     data = json.loads(capsys.readouterr().out)
     low, _, high = data["target_depth_mm"]
     assert low <= data["nitrided_depth_mm"] <= high
-    assert 5 <= data["compound_layer_um"] <= 10
     assert data["cautions"][0] == "Ammonia is toxic"
+    # a schema-3 plan keeps the first release's layer law (11.8 µm, as when it was written) and is offered the newer
+    assert data["layer_model"] == "rate-law-2026" and data["compound_layer_um"] == pytest.approx(11.82, abs=0.01)
+    assert [offer["parameter"] for offer in data["offers"]] == ["layer_model"]
+    newer = load(plan)
+    newer.accept(newer.offers()[0])
+    assert 5 <= evaluate(newer).aim.compound_layer * 1e6 <= 10
 
 
 def test_curvature_is_flagged_on_thin_parts():
@@ -231,7 +238,7 @@ def test_curvature_is_flagged_on_thin_parts():
 def test_two_stage_plan_lands_depth_and_layer(tmp_path, capsys):
     """Two-stage nitriding in a plan: the aim depth and the middle of the layer window both hold at the end; the
     saved plan runs the same on the command line; the layer part-way is the one the staged model gives."""
-    from casedepth.plan import Plan, evaluate
+    from casedepth.plan import Plan, evaluate, save
 
     p = Plan(treatment="nitriding", case_min=0.3e-3, case_max=0.5e-3, temperature=793.15, kn=8.0,
              compound_min=2e-6, compound_max=5e-6, two_stage=True)
@@ -245,13 +252,13 @@ def test_two_stage_plan_lands_depth_and_layer(tmp_path, capsys):
     assert outcome.at(two.first_time).layer.epsilon > 0  # ε from the first stage, gone by the end
     assert outcome.aim.layer.epsilon == 0
     path = tmp_path / "two.cdplan.json"
-    p.save(path)
+    save(p, path)
     assert main(["run", str(path), "--json"]) == 0
     data = json.loads(capsys.readouterr().out)
     assert [s["kn"] for s in data["stages"]] == pytest.approx([8.0, two.second_kn])
     assert data["soak_time_h"] == pytest.approx(outcome.aim.time / 3600, rel=1e-9)
     # the quote: load, purge, heat-up, both nitriding stages, cool-down, purge, at the shop's rate
-    from casedepth.quote import ShopDefaults
+    from casedepth.shop.quote import ShopDefaults
 
     shop = ShopDefaults()
     hours = [line["hours"] for line in data["quote"]["stages"]]

@@ -1,16 +1,21 @@
-"""The plan state object: edits, undo/redo, files, evaluation, cautions (no Qt)."""
+"""The plan state object and its files: edits, undo/redo, strict reading, old files keeping their numbers (no Qt)."""
 
 import json
 import math
+import os
+import stat
 from pathlib import Path
 
 import pytest
 
 from casedepth import safety
 from casedepth.errors import InputError
-from casedepth.plan import FIELDS, SCHEMA_VERSION, Plan, PlanFileError, evaluate
+from casedepth.parameters import PARAMETERS
+from casedepth.plan import SCHEMA_VERSION, Plan, PlanFileError, evaluate, from_dict, load, save, to_dict
+from casedepth.treatments import TREATMENTS
 
 PLANS = Path(__file__).parent / "data" / "plans"
+OLD_FILES = sorted(PLANS.glob("schema-*.cdplan.json"))
 
 
 def changed_plan() -> Plan:
@@ -24,14 +29,14 @@ def changed_plan() -> Plan:
                 hardness_relation="as-quenched", composition={"C": 0.19, "Mn": 1.2, "Cr": 1.1},
                 process="stages", surface_min=0.7, surface_max=0.9, boost_potential=1.1, diffuse_potential=0.75,
                 stages=[{"kind": "soak", "duration_h": 5.0, "temperature_c": 950.0, "carbon_potential_pct": 1.0}],
-                shop={"furnace_rate_per_h": 80.0, "parts_per_load": 50}, treatment="nitriding", kn=2.0,
-                compound_min=4e-6, compound_max=8e-6, core_hardness=310.0, surface_hardness=800.0,
-                n_multiplier=0.5, two_stage=True, kn_second=0.4)
+                shop={"furnace_rate_per_h": 80.0, "parts_per_load": 50}, count_shop_stages=False, treatment="nitriding",
+                kn=2.0, compound_min=4e-6, compound_max=8e-6, core_hardness=310.0, surface_hardness=800.0,
+                n_multiplier=0.5, two_stage=True, kn_second=0.4, layer_model="rate-law-2026")
     return plan
 
 
 def test_every_field_is_changed_by_the_fixture():
-    assert all(changed_plan().values()[name] != Plan().values()[name] for name in FIELDS)
+    assert all(changed_plan().values()[key] != Plan().values()[key] for key in PARAMETERS)
 
 
 def test_undo_redo_and_listeners():
@@ -60,84 +65,218 @@ def test_typing_coalesces_into_one_edit():
     assert not plan.can_undo
 
 
+def test_values_are_typed_and_choices_checked():
+    """A plan holds the types its table rows say: a misspelt choice or a text for a number is refused, naming the key."""
+    plan = Plan()
+    for key, value in (("threshold_kind", "hrc "), ("temperature", "hot"), ("alloy_factor", "yes"),
+                       ("diffusivity", "magic"), ("stages", [{"kind": "bake", "duration_h": 1.0}]),
+                       ("shop", {"furnace_rate": 9.0}), ("composition", {"C": 0.2, "Qq": 1.0})):
+        with pytest.raises(InputError) as error:
+            plan.set(key, value)
+        assert error.value.field == key
+    plan.set("case_min", 1)  # an int is a number
+    assert isinstance(plan.case_min, float)
+
+
+def test_picking_a_value_brings_its_companions():
+    """One edit: a threshold kind brings its usual value (ISO 18203 550 HV; SAE J423 50 HRC), a shaft a diameter,
+    a treatment the values its table row starts a plan from; undo takes all of it back."""
+    plan = Plan()
+    plan.set("threshold_kind", "HV")
+    assert plan.threshold_value == 550.0
+    plan.set("shape", "cylinder")
+    assert plan.size == pytest.approx(0.03)
+    plan.set("treatment", "nitriding")
+    assert (plan.steel, plan.temperature, plan.case_max) == ("4140", pytest.approx(793.15), pytest.approx(0.5e-3))
+    plan.undo()
+    assert (plan.treatment, plan.steel) == ("carburizing", "8620")
+    plan.update(threshold_kind="HRC", threshold_value=52.0)  # given together, the value given wins
+    assert plan.threshold_value == 52.0
+
+
+@pytest.mark.parametrize("treatment", list(TREATMENTS))
+def test_a_new_plan_of_a_treatment_starts_where_the_window_starts(treatment):
+    """Plan(treatment=…) made in Python gives the same values as switching a new plan to it (the window's way),
+    and those values evaluate."""
+    made = Plan(treatment)
+    switched = Plan()
+    switched.set("treatment", treatment)
+    assert made.values() == switched.values()
+    assert evaluate(made).depth > 0
+
+
 def test_save_and_open_round_trip_every_field(tmp_path):
     plan = changed_plan()
     path = tmp_path / "shaft.cdplan.json"
-    plan.save(path)
+    save(plan, path)
     assert not plan.modified
-    again = Plan.load(path)
-    for name in FIELDS:
-        a, b = plan.values()[name], again.values()[name]
-        assert b == (pytest.approx(a, rel=1e-12) if isinstance(a, float) else a), name
-    assert json.loads(path.read_text())["schema_version"] == SCHEMA_VERSION
+    again = load(path)
+    for key in PARAMETERS:
+        a, b = plan.values()[key], again.values()[key]
+        assert b == (pytest.approx(a, rel=1e-12) if isinstance(a, float) else a), key
+    data = json.loads(path.read_text())
+    assert data["schema_version"] == SCHEMA_VERSION
+    assert {row.file_key for row in PARAMETERS.values()} | {"kind", "schema_version"} == set(data)
 
 
-@pytest.mark.parametrize("path", sorted(PLANS.glob("*.json")), ids=lambda p: p.name)
-def test_files_of_every_schema_version_still_open(path):
-    """One example file per schema version ever released is kept in tests/data/plans."""
-    plan = Plan.load(path)
-    outcome = evaluate(plan.values())
-    if outcome.process == "nitriding":
-        assert outcome.aim.nitrided_depth > 0 and outcome.aim.time > 0
-    else:
-        assert outcome.case_depth > 0 and outcome.quote.total_h > 0
+@pytest.mark.parametrize("path", OLD_FILES, ids=lambda p: p.name)
+def test_old_files_give_the_numbers_they_gave_when_written(path):
+    """Each file in tests/data/plans was evaluated by the casedepth of its own schema (commit named beside it, in
+    schema-N.expected.json); opened now, it gives the same numbers within 1e-3 (the solver's stated accuracy,
+    0.1 %). A regression test against the program's own earlier output, not validation."""
+    expected = json.loads(path.with_name(path.name.replace(".cdplan.json", ".expected.json")).read_text())["numbers"]
+    outcome = evaluate(load(path))
+    got = outcome.to_dict()
+    assert got["soak_time_h"] == pytest.approx(expected["soak_time_h"], rel=1e-3)
+    assert got["case_depth_mm"] == pytest.approx(expected["case_depth_mm"], rel=1e-3)
+    for key in ("window_soak_time_h", "surface_carbon_pct", "boost_time_h", "diffuse_time_h", "compound_layer_um"):
+        if key in expected:
+            assert got[key] == pytest.approx(expected[key], rel=1e-3), key
+    if "stages" in expected:
+        flat = [number for stage in got["stages"] for number in (stage["time_h"], stage["kn"])]
+        assert flat == pytest.approx([number for stage in expected["stages"] for number in stage], rel=1e-3)
 
 
-def test_saving_never_loses_the_old_file(tmp_path, monkeypatch):
+def test_migration_writes_the_models_and_policies_explicitly_and_offers_the_newer_ones():
+    """Schema 1–3 one-soak plans counted the soak alone; a schema-3 nitriding plan grew its layer by the first
+    release's rate law. Opened now they say so in their values (and in the file they save to), and the newer
+    choice is offered, not applied; taking it is one undoable edit that changes the numbers."""
+    old = load(PLANS / "schema-1.cdplan.json")
+    assert old.count_shop_stages is False
+    assert to_dict(old)["shop_stages_counted"] is False
+    [offer] = old.offers()
+    assert (offer.key, offer.value) == ("count_shop_stages", True) and "schema 4" in offer.text
+    before = evaluate(old).soak_time
+    old.accept(offer)
+    assert old.count_shop_stages and not old.offers()
+    assert evaluate(old).soak_time < before  # the heat-up and drop now add case
+    old.undo()
+    assert evaluate(old).soak_time == before
+    nitrided = load(PLANS / "schema-3.cdplan.json")
+    assert nitrided.layer_model == "rate-law-2026"
+    assert [o.key for o in nitrided.offers()] == ["layer_model"]  # the shop-stage policy is not a nitriding one
+    assert load(PLANS / "schema-4.cdplan.json").offers() == []
+    assert Plan().offers() == []
+
+
+@pytest.mark.parametrize("path", OLD_FILES, ids=lambda p: p.name)
+def test_an_old_file_saved_again_keeps_its_numbers(path, tmp_path):
+    plan = load(path)
+    save(plan, tmp_path / "again.cdplan.json")
+    assert evaluate(load(tmp_path / "again.cdplan.json")).soak_time == evaluate(plan).soak_time
+
+
+def test_saving_never_loses_the_old_file_and_keeps_its_permissions(tmp_path, monkeypatch):
     path = tmp_path / "plan.cdplan.json"
-    Plan(title="first").save(path)
+    save(Plan(title="first"), path)
+    os.chmod(path, 0o640)
     before = path.read_text()
 
     def broken(*args, **kwargs):
         raise OSError("disk full")
 
-    monkeypatch.setattr("os.fsync", broken)
-    with pytest.raises(OSError):
-        Plan(title="second").save(path)
+    with monkeypatch.context() as patch:
+        patch.setattr("os.fsync", broken)
+        with pytest.raises(OSError):
+            save(Plan(title="second"), path)
     assert path.read_text() == before
     assert [p.name for p in tmp_path.iterdir()] == ["plan.cdplan.json"]
+    save(Plan(title="third"), path)
+    assert stat.S_IMODE(path.stat().st_mode) == 0o640
+
+
+def _file(**changes) -> str:
+    data = to_dict(Plan())
+    data.update(changes)
+    return json.dumps(data)
 
 
 @pytest.mark.parametrize("content,words", [
     ("{not json", "not valid JSON"),
     ('{"kind": "something else"}', "not a casedepth plan"),
     ('{"kind": "casedepth plan", "schema_version": 99}', "newer casedepth"),
-    ('{"kind": "casedepth plan", "schema_version": 1, "temperature_c": "hot"}', "should be a number"),
+    ('{"kind": "casedepth plan", "schema_version": 1, "temperature_c": "hot"}', "temperature_c: 'hot' is not a number"),
+    (_file(threshold_kind="hrc "), "threshold_kind: 'hrc ' is not one of carbon, HV, HRC"),
+    (_file(diffusivity_model="tibetts"), "diffusivity_model: 'tibetts' is not one of"),
+    (_file(alloy_factor="yes"), "alloy_factor: 'yes' is not true or false"),
+    (_file(threshold_valu=0.4), "unknown key threshold_valu"),
+    (_file(temperature_c=None), "temperature_c: None is not a number"),
+    (_file(shop={"furnace_rate": 9}), "unknown entry furnace_rate"),
+    (_file(stages=[{"kind": "soak", "duration_h": "5"}]), "stage 1: duration_h '5' is not a number"),
+    (_file(composition_pct={"C": 0.2, "Zz": 1}), "unknown element"),
+    (_file(treatment="annealing"), "treatment: 'annealing' is not one of carburizing, nitriding"),
+    (_file(schema_version=True), "unknown schema version"),
 ])
-def test_unreadable_files(tmp_path, content, words):
+def test_unreadable_files_name_the_key(tmp_path, content, words):
     path = tmp_path / "bad.json"
     path.write_text(content)
     with pytest.raises(PlanFileError, match=words):
-        Plan.load(path)
+        load(path)
+
+
+def test_non_finite_numbers_in_a_file_are_refused(tmp_path):
+    path = tmp_path / "bad.json"
+    path.write_text(_file().replace('"threshold_value": 0.4', '"threshold_value": Infinity'))
+    with pytest.raises(PlanFileError, match="threshold_value"):
+        load(path)
+
+
+def test_a_current_file_missing_a_key_is_refused_but_an_older_one_takes_the_default():
+    data = json.loads(_file())
+    del data["beta_cm_per_s"]
+    with pytest.raises(PlanFileError, match="beta_cm_per_s: missing"):
+        from_dict(data)
+    del data["title"]  # text keys may be missing: they only label the plan
+    data["beta_cm_per_s"] = 1.5e-5
+    assert from_dict(data).title == "Untitled plan"
 
 
 def test_evaluate_gives_window_times():
-    outcome = evaluate(Plan().values())
-    assert outcome.low.soak_time < outcome.aim.soak_time < outcome.high.soak_time
-    assert outcome.aim.target_depth == pytest.approx(1.0e-3)
+    outcome = evaluate(Plan())
+    low, aim, high = outcome.soak_window
+    assert low < aim < high
+    assert outcome.depth == pytest.approx(1.0e-3)
 
 
 @pytest.mark.parametrize("changes,field", [
     ({"temperature": 700 + 273.15}, "temperature"),
+    ({"temperature": 1300 + 273.15}, "temperature"),
     ({"carbon_potential": 5.0}, "carbon_potential"),
     ({"case_max": 0.5e-3}, "case_max"),
     ({"shape": "cylinder", "size": 1.5e-3}, "case_max"),
     ({"threshold_value": 0.1}, "threshold_value"),
+    ({"threshold_value": 1000.0}, "threshold_value"),
     ({"composition": {"Mn": 0.8}}, "composition"),
     ({"shape": "sphere", "size": 1e-5}, "size"),
+    ({"shape": "cylinder", "size": None}, "size"),
     ({"process": "boost-diffuse", "boost_potential": 5.0}, "boost_potential"),
+    ({"process": "boost-diffuse", "surface_min": 0.3, "surface_max": 0.35}, "surface_min"),
+    ({"shop": {"heat_up_h": 2.0, "drop_temperature_c": 700.0}}, "shop"),
+    ({"d_multiplier": 50.0}, "d_multiplier"),
+    ({"aim": 1.5}, "aim"),
 ])
 def test_evaluate_names_the_plan_field(changes, field):
-    plan = Plan(**changes)
     with pytest.raises(InputError) as error:
-        evaluate(plan.values())
+        evaluate(Plan(**changes))
+    assert error.value.field == field
+    assert error.value.message  # names the allowed range or what to change
+
+
+@pytest.mark.parametrize("changes,field", [
+    ({"kn": 50.0}, "kn"), ({"kn_second": 10.0, "two_stage": True}, "kn_second"), ({"temperature": 600 + 273.15}, "temperature"),
+    ({"core_hardness": 2000.0}, "core_hardness"), ({"n_multiplier": 0.0}, "n_multiplier"),
+    ({"compound_min": 12e-6, "compound_max": 8e-6}, "compound_max"),
+])
+def test_nitriding_evaluate_names_the_plan_field(changes, field):
+    with pytest.raises(InputError) as error:
+        evaluate(Plan("nitriding", **changes))
     assert error.value.field == field
 
 
 def test_the_unused_furnace_potential_does_not_block_other_cycles():
-    """In boost/diffuse the furnace step's own potential is greyed out in the window: a value left out of range
-    there must not stop the plan, and the setup (and its cautions) stand for the boost atmosphere."""
-    outcome = evaluate(Plan(process="boost-diffuse", carbon_potential=5.0, boost_potential=1.15).values())
+    """In boost/diffuse the furnace step's own potential plays no part: a value left out of range there must not
+    stop the plan, and the setup (and its cautions) stand for the boost atmosphere."""
+    outcome = evaluate(Plan(process="boost-diffuse", carbon_potential=5.0, boost_potential=1.15))
     assert outcome.boost_time > 0
     assert outcome.setup.carbon_potential == pytest.approx(1.15)
 

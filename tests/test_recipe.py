@@ -11,9 +11,11 @@ from scipy.special import erfc
 import casedepth
 from casedepth.cli import main
 from casedepth.errors import InputError, NotReachableError
-from casedepth.quote import ShopDefaults, make_quote
-from casedepth.carburizing import soak_times_for_case_depths
-from casedepth.recipe import Stage, plan_boost_diffuse, plan_single_soak, run_recipe, temperature_tradeoff
+from casedepth.carburizing.cycle import Stage, run_recipe, shop_stages, stage_lines
+from casedepth.carburizing.planners import plan_boost_diffuse, plan_single_soak
+from casedepth.carburizing.soak import soak_times_for_case_depths
+from casedepth.plan import Plan, compare_temperatures, evaluate
+from casedepth.shop.quote import ShopDefaults, quote_lines
 
 K = 273.15
 T925 = 925 + K
@@ -80,8 +82,8 @@ def test_boost_diffuse_with_heat_up_and_drop_counts_their_carbon():
     setup = casedepth.setup("8620", "925C", 1.0)
     shop = ShopDefaults()
     plain = plan_boost_diffuse(setup, 1.0e-3, (0.75, 0.85), 1.15, 0.80)
-    full = plan_boost_diffuse(setup, 1.0e-3, (0.75, 0.85), 1.15, 0.80, before=tuple(shop.before(T925, 1.15)),
-                              after=tuple(shop.after(T925)))
+    full = plan_boost_diffuse(setup, 1.0e-3, (0.75, 0.85), 1.15, 0.80, before=shop_stages(shop, T925, 1.15)[0],
+                              after=shop_stages(shop, T925, 1.0)[1])
     assert full.cycle.case_depth == pytest.approx(1.0e-3, rel=2e-3)
     assert 0.75 <= full.cycle.surface_carbon <= 0.85
     assert full.boost_time + full.diffuse_time < plain.boost_time + plain.diffuse_time
@@ -128,7 +130,7 @@ def test_single_soak_counting_heat_up_and_drop_is_shorter_and_lands_on_target():
     setup = casedepth.setup("8620", "925C", 1.0)
     shop = ShopDefaults()
     targets = [0.8e-3, 1.0e-3, 1.2e-3]
-    before, after = tuple(shop.before(T925, 1.0)), tuple(shop.after(T925))
+    before, after = shop_stages(shop, T925, 1.0)[0], shop_stages(shop, T925, 1.0)[1]
     counted = plan_single_soak(setup, targets, before, after)
     plain = soak_times_for_case_depths(setup, targets, size_for=1.0e-3)
     for soak, alone, target in zip(counted.soak_times, plain, targets):
@@ -166,9 +168,9 @@ def test_hot_stages_are_warned_about():
 
 def test_quote_adds_up():
     shop = ShopDefaults(furnace_rate_per_h=100.0, parts_per_load=40)
-    stages = [*shop.before(T925, 1.1), Stage("boost", 4 * 3600, T925, 1.1), Stage("diffuse", 3600, T925, 0.8),
-              *shop.after(T925)]
-    quote = make_quote(stages, shop)
+    before, after = shop_stages(shop, T925, 1.1)
+    stages = [*before, Stage("boost", 4 * 3600, T925, 1.1), Stage("diffuse", 3600, T925, 0.8), *after]
+    quote = quote_lines(stage_lines(stages), shop)
     assert [label for label, _ in quote.lines] == ["Load and close", "Heat-up", "Boost", "Diffuse",
                                                    "Drop to hardening temperature", "Equalize", "Quench", "Wash", "Temper"]
     assert quote.total_h == pytest.approx(sum(h for _, h in quote.lines))
@@ -177,13 +179,19 @@ def test_quote_adds_up():
     assert quote.cost_per_part == pytest.approx(quote.cost_per_load / 40)
     with pytest.raises(InputError, match="parts_per_load"):
         ShopDefaults(parts_per_load=0)
+    with pytest.raises(InputError, match="unknown entry furnace_rate"):
+        ShopDefaults.from_dict({"furnace_rate": 90.0})
 
 
-def test_temperature_tradeoff_is_monotone():
-    setup = casedepth.setup("8620", "925C", 1.0)
-    pairs = temperature_tradeoff(setup, 1.0e-3, [T + K for T in (900, 925, 950, 980)])
+def test_temperature_comparison_is_monotone_and_keeps_the_plan_s_policy():
+    """Hotter is faster; and the plan's own temperature gives exactly the plan's soak (the same evaluation)."""
+    plan = Plan(case_min=1.0e-3, case_max=1.0e-3)
+    pairs = compare_temperatures(plan, [T + K for T in (900, 925, 950, 980)])
     times = [t for _, t in pairs]
     assert all(a > b for a, b in zip(times, times[1:]))
+    assert dict(pairs)[T925] == evaluate(plan).soak_time
+    alone = Plan(case_min=1.0e-3, case_max=1.0e-3, count_shop_stages=False)
+    assert dict(compare_temperatures(alone, [T925]))[T925] == evaluate(alone).soak_time > times[1]
 
 
 def test_cli_surface_target(capsys):
@@ -198,11 +206,9 @@ def test_cli_surface_target(capsys):
 
 
 @pytest.mark.parametrize("extra,flag", [
-    (["--boost-potential", "1.15"], "--diffuse-potential"),
-    (["--diffuse-potential", "0.8"], "--boost-potential"),
     (["--boost-potential", "1.6", "--diffuse-potential", "0.8"], "--boost-potential"),
     (["--boost-potential", "0.7", "--diffuse-potential", "0.8"], "--boost-potential"),
-    (["--boost-potential", "1.1", "--diffuse-potential", "0.8", "--potential", "1.0"], "--potential"),
+    (["--boost-potential", "1.1", "--diffuse-potential", "2.5"], "--diffuse-potential"),
 ])
 def test_cli_surface_target_bad_input(capsys, extra, flag):
     code = main(["carburize", "--steel", "8620", "--temperature", "925C", "--target", "1.0mm",
@@ -223,14 +229,20 @@ def test_cli_runs_a_saved_plan(capsys, name):
 
 
 def test_high_surface_carbon_is_flagged_after_the_drop_not_before():
-    """Common practice aims case-hardened surfaces at about 0.7–0.9 %C: a soak at 1.2 %C ending at 1.1 %C is
-    flagged; with the shop's drop to the hardening potential (0.80 %C) the surface ends lower and is not."""
-    from casedepth.plan import Plan, evaluate
+    """Common practice aims case-hardened surfaces at about 0.7–0.9 %C (the one limit, SURFACE_CARBON_PRACTICE):
+    a soak at 1.2 %C ending at 1.1 %C is flagged; with the shop's drop to the hardening potential (0.80 %C) the
+    surface ends lower and is not; a surface just above 0.90 %C is flagged and its text names 0.90."""
+    from casedepth.carburizing.setup import SURFACE_CARBON_PRACTICE
 
-    alone = evaluate(Plan(carbon_potential=1.2, shop={"heat_up_h": 0, "drop_h": 0, "equalize_h": 0}).values())
-    assert alone.surface_carbon > 0.95 and any(w.startswith("The surface ends at") for w in alone.warnings)
-    dropped = evaluate(Plan(carbon_potential=1.2).values())
-    assert dropped.surface_carbon < 0.95 and not any(w.startswith("The surface ends at") for w in dropped.warnings)
+    assert SURFACE_CARBON_PRACTICE[1] == 0.90
+    alone = evaluate(Plan(carbon_potential=1.2, shop={"heat_up_h": 0, "drop_h": 0, "equalize_h": 0}))
+    assert alone.surface_carbon > 0.9 and any(w.startswith("The surface ends at") for w in alone.warnings)
+    dropped = evaluate(Plan(carbon_potential=1.2))
+    assert dropped.surface_carbon < 0.9 and not any(w.startswith("The surface ends at") for w in dropped.warnings)
+    # the command line's own example: a soak alone at potential 1.00 ends near 0.94 %C and is flagged
+    soak = evaluate(Plan(case_min=1.0e-3, case_max=1.0e-3, count_shop_stages=False))
+    assert 0.90 < soak.surface_carbon < 0.95
+    assert any("above the 0.70–0.90 %C" in w for w in soak.warnings)
 
 
 def test_joined_cycle_matches_a_fresh_run():
@@ -238,9 +250,9 @@ def test_joined_cycle_matches_a_fresh_run():
     starts, carbon per stage (1e-3 relative, the solver's reproducibility over other step sequences) and case."""
     setup = casedepth.setup("8620", "925C", 1.0)
     shop = ShopDefaults()
-    counted = plan_single_soak(setup, [1.0e-3], tuple(shop.before(T925, 1.0)), tuple(shop.after(T925)), cycle_for=0)
+    counted = plan_single_soak(setup, [1.0e-3], shop_stages(shop, T925, 1.0)[0], shop_stages(shop, T925, 1.0)[1], cycle_for=0)
     fresh = run_recipe(setup, counted.cycle.stages)
     assert counted.cycle.stage_start == pytest.approx(fresh.stage_start, rel=1e-12)
     assert counted.cycle.stage_uptake == pytest.approx(fresh.stage_uptake, rel=1e-3, abs=1e-9)
     assert counted.cycle.case_depth == pytest.approx(fresh.case_depth, rel=1e-4)
-    assert counted.cycle.history_time[-1] == pytest.approx(fresh.history_time[-1], rel=1e-12)
+    assert counted.cycle.history.times[-1] == pytest.approx(fresh.history.times[-1], rel=1e-12)

@@ -25,7 +25,7 @@ def main(argv: list[str] | None = None) -> int:
     from PySide6.QtCore import QSettings, QTimer
     from PySide6.QtWidgets import QApplication
 
-    from ..plan import Plan, PlanFileError
+    from ..plan import PlanFileError, load
     from .window import MainWindow
 
     app = QApplication.instance() or QApplication(sys.argv[:1])
@@ -34,7 +34,7 @@ def main(argv: list[str] | None = None) -> int:
     plan = None
     if args.plan:
         try:
-            plan = Plan.load(args.plan)
+            plan = load(args.plan)
         except PlanFileError as error:
             print(f"casedepth: error: {args.plan}: {error.message}", file=sys.stderr)
             return 2

@@ -1,27 +1,33 @@
-"""The main window: the plan form on the left, the answer and the profiles on the right, cautions below."""
+"""The main window: the plan form on the left, the answer and the profiles on the right, cautions below.
+
+The window is a view: the form is bound to the plan by key, every result comes from the one
+evaluation path (:func:`casedepth.plan.evaluate`, on a worker thread), and everything it shows or
+writes — the facts, the plots, the exported profile, the printed documents — is the outcome's.
+"""
 
 from __future__ import annotations
 
-import csv
-import io
+import html
 import json
 import os
-import tempfile
+from dataclasses import fields
 from pathlib import Path
 
 from PySide6.QtCore import QSettings, Qt, Signal
 from PySide6.QtGui import QAction, QActionGroup, QKeySequence
-from PySide6.QtWidgets import (QCheckBox, QDialog, QDialogButtonBox, QDoubleSpinBox, QFileDialog, QFormLayout,
-                               QHBoxLayout, QLabel, QLineEdit, QMainWindow, QMessageBox, QPlainTextEdit, QScrollArea,
-                               QSlider, QSplitter, QVBoxLayout, QWidget)
+from PySide6.QtWidgets import (QCheckBox, QDialog, QDialogButtonBox, QDoubleSpinBox, QFileDialog, QFormLayout, QFrame,
+                               QHBoxLayout, QLabel, QLineEdit, QMainWindow, QMessageBox, QPlainTextEdit, QPushButton,
+                               QScrollArea, QSlider, QSplitter, QVBoxLayout, QWidget)
 
 from .. import __version__, safety
-from ..diffusivity import METHODS
 from ..errors import InputError
-from ..hardness import HARDNESS_RELATIONS, ASTM_E140_hv_to_hrc
-from ..nitriding import TEMPERATURE_RANGE as NITRIDING_TEMPERATURES
-from ..plan import Plan, PlanFileError
-from ..quote import ShopDefaults
+from ..files import atomic_write
+from ..parameters import PARAMETERS, label
+from ..plan import Plan, PlanFileError, load, save
+from ..report.export import profile_csv
+from ..report.sources import model_sources
+from ..shop.quote import ShopDefaults
+from ..treatments import TREATMENTS
 from ..units import DisplayUnits, format_duration
 from .cautions import CautionPanel
 from .form import PlanForm
@@ -29,47 +35,13 @@ from .plots import ProfilePlots
 from .results import ResultPanel
 from .worker import Calculator
 
-FIELD_LABELS = {
-    "steel": "Steel", "composition": "Composition", "shape": "Surface", "size": "Part size",
-    "temperature": "Temperature", "carbon_potential": "Carbon potential", "case_min": "Minimum case depth",
-    "case_max": "Maximum case depth", "aim": "Aim", "threshold_value": "Threshold", "threshold_kind": "Threshold",
-    "diffusivity": "Diffusivity model", "d_multiplier": "D multiplier", "d0": "D0", "q": "Q", "beta": "β",
-    "hardness_relation": "Carbon → hardness", "process": "Cycle", "boost_potential": "Boost potential",
-    "diffuse_potential": "Diffuse potential", "surface_min": "Surface carbon", "surface_max": "Surface carbon",
-    "stages": "Stages", "shop": "Shop times and rates", "kn": "Nitriding potential", "compound_min": "Compound layer",
-    "compound_max": "Compound layer", "core_hardness": "Core hardness", "surface_hardness": "Nitrided surface hardness",
-    "treatment": "Treatment", "n_multiplier": "D_N multiplier",
-}
 PLAN_FILTER = "casedepth plans (*.cdplan.json *.json);;All files (*)"
 MAX_RECENT = 8
 
 
-def _atomic_write(path: Path, text: str) -> None:
-    handle, temporary = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=path.parent)
-    try:
-        with os.fdopen(handle, "w", encoding="utf-8", newline="") as stream:
-            stream.write(text)
-        os.replace(temporary, path)
-    except BaseException:
-        if os.path.exists(temporary):
-            os.unlink(temporary)
-        raise
-
-
 class ShopDialog(QDialog):
-    """The shop's standard times and rates: a form of :class:`casedepth.quote.ShopDefaults` fields."""
-
-    LABELS = {
-        "load_h": ("Load and close", " h"), "heat_up_h": ("Heat-up to temperature", " h"),
-        "drop_temperature_c": ("Hardening temperature", " °C"), "drop_h": ("Drop to hardening temperature", " h"),
-        "equalize_h": ("Equalize", " h"), "hardening_potential": ("Potential at hardening temperature", " %C"),
-        "quench_h": ("Quench", " h"), "wash_h": ("Wash", " h"), "temper_h": ("Temper", " h"),
-        "temper_temperature_c": ("Temper temperature", " °C"),
-        "carrier_co_pct": ("CO in the carrier gas (for probe mV)", " %"),
-        "nitriding_purge_h": ("Nitriding: nitrogen purge", " h"), "nitriding_heat_up_h": ("Nitriding: heat-up", " h"),
-        "nitriding_cool_h": ("Nitriding: cool-down", " h"), "furnace_rate_per_h": ("Furnace rate per hour", ""),
-        "parts_per_load": ("Parts per load", ""),
-    }
+    """The shop's standard times and rates: a form of the :class:`~casedepth.shop.quote.ShopDefaults` entries,
+    with the labels and units they carry."""
 
     def __init__(self, shop: ShopDefaults, parent=None, name: str = "", logo: str = ""):
         super().__init__(parent)
@@ -82,14 +54,17 @@ class ShopDialog(QDialog):
         self.logo.setPlaceholderText("path of a PNG logo for process sheets (optional)")
         form.addRow("Logo file", self.logo)
         self.spins = {}
-        for name, (label, suffix) in self.LABELS.items():
+        for item in fields(ShopDefaults):
+            if item.name == "currency":
+                continue
+            whole = isinstance(item.default, int)
             spin = QDoubleSpinBox()
-            spin.setDecimals(0 if name == "parts_per_load" else 2)
-            spin.setRange(1 if name == "parts_per_load" else 0, 100000)
-            spin.setSuffix(suffix)
-            spin.setValue(float(getattr(shop, name)))
-            form.addRow(label, spin)
-            self.spins[name] = spin
+            spin.setDecimals(0 if whole else 2)
+            spin.setRange(1 if whole else 0, 100000)
+            spin.setSuffix(f" {item.metadata['unit']}" if item.metadata["unit"] else "")
+            spin.setValue(float(getattr(shop, item.name)))
+            form.addRow(item.metadata["label"], spin)
+            self.spins[item.name] = spin
         self.currency = QLineEdit(shop.currency)
         self.currency.setPlaceholderText("e.g. EUR, USD (optional)")
         form.addRow("Currency", self.currency)
@@ -101,9 +76,40 @@ class ShopDialog(QDialog):
         form.addRow(buttons)
 
     def values(self) -> ShopDefaults:
-        data = {name: spin.value() for name, spin in self.spins.items()}
-        data["parts_per_load"] = int(round(data["parts_per_load"]))
+        data = {name: spin.value() if spin.decimals() else int(round(spin.value())) for name, spin in self.spins.items()}
         return ShopDefaults(**data, currency=self.currency.text().strip())
+
+
+class OfferBar(QFrame):
+    """A newer model or policy than the plan was made with: what it is, and buttons to take it or keep the plan's."""
+
+    def __init__(self, parent=None):
+        super().__init__(parent)
+        self.setObjectName("offers")
+        self.setStyleSheet("QFrame#offers { background: #eaf3ea; border: 1px solid #7fb685; border-radius: 4px; }")
+        layout = QHBoxLayout(self)
+        layout.setContentsMargins(8, 4, 8, 4)
+        self.text = QLabel()
+        self.text.setObjectName("offer_text")
+        self.text.setWordWrap(True)
+        layout.addWidget(self.text, 1)
+        self.take = QPushButton("Use the newer one")
+        self.keep = QPushButton("Keep the plan's")
+        layout.addWidget(self.take)
+        layout.addWidget(self.keep)
+        self.offer = None
+        self.kept: set[str] = set()
+        self.hide()
+
+    def show_offers(self, offers) -> None:
+        offers = [offer for offer in offers if offer.key not in self.kept]
+        self.offer = offers[0] if offers else None
+        if self.offer is None:
+            self.hide()
+            return
+        self.text.setText(f"<b>A newer choice exists.</b> {html.escape(self.offer.text)} This plan keeps what it was "
+                          f"made with, so it gives the numbers it gave, unless you take the newer one.")
+        self.show()
 
 
 class MainWindow(QMainWindow):
@@ -160,6 +166,10 @@ class MainWindow(QMainWindow):
         slider_row.addWidget(self.time_label)
         right = QWidget()
         right_layout = QVBoxLayout(right)
+        self.offers = OfferBar()
+        self.offers.take.clicked.connect(self._take_offer)
+        self.offers.keep.clicked.connect(self._keep_offer)
+        right_layout.addWidget(self.offers)
         right_layout.addWidget(self.results)
         right_layout.addWidget(self.plots, 1)
         right_layout.addLayout(slider_row)
@@ -250,19 +260,31 @@ class MainWindow(QMainWindow):
         self.form.plan_replaced(plan)
         if hasattr(self, "scroll"):
             self._fit_form()
+        self.offers.kept.clear()
         self._update_title()
         self._update_undo()
+        self.offers.show_offers(plan.offers())
+
+    def _take_offer(self) -> None:
+        if self.offers.offer is not None:
+            self.plan.accept(self.offers.offer)
+
+    def _keep_offer(self) -> None:
+        if self.offers.offer is not None:
+            self.offers.kept.add(self.offers.offer.key)
+            self.offers.show_offers(self.plan.offers())
 
     def _fit_form(self) -> None:
         """Keep the form panel as wide as the form needs (it changes with the treatment and the cycle)."""
         self.scroll.setMinimumWidth(self.form.minimumSizeHint().width() + self.scroll.verticalScrollBar().sizeHint().width() + 6)
 
-    def _plan_changed(self, name, value) -> None:
-        if name in ("treatment", "process", "two_stage"):
-            self._fit_form()
+    def _plan_changed(self, key, value) -> None:
+        self._fit_form()
         self._update_title()
         self._update_undo()
-        self.calculate()
+        self.offers.show_offers(self.plan.offers())
+        if PARAMETERS[key].affects_result:  # a new name or note does not change the numbers
+            self.calculate()
 
     def calculate(self) -> None:
         if self.form.has_unread_entry():
@@ -288,8 +310,8 @@ class MainWindow(QMainWindow):
     # -- results -------------------------------------------------------------------------------------------
     def _show_outcome(self, outcome) -> None:
         self.outcome = outcome
-        self.form.planned_stages = list(getattr(outcome, "stages", []))
-        self.form.clear_marks(keep={"composition", "d0", "beta"} if self.form.has_unread_entry() else set())
+        self.form.set_planned_stages(outcome.stage_rows())
+        self.form.clear_marks(keep=self.form.unread_entries())
         self.results.show_outcome(outcome, self.units)
         self.cautions.show_cautions(outcome.cautions)
         self.time_slider.blockSignals(True)
@@ -306,12 +328,13 @@ class MainWindow(QMainWindow):
             self.form.mark(field, message)
         else:
             field, message = "calculation", f"{type(error).__name__}: {error}"
-        self.results.show_problem(FIELD_LABELS.get(field, field.capitalize()), message)
-        self.cautions.show_cautions(safety.cautions(self.plan.temperature, ammonia=self.plan.treatment == "nitriding"))
+        self.results.show_problem(label(field), message)
+        values = self.plan.values()
+        self.cautions.show_cautions(TREATMENTS[values["treatment"]].cautions(values))
         self.statusBar().showMessage("Input needs attention", 4000)
 
     def _input_problem(self, field: str, message: str) -> None:
-        self.results.show_problem(FIELD_LABELS.get(field, field), message)
+        self.results.show_problem(label(field), message)
 
     def _time_moved(self, value: int) -> None:
         if self.outcome is None:
@@ -361,8 +384,16 @@ class MainWindow(QMainWindow):
             self._attach(plan)
             self.calculate()
 
+    def calibration_defaults(self) -> tuple[float, float]:
+        """What the calibration dialog starts from: the plan's own soak at temperature for the aim [s] (not the
+        whole cycle) and the aim depth [m]; taking both as they are gives the plan's multiplier back."""
+        if self.outcome is None:
+            return 6 * 3600.0, self.plan.case_min
+        return self.outcome.soak_time, self.outcome.targets[1]
+
     def calibrate_dialog(self) -> None:
         """Ask for the soak a load had and the depth measured on its section, then calibrate."""
+        soak_time, aim = self.calibration_defaults()
         dialog = QDialog(self)
         dialog.setWindowTitle("Calibrate from a measured section")
         form = QFormLayout(dialog)
@@ -372,24 +403,27 @@ class MainWindow(QMainWindow):
         soak.setRange(0.1, 200.0)
         soak.setDecimals(2)
         soak.setSuffix(" h")
-        soak.setValue(round(self.outcome.duration / 3600.0, 2) if self.outcome is not None else 6.0)
+        soak.setValue(round(soak_time / 3600.0, 2))
         form.addRow("Soak at temperature", soak)
         depth = QDoubleSpinBox()
         depth.setDecimals(self.units.length_decimals)
         depth.setRange(0.0, 400.0)
         depth.setSuffix(f" {self.units.length_unit}")
-        depth.setValue(self.units.length(self.plan.targets()[1]))
+        depth.setValue(self.units.length(aim))
         form.addRow("Measured depth", depth)
         buttons = QDialogButtonBox(QDialogButtonBox.Ok | QDialogButtonBox.Cancel)
         buttons.accepted.connect(dialog.accept)
         buttons.rejected.connect(dialog.reject)
         form.addRow(buttons)
-        if dialog.exec() == QDialog.Accepted:
-            self.calibrate(soak.value() * 3600.0, self.units.length_si(depth.value()))
+        if dialog.exec() == QDialog.Accepted:  # an untouched field keeps its exact value (not the rounded one shown)
+            shown_soak, shown_depth = round(soak_time / 3600.0, 2), self.units.length(aim)
+            self.calibrate(soak_time if soak.value() == shown_soak else soak.value() * 3600.0,
+                           aim if abs(depth.value() - shown_depth) < 0.5 * 10 ** -depth.decimals()
+                           else self.units.length_si(depth.value()))
 
     def calibrate(self, soak_time: float, measured_depth: float) -> str:
         """Set the plan's diffusivity multiplier from a measured section (one undoable edit); returns the message."""
-        from ..calibration import calibrate_plan
+        from ..shop.calibration import calibrate_plan
 
         try:
             found = calibrate_plan(self.plan, soak_time, measured_depth)
@@ -397,7 +431,7 @@ class MainWindow(QMainWindow):
             QMessageBox.warning(self, "Cannot calibrate", error.message)
             return error.message
         self.plan.set(found.field, round(found.multiplier, 3))
-        message = found.describe() + " It is now the plan's diffusivity multiplier (Edit → Undo takes it back)."
+        message = found.describe() + f" It is now the plan's {label(found.field)} (Edit → Undo takes it back)."
         QMessageBox.information(self, "Calibrated", message)
         return message
 
@@ -425,10 +459,10 @@ class MainWindow(QMainWindow):
 
     def show_load(self, paths: list[str]) -> str:
         """Combine the plans in ``paths`` into one load and show the answer (returned as text too)."""
-        from ..loads import plan_load
+        from ..shop.loads import plan_load
 
         try:
-            text = plan_load([Plan.load(p) for p in paths]).text(self.units)
+            text = plan_load([load(p) for p in paths]).text(self.units)
         except InputError as error:
             text = f"These plans cannot share a load: {error.message}"
         dialog = QDialog(self)
@@ -460,7 +494,7 @@ class MainWindow(QMainWindow):
     def open_plan(self, path: str | os.PathLike) -> bool:
         """Open a plan file (no questions asked); False with a message if it cannot be read."""
         try:
-            plan = Plan.load(path)
+            plan = load(path)
         except PlanFileError as error:
             QMessageBox.warning(self, "Cannot open the plan", error.message)
             return False
@@ -484,7 +518,7 @@ class MainWindow(QMainWindow):
     def save_plan(self, path: str | os.PathLike) -> bool:
         path = Path(path)
         try:
-            self.plan.save(path)
+            save(self.plan, path)
         except OSError as error:
             QMessageBox.warning(self, "Cannot save the plan", f"{path}: {error.strerror or error}")
             return False
@@ -515,39 +549,11 @@ class MainWindow(QMainWindow):
         self.recent_menu.setEnabled(bool(self._recent()))
 
     def profile_csv(self) -> str:
-        """The aim profile at the end of the soak as CSV text (depth, carbon, estimated hardness)."""
-        outcome = self.outcome
-        if outcome.process == "nitriding":
-            return self._nitriding_csv()
-        setup, profile = outcome.setup, outcome.profile
-        relation = HARDNESS_RELATIONS[setup.hardness_relation]
-        hv = relation.hv(profile.carbon)
-        out = io.StringIO()
-        writer = csv.writer(out)
-        what = (f"soak {outcome.duration / 3600:.4f} h at {self.units.format_temperature(setup.temperature)}"
-                if outcome.cycle is None else f"end of a {outcome.duration / 3600:.4f} h cycle")
-        writer.writerow([f"# casedepth {__version__}: {self.plan.title}; {what}; hardness assumes {relation.assumptions}"])
-        writer.writerow(["depth_mm", "depth_in", "carbon_pct", "hardness_hv", "hardness_hrc"])
-        for x, c, h in zip(profile.depth, profile.carbon, hv):
-            writer.writerow([f"{x * 1e3:.5f}", f"{x / 0.0254:.6f}", f"{c:.5f}", f"{h:.1f}",
-                             f"{ASTM_E140_hv_to_hrc(min(max(h, 238.0), 940.0)):.1f}"])
-        return out.getvalue()
-
-    def _nitriding_csv(self) -> str:
-        aim = self.outcome.aim
-        out = io.StringIO()
-        writer = csv.writer(out)
-        writer.writerow([f"# casedepth {__version__}: {self.plan.title}; nitrided {aim.time / 3600:.4f} h at "
-                         f"{self.units.format_temperature(aim.setup.temperature)}, K_N {aim.setup.nitriding_potential:.3g}; "
-                         f"compound layer {aim.compound_layer * 1e6:.2f} um (epsilon {aim.layer.epsilon * 1e6:.2f} um); "
-                         f"hardness from the sharp-front model"])
-        writer.writerow(["depth_mm", "depth_in", "nitrogen_pct", "hardness_hv"])
-        for x, n, h in zip(aim.depth, aim.nitrogen, aim.hardness):
-            writer.writerow([f"{x * 1e3:.5f}", f"{x / 0.0254:.6f}", f"{n:.5f}", f"{h:.1f}"])
-        return out.getvalue()
+        """The profile at the end of the last result as CSV text (:func:`casedepth.report.export.profile_csv`)."""
+        return profile_csv(self.outcome, self.plan.title)
 
     def export_csv(self, path: str | os.PathLike) -> None:
-        _atomic_write(Path(path), self.profile_csv())
+        atomic_write(path, self.profile_csv())
 
     def export_csv_dialog(self) -> None:
         if self.outcome is None:
@@ -558,17 +564,8 @@ class MainWindow(QMainWindow):
 
     def export_plot(self, path: str | os.PathLike) -> None:
         """Save the plot on show; the format follows the extension (.png, .svg, .pdf)."""
-        path = Path(path)
-        handle, temporary = tempfile.mkstemp(suffix=path.suffix, dir=path.parent)
-        os.close(handle)
-        try:
-            self.plots.draw_all()
-            self.plots.save_current(temporary, dpi=200)
-            os.replace(temporary, path)
-        except BaseException:
-            if os.path.exists(temporary):
-                os.unlink(temporary)
-            raise
+        self.plots.draw_all()
+        atomic_write(path, lambda name: self.plots.save_current(name, dpi=200))
 
     def export_plot_dialog(self) -> None:
         if self.outcome is None:
@@ -584,8 +581,8 @@ class MainWindow(QMainWindow):
         return str(self.settings.value("paper", "letter" if self.units.imperial else "a4"))
 
     def document(self, kind: str):
-        """The process sheet of the plan, or a case-depth (or nitriding) chart for its steel at three temperatures."""
-        from ..documents import case_depth_chart, nitriding_chart, process_sheet
+        """The process sheet of the plan, or a case-depth chart for its steel at three temperatures around its own."""
+        from ..report.documents import process_sheet
 
         if self.outcome is None:
             raise InputError("document", "there is no result to print yet")
@@ -593,13 +590,10 @@ class MainWindow(QMainWindow):
             return process_sheet(self.plan, self.outcome, paper=self.paper, units=self.units.system,
                                  shop=str(self.settings.value("shop_name", "")),
                                  logo=str(self.settings.value("shop_logo", "")) or None, revision=self.plan.revision)
-        setup = self.outcome.setup
-        if self.outcome.process == "nitriding":
-            lo, hi = NITRIDING_TEMPERATURES
-            temperatures = sorted({min(max(setup.temperature + dt, lo), hi) for dt in (-20.0, 0.0, 20.0)})
-            return nitriding_chart(setup, temperatures=temperatures, paper=self.paper, units=self.units.system)
-        temperatures = [setup.temperature + dt for dt in (-25.0, 0.0, 25.0)]
-        return case_depth_chart(setup, temperatures=temperatures, paper=self.paper, units=self.units.system)
+        values = self.outcome.values
+        treatment = TREATMENTS[values["treatment"]]
+        return treatment.chart(values, temperatures=treatment.chart_temperatures(values), paper=self.paper,
+                               units=self.units.system)
 
     def _document_or_message(self, kind: str):
         try:
@@ -630,36 +624,13 @@ class MainWindow(QMainWindow):
         path, _ = QFileDialog.getSaveFileName(self, "Export", name,
                                               "PDF document (*.pdf);;SVG drawing (*.svg);;PNG image (*.png)")
         if path:
-            from ..documents import save
+            from ..report.documents import save
 
             save(document, path)
 
     # -- help ----------------------------------------------------------------------------------------------------
     def models_text(self) -> str:
-        rows = [f"<li><b>{m.display}</b> — {m.reference}; valid {m.validity}</li>" for m in METHODS.values()]
-        rows += [f"<li><b>{r.display}</b> — {r.reference}; assumes {r.assumptions}</li>" for r in HARDNESS_RELATIONS.values()]
-        rows += [
-            "<li><b>Surface mass transfer</b> J = β (C_eq − C_s) — EN 10052 definition; default β 1.5e-5 cm/s for "
-            "endothermic gas after Ruck, Monceau &amp; Grabke (1996) and Karabelchtchikova (2007), from memory</li>",
-            "<li><b>Alloy factor</b> — Gunnarson (1967), as quoted in ASM Handbook Vol. 4 (1991), from memory</li>",
-            "<li><b>Carbon saturation (Acm)</b> — Fe–C diagram; CALPHAD points after Gustafson (1985) and "
-            "Hallstedt et al. (2010)</li>",
-            "<li><b>Ac3</b> — Andrews, J. Iron Steel Inst. 203 (1965) 721</li>",
-            "<li><b>HV ↔ HRC</b> — ASTM E140, Table 1</li>",
-            "<li><b>Time stepping</b> — ROS2 Rosenbrock method, Verwer et al., SIAM J. Sci. Comput. 20 (1999) 1456</li>",
-            "<li><b>Oxygen probe</b> — Nernst equation (air reference); C + ½O2 = CO thermochemistry and the activity "
-            "of carbon in austenite from handbook relations (from memory); ideal probe, trim as the shop does</li>",
-            "<li><b>Nitriding potential</b> K_N = p(NH3)/p(H2)^1.5 — Lehrer, Z. Elektrochem. 36 (1930) 383; surface "
-            "phase from the Lehrer-diagram boundaries (read from the diagram, from memory, ±30 %)</li>",
-            "<li><b>Nitrogen in ferrite</b> — diffusivity after Bohnenkamp, Arch. Eisenhüttenwes. 38 (1967) 229; "
-            "saturation against γ′ fitted to the Fe–N diagram of Wriedt, Gokcen &amp; Nafziger (1987)</li>",
-            "<li><b>Nitrided hardness depth</b> — internal-nitriding front of Wagner, Z. Elektrochem. 63 (1959) 772, "
-            "and Meijering (1971)</li>",
-            "<li><b>Compound layer</b> — ε over γ′ layer growth after Somers &amp; Mittemeijer, Metall. Mater. "
-            "Trans. A 26 (1995) 57, drained by the diffusion zone; nitride diffusivities an order of magnitude "
-            "from memory (layers ±50 %); phase contents from the Fe–N diagram of Wriedt et al. (1987)</li>",
-            "<li><b>Safety cautions</b> — common practice under NFPA 86; local codes govern</li>",
-        ]
+        rows = [f"<li><b>{html.escape(name)}</b> — {html.escape(source)}</li>" for name, source in model_sources()]
         return "<ul>" + "".join(rows) + "</ul>"
 
     def show_models(self) -> None:
@@ -667,8 +638,9 @@ class MainWindow(QMainWindow):
 
     def show_about(self) -> None:
         QMessageBox.about(self, "About casedepth",
-                          f"<h3>casedepth {__version__}</h3><p>Turns a drawing's case-depth callout into a "
-                          f"carburizing soak time, with the carbon and hardness profiles.</p>{self.models_text()}"
+                          f"<h3>casedepth {__version__}</h3><p>Turns a drawing's case-depth callout into a furnace "
+                          f"cycle ({', '.join(t.label.lower() for t in TREATMENTS.values())}), with the profiles "
+                          f"it leaves.</p>{self.models_text()}"
                           f"<p><i>{safety.DEFERENCE}</i></p>")
 
     # -- closing ---------------------------------------------------------------------------------------------------

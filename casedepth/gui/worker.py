@@ -5,7 +5,7 @@ from __future__ import annotations
 from PySide6.QtCore import QObject, QRunnable, QThreadPool, QTimer, Signal
 
 from ..errors import InputError, SolverError
-from ..plan import evaluate
+from ..plan.evaluate import evaluate
 
 
 class _Signals(QObject):

@@ -14,7 +14,7 @@ from __future__ import annotations
 
 import math
 
-R = 8.314462618  # J/(mol K)
+from ..constants import GAS_CONSTANT as R
 
 # Phase-boundary nitrogen contents [wt %], Fe–N diagram (Wriedt, Gokcen & Nafziger 1987), from memory:
 # γ′-Fe4N1-x spans about 19.4–20.0 at % N, ε-Fe2-3N starts near 24 at % N next to γ′ and reaches

@@ -1,7 +1,7 @@
 """Furnace loads: several parts, each with its own drawing window, in one cycle.
 
-Parts share a load when they share the furnace step (treatment, temperature, carbon potential or
-nitriding potential, and the shop's stages). Each part's plan gives the soak that puts its case at
+Parts share a load when they share the furnace step: the treatment, the temperature and the
+atmosphere (the treatment table's ``potential_key``: carbon potential or nitriding potential). Each part's plan gives the soak that puts its case at
 the minimum and at the maximum of its drawing; the load can run any soak inside every part's range.
 The load's soak is the middle of the common range in √t (case depth grows about as √t, so this
 keeps the parts near the middle of what the range allows), and every part's case is then
@@ -13,14 +13,15 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, field
 
-from .errors import InputError
-from .plan import NitridingOutcome, Plan, evaluate
-from .units import ZERO_CELSIUS, both_lengths, format_duration
+from ..constants import ZERO_CELSIUS
+from ..errors import InputError
+from ..parameters import label
+from ..plan import Plan, evaluate
+from ..treatments import treatment_of
+from ..units import both_lengths, format_duration
 
-#: furnace steps this close count as the same (temperature [K], carbon potential [wt %], K_N [atm^-1/2])
+#: furnace temperatures this close count as the same [K] (the atmospheres' tolerance is in the treatment table)
 SAME_TEMPERATURE = 1.0
-SAME_POTENTIAL = 0.005
-SAME_KN = 0.01
 
 
 @dataclass
@@ -79,11 +80,14 @@ class LoadPlan:
 
 
 def _step(plan: Plan) -> tuple:
-    if plan.treatment == "nitriding":
-        return plan.treatment, plan.temperature, plan.kn
-    if plan.process != "single":
-        raise InputError("plan", f"{plan.title!r} is a {plan.process} cycle; loads combine one-soak plans")
-    return plan.treatment, plan.temperature, plan.carbon_potential
+    """(treatment, temperature [K], the atmosphere's potential) of a plan with a single soak."""
+    values = plan.values()
+    treatment = treatment_of(values)
+    try:
+        treatment.single_soak(values)
+    except InputError as error:
+        raise InputError("plan", f"{plan.title!r}: {error.message}") from None
+    return treatment.key, plan.temperature, values[treatment.potential_key]
 
 
 def plan_load(plans: list[Plan]) -> LoadPlan:
@@ -101,25 +105,21 @@ def plan_load(plans: list[Plan]) -> LoadPlan:
         if abs(step[1] - first[1]) > SAME_TEMPERATURE:
             raise InputError("plan", f"{plan.title!r} runs at {step[1] - ZERO_CELSIUS:.0f} °C, the first plan at "
                              f"{first[1] - ZERO_CELSIUS:.0f} °C: one load, one temperature")
-        if abs(step[2] - first[2]) > (SAME_KN if first[0] == "nitriding" else SAME_POTENTIAL):
-            raise InputError("plan", f"{plan.title!r} asks for a potential of {step[2]:g}, the first plan {first[2]:g}: "
-                             f"one load, one atmosphere")
+        treatment = treatment_of(plan.values())
+        if abs(step[2] - first[2]) > treatment.potential_tolerance:
+            raise InputError("plan", f"{plan.title!r} asks for a {label(treatment.potential_key).lower()} of "
+                             f"{step[2]:g}, the first plan {first[2]:g}: one load, one atmosphere")
     warnings = []
     if any(plan.shop != plans[0].shop for plan in plans[1:]):
         warnings.append("The plans hold different shop times; each part's case is computed with its own.")
     parts, outcomes = [], []
     for plan in plans:
         try:
-            outcome = evaluate(plan.values())
+            outcome = evaluate(plan)
         except InputError as error:
-            raise type(error)("plan", f"{plan.title!r}: {error.field}: {error.message}") from None
-        if isinstance(outcome, NitridingOutcome):
-            if outcome.schedule is not None:
-                raise InputError("plan", f"{plan.title!r} is a two-stage nitriding plan; loads combine one-stage plans")
-            soak_range = (outcome.low.time, outcome.high.time)
-        else:
-            low, _, high = outcome.soak_window
-            soak_range = (low, high)
+            raise type(error)("plan", f"{plan.title!r}: {label(error.field)}: {error.message}") from None
+        low, _, high = outcome.soak_window
+        soak_range = (low, high)
         parts.append(LoadPart(plan, soak_range, outcome.targets))
         outcomes.append(outcome)
     lo = max(p.soak_range[0] for p in parts)

@@ -13,7 +13,7 @@ from dataclasses import dataclass, field
 from functools import lru_cache
 from pathlib import Path
 
-from .errors import InputError
+from ..errors import InputError
 
 # Elements the models use, with the largest content accepted [wt %].
 ELEMENT_LIMITS = {
@@ -51,7 +51,7 @@ def _data_file() -> Path:
 
         return Path(str(files("casedepth.resources") / "steels.json"))
     except ModuleNotFoundError:  # running from a source tree that was not installed
-        return Path(__file__).resolve().parent.parent / "resources" / "steels.json"
+        return Path(__file__).resolve().parents[2] / "resources" / "steels.json"
 
 
 @lru_cache(maxsize=1)
@@ -119,3 +119,17 @@ def steel_from_text(text: str, field_name: str = "steel", process: str = "all") 
     if "=" in text:
         return Steel("custom", parse_composition(text, field_name), process=process if process != "all" else "carburizing")
     return find(text, process)
+
+
+def steel_for(name: str, composition: dict[str, float], field_name: str = "composition") -> Steel:
+    """The steel a plan names, with the composition it holds: the library grade if the composition is the
+    grade's, the grade marked as edited if not, or a custom steel for a name not in the library."""
+    composition = validate_composition(composition, field_name)
+    try:
+        grade = find(name)
+    except InputError:
+        return Steel("custom", composition)
+    if composition == grade.composition:
+        return grade
+    return Steel(f"{grade.name} (edited)", composition, grade.standard + ", composition edited", process=grade.process)
+

@@ -23,8 +23,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .errors import InputError
-from .units import both_lengths, length_range
+from ..errors import InputError
+from ..units import both_lengths, length_range
 
 SHAPES = ("plate", "cylinder", "bore", "sphere")
 MIN_SIZE = 0.1e-3  # m
@@ -49,15 +49,14 @@ class Geometry:
 
     def __post_init__(self):
         if self.shape not in SHAPES:
-            raise InputError("geometry", f"unknown shape {self.shape!r}; choose one of {', '.join(SHAPES)}")
+            raise InputError("shape", f"unknown shape {self.shape!r}; choose one of {', '.join(SHAPES)}")
         if self.size is None:
             if self.shape != "plate":
-                name = "diameter"
-                raise InputError(name, f"a {self.shape} needs its diameter ({length_range(MIN_SIZE, MAX_SIZE)})")
+                raise InputError("size", f"a {self.shape} needs its diameter ({length_range(MIN_SIZE, MAX_SIZE)})")
             return
         if not (math.isfinite(self.size) and MIN_SIZE <= self.size <= MAX_SIZE):
             name = "thickness" if self.shape == "plate" else "diameter"
-            raise InputError(name, f"{both_lengths(self.size)} is outside {length_range(MIN_SIZE, MAX_SIZE)}")
+            raise InputError("size", f"the {name} {both_lengths(self.size)} is outside {length_range(MIN_SIZE, MAX_SIZE)}")
 
     @property
     def half_section(self) -> float:

@@ -10,7 +10,6 @@ from __future__ import annotations
 import datetime as _dt
 import math
 import os
-import tempfile
 from dataclasses import dataclass, field, replace
 from pathlib import Path
 
@@ -19,13 +18,17 @@ from matplotlib.backends.backend_pdf import PdfPages
 from matplotlib.figure import Figure
 from matplotlib.patches import Rectangle
 
-from . import __version__, safety
-from .atmosphere import probe_setpoints
-from .carburizing import CarburizingSetup, carburize, soak_times_for_case_depths
-from .errors import InputError, NotReachableError
-from .hardness import HARDNESS_RELATIONS
-from .nitriding import NitridingSetup, dissociation_for_potential, nitride, nitriding_time
-from .units import DisplayUnits, format_duration
+from .. import __version__, safety
+from ..carburizing.setup import CarburizingSetup
+from ..carburizing.soak import carburize, soak_times_for_case_depths
+from ..errors import InputError, NotReachableError
+from ..files import atomic_write
+from ..models.hardness import HARDNESS_RELATIONS
+from ..nitriding.nitride import nitride, nitriding_time
+from ..nitriding.setup import NitridingSetup, dissociation_for_potential
+from ..outcome import Outcome
+from ..treatments import TREATMENTS
+from ..units import DisplayUnits, format_duration
 
 PAPER = {"a4": (8.27, 11.69), "letter": (8.5, 11.0)}  # inches, portrait
 METRIC_DEPTHS = (0.3, 0.5, 0.8, 1.0, 1.2, 1.5, 2.0, 2.5)  # mm
@@ -132,8 +135,8 @@ def case_depth_chart(setup: CarburizingSetup, temperatures: list[float] | None =
     beyond = False
     for k, (variant, label) in enumerate(zip(variants, labels)):
         curve = carburize(variant, hours * 3600.0)
-        ax.plot(curve.history_time / 3600.0, u.length(curve.history_depth), color=COLOURS[k % len(COLOURS)], lw=2,
-                label=label)
+        ax.plot(curve.history.times / 3600.0, u.length(curve.history.threshold_depths(variant.threshold_carbon)),
+                color=COLOURS[k % len(COLOURS)], lw=2, label=label)
         for t, row in zip(values["soak_times"][k], rows):
             mark = " †" if t > hours * 3600.0 else ""
             beyond = beyond or bool(mark)
@@ -246,11 +249,11 @@ def nitriding_chart(setup: NitridingSetup, temperatures: list[float] | None = No
 
 
 # -- process sheet ----------------------------------------------------------------------------------------
-def process_sheet(plan, outcome, paper: str = "a4", units: str = "metric", shop: str = "",
+def process_sheet(plan, outcome: Outcome, paper: str = "a4", units: str = "metric", shop: str = "",
                   logo: str | None = None, revision: str = "A", date: _dt.date | None = None) -> Document:
     """The process sheet of a plan and its outcome (from :func:`casedepth.plan.evaluate`)."""
     u = DisplayUnits(units)
-    nitriding = outcome.process == "nitriding"
+    content = outcome.sheet(u)
     pages: list[Figure] = []
     first = _page(paper)
     pages.append(first)
@@ -263,7 +266,7 @@ def process_sheet(plan, outcome, paper: str = "a4", units: str = "metric", shop:
     y -= 0.055
     first.text(0.06, y, "Result", fontsize=10, weight="bold", color=INK)
     y -= 0.02
-    for line in _result_lines(outcome, u):
+    for line in [*content.lines, *_quote_line(outcome.quote)]:
         y = _wrapped(first, 0.06, y, line, 8, 128) - 0.017
     profile_ax = first.add_axes([0.10, 0.38, 0.38, 0.22])
     hardness_ax = first.add_axes([0.58, 0.38, 0.36, 0.22])
@@ -282,20 +285,9 @@ def process_sheet(plan, outcome, paper: str = "a4", units: str = "metric", shop:
         y = _wrapped(first, 0.06, y, f"• {c.title}. {c.text}", 7.5, 125)
     y -= 0.02
     _wrapped(first, 0.06, y, safety.DEFERENCE, 7.5, 125, style="italic")
-    if nitriding:
-        stage_rows = [[label, f"{hours:.2f}", u.format_temperature(t_end),
-                       "" if kn is None else f"{kn:.2f}",
-                       "" if kn is None else f"{100 * dissociation_for_potential(kn):.0f}"]
-                      for label, hours, t_end, kn in outcome.segments]
-        header = ["stage", "hours", "ends at", "K_N", "dissociation %"]
-    else:
-        stage_rows = [[s.label, f"{s.duration / 3600:.2f}",
-                       "" if s.temperature is None else u.format_temperature(s.temperature),
-                       "" if s.carbon_potential is None else f"{s.carbon_potential:.2f}",
-                       _probe_cell(s, outcome.carrier_co)] for s in outcome.stages]
-        header = ["stage", "hours", "temperature", "potential %C", "probe mV"]
     quote = outcome.quote
-    chunks = [stage_rows[i:i + STAGES_PER_PAGE] for i in range(0, len(stage_rows), STAGES_PER_PAGE)] or [[]]
+    rows = content.rows
+    chunks = [rows[i:i + STAGES_PER_PAGE] for i in range(0, len(rows), STAGES_PER_PAGE)] or [[]]
     for index, chunk in enumerate(chunks):
         page = _page(paper)
         pages.append(page)
@@ -305,7 +297,7 @@ def process_sheet(plan, outcome, paper: str = "a4", units: str = "metric", shop:
             ax = page.add_axes([0.10, 0.64, 0.80, 0.26])
             _timeline(ax, outcome, u)
         table_ax = page.add_axes([0.06, 0.08, 0.88, 0.50 if index == 0 else 0.82])
-        _table(table_ax, chunk, header, [0.34, 0.12, 0.20, 0.17, 0.17])
+        _table(table_ax, chunk, content.header, [0.34, 0.12, 0.20, 0.17, 0.17])
         if index == len(chunks) - 1:
             money = f" {quote.currency}" if quote.currency else ""
             page.text(0.06, 0.055, f"Whole cycle {quote.total_h:.2f} h ({format_duration(quote.total_h * 3600)}); "
@@ -324,15 +316,6 @@ def _quote_line(quote) -> list[str]:
     parts = ", ".join(f"{label} {hours:.2f} h" for label, hours in quote.lines)
     return [f"Whole cycle {quote.total_h:.2f} h ({format_duration(quote.total_h * 3600)}): {parts}; cost "
             f"{quote.cost_per_load:.2f}{money} per load, {quote.cost_per_part:.3f}{money} per part"]
-
-
-def _probe_cell(stage, carrier_co: float) -> str:
-    """The ideal probe voltage of a held stage for the stage table, or blank."""
-    try:
-        setpoints = probe_setpoints([stage], carrier_co)
-    except InputError:
-        return ""
-    return f"{setpoints[0][1]:.0f}" if setpoints else ""
 
 
 def _title_block(fig: Figure, plan, shop: str, logo: str | None, revision: str, date: _dt.date) -> None:
@@ -354,78 +337,36 @@ def _title_block(fig: Figure, plan, shop: str, logo: str | None, revision: str, 
     fig.text(left, 0.89, f"Part: {plan.part or '—'}", fontsize=9)
     fig.text(0.93, 0.945, f"Revision {revision}", fontsize=9, ha="right")
     fig.text(0.93, 0.925, f"Date {date.isoformat()}", fontsize=9, ha="right")
-    treatment = "Gas nitriding" if plan.treatment == "nitriding" else "Carburizing"
-    fig.text(0.93, 0.905, treatment, fontsize=9, ha="right")
+    fig.text(0.93, 0.905, TREATMENTS[plan.treatment].label, fontsize=9, ha="right")
     if plan.notes:
         fig.text(left, 0.868, plan.notes.splitlines()[0][:110], fontsize=7.5, style="italic", color="#333")
 
 
-def _result_lines(outcome, u: DisplayUnits) -> list[str]:
-    s = outcome.setup
-    low, aim, high = outcome.targets
-    if outcome.process == "nitriding":
-        a = outcome.aim
-        return [f"Nitride {format_duration(a.time)} at {u.format_temperature(s.temperature)}, K_N "
-                f"{s.nitriding_potential:.2f} atm^-1/2 ({100 * dissociation_for_potential(s.nitriding_potential):.0f} % "
-                f"dissociation); window {u.format_length(low)}–{u.format_length(high)}: "
-                f"{format_duration(outcome.low.time)} to {format_duration(outcome.high.time)}",
-                f"Nitrided hardness depth {u.format_length(a.nitrided_depth)} (core {s.core:.0f} HV + 50 HV); "
-                f"compound layer {a.layer.describe()}"] + ([] if outcome.schedule is None else [
-                f"In two stages: {format_duration(outcome.schedule.first_time)} at K_N {outcome.schedule.first_kn:.2f}, "
-                f"then {format_duration(outcome.schedule.second_time)} at K_N {outcome.schedule.second_kn:.2f} "
-                f"({100 * dissociation_for_potential(outcome.schedule.second_kn):.0f} % dissociation)"]) + _quote_line(outcome.quote)
-    lines = []
-    if outcome.process == "single":
-        soak_low, soak, soak_high = outcome.soak_window
-        lines.append(f"Soak {format_duration(soak)} at {u.format_temperature(s.temperature)}, carbon "
-                     f"potential {s.carbon_potential:.2f} %C; window {u.format_length(low)}–{u.format_length(high)}: "
-                     f"{format_duration(soak_low)} to {format_duration(soak_high)}"
-                     + ("; heat-up and drop counted" if outcome.counts_shop_stages else ""))
-    elif outcome.boost_time is not None:
-        lines.append(f"Boost {format_duration(outcome.boost_time)}, then diffuse {format_duration(outcome.diffuse_time)} "
-                     f"at {u.format_temperature(s.temperature)}")
-    else:
-        lines.append("Stages as entered (see the cycle page)")
-    lines.append(f"Effective case depth {u.format_length(outcome.case_depth)} at {s.threshold}; surface carbon "
-                 f"{outcome.surface_carbon:.3f} %C at the end; aim {u.format_length(aim)}")
-    if outcome.probe:
-        lines.append(f"Oxygen probe (ideal, {outcome.carrier_co * 100:g} % CO carrier; trim with the controller's CO "
-                     f"factor): " + ", ".join(f"{label.lower()} {mv:.0f} mV" for label, mv in outcome.probe))
-    return lines
-
-
-def _profiles(ax, hax, outcome, u: DisplayUnits) -> None:
-    low, aim, high = outcome.targets
-    for axis in (ax, hax):
+def _profiles(ax, hax, outcome: Outcome, u: DisplayUnits) -> None:
+    """The two profile plots of the process sheet: what the window shows at the end of the cycle."""
+    view = outcome.view()
+    low, aim, high = view.targets
+    for axis, panel in ((ax, view.main), (hax, view.hardness)):
         axis.axvspan(u.length(low), u.length(high), color="#7fb685", alpha=0.25, lw=0)
         axis.axvline(u.length(aim), color="#7fb685", lw=1)
         axis.grid(True, color="#dddddd", lw=0.5)
         axis.tick_params(labelsize=7)
         axis.set_xlabel(f"depth [{u.length_unit}]", fontsize=8)
-    if outcome.process == "nitriding":
-        a = outcome.aim
-        ax.plot(u.length(a.depth), a.nitrogen, color=INK, lw=1.6)
-        ax.set_ylabel("nitrogen [wt %]", fontsize=8)
-        hax.plot(u.length(a.depth), a.hardness, color=INK, lw=1.6)
-        hax.axhline(a.setup.core + 50, color="#d1495b", ls="--", lw=1)
-        reach = max(high * 1.8, a.nitrided_depth * 1.5)
-    else:
-        profile = outcome.profile
-        ax.plot(u.length(profile.depth), profile.carbon, color=INK, lw=1.6)
-        ax.axhline(outcome.setup.threshold_carbon, color="#d1495b", ls="--", lw=1)
-        ax.set_ylabel("carbon [wt %]", fontsize=8)
-        relation = HARDNESS_RELATIONS[outcome.setup.hardness_relation]
-        hax.plot(u.length(profile.depth), relation.hv(profile.carbon), color=INK, lw=1.6)
-        reach = max(high * 2.2, outcome.case_depth * 2.0)
-    hax.set_ylabel("hardness [HV]", fontsize=8)
-    for axis in (ax, hax):
-        axis.set_xlim(0, u.length(reach))
+        axis.plot(u.length(panel.curve.depth), panel.curve.values, color=INK, lw=1.6)
+        for level in panel.levels:
+            if level.style == "threshold":
+                axis.axhline(level.value, color="#d1495b", ls="--", lw=1)
+        if panel.band is not None:
+            axis.axvspan(0.0, u.length(panel.band[0]), color="#c9c9c9", alpha=0.8, lw=0)
+        axis.set_ylabel(panel.quantity, fontsize=8)
+        axis.set_xlim(0, u.length(view.reach))
     ax.set_title("Profile at the end", fontsize=9)
     hax.set_title("Estimated hardness", fontsize=9)
 
 
-def _timeline(ax, outcome, u: DisplayUnits) -> None:
-    times, temps, pots, labels = outcome.timeline()
+def _timeline(ax, outcome: Outcome, u: DisplayUnits) -> None:
+    line = outcome.timeline()
+    times, temps, pots = line.times, line.temperatures, line.potentials
     ax.plot(times / 3600, [u.temperature(t) for t in temps], color=INK, lw=1.8)
     ax.set_ylabel(f"temperature [{u.temperature_unit}]", fontsize=8)
     ax.set_xlabel("time in the cycle [h]", fontsize=8)
@@ -433,11 +374,11 @@ def _timeline(ax, outcome, u: DisplayUnits) -> None:
     ax.tick_params(labelsize=7)
     pax = ax.twinx()
     pax.plot(times / 3600, pots, color="#d1495b", ls="--", lw=1.4)
-    pax.set_ylabel(outcome.potential_name, fontsize=8, color="#d1495b")
+    pax.set_ylabel(line.potential_name, fontsize=8, color="#d1495b")
     pax.tick_params(labelsize=7)
     if np.isfinite(pots).any():
-        pax.set_ylim(0, max(1.6 if outcome.process != "nitriding" else 1.0, np.nanmax(pots) * 1.15))
-    ax.set_title(f"Temperature (solid) and {outcome.potential_name.split(' [')[0]} (dashed)", fontsize=9)
+        pax.set_ylim(0, max(line.potential_floor, np.nanmax(pots) * 1.15))
+    ax.set_title(f"Temperature (solid) and {line.potential_name.split(' [')[0]} (dashed)", fontsize=9)
 
 
 def _wrapped(fig: Figure, x: float, y: float, text: str, size: float, width: int, style: str = "normal") -> float:
@@ -453,36 +394,21 @@ def _wrapped(fig: Figure, x: float, y: float, text: str, size: float, width: int
 def save(document: Document, path: str | os.PathLike, fmt: str | None = None, dpi: int = 200) -> list[Path]:
     """Write the document: PDF with every page in one file; SVG or PNG one file per page (name-2.png …).
 
-    Each file is written to a temporary name and renamed, so a failed write leaves no half file.
+    Each file is written through :func:`casedepth.files.atomic_write`, so a failed write leaves no half file.
     """
     path = Path(path)
     fmt = (fmt or path.suffix.lstrip(".")).lower()
     if fmt not in ("pdf", "svg", "png"):
         raise InputError("output", f"unknown format {fmt!r}; use pdf, svg or png")
-    written = []
-
-    def atomic(target: Path, write):
-        handle, temporary = tempfile.mkstemp(suffix=target.suffix, dir=target.parent)
-        os.close(handle)
-        try:
-            write(temporary)
-            os.replace(temporary, target)
-        except BaseException:
-            if os.path.exists(temporary):
-                os.unlink(temporary)
-            raise
-        written.append(target)
-
     if fmt == "pdf":
         def write_pdf(name):
             with PdfPages(name, metadata={"Title": document.title, "Creator": f"casedepth {__version__}"}) as pdf:
                 for page in document.pages:
                     pdf.savefig(page)
 
-        atomic(path, write_pdf)
-    else:
-        for number, page in enumerate(document.pages, 1):
-            target = path if len(document.pages) == 1 else path.with_name(f"{path.stem}-{number}{path.suffix}")
-            atomic(target, lambda name, p=page: p.savefig(name, format=fmt, dpi=dpi))
+        return [atomic_write(path, write_pdf)]
+    written = []
+    for number, page in enumerate(document.pages, 1):
+        target = path if len(document.pages) == 1 else path.with_name(f"{path.stem}-{number}{path.suffix}")
+        written.append(atomic_write(target, lambda name, p=page: p.savefig(name, format=fmt, dpi=dpi)))
     return written
-

@@ -31,8 +31,8 @@ from typing import Callable
 import numpy as np
 from scipy.linalg.lapack import dgtsv
 
-from .diffusivity import Diffusivity
-from .errors import SolverError
+from ..errors import SolverError
+from ..models.diffusivity import Diffusivity
 from .geometry import Geometry, extend_nodes, graded_nodes
 
 # ROS2: both roots of 2γ² - 4γ + 1 = 0 give an L-stable method; the smaller has the much smaller
@@ -111,6 +111,30 @@ class Profile:
     def carbon_at(self, depth: float) -> float:
         """Carbon [wt %] at ``depth`` [m] (linear between nodes)."""
         return float(np.interp(depth, self.depth, self.carbon))
+
+
+@dataclass
+class History:
+    """The profile after every step of a march: ``times`` [s] and ``carbon`` [wt %] on the nodes
+    ``depth`` [m], in order; the last entry is the final profile."""
+
+    depth: np.ndarray
+    times: np.ndarray
+    carbon: list[np.ndarray]
+    half_section: float = math.inf
+
+    def profile_at(self, time: float) -> Profile:
+        """The profile at ``time`` [s], linear in time between steps (for display; clipped to the history)."""
+        times = self.times
+        if len(times) == 1:
+            return Profile(self.depth, self.carbon[0], float(time), self.half_section)
+        k = int(np.clip(np.searchsorted(times, time), 1, len(times) - 1))
+        w = float(np.clip((time - times[k - 1]) / max(times[k] - times[k - 1], 1e-30), 0.0, 1.0))
+        return Profile(self.depth, (1 - w) * self.carbon[k - 1] + w * self.carbon[k], float(time), self.half_section)
+
+    def threshold_depths(self, carbon: float) -> np.ndarray:
+        """Depth [m] where each profile of the history falls to ``carbon`` [wt %]."""
+        return np.array([threshold_depth(self.depth, c, carbon, self.half_section) for c in self.carbon])
 
 
 def _tridiagonal(below: np.ndarray, diagonal: np.ndarray, above: np.ndarray, rhs: np.ndarray) -> np.ndarray:
@@ -398,17 +422,17 @@ class CarbonSolver:
         carbon, _ = self._step(dt, cond, euler, start=self.snapshot(index - 1))
         return Profile(self.nodes, carbon, self.history_time[index - 1] + dt, self.geometry.half_section)
 
-    def profile_at(self, time: float) -> Profile:
-        """The profile at ``time`` [s] within the history, linear in time between steps (for display)."""
-        times = self.history_time
-        k = int(np.searchsorted(times, time))
-        if k == 0:
-            return Profile(self.nodes, self.snapshot(0), times[0], self.geometry.half_section)
-        if k >= len(times):
-            return Profile(self.nodes, self.snapshot(len(times) - 1), times[-1], self.geometry.half_section)
-        w = (time - times[k - 1]) / (times[k] - times[k - 1])
-        carbon = (1 - w) * self.snapshot(k - 1) + w * self.snapshot(k)
-        return Profile(self.nodes, carbon, time, self.geometry.half_section)
+    def history(self, last: int | None = None, final: Profile | None = None) -> History:
+        """The history up to step ``last`` (default: all of it), on the present grid; with ``final``, the
+        steps before ``last`` and then that profile (a step re-taken to a shorter length)."""
+        last = len(self.history_time) - 1 if last is None else last
+        if final is None:
+            times = self.history_time[:last + 1]
+            carbon = [self.snapshot(k) for k in range(last + 1)]
+        else:
+            times = [*self.history_time[:last], final.time]
+            carbon = [*(self.snapshot(k) for k in range(last)), final.carbon]
+        return History(self.nodes.copy(), np.array(times), carbon, self.geometry.half_section)
 
     def threshold_depth(self, carbon: float) -> float:
         """Depth [m] where the present profile falls to ``carbon`` [wt %]."""

@@ -21,14 +21,14 @@ from __future__ import annotations
 
 import math
 
-from .errors import InputError
+from ..constants import GAS_CONSTANT as R, ZERO_CELSIUS
+from ..errors import InputError
 
-R = 8.314462618  # J/(mol K)
 AIR_OXYGEN = 0.209  # atm, the probe's reference
 #: CO in endothermic gas made from natural gas, about 20 vol % (common practice; 23–24 % from propane)
 ENDO_CO_FRACTION = 0.20
 PROBE_RANGE_MV = (900.0, 1300.0)  # readings of carburizing atmospheres
-TEMPERATURE_RANGE = (800.0 + 273.15, 1100.0 + 273.15)  # K, austenite with carburizing gas
+TEMPERATURE_RANGE = (800.0 + ZERO_CELSIUS, 1100.0 + ZERO_CELSIUS)  # K, austenite with carburizing gas
 
 
 def oxygen_probe_pressure(E: float, T: float) -> float:
@@ -137,9 +137,9 @@ def carbon_for_activity(activity: float, T: float) -> float:
 def _check(T: float, CO: float) -> None:
     lo, hi = TEMPERATURE_RANGE
     if not (math.isfinite(T) and lo <= T <= hi):
-        raise InputError("temperature", f"{T - 273.15:.0f} °C is outside {lo - 273.15:.0f}–{hi - 273.15:.0f} °C")
+        raise InputError("temperature", f"{T - ZERO_CELSIUS:.0f} °C is outside {lo - ZERO_CELSIUS:.0f}–{hi - ZERO_CELSIUS:.0f} °C")
     if not (math.isfinite(CO) and 0.05 <= CO <= 0.5):
-        raise InputError("CO", f"{CO * 100:g} % CO is outside 5–50 %")
+        raise InputError("carrier_co", f"{CO * 100:g} % CO is outside 5–50 %")
 
 
 def carbon_potential_from_probe(E: float, T: float, CO: float = ENDO_CO_FRACTION) -> float:
@@ -153,7 +153,7 @@ def carbon_potential_from_probe(E: float, T: float, CO: float = ENDO_CO_FRACTION
     """
     _check(T, CO)
     if not (math.isfinite(E) and PROBE_RANGE_MV[0] <= E <= PROBE_RANGE_MV[1]):
-        raise InputError("probe", f"{E:g} mV is outside {PROBE_RANGE_MV[0]:g}–{PROBE_RANGE_MV[1]:g} mV")
+        raise InputError("mv", f"{E:g} mV is outside {PROBE_RANGE_MV[0]:g}–{PROBE_RANGE_MV[1]:g} mV")
     activity = CO / (CO_formation_constant(T) * math.sqrt(oxygen_probe_pressure(E, T)))
     return carbon_for_activity(activity, T)
 
@@ -168,7 +168,7 @@ def probe_voltage_for_potential(carbon_potential: float, T: float, CO: float = E
     """
     _check(T, CO)
     if not (math.isfinite(carbon_potential) and 0.05 <= carbon_potential <= 2.0):
-        raise InputError("carbon potential", f"{carbon_potential:g} %C is outside 0.05–2 %C")
+        raise InputError("carbon_potential", f"{carbon_potential:g} %C is outside 0.05–2 %C")
     activity = austenite_carbon_activity(carbon_potential, T)
     pO2 = (CO / (CO_formation_constant(T) * activity)) ** 2
     return probe_voltage(pO2, T)

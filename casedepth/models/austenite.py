@@ -13,8 +13,8 @@ from functools import cache
 
 import numpy as np
 
-from .errors import InputError
-from .units import ZERO_CELSIUS
+from ..constants import ZERO_CELSIUS
+from ..errors import InputError
 
 # (°C, wt % C) on the austenite/cementite boundary of plain Fe–C. End points: eutectoid
 # 727 °C / 0.77 % and eutectic 1148 °C / 2.11 % of the Fe–C diagram. Points between were

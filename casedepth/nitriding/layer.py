@@ -1,6 +1,7 @@
-r"""Growth of the compound ("white") layer of iron nitrides during gas nitriding.
+r"""Growth of the compound ("white") layer of iron nitrides during gas nitriding: the model table.
 
-The model is the layer-growth model of Somers & Mittemeijer (1995): an ε layer over a γ′ layer (or
+:data:`LAYER_MODELS` has one row per model a plan may name (``layer_model``). The default is the
+layer-growth model of Somers & Mittemeijer (1995): an ε layer over a γ′ layer (or
 a γ′ layer alone) on the ferrite, local equilibrium at every interface, nitrogen carried through
 each nitride by diffusion with a linear (quasi-steady) profile, and each interface moved by its
 own mass balance:
@@ -21,6 +22,10 @@ NOT read from a source: they are an order of magnitude recalled from Somers & Mi
 for 843 K, set within that range so that common-practice layer thicknesses come out (about
 10 µm after 20 h at 520 °C, K_N 3, on 4140). Treat predicted layers as ±50 %.
 
+The table also keeps the parabolic rate law of the first nitriding release (a common-practice
+calibration, not a published model) so that plans made with it give the numbers they gave; it is
+marked superseded, and the window offers the published model to those plans.
+
 Lengths in m, times in s, nitrogen in wt %, temperatures in K.
 """
 
@@ -29,11 +34,11 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 from functools import lru_cache
+from typing import Callable
 
-from . import iron_nitrogen as fen
-from .errors import InputError
-
-R = fen.R
+from ..constants import GAS_CONSTANT as R, ZERO_CELSIUS
+from ..errors import InputError, SolverError
+from ..models import iron_nitrogen as fen
 
 # Effective nitrogen diffusivities in the nitrides, D = D(843 K) exp(−Q/R (1/T − 1/843 K)).
 # From memory, order of magnitude only (see the module notes): 8e-14 m²/s at 843 K, Q = 100 kJ/mol.
@@ -133,6 +138,7 @@ class CompoundLayer:
 
     epsilon: float = 0.0
     gamma_prime: float = 0.0
+    split: bool = True  # False for a model that gives the thickness only (then it is all in the surface phase)
 
     @property
     def thickness(self) -> float:
@@ -149,6 +155,8 @@ class CompoundLayer:
         """The layer in words, e.g. ``8.5 µm (ε 5.3 over γ′ 3.2 µm)``."""
         if self.thickness < 0.05e-6:
             return "none"
+        if not self.split:
+            return f"{self.thickness * 1e6:.1f} µm"
         if self.epsilon < 0.05e-6:
             return f"{self.thickness * 1e6:.1f} µm (γ′ only)"
         return f"{self.thickness * 1e6:.1f} µm (ε {self.epsilon * 1e6:.1f} over γ′ {self.gamma_prime * 1e6:.1f} µm)"
@@ -238,11 +246,7 @@ def grow_compound_layer(T: float, stages: list[tuple[float, float]], uptake: flo
     the γ′ beneath it until it is gone (its own loss to the gas is neglected). Every K_N must be at
     or above the α/γ′ boundary, where the ferrite under the layer stays saturated.
     """
-    alpha_gamma, _ = fen.Lehrer_boundaries(T)
-    for _, K_N in stages:
-        if K_N < alpha_gamma * (1 - 1e-12):
-            raise InputError("nitriding potential", f"K_N {K_N:.3g} lies below the α/γ′ boundary ({alpha_gamma:.3g}); "
-                             f"a staged layer needs every stage at or above it")
+    _check_staged(T, stages)
     first_time, first_kn = stages[0]
     layer = compound_layer(T, first_kn, first_time, uptake)
     p1, p2, now = layer.epsilon, layer.thickness, first_time
@@ -291,5 +295,93 @@ def _integrate_stage(T, K_N, uptake, p1, p2, start, end):
                 return 0.0, 0.0
             y[0] = 0.0
         elif not solution.success:
-            raise ArithmeticError(solution.message)
+            raise SolverError(f"compound-layer growth: {solution.message}")
     return max(y[0], 0.0), max(y[1], 0.0)
+
+
+def _check_staged(T: float, stages: list[tuple[float, float]]) -> None:
+    alpha_gamma, _ = fen.Lehrer_boundaries(T)
+    for _, K_N in stages:
+        if K_N < alpha_gamma * (1 - 1e-12):
+            raise InputError("kn_second", f"K_N {K_N:.3g} lies below the α/γ′ boundary ({alpha_gamma:.3g}); "
+                             f"a staged layer needs every stage at or above it")
+
+
+# -- the parabolic rate law of the first nitriding release (superseded) ------------------------------------
+#: its activation energy, J/mol, and the layer it was calibrated to: 10 µm after 20 h at 520 °C and K_N 3
+#: (common practice, from memory; not a published model)
+RATE_LAW_Q = 180e3
+RATE_LAW_CALIBRATION = (10e-6, 20 * 3600.0, 520.0 + ZERO_CELSIUS, 3.0)
+
+
+def _rate_law_b(T: float) -> float:
+    """B(T) [m²/s] of the rate law s² = 2 B(T) ln(K_N / K_N^α/γ′) t."""
+    s0, t0, T0, kn0 = RATE_LAW_CALIBRATION
+    b0 = s0**2 / (2.0 * math.log(kn0 / fen.Lehrer_boundaries(T0)[0]) * t0)
+    return b0 * math.exp(-RATE_LAW_Q / R * (1.0 / T - 1.0 / T0))
+
+
+def rate_law_constants(T: float, K_N: float, uptake: float = 0.0) -> tuple[float, float]:
+    r"""Parabolic constants (ε part, whole layer) [m/√s] of the rate law of the first nitriding release.
+
+    .. math:: s^2 = 2 B(T) \lnrac{K_N}{K_N^{lpha/\gamma'}}\, t, \qquad B(T) = B_0 e^{-Q/RT}
+
+    A common-practice calibration (10 µm after 20 h at 520 °C, K_N 3; Q = 180 kJ/mol), kept so that
+    plans made with it give the numbers they gave; it has no split into ε and γ′ (the whole layer is
+    counted in the surface phase) and ignores the diffusion zone's draw (``uptake`` is not used).
+
+    Examples
+    --------
+    >>> k = rate_law_constants(793.15, 3.0)[1]
+    >>> round(k * math.sqrt(20 * 3600.0) * 1e6, 3)
+    10.0
+    """
+    alpha_gamma, gamma_epsilon = fen.Lehrer_boundaries(T)
+    if K_N <= alpha_gamma:
+        return 0.0, 0.0
+    k = math.sqrt(2.0 * _rate_law_b(T) * math.log(K_N / alpha_gamma))
+    return (k if K_N >= gamma_epsilon else 0.0), k
+
+
+def rate_law_staged(T: float, stages: list[tuple[float, float]], uptake: float = 0.0) -> CompoundLayer:
+    """The rate law's layer [m] after consecutive stages ``(duration [s], K_N)``: s² = 2B Σ ln(K_N,i/K_N^α/γ′) t_i."""
+    _check_staged(T, stages)
+    alpha_gamma, gamma_epsilon = fen.Lehrer_boundaries(T)
+    square = sum(2.0 * _rate_law_b(T) * math.log(max(K_N, alpha_gamma) / alpha_gamma) * time for time, K_N in stages)
+    thickness = math.sqrt(max(square, 0.0))
+    epsilon = thickness if stages[-1][1] >= gamma_epsilon else 0.0
+    return CompoundLayer(epsilon, thickness - epsilon, split=False)
+
+
+@dataclass(frozen=True)
+class LayerModel:
+    """One row of the compound-layer model table."""
+
+    key: str
+    display: str
+    reference: str
+    #: (T [K], K_N, uptake [wt % m/√s]) -> parabolic constants (ε part, whole layer) [m/√s]
+    constants: Callable[[float, float, float], tuple[float, float]]
+    #: (T [K], [(duration [s], K_N), …], uptake) -> the layer after consecutive stages
+    staged: Callable[[float, list[tuple[float, float]], float], CompoundLayer]
+    splits: bool = True  # the model tells ε from γ′
+    superseded_by: str | None = None  # the key of the model offered instead (None: current)
+
+    def layer(self, T: float, K_N: float, time: float, uptake: float) -> CompoundLayer:
+        """The layer [m] after ``time`` [s] at constant T [K] and K_N."""
+        k1, k2 = self.constants(float(T), float(K_N), float(uptake))
+        root = math.sqrt(time)
+        return CompoundLayer(k1 * root, (k2 - k1) * root, self.splits)
+
+
+LAYER_MODELS: dict[str, LayerModel] = {
+    "somers-mittemeijer-1995": LayerModel(
+        "somers-mittemeijer-1995", "ε/γ′ layer growth, Somers & Mittemeijer (1995)",
+        "Somers & Mittemeijer, Metall. Mater. Trans. A 26 (1995) 57; nitride diffusivities from memory (±50 %)",
+        parabolic_constants, grow_compound_layer),
+    "rate-law-2026": LayerModel(
+        "rate-law-2026", "Parabolic rate law (first release, superseded)",
+        "common-practice calibration, 10 µm after 20 h at 520 °C and K_N 3 (not a published model)",
+        rate_law_constants, rate_law_staged, splits=False, superseded_by="somers-mittemeijer-1995"),
+}
+DEFAULT_LAYER_MODEL = "somers-mittemeijer-1995"

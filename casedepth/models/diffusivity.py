@@ -14,12 +14,8 @@ from typing import Callable
 
 import numpy as np
 
-from .errors import InputError
-
-R_CAL = 1.987  # gas constant, cal/(mol K), as used by Tibbetts (1980)
-R_SI = 8.314462618  # gas constant, J/(mol K)
-M_C = 12.011  # molar mass of carbon, g/mol
-M_FE = 55.845  # molar mass of iron, g/mol
+from ..constants import GAS_CONSTANT, GAS_CONSTANT_CAL, MOLAR_MASS
+from ..errors import InputError
 
 ARRHENIUS_D0 = 2.3e-5  # m²/s
 ARRHENIUS_Q = 148e3  # J/mol
@@ -63,7 +59,7 @@ def Tibbetts_1980(carbon, T):
        Journal of Applied Physics 51, no. 9 (1980): 4813–4816. doi:10.1063/1.328314
     """
     carbon = np.asarray(carbon, dtype=float) if not np.isscalar(carbon) else float(carbon)
-    return 0.47e-4 * np.exp(-1.6 * carbon) * np.exp(-(37000.0 - 6600.0 * carbon) / (R_CAL * T))
+    return 0.47e-4 * np.exp(-1.6 * carbon) * np.exp(-(37000.0 - 6600.0 * carbon) / (GAS_CONSTANT_CAL * T))
 
 
 def Agren_1986(carbon, T):
@@ -106,7 +102,7 @@ def Agren_1986(carbon, T):
        doi:10.1016/0036-9748(86)90384-4
     """
     carbon = np.asarray(carbon, dtype=float) if not np.isscalar(carbon) else float(carbon)
-    y = (carbon / M_C) / ((100.0 - carbon) / M_FE)
+    y = (carbon / MOLAR_MASS["C"]) / ((100.0 - carbon) / MOLAR_MASS["Fe"])
     return 4.53e-7 * (1.0 + y * (1.0 - y) * 8339.9 / T) * np.exp(-(1.0 / T - 2.221e-4) * (17767.0 - 26436.0 * y))
 
 
@@ -149,7 +145,7 @@ def Arrhenius(carbon, T, D0: float = ARRHENIUS_D0, Q: float = ARRHENIUS_Q):
     .. [1] Callister, W. D., and D. G. Rethwisch. Materials Science and Engineering:
        An Introduction. Wiley (any edition since 2007), Table 5.2 "A tabulation of diffusion data".
     """
-    return D0 * np.exp(-Q / (R_SI * T)) * np.ones_like(carbon, dtype=float)
+    return D0 * np.exp(-Q / (GAS_CONSTANT * T)) * np.ones_like(carbon, dtype=float)
 
 
 @dataclass(frozen=True)
@@ -208,11 +204,11 @@ class Diffusivity:
         if self.method not in METHODS:
             raise InputError("diffusivity", f"unknown model {self.method!r}; choose one of {', '.join(METHODS)}")
         if not (math.isfinite(self.multiplier) and 0.1 <= self.multiplier <= 10.0):
-            raise InputError("diffusivity multiplier", f"{self.multiplier} is outside 0.1–10")
+            raise InputError("d_multiplier", f"{self.multiplier} is outside 0.1–10")
         if not (math.isfinite(self.D0) and 1e-9 <= self.D0 <= 1e-2):
-            raise InputError("D0", f"{self.D0} m²/s is outside 1e-9–1e-2 m²/s")
+            raise InputError("d0", f"{self.D0} m²/s is outside 1e-9–1e-2 m²/s")
         if not (math.isfinite(self.Q) and 50e3 <= self.Q <= 400e3):
-            raise InputError("Q", f"{self.Q / 1e3:g} kJ/mol is outside 50–400 kJ/mol")
+            raise InputError("q", f"{self.Q / 1e3:g} kJ/mol is outside 50–400 kJ/mol")
         function = METHODS[self.method].function
         if self.method == "arrhenius":
             D0, Q = self.D0, self.Q
@@ -223,7 +219,7 @@ class Diffusivity:
     def __call__(self, carbon, T):
         """Diffusivity [m²/s] at carbon [wt %] and temperature [K]."""
         if self.method == "tibbetts" and isinstance(carbon, np.ndarray):  # the solver's hot path: one exponential
-            return (self.multiplier * 0.47e-4) * np.exp((-1.6 + 6600.0 / (R_CAL * T)) * carbon - 37000.0 / (R_CAL * T))
+            return (self.multiplier * 0.47e-4) * np.exp((-1.6 + 6600.0 / (GAS_CONSTANT_CAL * T)) * carbon - 37000.0 / (GAS_CONSTANT_CAL * T))
         return self.multiplier * self._function(carbon, T)
 
     def with_derivative(self, carbon: np.ndarray, T: float, step: float = 1e-5):
@@ -232,8 +228,8 @@ class Diffusivity:
         Exact for the Arrhenius and Tibbetts forms, a central difference otherwise.
         """
         if self.method == "tibbetts":  # Tibbetts_1980 in one exponential; d ln D / dC = -1.6 + 6600 / (R T)
-            slope = -1.6 + 6600.0 / (R_CAL * T)
-            D = (self.multiplier * 0.47e-4) * np.exp(slope * carbon - 37000.0 / (R_CAL * T))
+            slope = -1.6 + 6600.0 / (GAS_CONSTANT_CAL * T)
+            D = (self.multiplier * 0.47e-4) * np.exp(slope * carbon - 37000.0 / (GAS_CONSTANT_CAL * T))
             return D, D * slope
         D = self(carbon, T)
         if self.method == "arrhenius":

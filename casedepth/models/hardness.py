@@ -13,8 +13,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .errors import InputError
-from .units import Threshold
+from ..errors import InputError
+from ..units import Threshold
 
 # Rockwell C → Vickers for steel, whole HRC numbers 20–68, as commonly reproduced from
 # ASTM E140 Table 1 (non-austenitic steels). From memory: check against the standard.
@@ -145,7 +145,7 @@ class HardnessRelation:
         top = self.hrc(JUST_PLATEAU_CARBON)
         bottom = self.hrc(0.0)
         if not (bottom < hrc < top):
-            raise InputError("threshold", f"{hrc:.1f} HRC is outside what the case can have under "
+            raise InputError("threshold_value", f"{hrc:.1f} HRC is outside what the case can have under "
                              f"'{self.display}', {bottom:.1f}–{top:.1f} HRC")
         return ((hrc - 20.0 + self.offset_hrc) / 60.0) ** 2
 
@@ -170,10 +170,13 @@ def threshold_carbon(threshold: Threshold, relation: str = "tempered") -> float:
     if threshold.kind == "carbon":
         return threshold.value
     if threshold.kind == "above core":
-        raise InputError("threshold", "a threshold above the core's carbon needs the steel: use the setup's threshold_carbon")
+        raise InputError("threshold_value", "a threshold above the core's carbon needs the steel: use the setup's threshold_carbon")
     if relation not in HARDNESS_RELATIONS:
-        raise InputError("hardness relation", f"unknown relation {relation!r}; choose one of {', '.join(HARDNESS_RELATIONS)}")
-    hrc = threshold.value if threshold.kind == "HRC" else ASTM_E140_hv_to_hrc(threshold.value)
+        raise InputError("hardness_relation", f"unknown relation {relation!r}; choose one of {', '.join(HARDNESS_RELATIONS)}")
+    try:
+        hrc = threshold.value if threshold.kind == "HRC" else ASTM_E140_hv_to_hrc(threshold.value)
+    except InputError as error:
+        raise error.renamed("threshold_value") from None
     return HARDNESS_RELATIONS[relation].carbon_for_hrc(hrc)
 
 

@@ -1,0 +1,602 @@
+"""Carburizing plans evaluated: the setup a plan's values make, the cycles a plan may ask for, and the
+outcome every surface reads.
+
+* :func:`carburizing_setup` — the one place a plan's values become a :class:`CarburizingSetup`;
+* :data:`CYCLES` — one row per cycle (one soak, boost and diffuse, stages of one's own): its label,
+  the note the window shows, which potential the setup stands for, and how it is planned;
+* :func:`evaluate` — a plan's values to a :class:`CarburizingOutcome`;
+* :func:`forward` — what a soak of a given length gives, the shop's stages counted as the plan counts them.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field, replace
+from typing import Any, Callable, Mapping
+
+import numpy as np
+
+from .. import safety
+from ..constants import ZERO_CELSIUS
+from ..errors import InputError
+from ..models.atmosphere import ENDO_CO_FRACTION, probe_setpoints
+from ..models.diffusivity import Diffusivity
+from ..models.hardness import HARDNESS_RELATIONS, ASTM_E140_hv_to_hrc
+from ..models.steels import steel_for
+from ..numerics.geometry import Geometry
+from ..numerics.solver import History, Profile
+from ..outcome import Curve, Fact, Level, Outcome, Panel, ProfileView, SheetContent, Summary, Timeline, quote_fact
+from ..parameters import drawing_window
+from ..shop.quote import Quote, ShopDefaults, quote_lines
+from ..units import DisplayUnits, Threshold, format_duration
+from .cycle import CycleResult, Stage, run_recipe, shop_stages, stage_from_dict, stage_lines, stage_to_dict, timeline
+from .planners import plan_boost_diffuse, plan_single_soak
+from .setup import CarburizingSetup, case_warnings
+from .soak import carburize, check_probe_depth, check_soak, soak_times_for_case_depths
+
+
+# -- plan values -> setup ------------------------------------------------------------------------------------
+def stage_list(values: Mapping[str, Any]) -> list[Stage]:
+    """The plan's own stages."""
+    return [stage_from_dict(row, number) for number, row in enumerate(values["stages"], 1)]
+
+
+def carburizing_setup(values: Mapping[str, Any]) -> CarburizingSetup:
+    """The validated setup of a plan's values; an :class:`InputError` names the parameter at fault.
+
+    The setup's carbon potential is the one the plan's cycle stands for (:attr:`Cycle.potential`): the
+    furnace step's for one soak, the boost's, or the richest stage's — the atmosphere the cautions judge.
+    """
+    cycle = CYCLES[values["process"]]
+    potential, key = cycle.potential(values)
+    temperature, temperature_key = cycle.temperature(values)
+    try:
+        return CarburizingSetup(
+            steel=steel_for(values["steel"], values["composition"]),
+            temperature=temperature,
+            carbon_potential=potential,
+            threshold=Threshold(values["threshold_value"], values["threshold_kind"]),
+            diffusivity=Diffusivity(values["diffusivity"], values["d_multiplier"], values["d0"], values["q"]),
+            beta=math.inf if values["beta_held"] else values["beta"],
+            alloy_factor_on=values["alloy_factor"],
+            geometry=Geometry(values["shape"], values["size"]),
+            hardness_relation=values["hardness_relation"],
+        )
+    except InputError as error:
+        renamed = {"carbon_potential": key, "temperature": temperature_key}.get(error.field, error.field)
+        raise error.renamed(renamed) from None
+
+
+def shop_of(values: Mapping[str, Any]) -> ShopDefaults:
+    return ShopDefaults.from_dict(values["shop"])
+
+
+# -- the cycles ---------------------------------------------------------------------------------------------
+@dataclass
+class Planned:
+    """What a cycle's planner gives: the stages the furnace runs (all of them, for the quote and the
+    timeline), the soaks [s] for the drawing's minimum, aim and maximum, the carbon run (the soak alone,
+    or the cycle with the stages counted), the boost and diffuse times where planned, and warnings."""
+
+    stages: list[Stage]
+    soak_times: tuple[float, float, float]
+    cycle: CycleResult | None = None
+    isothermal: Any = None  # the soak alone for min, aim, max (CarburizingResult), when no stage is counted
+    boost_time: float | None = None
+    diffuse_time: float | None = None
+    warnings: list[str] = field(default_factory=list)
+    counted: tuple[Stage, ...] = ()  # the shop's stages whose carbon is counted in the case
+
+
+def _counted_stages(values, shop, setup, potential) -> tuple[tuple, tuple, tuple, tuple]:
+    """The shop's stages before and after the step (for the quote), and those counted in the case."""
+    before, after = shop_stages(shop, setup.temperature, potential)
+    moves = any(s.moves_carbon and s.duration > 0 for s in (*before, *after))
+    if values["count_shop_stages"] and moves:
+        return before, after, before, after
+    return before, after, (), ()
+
+
+def _plan_single(setup: CarburizingSetup, values, shop, targets) -> Planned:
+    before, after, count_before, count_after = _counted_stages(values, shop, setup, setup.carbon_potential)
+    T = setup.temperature
+    if count_before or count_after:
+        planned = plan_single_soak(setup, list(targets), count_before, count_after)
+        cycle = planned.cycle
+        warnings = case_warnings(setup, cycle.case_depth, cycle.surface_carbon)  # the case at the end of the cycle
+        warnings += [w for w in cycle.warnings if w not in warnings]
+        soaks, isothermal = tuple(planned.soak_times), None
+    else:
+        isothermal = soak_times_for_case_depths(setup, list(targets), size_for=targets[1])
+        soaks, cycle, warnings = tuple(r.soak_time for r in isothermal), None, list(isothermal[1].warnings)
+    stages = [*before, Stage("soak", soaks[1], T, setup.carbon_potential), *after]
+    counted = tuple(s for s in (*count_before, *count_after) if s.moves_carbon and s.duration > 0)
+    return Planned(stages, soaks, cycle, isothermal, warnings=warnings, counted=counted)
+
+
+def _plan_boost_diffuse(setup: CarburizingSetup, values, shop, targets) -> Planned:
+    before, after, count_before, count_after = _counted_stages(values, shop, setup, values["boost_potential"])
+    planned = plan_boost_diffuse(setup, targets[1], (values["surface_min"], values["surface_max"]),
+                                 values["boost_potential"], values["diffuse_potential"], before=count_before,
+                                 after=count_after)
+    T = setup.temperature
+    stages = [*before, Stage("boost", planned.boost_time, T, values["boost_potential"]),
+              Stage("diffuse", planned.diffuse_time, T, values["diffuse_potential"]), *after]
+    held = planned.boost_time + planned.diffuse_time
+    counted = tuple(s for s in (*count_before, *count_after) if s.moves_carbon and s.duration > 0)
+    return Planned(stages, (held, held, held), planned.cycle, boost_time=planned.boost_time,
+                   diffuse_time=planned.diffuse_time, warnings=list(planned.cycle.warnings), counted=counted)
+
+
+def _plan_stages(setup: CarburizingSetup, values, shop, targets) -> Planned:
+    stages = stage_list(values)
+    cycle = run_recipe(setup, stages)
+    held = sum(s.duration for s in stages if s.kind in ("soak", "boost", "diffuse"))
+    return Planned(stages, (held, held, held), cycle, warnings=list(cycle.warnings), counted=tuple(stages))
+
+
+def _carburizing_stages(values) -> list[Stage]:
+    try:
+        return [stage for stage in stage_list(values) if stage.moves_carbon]
+    except InputError:
+        return []
+
+
+def _richest_stage(values) -> tuple[float, str]:
+    rich = [stage.carbon_potential for stage in _carburizing_stages(values)]
+    return (float(max(rich)), "stages") if rich else (values["carbon_potential"], "carbon_potential")
+
+
+def _hottest_stage(values) -> tuple[float, str]:
+    hot = [stage.temperature for stage in _carburizing_stages(values) if stage.kind != "heat-up"]
+    return (float(max(hot)), "stages") if hot else (values["temperature"], "temperature")
+
+
+def _furnace_temperature(values) -> tuple[float, str]:
+    return values["temperature"], "temperature"
+
+
+@dataclass(frozen=True)
+class Cycle:
+    """One row of the cycle table: what the window calls it, the note under it, which carbon potential and
+    temperature the setup stands for (and the parameter that holds each), and how it is planned."""
+
+    key: str
+    label: str
+    note: str
+    potential: Callable[[Mapping[str, Any]], tuple[float, str]]
+    temperature: Callable[[Mapping[str, Any]], tuple[float, str]]
+    plan: Callable[[CarburizingSetup, Mapping[str, Any], ShopDefaults, tuple], Planned]
+    has_soak: bool  # a single soak at temperature that loads and calibration may vary
+
+
+CYCLES: dict[str, Cycle] = {
+    "single": Cycle(
+        "single", "One soak at one carbon potential",
+        "The soak time at temperature for the case at the end of the cycle (with the shop's heat-up, drop and "
+        "equalize counted when ticked); the quote adds load, quench, wash and temper times.",
+        lambda v: (v["carbon_potential"], "carbon_potential"), _furnace_temperature, _plan_single, True),
+    "boost-diffuse": Cycle(
+        "boost-diffuse", "Boost and diffuse (plan both times)",
+        "Plans boost and diffuse so the case and the surface carbon are on target at the end of the cycle (with "
+        "the shop's heat-up, drop and equalize counted when ticked).",
+        lambda v: (v["boost_potential"], "boost_potential"), _furnace_temperature, _plan_boost_diffuse, False),
+    "stages": Cycle(
+        "stages", "Stages of my own",
+        "Runs the stages as entered (temperatures ramp from the previous stage) and shows what they give.",
+        _richest_stage, _hottest_stage, _plan_stages, False),
+}
+
+#: errors of the planners raised against their arguments, and the parameter each stands for
+_PLANNER_FIELDS = {"target": "case_max", "surface target": "surface_min"}
+
+
+def evaluate(values: Mapping[str, Any]) -> "CarburizingOutcome":
+    """A carburizing plan's outcome; :class:`InputError` (or :class:`NotReachableError`) naming the parameter."""
+    cycle = CYCLES[values["process"]]
+    setup = carburizing_setup(values)
+    shop = shop_of(values)
+    targets = drawing_window(values)
+    try:
+        planned = cycle.plan(setup, values, shop, targets)
+    except InputError as error:
+        if error.field == "stages" and cycle.key != "stages":
+            raise InputError("shop", f"a stage from the shop's times: {error.message}") from None
+        raise (error.renamed(_PLANNER_FIELDS[error.field]) if error.field in _PLANNER_FIELDS else error) from None
+    carrier_co = shop.carrier_co_pct / 100.0
+    try:
+        probe = probe_setpoints(planned.stages, carrier_co)
+    except InputError:  # a stage outside the probe relation's range: no setpoint rather than no plan
+        probe = []
+    return CarburizingOutcome(
+        values=dict(values), setup=setup, cycle_kind=cycle.key, planned=planned, targets=targets,
+        quote=quote_lines(stage_lines(planned.stages), shop), warnings=planned.warnings,
+        cautions=safety.cautions(setup.temperature, setup.equilibrium_carbon, setup.saturation_carbon),
+        probe=probe, carrier_co=carrier_co)
+
+
+# -- what a soak gives ---------------------------------------------------------------------------------------
+@dataclass
+class SoakRun:
+    """A soak of given length and what it leaves: the case at the end of the stages counted with it."""
+
+    setup: CarburizingSetup
+    soak_time: float
+    profile: Profile
+    case_depth: float
+    history: History
+    warnings: list[str]
+    counted: tuple[Stage, ...]
+    carbon_at_depth: float | None = None
+    probe_depth: float | None = None
+
+    @property
+    def surface_carbon(self) -> float:
+        return self.profile.surface_carbon
+
+    @property
+    def diffusion_length(self) -> float:
+        """√(D t) with D at the threshold carbon, [m]: a length scale, not a depth where carbon stops."""
+        s = self.setup
+        return math.sqrt(float(s.diffusivity(s.threshold_carbon, s.temperature)) * self.soak_time)
+
+    def to_dict(self) -> dict:
+        out = _setup_dict(self.setup)
+        out.update(soak_time_h=self.soak_time / 3600.0, case_depth_mm=self.case_depth * 1e3,
+                   surface_carbon_pct=self.surface_carbon, shop_stages_counted=bool(self.counted),
+                   diffusion_length_mm=self.diffusion_length * 1e3,
+                   diffusion_length_note="sqrt(D t) with D at the threshold carbon: a length scale, not a depth at "
+                                         "which all carbon stops",
+                   warnings=list(self.warnings), profile=_profile_dict(self.profile))
+        if self.carbon_at_depth is not None:
+            out.update(carbon_at_mm=self.probe_depth * 1e3, carbon_at_pct=self.carbon_at_depth)
+        return out
+
+    def text(self, units: DisplayUnits) -> str:
+        s = self.setup
+        lines = [f"Soak of {format_duration(self.soak_time)} at {units.format_temperature(s.temperature)}, carbon "
+                 f"potential {s.carbon_potential:.2f} %C",
+                 f"  {s.threshold.depth_name:<21} {units.format_length(self.case_depth)} at {s.threshold}"
+                 + _threshold_meaning(s) + " at the end",
+                 f"  shop stages           {_counted_text(self.counted)}",
+                 *_surface_and_setup_lines(s, self.surface_carbon)]
+        if self.carbon_at_depth is not None:
+            lines.append(f"  carbon at {units.format_length(self.probe_depth):<11} {self.carbon_at_depth:.3f} %C")
+        lines.append(f"  diffusion length √(Dt) {units.format_length(self.diffusion_length)} (D at the threshold "
+                     f"carbon; a length scale, not a depth where the carbon stops)")
+        lines += [f"Warning: {w}" for w in self.warnings]
+        s = self.setup
+        lines.append(safety.caution_line(safety.cautions(s.temperature, s.equilibrium_carbon, s.saturation_carbon)))
+        return "\n".join(lines)
+
+
+def run_soak(setup: CarburizingSetup, soak: float, before: tuple[Stage, ...] = (), after: tuple[Stage, ...] = (),
+             probe_depth: float | None = None) -> SoakRun:
+    """A soak of ``soak`` [s] at the setup's temperature and potential, with the ``before`` and ``after``
+    stages run around it and counted in the case (none: the soak alone)."""
+    if not before and not after:
+        alone = carburize(setup, soak, probe_depth)
+        return SoakRun(setup, soak, alone.profile, alone.case_depth, alone.history, alone.warnings, (),
+                       alone.carbon_at_depth, probe_depth)
+    check_soak(soak)
+    check_probe_depth(setup, probe_depth)
+    cycle = run_recipe(setup, [*before, Stage("soak", soak, setup.temperature, setup.carbon_potential), *after])
+    warnings = case_warnings(setup, cycle.case_depth, cycle.surface_carbon)
+    warnings += [w for w in cycle.warnings if w not in warnings]
+    counted = tuple(s for s in (*before, *after) if s.moves_carbon and s.duration > 0)
+    at = None if probe_depth is None else cycle.profile.carbon_at(probe_depth)
+    return SoakRun(setup, soak, cycle.profile, cycle.case_depth, cycle.history, warnings, counted, at, probe_depth)
+
+
+def forward(values: Mapping[str, Any], soak: float, probe_depth: float | None = None) -> SoakRun:
+    """What a one-soak plan gives after a soak of ``soak`` [s], the shop's stages counted as the plan counts them."""
+    setup = carburizing_setup({**values, "process": "single"})
+    _, _, before, after = _counted_stages(values, shop_of(values), setup, setup.carbon_potential)
+    return run_soak(setup, soak, before, after, probe_depth)
+
+
+# -- the outcome -----------------------------------------------------------------------------------------------
+def _profile_dict(profile: Profile) -> dict:
+    return {"depth_mm": (profile.depth * 1e3).tolist(), "carbon_pct": profile.carbon.tolist()}
+
+
+def _setup_dict(s: CarburizingSetup) -> dict:
+    return {
+        "threshold": str(s.threshold), "threshold_carbon_pct": s.threshold_carbon,
+        "equilibrium_surface_carbon_pct": s.equilibrium_carbon, "saturation_carbon_pct": s.saturation_carbon,
+        "alloy_factor": s.alloy_factor, "core_carbon_pct": s.steel.carbon, "temperature_c": s.temperature - ZERO_CELSIUS,
+        "carbon_potential_pct": s.carbon_potential, "steel": s.steel.name, "composition_pct": dict(s.steel.composition),
+        "geometry": s.geometry.describe(), "diffusivity_model": s.diffusivity.method,
+        "beta_cm_per_s": None if math.isinf(s.beta) else s.beta * 100.0,
+    }
+
+
+def _threshold_meaning(s: CarburizingSetup) -> str:
+    return f" (= {s.threshold_carbon:.3f} %C)" if s.threshold.kind != "carbon" else ""
+
+
+def _counted_text(counted: tuple[Stage, ...]) -> str:
+    if not counted:
+        return "not counted: the case of the soak at temperature alone"
+    parts = ", ".join(f"{s.label.lower()} {s.duration / 3600:g} h" for s in counted)
+    return f"counted ({parts}): the case at the end of the whole cycle"
+
+
+def _surface_and_setup_lines(s: CarburizingSetup, surface: float) -> list[str]:
+    beta = "inf (surface held at equilibrium)" if math.isinf(s.beta) else f"{s.beta * 100:.3g} cm/s"
+    return [f"  surface carbon        {surface:.3f} %C at the end (equilibrium {s.equilibrium_carbon:.3f} %C, "
+            f"saturation {s.saturation_carbon:.2f} %C)",
+            f"  steel                 {s.steel.name} ({s.steel.standard}), core {s.steel.carbon:.3f} %C, "
+            f"alloy factor {s.alloy_factor:.3f}" + ("" if s.alloy_factor_on else " (off)"),
+            f"  models                D: {s.diffusivity.display}; β = {beta}; {s.geometry.describe()}"]
+
+
+@dataclass
+class CarburizingOutcome(Outcome):
+    """What a carburizing plan gives: the soaks (or boost and diffuse), the case and profile at the end,
+    the whole cycle, its quote, the probe set points, warnings and cautions."""
+
+    values: dict
+    setup: CarburizingSetup
+    cycle_kind: str  # key of CYCLES
+    planned: Planned
+    targets: tuple[float, float, float]
+    quote: Quote
+    warnings: list[str]
+    cautions: list
+    probe: list[tuple[str, float]]  # ideal oxygen-probe voltage [mV] of each held stage
+    carrier_co: float = ENDO_CO_FRACTION
+    treatment: str = "carburizing"
+    potential_name = "carbon potential [%C]"
+    profile_name = "Carbon profile"
+
+    # -- the numbers ------------------------------------------------------------------------------------
+    @property
+    def stages(self) -> list[Stage]:
+        return self.planned.stages
+
+    @property
+    def cycle(self) -> CycleResult | None:
+        return self.planned.cycle
+
+    @property
+    def boost_time(self) -> float | None:
+        return self.planned.boost_time
+
+    @property
+    def diffuse_time(self) -> float | None:
+        return self.planned.diffuse_time
+
+    @property
+    def counts_shop_stages(self) -> bool:
+        return bool(self.planned.counted) and self.cycle_kind != "stages"
+
+    @property
+    def soak_window(self) -> tuple[float, float, float]:
+        return self.planned.soak_times
+
+    @property
+    def _end(self):
+        return self.planned.cycle if self.planned.cycle is not None else self.planned.isothermal[1]
+
+    @property
+    def depth(self) -> float:
+        return self._end.case_depth
+
+    case_depth = depth
+
+    @property
+    def surface_carbon(self) -> float:
+        return self._end.profile.surface_carbon
+
+    @property
+    def profile(self) -> Profile:
+        return self._end.profile
+
+    @property
+    def duration(self) -> float:
+        return float(self._end.history.times[-1])
+
+    def profile_at(self, time: float) -> Profile:
+        return self._end.profile_at(time)
+
+    def depth_after(self, soak: float, multiplier: float | None = None) -> float:
+        if not CYCLES[self.cycle_kind].has_soak:
+            raise InputError("process", f"a {CYCLES[self.cycle_kind].label.lower()} cycle has no single soak to vary")
+        setup = self.setup
+        if multiplier is not None:
+            setup = replace(setup, diffusivity=replace(setup.diffusivity, multiplier=multiplier))
+        counted = self.planned.counted
+        soak_index = next(i for i, s in enumerate(self.stages) if s.kind == "soak")
+        before = tuple(s for s in self.stages[:soak_index] if s in counted)
+        after = tuple(s for s in self.stages[soak_index + 1:] if s in counted)
+        return run_soak(setup, soak, before, after).case_depth
+
+    # -- words and pictures ------------------------------------------------------------------------------
+    def _headline(self) -> str:
+        if self.cycle_kind == "single":
+            return f"Soak {format_duration(self.soak_time)}"
+        if self.cycle_kind == "boost-diffuse":
+            return f"Boost {format_duration(self.boost_time)}, diffuse {format_duration(self.diffuse_time)}"
+        return f"Cycle {format_duration(self.quote.total_h * 3600)}"
+
+    def _how(self, units: DisplayUnits) -> str:
+        s = self.setup
+        aim = self.targets[1]
+        counted = ("heat-up and drop counted" if self.counts_shop_stages else
+                   "no heat-up or drop counted")
+        if self.cycle_kind == "single":
+            return (f"at {units.format_temperature(s.temperature)}, carbon potential {s.carbon_potential:.2f} %C, "
+                    f"for {units.format_length(aim)} {s.threshold.depth_name} at {s.threshold} "
+                    f"({self.soak_time / 3600:.2f} h at temperature; {counted})")
+        if self.cycle_kind == "boost-diffuse":
+            return (f"at {units.format_temperature(s.temperature)}: the cycle ends with "
+                    f"{units.format_length(self.depth)} at {s.threshold} and the surface carbon in its window; {counted}")
+        return f"the stages as entered give {units.format_length(self.depth)} at {s.threshold}"
+
+    def summary(self, units: DisplayUnits) -> Summary:
+        s, (low, _, high) = self.setup, self.targets
+        facts = []
+        if self.cycle_kind == "single":
+            soak_low, _, soak_high = self.soak_window
+            facts.append(Fact("window", "Drawing window", f"{units.format_length(low)} in {format_duration(soak_low)}  "
+                                                          f"to  {units.format_length(high)} in {format_duration(soak_high)}"))
+        else:
+            inside = low <= self.depth <= high
+            facts.append(Fact("window", "Drawing window", f"{units.format_length(low)} to {units.format_length(high)}"
+                              + ("" if inside else "  — the case ends outside it")))
+        facts += [
+            Fact("surface", "Surface carbon at the end", f"{self.surface_carbon:.3f} %C"
+                 + (f" (window {self.values['surface_min']:.2f}–{self.values['surface_max']:.2f})"
+                    if self.cycle_kind == "boost-diffuse" else "")),
+            Fact("reached", "Case depth at the end", units.format_length(self.depth)),
+            Fact("threshold", "Threshold means", f"{s.threshold_carbon:.3f} %C" if s.threshold.kind != "carbon"
+                 else f"{s.threshold_carbon:.2f} %C (carbon threshold)"),
+            Fact("equilibrium", "Surface carbon in equilibrium" if self.cycle_kind == "single" else "Richest gas, in equilibrium",
+                 f"{s.equilibrium_carbon:.3f} %C (alloy factor {s.alloy_factor:.3f})"),
+            Fact("saturation", "Saturation (Acm)", f"{s.saturation_carbon:.2f} %C"),
+            Fact("probe", "Oxygen probe (ideal)", (", ".join(f"{label.lower()} {mv:.0f} mV" for label, mv in self.probe)
+                                                   or "—") + f"  ({100 * self.carrier_co:.0f} % CO carrier)"),
+            quote_fact(self.quote),
+        ]
+        return Summary(self._headline(), self._how(units), facts)
+
+    def timeline(self) -> Timeline:
+        times, temps, pots, labels = timeline(self.stages)
+        return Timeline(times, temps, pots, labels, self.potential_name, 1.6)
+
+    def view(self, time: float | None = None) -> ProfileView:
+        s, high = self.setup, self.targets[2]
+        end = self.profile
+        scrubbing = time is not None and time < self.duration
+        shown = self.profile_at(time) if scrubbing else end
+        whole = "soak" if self.cycle is None else "cycle"
+        when = (f"after {format_duration(shown.time)} of {format_duration(self.duration)}" if scrubbing
+                else f"after the full {whole}, {format_duration(self.duration)}")
+        relation = HARDNESS_RELATIONS[s.hardness_relation]
+        threshold_hv = float(relation.hv(s.threshold_carbon))
+        hv, end_hv = relation.hv(shown.carbon), relation.hv(end.carbon)
+        final_label = "at the end of the " + whole
+        top = max(s.saturation_carbon, s.equilibrium_carbon, float(end.carbon.max())) * 1.08
+        main = Panel("carbon [wt %]", Curve(shown.depth, shown.carbon, "carbon"),
+                     Curve(end.depth, end.carbon, final_label) if scrubbing else None,
+                     [Level(s.threshold_carbon, f"threshold {s.threshold_carbon:.2f} %C"
+                            + ("" if s.threshold.kind == "carbon" else f" ({s.threshold})"), "threshold"),
+                      Level(s.steel.carbon, f"core {s.steel.carbon:.2f} %C", "core"),
+                      Level(s.saturation_carbon, f"saturation (Acm) {s.saturation_carbon:.2f} %C", "limit")],
+                     (0.0, top), "Carbon " + when)
+        hardness = Panel("hardness [HV]", Curve(shown.depth, hv, f"estimated: {relation.display}"),
+                         Curve(end.depth, end_hv, final_label) if scrubbing else None,
+                         [Level(threshold_hv, f"threshold ≈ {threshold_hv:.0f} HV "
+                                              f"({ASTM_E140_hv_to_hrc(threshold_hv):.1f} HRC)", "threshold")],
+                         (min(float(end_hv.min()), threshold_hv) - 60, max(float(end_hv.max()), threshold_hv) + 60),
+                         "Hardness " + when + "; assumes a fully martensitic case", hrc_axis=True)
+        reach = max(high * 2.2, self.depth * 2.0)
+        half = s.geometry.half_section
+        return ProfileView(self.profile_name, main, hardness, min(reach, half) if np.isfinite(half) else reach,
+                           self.targets)
+
+    def stage_rows(self) -> list[dict]:
+        return [stage_to_dict(stage) for stage in self.stages]
+
+    def describe_end(self) -> str:
+        s = self.setup
+        relation = HARDNESS_RELATIONS[s.hardness_relation]
+        what = (f"soak {self.duration / 3600:.4f} h at {s.temperature - ZERO_CELSIUS:.0f} C" if self.cycle is None
+                else f"end of a {self.duration / 3600:.4f} h cycle")
+        return f"{what}; hardness assumes {relation.assumptions}"
+
+    def profile_columns(self):
+        comment, columns = super().profile_columns()
+        hv = columns[-1][1]
+        return comment, [*columns, ("hardness_hrc", ASTM_E140_hv_to_hrc(np.clip(hv, 238.0, 940.0)))]
+
+    def to_dict(self) -> dict:
+        s = self.setup
+        out = _setup_dict(s)
+        out.update({
+            "plan": self.values["title"], "treatment": self.treatment, "process": self.cycle_kind,
+            "soak_time_h": self.soak_time / 3600.0, "case_depth_mm": self.depth * 1e3,
+            "surface_carbon_pct": self.surface_carbon, "target_depth_mm": [d * 1e3 for d in self.targets],
+            "shop_stages_counted": bool(self.values["count_shop_stages"]),
+            "stages": [stage_to_dict(stage) for stage in self.stages], "quote": self.quote.to_dict(),
+            "warnings": list(self.warnings), "cautions": [c.title for c in self.cautions],
+            "profile": _profile_dict(self.profile),
+            "probe_mv": [{"stage": label, "mv": mv} for label, mv in self.probe],
+            "carrier_co_pct": self.carrier_co * 100.0,
+        })
+        if self.cycle_kind == "single":
+            low, _, high = self.soak_window
+            out["window_soak_time_h"] = [low / 3600.0, high / 3600.0]
+        if self.boost_time is not None:
+            out.update(boost_time_h=self.boost_time / 3600.0, diffuse_time_h=self.diffuse_time / 3600.0,
+                       surface_target_pct=[self.values["surface_min"], self.values["surface_max"]],
+                       boost_potential_pct=self.values["boost_potential"],
+                       diffuse_potential_pct=self.values["diffuse_potential"])
+        return out
+
+    def text(self, units: DisplayUnits) -> str:
+        s, (low, aim, high) = self.setup, self.targets
+        T = units.format_temperature(s.temperature)
+        if self.cycle_kind == "single":
+            lines = [f"Soak time: {format_duration(self.soak_time)} ({self.soak_time / 3600:.2f} h) at {T}, carbon "
+                     f"potential {s.carbon_potential:.2f} %C"]
+            if high > low:
+                soak_low, _, soak_high = self.soak_window
+                lines.append(f"  drawing window        {units.format_length(low)} to {units.format_length(high)}: soak "
+                             f"{format_duration(soak_low)} to {format_duration(soak_high)} (aim {units.format_length(aim)})")
+        elif self.cycle_kind == "boost-diffuse":
+            lines = [f"Boost {format_duration(self.boost_time)} at carbon potential {self.values['boost_potential']:.2f} %C, "
+                     f"then diffuse {format_duration(self.diffuse_time)} at {self.values['diffuse_potential']:.2f} %C, at {T}",
+                     f"  time at temperature   {format_duration(self.boost_time + self.diffuse_time)}"]
+        else:
+            lines = [f"Stages as entered: the cycle runs {format_duration(self.quote.total_h * 3600)}"]
+        if self.cycle_kind != "stages":
+            lines.append(f"  shop stages           {_counted_text(self.planned.counted)}")
+        lines.append(f"  {s.threshold.depth_name:<21} {units.format_length(self.depth)} at {s.threshold}"
+                     + _threshold_meaning(s))
+        lines += _surface_and_setup_lines(s, self.surface_carbon)
+        if self.cycle_kind == "boost-diffuse":
+            lines[-3] += f"; window {self.values['surface_min']:.2f}–{self.values['surface_max']:.2f} %C"
+        if self.probe:
+            lines.append("  oxygen probe          " + ", ".join(f"{label.lower()} {mv:.0f} mV" for label, mv in self.probe)
+                         + f" ({self.carrier_co * 100:g} % CO carrier; ideal probe, trim with the controller's CO factor)")
+        lines += ["Cycle quote:", self.quote.text()]
+        lines += [f"Warning: {w}" for w in self.warnings]
+        lines.append(safety.caution_line(self.cautions))
+        return "\n".join(lines)
+
+    def sheet(self, units: DisplayUnits) -> SheetContent:
+        s, (low, aim, high) = self.setup, self.targets
+        lines = []
+        if self.cycle_kind == "single":
+            soak_low, soak, soak_high = self.soak_window
+            lines.append(f"Soak {format_duration(soak)} at {units.format_temperature(s.temperature)}, carbon potential "
+                         f"{s.carbon_potential:.2f} %C; window {units.format_length(low)}–{units.format_length(high)}: "
+                         f"{format_duration(soak_low)} to {format_duration(soak_high)}")
+        elif self.cycle_kind == "boost-diffuse":
+            lines.append(f"Boost {format_duration(self.boost_time)}, then diffuse {format_duration(self.diffuse_time)} "
+                         f"at {units.format_temperature(s.temperature)}")
+        else:
+            lines.append("Stages as entered (see the cycle page)")
+        if self.cycle_kind != "stages":
+            lines.append("Shop stages " + _counted_text(self.planned.counted))
+        lines.append(f"{s.threshold.depth_name.capitalize()} {units.format_length(self.depth)} at {s.threshold}; surface "
+                     f"carbon {self.surface_carbon:.3f} %C at the end; aim {units.format_length(aim)}")
+        if self.probe:
+            lines.append(f"Oxygen probe (ideal, {self.carrier_co * 100:g} % CO carrier; trim with the controller's CO "
+                         f"factor): " + ", ".join(f"{label.lower()} {mv:.0f} mV" for label, mv in self.probe))
+        rows = [[stage.label, f"{stage.duration / 3600:.2f}",
+                 "" if stage.temperature is None else units.format_temperature(stage.temperature),
+                 "" if stage.carbon_potential is None else f"{stage.carbon_potential:.2f}",
+                 _probe_cell(stage, self.carrier_co)] for stage in self.stages]
+        return SheetContent(lines, ["stage", "hours", "temperature", "potential %C", "probe mV"], rows)
+
+
+def _probe_cell(stage: Stage, carrier_co: float) -> str:
+    """The ideal probe voltage of a held stage for the stage table, or blank."""
+    try:
+        setpoints = probe_setpoints([stage], carrier_co)
+    except InputError:
+        return ""
+    return f"{setpoints[0][1]:.0f}" if setpoints else ""

@@ -1,0 +1,235 @@
+"""Cycle planners: stage lengths chosen so that the case *at the end of the whole cycle* is on target.
+
+* :func:`plan_single_soak` — the soak at temperature for each of several case depths, the carbon that
+  the shop's heat-up, drop and equalize move counted;
+* :func:`plan_boost_diffuse` — boost and diffuse times for a case depth and a final surface-carbon
+  window, the same shop stages counted.
+
+Both march once (:class:`~casedepth.numerics.march.March`), keeping every step; a trial re-takes the
+step it needs, forks the solver there and runs only the stages after it. The stages after the soak
+(or the diffuse) add depth nearly in quadrature, so where to stop is found by a secant on depth
+squares (:func:`~casedepth.numerics.roots.secant_on_squares`), started from the last trial's offset.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from ..errors import InputError, NotReachableError
+from ..models.austenite import saturation_carbon
+from ..numerics.march import March
+from ..numerics.roots import illinois, secant_on_squares
+from ..numerics.solver import CarbonSolver, History, SurfaceCondition
+from ..units import both_lengths, both_temperatures, format_duration
+from .cycle import MAX_STAGE, CycleResult, Stage, check_recipe, run_recipe
+from .setup import POTENTIAL_RANGE, CarburizingSetup
+
+#: a surface-carbon target given as one value means value ± this, wt % (common practice for callouts)
+SURFACE_TOLERANCE = 0.05
+
+
+@dataclass
+class BoostDiffusePlan:
+    """Boost and diffuse times [s] and the cycle they give."""
+
+    boost_time: float
+    diffuse_time: float
+    cycle: CycleResult
+    surface_target: tuple[float, float]
+    target_depth: float
+    surface_aim: float
+
+    def describe(self) -> str:
+        return f"boost {format_duration(self.boost_time)}, then diffuse {format_duration(self.diffuse_time)}"
+
+
+def surface_window(surface_target: float | tuple[float, float]) -> tuple[float, float]:
+    """A surface-carbon window [wt %]: (low, high) as given, or one value meaning ± :data:`SURFACE_TOLERANCE`."""
+    if isinstance(surface_target, (int, float)):
+        return surface_target - SURFACE_TOLERANCE, surface_target + SURFACE_TOLERANCE
+    low, high = surface_target
+    return float(low), float(high)
+
+
+def _ending(setup: CarburizingSetup, after: tuple[Stage, ...], temperature: float,
+            state: CarbonSolver) -> tuple[float, float, CycleResult | None]:
+    """Case depth [m] and surface carbon [wt %] after the ``after`` stages run from ``state`` (a fork of it),
+    and their run (None if there are none)."""
+    if not after:
+        return state.threshold_depth(setup.threshold_carbon), float(state.carbon[0]), None
+    end = run_recipe(setup, list(after), temperature, solver=state.fork())
+    return end.case_depth, end.surface_carbon, end
+
+
+def plan_boost_diffuse(setup: CarburizingSetup, target_depth: float, surface_target: float | tuple[float, float],
+                       boost_potential: float, diffuse_potential: float, temperature: float | None = None,
+                       before: tuple[Stage, ...] = (), after: tuple[Stage, ...] = ()) -> BoostDiffusePlan:
+    """Boost and diffuse times for a target effective case depth [m] and final surface carbon [wt %].
+
+    ``surface_target`` is (low, high), or one value meaning ± :data:`SURFACE_TOLERANCE`. ``before``
+    (e.g. a heat-up) and ``after`` (e.g. drop and equalize) stages are run as given and counted: both
+    targets hold at the end of the whole cycle. The surface carbon such a cycle can end with runs from
+    that of a diffuse alone (no boost) to that of a boost alone (no diffuse); the plan aims at the
+    middle of the part of the window within that range. For a trial boost time the diffuse is marched
+    until the case lands on target, and the boost time is adjusted (regula falsi) until the surface
+    carbon at the end is the one aimed at.
+    """
+    T = setup.temperature if temperature is None else temperature
+    low, high = surface_window(surface_target)
+    if not (0.05 <= low <= high <= 2.0):
+        raise InputError("surface_min", f"{low:g}–{high:g} %C is not a carbon window within 0.05–2 %C")
+    for name, potential in (("boost_potential", boost_potential), ("diffuse_potential", diffuse_potential)):
+        if not (POTENTIAL_RANGE[0] <= potential <= POTENTIAL_RANGE[1]):
+            raise InputError(name, f"{potential:g} %C is outside {POTENTIAL_RANGE[0]:g}–{POTENTIAL_RANGE[1]:g} %C")
+    if boost_potential <= diffuse_potential:
+        raise InputError("boost_potential", f"{boost_potential:g} %C must be above the diffuse potential ({diffuse_potential:g} %C)")
+    saturation = saturation_carbon(T)
+    if boost_potential > saturation:
+        raise InputError("boost_potential", f"{boost_potential:.2f} %C is above the carbon saturation of austenite at "
+                         f"{both_temperatures(T)} ({saturation:.2f} %C): the boost would form carbides and soot; lower it")
+    check_recipe(setup, [*before, Stage("boost", 1.0, T, boost_potential), Stage("diffuse", 1.0, T, diffuse_potential), *after])
+    af = setup.alloy_factor
+    thr = setup.threshold_carbon
+    boost = SurfaceCondition(T, boost_potential * af, setup.beta)
+    diffuse = SurfaceCondition(T, diffuse_potential * af, setup.beta)
+
+    # the boost alone, long enough to reach the target: every boost time to try lies within it
+    solver = setup.solver(case_depth=target_depth)
+    if before:
+        run_recipe(setup, list(before), solver=solver)
+    boosting = March(solver, thr)
+    boost_start = boosting.start_time
+    if not boosting.advance(MAX_STAGE, boost, until=target_depth):
+        raise NotReachableError("target", f"{both_lengths(target_depth)} is not reached within {MAX_STAGE / 3600:g} h of boost")
+    t_full = solver.history_time[-1] - boost_start
+
+    def diffuse_to(state: CarbonSolver, depth2: float) -> CarbonSolver:
+        """The state after diffusing from ``state`` until the case depth² is ``depth2`` (at once if it is there)."""
+        depth = math.sqrt(max(depth2, 0.0))
+        if state.threshold_depth(thr) >= depth:
+            return state
+        diffusing = March(state.fork(), thr)
+        if not diffusing.advance(MAX_STAGE, diffuse, until=depth):
+            raise NotReachableError("target", f"{both_lengths(target_depth)} is not reached within {MAX_STAGE / 3600:g} h of diffuse")
+        return diffusing.fork(diffusing.time_to(depth))
+
+    offset = [0.0]  # c = final depth² − depth² where the diffuse stops, from the last trial (varies slowly)
+
+    def finish(tb: float) -> tuple[float, float]:
+        """Diffuse time and final surface carbon for boost time ``tb``, the case landing on target at the end."""
+        state = boosting.fork(boost_start + tb)
+
+        def trial(x: float):
+            stop = diffuse_to(state, x)
+            depth, surface, _ = _ending(setup, after, T, stop)
+            return depth, stop.threshold_depth(thr) ** 2, (stop, surface)
+
+        (stop, surface), offset[0] = secant_on_squares(trial, target_depth, offset[0], state.threshold_depth(thr) ** 2,
+                                                       math.inf, 1e-6, tries=8)
+        return stop.time - state.time, surface
+
+    # the longest boost: with no diffuse at all, the case ends on target (after the 'after' stages)
+    if after:
+        def overshoot(tb: float) -> float:
+            return _ending(setup, after, T, boosting.fork(boost_start + tb))[0] - target_depth
+
+        f_full = overshoot(t_full)
+        f_none = overshoot(0.0)
+        tb_max = t_full if f_full <= 0 else (0.0 if f_none >= 0 else
+                                             illinois(overshoot, 0.0, f_none, t_full, f_full, 1e-6 * t_full, 1e-7 * target_depth))
+    else:
+        tb_max = t_full
+    _, surface_low = finish(0.0)
+    _, surface_high = finish(tb_max)
+    lo, hi = max(low, surface_low), min(high, surface_high)
+    if lo > hi:
+        raise NotReachableError("surface_min", f"{low:.2f}–{high:.2f} %C cannot be reached: with these potentials the "
+                                f"surface ends between {surface_low:.3f} %C (diffuse only) and {surface_high:.3f} %C "
+                                f"(boost only); change the diffuse or boost potential")
+    aim = 0.5 * (lo + hi)
+    if aim <= surface_low:
+        tb = 0.0
+    elif aim >= surface_high:
+        tb = tb_max
+    else:
+        tb = illinois(lambda t: finish(t)[1] - aim, 0.0, surface_low - aim, tb_max, surface_high - aim, 1e-6 * tb_max, 2e-4)
+    td, _ = finish(tb)
+    stages = [*before, Stage("boost", tb, T, boost_potential), Stage("diffuse", td, T, diffuse_potential), *after]
+    cycle = run_recipe(setup, stages)
+    return BoostDiffusePlan(tb, td, cycle, (low, high), target_depth, aim)
+
+
+@dataclass
+class SoakPlan:
+    """Soaks at temperature [s] for several case depths with the shop's heat-up and drop counted,
+    and the whole cycle for one of them."""
+
+    soak_times: list[float]
+    cycle: CycleResult
+
+
+def plan_single_soak(setup: CarburizingSetup, targets: list[float], before: tuple[Stage, ...] = (),
+                     after: tuple[Stage, ...] = (), cycle_for: int = 1) -> SoakPlan:
+    """Soaks at the setup's temperature and potential for each effective case depth [m] in ``targets``,
+    counting the carbon the ``before`` (load, heat-up) and ``after`` (drop, equalize, quench…) stages move.
+
+    The case grows in the heat-up once the load passes Ac3, and again in the drop to the hardening
+    temperature and the equalize: each target holds at the end of the whole cycle. The ``cycle_for``
+    target (whose whole cycle is returned) lands to 1e-6 of its depth, the others to 1e-4 (about the
+    solver's own accuracy).
+    """
+    T = setup.temperature
+    thr = setup.threshold_carbon
+    check_recipe(setup, [*before, Stage("soak", 1.0, T, setup.carbon_potential), *after])
+    deepest = max(targets)
+    solver = setup.solver(case_depth=targets[cycle_for])
+    head = run_recipe(setup, list(before), solver=solver) if before else None
+    uptake_at_start = solver.carbon_uptake()
+    soaking = March(solver, thr)
+    start = soaking.start_time
+    if not soaking.advance(MAX_STAGE, setup.surface_condition, until=deepest):
+        raise NotReachableError("target", f"{both_lengths(deepest)} is not reached within {MAX_STAGE / 3600:g} h of soak")
+    floor = soaking.depths[0] ** 2
+
+    def trial(x: float):
+        time = soaking.time_to(math.sqrt(max(x, 0.0)))
+        state = soaking.fork(time)
+        final, _, end = _ending(setup, after, T, state) if after else (state.threshold_depth(thr), None, None)
+        return final, state.threshold_depth(thr) ** 2, (time - start, state, end)
+
+    order = [cycle_for] + [i for i in range(len(targets)) if i != cycle_for]
+    times, offset, chosen = [0.0] * len(targets), 0.0, None
+    for i in order:
+        found, offset = secant_on_squares(trial, targets[i], offset, floor, deepest**2,
+                                          1e-6 if i == cycle_for else 1e-4)
+        times[i] = found[0]
+        if i == cycle_for:
+            chosen = found
+    ts, state, tail = chosen
+    stages = [*before, Stage("soak", ts, T, setup.carbon_potential), *after]
+    cycle = _joined_cycle(setup, stages, head, soaking, ts, uptake_at_start, state, tail)
+    if 0.0 in times:
+        cycle.warnings.append(f"The heat-up and drop alone give more than {min(targets) * 1e3:g} mm at "
+                              f"{setup.threshold}: that target needs no soak at all")
+    return SoakPlan(times, cycle)
+
+
+def _joined_cycle(setup, stages, head, soaking: March, ts, uptake_at_start, state, tail) -> CycleResult:
+    """The whole cycle from the pieces already run: the heat-up (``head``, or None), the soak's march up
+    to ``ts`` after its start (whose state is ``state``) and the stages after it (``tail``, or None).
+    Runs the cycle afresh if the pieces do not fit (the grid was extended on the way)."""
+    history = soaking.history(soaking.start_time + ts)
+    if tail is not None:
+        history = History(history.depth, np.concatenate((history.times[:-1], tail.history.times)),
+                          history.carbon[:-1] + list(tail.history.carbon), history.half_section)
+    if any(len(c) != len(history.depth) for c in history.carbon):
+        return run_recipe(setup, stages)
+    starts = [*(head.stage_start if head else []), soaking.start_time, *(tail.stage_start if tail else [])]
+    uptake = [*(head.stage_uptake if head else []), state.carbon_uptake() - uptake_at_start,
+              *(tail.stage_uptake if tail else [])]
+    profile = tail.profile if tail is not None else state.profile()
+    depth = tail.case_depth if tail is not None else profile.depth_at(setup.threshold_carbon)
+    return CycleResult(setup, list(stages), starts, uptake, profile, depth, history, check_recipe(setup, stages))

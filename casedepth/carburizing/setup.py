@@ -1,0 +1,218 @@
+"""A carburizing furnace step: the steel, part, temperature, atmosphere and models, validated.
+
+:class:`CarburizingSetup` holds every input that decides the carbon profile, refuses values the
+models do not cover (naming the parameter key and the allowed range) and knows the plain-language
+warnings about the step. The forward and inverse soaks are in :mod:`casedepth.carburizing.soak`.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from ..constants import ZERO_CELSIUS
+from ..errors import InputError
+from ..models.austenite import Andrews_1965_Ac3
+from ..models.diffusivity import Diffusivity
+from ..models.hardness import HARDNESS_RELATIONS, threshold_carbon
+from ..models.steels import Steel
+from ..models.surface import DEFAULT_BETA, Gunnarson_alloy_factor, equilibrium_surface_carbon, steel_saturation_carbon
+from ..numerics.geometry import Geometry
+from ..numerics.solver import Accuracy, CarbonSolver, SurfaceCondition
+from ..units import Threshold, both_temperatures, temperature_range
+
+MAX_TEMPERATURE = 1100.0 + ZERO_CELSIUS  # K; top of the range the diffusivity and Acm data cover
+GRAIN_GROWTH_TEMPERATURE = 980.0 + ZERO_CELSIUS  # K; common practice, see warnings()
+POTENTIAL_RANGE = (0.05, 2.0)  # wt % C
+BETA_RANGE = (1e-9, 1e-4)  # m/s
+TARGET_RANGE = (0.01e-3, 10e-3)  # m
+SOAK_RANGE = (60.0, 500 * 3600.0)  # s
+
+
+@dataclass(frozen=True)
+class CarburizingSetup:
+    """Everything that decides a carburizing step, in SI (carbon in wt %).
+
+    Parameters
+    ----------
+    steel : Steel
+        Grade or custom composition; its carbon is the core carbon.
+    temperature : float
+        Furnace (part) temperature, [K].
+    carbon_potential : float
+        Carbon potential of the atmosphere (the carbon of plain carbon steel in equilibrium with it), [wt %].
+    threshold : Threshold
+        What "effective" means on the drawing: a carbon content or a hardness.
+    diffusivity : Diffusivity
+        Model of D(C, T).
+    beta : float
+        Mass-transfer coefficient, [m/s]; ``math.inf`` for a surface held at equilibrium.
+    alloy_factor_on : bool
+        Apply the Gunnarson alloy factor between the carbon potential and the steel's surface carbon.
+    geometry : Geometry
+        Shape and size of the part.
+    hardness_relation : str
+        Key of :data:`casedepth.hardness.HARDNESS_RELATIONS` used for hardness thresholds.
+    accuracy : Accuracy
+        Discretisation settings.
+    """
+
+    steel: Steel
+    temperature: float
+    carbon_potential: float
+    threshold: Threshold = Threshold(0.40, "carbon")
+    diffusivity: Diffusivity = field(default_factory=Diffusivity)
+    beta: float = DEFAULT_BETA
+    alloy_factor_on: bool = True
+    geometry: Geometry = field(default_factory=Geometry)
+    hardness_relation: str = "tempered"
+    accuracy: Accuracy = field(default_factory=Accuracy)
+
+    def __post_init__(self):
+        ac3 = Andrews_1965_Ac3(self.steel.composition)
+        T = self.temperature
+        if not math.isfinite(T) or T < ac3:
+            raise InputError("temperature", f"{both_temperatures(T)} is below the Ac3 of this steel ({both_temperatures(ac3)}, Andrews "
+                             f"1965): it would not be fully austenitic; allowed {temperature_range(ac3, MAX_TEMPERATURE)}")
+        if T > MAX_TEMPERATURE:
+            raise InputError("temperature", f"{both_temperatures(T)} is above the carburizing range the models cover; "
+                             f"allowed {temperature_range(ac3, MAX_TEMPERATURE)}")
+        lo, hi = POTENTIAL_RANGE
+        if not (math.isfinite(self.carbon_potential) and lo <= self.carbon_potential <= hi):
+            raise InputError("carbon_potential", f"{self.carbon_potential:g} %C is outside {lo:g}–{hi:g} %C")
+        if not (math.isinf(self.beta) and self.beta > 0) and not (BETA_RANGE[0] <= self.beta <= BETA_RANGE[1]):
+            raise InputError("beta", f"{self.beta * 100:g} cm/s is outside {BETA_RANGE[0] * 100:g}–"
+                             f"{BETA_RANGE[1] * 100:g} cm/s (or inf for a surface held at equilibrium)")
+        if self.hardness_relation not in HARDNESS_RELATIONS:
+            raise InputError("hardness_relation", f"unknown {self.hardness_relation!r}; choose one of "
+                             f"{', '.join(HARDNESS_RELATIONS)}")
+        carbon = self.threshold_carbon
+        if not carbon > self.steel.carbon + 0.01:
+            meaning = "is" if self.threshold.kind == "carbon" else f"means {carbon:.3f} %C,"
+            raise InputError("threshold_value", f"{self.threshold} {meaning} not above the core carbon "
+                             f"{self.steel.carbon:.3f} %C: the whole part would count as case; "
+                             f"choose a threshold above {self.steel.carbon + 0.01:.2f} %C")
+
+    # -- derived quantities ---------------------------------------------------------------
+    @property
+    def alloy_factor(self) -> float:
+        """Equilibrium surface carbon of this steel over that of plain carbon steel, [-]."""
+        return Gunnarson_alloy_factor(self.steel.composition) if self.alloy_factor_on else 1.0
+
+    @property
+    def equilibrium_carbon(self) -> float:
+        """Surface carbon the atmosphere would bring the steel to, [wt %]."""
+        return equilibrium_surface_carbon(self.carbon_potential, self.alloy_factor)
+
+    @property
+    def saturation_carbon(self) -> float:
+        """Carbon saturation (Acm) of this steel's austenite at the temperature, [wt %]."""
+        return steel_saturation_carbon(self.temperature, self.alloy_factor)
+
+    @property
+    def threshold_carbon(self) -> float:
+        """The carbon content [wt %] that the threshold stands for (total case: the core's carbon plus the excess)."""
+        if self.threshold.kind == "above core":
+            return self.steel.carbon + self.threshold.value
+        return threshold_carbon(self.threshold, self.hardness_relation)
+
+    @property
+    def surface_condition(self) -> SurfaceCondition:
+        return SurfaceCondition(self.temperature, self.equilibrium_carbon, self.beta)
+
+    def warnings(self) -> list[str]:
+        """Plain-language cautions about the furnace step (not errors: the result is still given)."""
+        out = []
+        T_c = self.temperature - ZERO_CELSIUS
+        sat = self.saturation_carbon
+        if self.equilibrium_carbon > sat:
+            out.append(f"The atmosphere would bring the surface to {self.equilibrium_carbon:.2f} %C, above the "
+                       f"{sat:.2f} %C that this steel's austenite holds at {T_c:.0f} °C: expect carbides at the "
+                       f"surface and soot in the furnace. Lower the carbon potential or boost and diffuse.")
+        if self.equilibrium_carbon <= self.steel.carbon:
+            out.append(f"The carbon potential ({self.carbon_potential:.2f} %C) is not above the core carbon "
+                       f"({self.steel.carbon:.2f} %C): this atmosphere decarburizes.")
+        if self.threshold_carbon >= self.equilibrium_carbon:
+            out.append(f"The threshold ({self.threshold_carbon:.2f} %C) is not below the surface carbon this "
+                       f"atmosphere gives ({self.equilibrium_carbon:.2f} %C): no effective case can form.")
+        if self.temperature > GRAIN_GROWTH_TEMPERATURE:
+            out.append(f"{T_c:.0f} °C is above about 980 °C, where most carburizing grades coarsen their grain "
+                       f"unless made fine-grained (common practice); check the steel's grain-size control.")
+        if self.threshold.is_hardness:
+            rel = HARDNESS_RELATIONS[self.hardness_relation]
+            out.append(f"{self.threshold} is taken as {self.threshold_carbon:.2f} %C ({rel.display}; "
+                       f"assumes {rel.assumptions}).")
+            c = self.steel.composition
+            if sum(float(c.get(el, 0.0)) for el in ("Cr", "Ni", "Mo")) < 0.3 and float(c.get("Mn", 0.0)) < 1.0:
+                out.append("This is a plain-carbon grade: its case hardens through to the threshold only with a fast "
+                           "(water or brine) quench or in thin sections; after an oil quench the hardness depth may "
+                           "fall short of this carbon-based estimate (common practice). Confirm on a test section.")
+        return out
+
+    # -- helpers for the solver ----------------------------------------------------------------
+    def diffusivity_range(self) -> tuple[float, float]:
+        """Smallest and largest D [m²/s] between the core carbon and the surface carbon."""
+        c = np.linspace(self.steel.carbon, max(self.equilibrium_carbon, self.steel.carbon), 21)
+        D = self.diffusivity(c, self.temperature)
+        return float(D.min()), float(D.max())
+
+    def rough_soak_time(self, case_depth: float) -> float:
+        """A first estimate [s] of the soak for ``case_depth`` [m], only to size the first time step.
+
+        Crank's (1975, §3.3) surface-evaporation solution for a flat surface with D taken at the
+        threshold carbon; the solver then finds the real time.
+        """
+        from scipy.special import erfcx  # imported on first use: it is slow to import
+
+        D = float(self.diffusivity(self.threshold_carbon, self.temperature))
+        c0, ceq = self.steel.carbon, self.equilibrium_carbon
+        wanted = (self.threshold_carbon - c0) / (ceq - c0)
+        if not 0.0 < wanted < 1.0:
+            return case_depth**2 / D
+        h = self.beta / D
+
+        def fraction(t):
+            u = case_depth / (2.0 * math.sqrt(D * t))
+            if math.isinf(h):
+                return math.erfc(u)
+            return math.erfc(u) - math.exp(-u * u) * float(erfcx(u + h * math.sqrt(D * t)))
+
+        t = case_depth**2 / D
+        for _ in range(60):  # bisection in log t: cheap and cannot fail
+            if fraction(t) >= wanted:
+                break
+            t *= 2.0
+        low, high = t / 2.0, t
+        for _ in range(12):  # to within 0.02 %: plenty for sizing a grid
+            mid = math.sqrt(low * high)
+            low, high = (low, mid) if fraction(mid) >= wanted else (mid, high)
+        return high
+
+    def solver(self, soak_time: float | None = None, case_depth: float | None = None) -> CarbonSolver:
+        """A fresh solver sized for a soak of about ``soak_time`` [s] or a case of about ``case_depth`` [m]."""
+        _, d_max = self.diffusivity_range()
+        if case_depth is not None:
+            soak_time = self.rough_soak_time(case_depth)
+        length = math.sqrt(d_max * soak_time)
+        return CarbonSolver(self.geometry, self.diffusivity, self.steel.carbon, length, soak_time, self.accuracy)
+
+
+#: surface carbon that case-hardened parts are usually specified at, wt % (common practice for gears and
+#: shafts, e.g. 0.70–0.90 %C; from memory): above the upper end a quenched case holds much retained
+#: austenite and may form carbides at grain boundaries
+SURFACE_CARBON_PRACTICE = (0.70, 0.90)
+
+
+def case_warnings(setup: CarburizingSetup, depth: float, surface: float) -> list[str]:
+    """The setup's warnings and those about the case it ended with: ``depth`` [m], ``surface`` carbon [wt %]."""
+    warnings = setup.warnings()
+    if setup.geometry.finite and depth >= setup.geometry.half_section * (1 - 1e-9):
+        warnings.append("The threshold carbon reaches the centre of the section: the part is carburized through.")
+    low, high = SURFACE_CARBON_PRACTICE
+    if surface > high and setup.equilibrium_carbon <= setup.saturation_carbon:
+        warnings.append(f"The surface ends at {surface:.2f} %C, above the {low:.2f}–{high:.2f} %C usually specified for "
+                        f"case-hardened parts (common practice): a quenched case this rich holds retained austenite "
+                        f"and may form carbides; a diffuse stage at a lower potential brings it down.")
+    return warnings

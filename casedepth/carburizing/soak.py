@@ -1,0 +1,141 @@
+"""One carburizing step at constant temperature and carbon potential: forward and inverse.
+
+* :func:`carburize` — what a soak of a given length gives (profile, effective case depth).
+* :func:`soak_times_for_case_depths` — the soaks that give target effective case depths, from one
+  :class:`~casedepth.numerics.march.March` that records the threshold depth after every step; the
+  step that crosses each target is re-taken with the length that lands on it (the threshold depth
+  grows monotonically during a single step, so the root is bracketed).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from ..errors import InputError, NotReachableError
+from ..numerics.march import March
+from ..numerics.solver import History, Profile
+from ..units import both_lengths, length_range
+from .setup import SOAK_RANGE, TARGET_RANGE, CarburizingSetup, case_warnings
+
+
+@dataclass
+class CarburizingResult:
+    """The outcome of a soak: times in s, depths in m, carbon in wt %.
+
+    ``history`` holds the profile after every solver step, ending with the final profile.
+    """
+
+    setup: CarburizingSetup
+    soak_time: float
+    profile: Profile
+    case_depth: float
+    history: History
+    warnings: list[str]
+    carbon_uptake: float  # wt % · m per unit surface
+    target_depth: float | None = None
+    carbon_at_depth: float | None = None
+    probe_depth: float | None = None
+
+    def profile_at(self, time: float) -> Profile:
+        """The profile at ``time`` [s] of the soak (linear in time between solver steps, for display)."""
+        return self.history.profile_at(time)
+
+    @property
+    def surface_carbon(self) -> float:
+        return self.profile.surface_carbon
+
+    @property
+    def threshold_carbon(self) -> float:
+        return self.setup.threshold_carbon
+
+    @property
+    def diffusion_length(self) -> float:
+        """√(D t) with D at the threshold carbon, [m]: a length scale, not a depth where carbon stops."""
+        return math.sqrt(float(self.setup.diffusivity(self.threshold_carbon, self.setup.temperature)) * self.soak_time)
+
+
+def check_soak(soak_time: float) -> None:
+    """Refuse a soak [s] outside the range the models are used for (key ``time``)."""
+    if not (math.isfinite(soak_time) and SOAK_RANGE[0] <= soak_time <= SOAK_RANGE[1]):
+        raise InputError("time", f"{soak_time / 3600:g} h is outside {SOAK_RANGE[0] / 60:g} min–{SOAK_RANGE[1] / 3600:g} h")
+
+
+def check_probe_depth(setup: CarburizingSetup, probe_depth: float | None) -> None:
+    """Refuse a depth [m] to report the carbon at that lies outside the part (key ``carbon_at``)."""
+    if probe_depth is not None:
+        limit = min(setup.geometry.half_section, TARGET_RANGE[1] * 5)
+        if not (math.isfinite(probe_depth) and 0.0 <= probe_depth <= limit):
+            raise InputError("carbon_at", f"{both_lengths(probe_depth)} is outside {length_range(0.0, limit)}")
+
+
+def carburize(setup: CarburizingSetup, soak_time: float, probe_depth: float | None = None) -> CarburizingResult:
+    """Run a soak of ``soak_time`` [s]; the effective case depth it gives and the profile at its end.
+
+    ``probe_depth`` [m], if given, is a depth at which the carbon is reported.
+    """
+    check_soak(soak_time)
+    check_probe_depth(setup, probe_depth)
+    solver = setup.solver(soak_time=soak_time)
+    solver.advance(soak_time, setup.surface_condition)
+    profile = solver.profile()
+    depth = profile.depth_at(setup.threshold_carbon)
+    warnings = case_warnings(setup, depth, profile.surface_carbon)
+    return CarburizingResult(setup, soak_time, profile, depth, solver.history(), warnings, solver.carbon_uptake(),
+                             carbon_at_depth=None if probe_depth is None else profile.carbon_at(probe_depth),
+                             probe_depth=probe_depth)
+
+
+def check_target(setup: CarburizingSetup, target: float, field: str = "target") -> None:
+    """Refuse a target depth [m] outside the range the models cover (or beyond the centre of the section)."""
+    lo, hi = TARGET_RANGE
+    limit = min(hi, setup.geometry.half_section)
+    if not (math.isfinite(target) and lo <= target <= limit):
+        what = " (half the section)" if limit < hi else ""
+        raise InputError(field, f"{both_lengths(target)} is outside {length_range(lo, limit)}{what}")
+
+
+def check_reachable(setup: CarburizingSetup) -> None:
+    """Refuse a threshold the atmosphere cannot bring the surface above."""
+    thr = setup.threshold_carbon
+    if thr >= setup.equilibrium_carbon:
+        raise NotReachableError("threshold_value", f"the threshold {thr:.3f} %C is not below the surface carbon this "
+                                f"atmosphere gives ({setup.equilibrium_carbon:.3f} %C); raise the carbon potential or "
+                                f"lower the threshold")
+
+
+def soak_times_for_case_depths(setup: CarburizingSetup, targets: list[float],
+                               size_for: float | None = None) -> list[CarburizingResult]:
+    """Soaks [s] for several effective case depths [m] (e.g. a drawing's minimum, aim and maximum) from one march.
+
+    The march stops once the deepest target is passed; for each target the step that crossed it is
+    re-taken with the length that lands on it. The grid and steps are sized for ``size_for`` [m]
+    (default: the middle target), so the answer for that depth is exactly what
+    :func:`soak_time_for_case_depth` gives for it alone.
+    """
+    for target in targets:
+        check_target(setup, target)
+    check_reachable(setup)
+    deepest = max(targets)
+    march = March(setup.solver(case_depth=size_for if size_for is not None else sorted(targets)[len(targets) // 2]),
+                  setup.threshold_carbon)
+    if not march.advance(SOAK_RANGE[1], setup.surface_condition, until=deepest):
+        raise NotReachableError("target", f"{both_lengths(deepest)} is not reached within {SOAK_RANGE[1] / 3600:g} h "
+                                f"(reached {march.depth * 1e3:.3f} mm); raise the temperature or the carbon potential")
+    results = []
+    for target in targets:
+        time = march.time_to(target)
+        profile = march.profile_at(time)
+        depth = profile.depth_at(setup.threshold_carbon)
+        uptake = float(np.sum(march.solver.volume * (profile.carbon - setup.steel.carbon)))
+        results.append(CarburizingResult(setup, time, profile, depth, march.history(time, profile),
+                                         case_warnings(setup, depth, profile.surface_carbon), uptake,
+                                         target_depth=target))
+    return results
+
+
+def soak_time_for_case_depth(setup: CarburizingSetup, target: float) -> CarburizingResult:
+    """The soak [s] at the setup's temperature and potential that gives effective case depth ``target`` [m]."""
+    return soak_times_for_case_depths(setup, [target])[0]

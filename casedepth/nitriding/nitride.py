@@ -1,0 +1,153 @@
+"""Gas nitriding, forward and inverse: what a soak gives, and the soak for a nitrided hardness depth.
+
+The compound layer grows by the setup's layer model (:mod:`casedepth.nitriding.layer`); the
+diffusion zone beneath it by the internal-nitriding front of Wagner (1959) and Meijering (1971), or,
+in a steel without nitride formers, by the erfc solution of dissolved nitrogen (Crank 1975).
+Everything is SI inside; nitrogen in wt %, hardness in HV.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from .. import safety
+from ..constants import ZERO_CELSIUS
+from ..errors import InputError, NotReachableError
+from ..units import both_lengths, length_range
+from .layer import CompoundLayer
+from .setup import NitridingSetup
+
+# nitrogen in solid solution raises ferrite hardness by about this much per wt % N (with the fine γ′
+# that forms on cooling); from memory, order of magnitude only
+SOLUTION_HARDENING_HV_PER_PCT = 1000.0
+#: nitrided hardness depth the models are used for, m
+TARGET_RANGE = (0.02e-3, 2e-3)
+#: nitriding soaks the models are used for, s
+SOAK_RANGE = (60.0, 500 * 3600.0)
+
+
+@dataclass
+class NitridingResult:
+    """A nitriding soak: time [s], compound layer [m], nitrided hardness depth [m], profiles."""
+
+    setup: NitridingSetup
+    time: float
+    layer: CompoundLayer
+    front: float  # internal-nitriding front below the surface [m]
+    nitrided_depth: float  # depth at core + 50 HV [m]
+    depth: np.ndarray  # m, from the surface
+    nitrogen: np.ndarray  # wt %, dissolved + in nitrides (compound layer not included)
+    hardness: np.ndarray  # HV
+    warnings: list[str] = field(default_factory=list)
+
+    @property
+    def compound_layer(self) -> float:
+        """Compound-layer thickness, ε + γ′ [m]."""
+        return self.layer.thickness
+
+    def to_dict(self) -> dict:
+        """The JSON of ``casedepth nitride --time`` (units in the key names)."""
+        from .setup import dissociation_for_potential
+
+        s = self.setup
+        return {
+            "soak_time_h": self.time / 3600.0, "compound_layer_um": self.compound_layer * 1e6,
+            "epsilon_layer_um": self.layer.epsilon * 1e6, "gamma_prime_layer_um": self.layer.gamma_prime * 1e6,
+            "nitrided_depth_mm": self.nitrided_depth * 1e3, "surface_phase": self.layer.surface_phase,
+            "nitriding_potential": s.nitriding_potential, "temperature_c": s.temperature - ZERO_CELSIUS,
+            "dissociation_pct": 100.0 * dissociation_for_potential(s.nitriding_potential),
+            "core_hardness_hv": s.core, "surface_hardness_hv": s.surface, "steel": s.steel.name,
+            "layer_model": s.layer_model, "warnings": list(self.warnings),
+            "profile": {"depth_mm": (self.depth * 1e3).tolist(), "nitrogen_pct": self.nitrogen.tolist(),
+                        "hardness_hv": self.hardness.tolist()},
+        }
+
+    def text(self, units) -> str:
+        """What ``casedepth nitride --time`` prints."""
+        from ..models.iron_nitrogen import PHASE_NAMES
+        from ..units import format_duration
+        from .setup import dissociation_for_potential
+
+        s = self.setup
+        lines = [f"Nitriding for {format_duration(self.time)} at {units.format_temperature(s.temperature)}, K_N "
+                 f"{s.nitriding_potential:.2f} atm^-1/2 ({100 * dissociation_for_potential(s.nitriding_potential):.0f} % "
+                 f"dissociation)",
+                 f"  nitrided hardness depth {units.format_length(self.nitrided_depth)} (core {s.core:.0f} HV + 50 HV)",
+                 f"  compound layer          {self.layer.describe()}; surface phase {PHASE_NAMES[self.layer.surface_phase]}"]
+        lines += [f"Warning: {w}" for w in self.warnings]
+        lines.append(safety.caution_line(safety.cautions(ammonia=True)))
+        return "\n".join(lines)
+
+
+
+def nitride(setup: NitridingSetup, time: float, layer: CompoundLayer | None = None) -> NitridingResult:
+    """What a nitriding soak of ``time`` [s] gives: compound layer, nitrogen and hardness profiles, nitrided depth.
+
+    The compound layer grows by the setup's layer model (:mod:`casedepth.nitriding.layer`) unless ``layer`` is
+    given (a staged schedule). The diffusion zone starts under the compound layer. With nitride
+    formers, the sharp-front model (Wagner 1959; Meijering 1971) gives hardness ``surface`` behind the
+    front and ``core`` beyond it, so the depth at core + 50 HV is the front; without them, dissolved
+    nitrogen follows the erfc solution (Crank 1975) and hardness rises with it by a solid-solution term.
+    """
+    if not (math.isfinite(time) and SOAK_RANGE[0] * (1 - 1e-9) <= time <= SOAK_RANGE[1] * (1 + 1e-9)):
+        raise InputError("time", f"{time / 3600:g} h is outside 1 min–500 h")
+    T, D = setup.temperature, setup.diffusivity
+    if layer is None:
+        layer = setup.layer.layer(T, setup.nitriding_potential, time, setup.uptake)
+    s = layer.thickness
+    c_s, c_m = setup.substrate_nitrogen, setup.capacity
+    length = 2.0 * math.sqrt(D * time)
+    x = np.linspace(0.0, 1.0, 401) ** 1.5 * max(4.0 * length, 1e-4)
+    core, surface = setup.core, setup.surface
+    gamma = setup.front_factor
+    if gamma is not None:
+        from scipy.special import erf  # imported on first use: it is slow to import
+
+        front = gamma * length
+        dissolved = np.where(x < front, c_s * (1.0 - erf(x / length) / erf(gamma)), 0.0)
+        nitrogen = dissolved + np.where(x < front, c_m, 0.0)
+        hardness = np.where(x < front, surface, core)
+    else:
+        front = 0.0
+        dissolved = c_s * np.array([math.erfc(v) for v in x / length])
+        nitrogen = dissolved
+        hardness = core + SOLUTION_HARDENING_HV_PER_PCT * dissolved
+    depth = front_rate(setup) * math.sqrt(time)  # core + 50 HV: the front, or where solution hardening adds 50 HV
+    warnings = setup.warnings()
+    return NitridingResult(setup, time, layer, s + front, s + depth, s + x, nitrogen, hardness, warnings)
+
+
+def _erfcinv(y: float) -> float:
+    from scipy.optimize import brentq  # imported on first use: it is slow to import
+
+    return brentq(lambda v: math.erfc(v) - y, 0.0, 10.0, xtol=1e-14)
+
+
+def front_rate(setup: NitridingSetup) -> float:
+    """Nitrided depth below the compound layer per √time [m/√s], as :func:`nitride` draws it: 2γ√D for the
+    Wagner front, 2 erfc⁻¹(50 HV / rise)√D without nitride formers (0 if dissolved nitrogen cannot add 50 HV)."""
+    gamma = setup.front_factor
+    if gamma is not None:
+        return 2.0 * gamma * math.sqrt(setup.diffusivity)
+    rise = SOLUTION_HARDENING_HV_PER_PCT * setup.substrate_nitrogen
+    return 2.0 * _erfcinv(50.0 / rise) * math.sqrt(setup.diffusivity) if rise > 50.0 else 0.0
+
+
+def nitriding_time(setup: NitridingSetup, target_depth: float) -> NitridingResult:
+    """The soak [s] for a nitrided hardness depth (core + 50 HV) of ``target_depth`` [m], and what it gives.
+
+    At one temperature and K_N the compound layer and the front below it both advance as √t, so the
+    soak is (target / (k_layer + k_front))², with no search.
+    """
+    if not (math.isfinite(target_depth) and TARGET_RANGE[0] <= target_depth <= TARGET_RANGE[1]):
+        raise InputError("target", f"{both_lengths(target_depth)} is outside {length_range(*TARGET_RANGE)}")
+    rate = setup.layer.constants(float(setup.temperature), float(setup.nitriding_potential), float(setup.uptake))[1]
+    rate += front_rate(setup)
+    time = (target_depth / rate) ** 2 if rate > 0.0 else math.inf
+    if time > SOAK_RANGE[1] * (1 + 1e-9):
+        raise NotReachableError("target", f"{both_lengths(target_depth)} is not reached within 500 h at "
+                                f"{setup.temperature - ZERO_CELSIUS:.0f} °C")
+    return nitride(setup, max(time, SOAK_RANGE[0]))

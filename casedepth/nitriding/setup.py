@@ -1,0 +1,231 @@
+"""A gas-nitriding step: the atmosphere's nitriding potential, nitrogen in ferrite, nitride formers,
+and :class:`NitridingSetup`, which validates every input (naming the parameter key and the allowed
+range) and knows the warnings about the step.
+
+* nitriding potential K_N = p(NH3)/p(H2)^1.5 and its conversion from ammonia dissociation — exact
+  definitions (Lehrer 1930; Mittemeijer & Somers 2015);
+* nitrogen diffusion in ferrite, Bohnenkamp (1967);
+* the internal-nitriding front of Wagner (1959) as applied to nitriding by Meijering (1971): nitride
+  formers (Cr, Al, V, Ti, Mo) do not move and take up all nitrogen that reaches them, so a sharp
+  front advances as ξ = 2γ√(D t) with √π γ exp(γ²) erf(γ) = c_s / c_M.
+
+Everything is SI inside; nitrogen and alloy contents in wt %.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from functools import cached_property
+
+from ..constants import GAS_CONSTANT as R, MOLAR_MASS, ZERO_CELSIUS
+from ..errors import InputError
+from ..models.iron_nitrogen import Lehrer_boundaries, nitrogen_saturation_ferrite, surface_phase
+from ..models.steels import Steel
+from .layer import DEFAULT_LAYER_MODEL, LAYER_MODELS, substrate_uptake_coefficient
+
+# nitride-forming elements: nitrogen atoms per metal atom in the nitride formed (CrN, AlN, VN, TiN, Mo2N)
+NITRIDE_FORMERS = {"Cr": 1.0, "Al": 1.0, "V": 1.0, "Ti": 1.0, "Mo": 0.5}
+TEMPERATURE_RANGE = (480.0 + ZERO_CELSIUS, 590.0 + ZERO_CELSIUS)  # K; gas nitriding of steels
+KN_RANGE = (0.05, 30.0)  # atm^-1/2
+# below this nitride-forming capacity [wt % N] a steel is treated as having none (erfc diffusion zone)
+MIN_CAPACITY = 0.005
+
+
+def nitriding_potential(p_NH3: float, p_H2: float) -> float:
+    r"""Nitriding potential of an NH3–H2 atmosphere.
+
+    .. math:: K_N = \frac{p_{NH_3}}{p_{H_2}^{3/2}}
+
+    Parameters
+    ----------
+    p_NH3, p_H2 : float
+        Partial pressures (or volume fractions at 1 atm total), [atm]
+
+    Returns
+    -------
+    K_N : float
+        Nitriding potential, [atm^-1/2]
+
+    Examples
+    --------
+    >>> round(nitriding_potential(0.5, 0.375), 3)
+    2.177
+
+    References
+    ----------
+    .. [1] Lehrer, E. "Über das Eisen-Wasserstoff-Ammoniak-Gleichgewicht." Z. Elektrochem. 36 (1930) 383–392.
+    .. [2] Mittemeijer, E. J., and M. A. J. Somers (eds.). Thermochemical Surface Engineering of Steels.
+       Woodhead, 2015, ch. 3.
+    """
+    if not (p_NH3 > 0 and p_H2 > 0):
+        raise InputError("exhaust", "NH3 and H2 fractions must both be above zero")
+    return p_NH3 / p_H2**1.5
+
+
+def nitriding_potential_from_dissociation(dissociation: float) -> float:
+    """K_N [atm^-1/2] of the exhaust of a pure-ammonia feed with the given dissociation [-].
+
+    ``dissociation`` is the volume fraction of the exhaust that is N2 + H2 (the burette reading);
+    the rest is NH3, and the products are 1 part N2 to 3 parts H2 (NH3 → ½ N2 + 3/2 H2), 1 atm.
+
+    Examples
+    --------
+    >>> round(nitriding_potential_from_dissociation(0.30), 2)
+    6.56
+    """
+    if not (0.0 < dissociation < 1.0):
+        raise InputError("dissociation", f"{dissociation * 100:g} % is outside 0–100 %")
+    return nitriding_potential(1.0 - dissociation, 0.75 * dissociation)
+
+
+def dissociation_for_potential(K_N: float) -> float:
+    """The dissociation [-] of a pure-ammonia feed that gives nitriding potential ``K_N`` [atm^-1/2]."""
+    _check_kn(K_N)
+    from scipy.optimize import brentq  # imported on first use: it is slow to import
+
+    return brentq(lambda d: nitriding_potential_from_dissociation(d) - K_N, 1e-6, 1 - 1e-9, xtol=1e-12)
+
+
+def Bohnenkamp_1967_nitrogen_diffusivity(T: float) -> float:
+    r"""Diffusivity of nitrogen in ferrite, D = 1.5e-6 exp(−79.9 kJ/mol / RT) m²/s.
+
+    Examples
+    --------
+    >>> round(Bohnenkamp_1967_nitrogen_diffusivity(793.15) * 1e12, 2)
+    8.21
+
+    References
+    ----------
+    .. [1] Bohnenkamp, K. Arch. Eisenhüttenwes. 38 (1967) 229 (D0 = 1.5e-2 cm²/s, Q = 79.9 kJ/mol).
+    """
+    return 1.5e-6 * math.exp(-79900.0 / (R * T))
+
+
+def nitride_capacity(composition: dict[str, float]) -> float:
+    """Nitrogen [wt %] the nitride formers of a steel take up: CrN, AlN, VN, TiN, Mo2N (all of each)."""
+    return sum(float(composition.get(el, 0.0)) / MOLAR_MASS[el] * atoms * MOLAR_MASS["N"]
+               for el, atoms in NITRIDE_FORMERS.items())
+
+
+def Wagner_front_factor(surface_nitrogen: float, capacity: float) -> float:
+    r"""γ of the internal-nitriding front ξ = 2γ√(Dt): root of √π γ e^{γ²} erf(γ) = c_s / c_M.
+
+    For a small ratio γ² ≈ c_s / (2 c_M), the familiar ξ² = 2 D c_s t / c_M.
+
+    References
+    ----------
+    .. [1] Wagner, C. "Reaktionstypen bei der Oxydation von Legierungen." Z. Elektrochem. 63 (1959) 772–790.
+    .. [2] Meijering, J. L. "Internal oxidation in alloys." In Advances in Materials Research 5 (1971) 1–81.
+    """
+    from scipy.optimize import brentq  # imported on first use: it is slow to import
+
+    ratio = surface_nitrogen / capacity
+
+    def f(g):
+        return math.sqrt(math.pi) * g * math.exp(g * g) * math.erf(g) - ratio
+
+    return brentq(f, 1e-9, 10.0, xtol=1e-14)
+
+
+def _check_kn(K_N: float) -> None:
+    if not (math.isfinite(K_N) and KN_RANGE[0] <= K_N <= KN_RANGE[1]):
+        raise InputError("kn", f"K_N = {K_N:g} atm^-1/2 is outside {KN_RANGE[0]:g}–{KN_RANGE[1]:g}")
+
+
+@dataclass(frozen=True)
+class NitridingSetup:
+    """A gas-nitriding step: steel, temperature [K], nitriding potential [atm^-1/2], core and nitrided hardness [HV]."""
+
+    steel: Steel
+    temperature: float
+    nitriding_potential: float
+    core_hardness: float | None = None
+    surface_hardness: float | None = None
+    diffusivity_multiplier: float = 1.0
+    layer_model: str = DEFAULT_LAYER_MODEL
+
+    def __post_init__(self):
+        T = self.temperature
+        lo, hi = TEMPERATURE_RANGE
+        if not (math.isfinite(T) and lo <= T <= hi):
+            raise InputError("temperature", f"{T - ZERO_CELSIUS:.0f} °C is outside the gas-nitriding range "
+                             f"{lo - ZERO_CELSIUS:.0f}–{hi - ZERO_CELSIUS:.0f} °C (below the tempering temperature, "
+                             f"below the eutectoid of Fe–N at 590 °C)")
+        _check_kn(self.nitriding_potential)
+        for name, value in (("core_hardness", self.core), ("surface_hardness", self.surface)):
+            if not (math.isfinite(value) and 100.0 <= value <= 1400.0):
+                raise InputError(name, f"{value:g} HV is outside 100–1400 HV")
+        if self.surface <= self.core + 50.0:
+            raise InputError("surface_hardness", f"{self.surface:g} HV must exceed the core ({self.core:g} HV) "
+                             f"by more than 50 HV for a nitrided hardness depth to exist")
+        if not (math.isfinite(self.diffusivity_multiplier) and 0.1 <= self.diffusivity_multiplier <= 10.0):
+            raise InputError("n_multiplier", f"{self.diffusivity_multiplier:g} is outside 0.1–10")
+        if self.layer_model not in LAYER_MODELS:
+            raise InputError("layer_model", f"unknown model {self.layer_model!r}; choose one of {', '.join(LAYER_MODELS)}")
+
+    @property
+    def core(self) -> float:
+        return float(self.core_hardness if self.core_hardness is not None else (self.steel.core_hardness_hv or 300.0))
+
+    @property
+    def surface(self) -> float:
+        if self.surface_hardness is not None:
+            return float(self.surface_hardness)
+        if self.steel.nitrided_surface_hv:
+            return float(self.steel.nitrided_surface_hv)
+        # no table value: the core plus what the nitride formers and dissolved nitrogen add (from memory)
+        return self.core + 250.0 * nitride_capacity(self.steel.composition) / 0.27 + 70.0
+
+    @property
+    def phase(self) -> str:
+        return surface_phase(self.temperature, self.nitriding_potential)
+
+    @property
+    def diffusivity(self) -> float:
+        return self.diffusivity_multiplier * Bohnenkamp_1967_nitrogen_diffusivity(self.temperature)
+
+    @property
+    def substrate_nitrogen(self) -> float:
+        """Dissolved nitrogen at the top of the ferrite [wt %]: saturation under a compound layer,
+        proportional to K_N below the α/γ′ boundary (Sieverts-type law)."""
+        saturation = nitrogen_saturation_ferrite(self.temperature)
+        alpha_gamma, _ = Lehrer_boundaries(self.temperature)
+        return saturation * min(1.0, self.nitriding_potential / alpha_gamma)
+
+    @property
+    def capacity(self) -> float:
+        return nitride_capacity(self.steel.composition)
+
+    @cached_property  # a root solve, needed several times per result
+    def front_factor(self) -> float | None:
+        """γ of the internal-nitriding front (Wagner 1959), or None for a steel without nitride formers."""
+        if self.capacity < MIN_CAPACITY:
+            return None
+        return Wagner_front_factor(self.substrate_nitrogen, self.capacity)
+
+    @property
+    def layer(self):
+        """The compound-layer model (a row of :data:`casedepth.nitriding.layer.LAYER_MODELS`)."""
+        return LAYER_MODELS[self.layer_model]
+
+    @cached_property
+    def uptake(self) -> float:
+        """A of the nitrogen flux A/√t the diffusion zone draws from under the compound layer [wt % m/√s]."""
+        gamma = self.front_factor
+        return substrate_uptake_coefficient(self.substrate_nitrogen, self.diffusivity,
+                                            1.0 if gamma is None else math.erf(gamma))
+
+    def warnings(self) -> list[str]:
+        out = []
+        if self.capacity < 0.05:
+            out.append("This steel has almost no nitride formers (Cr, Al, V, Ti, Mo): the diffusion zone hardens "
+                       "little, and a depth at core + 50 HV may be shallow or absent.")
+        if self.phase == "alpha":
+            out.append("K_N is below the α/γ′ boundary: no compound layer forms (the boundary values are uncertain "
+                       "by perhaps ±30 %).")
+        if self.diffusivity_multiplier == 1.0 and self.capacity >= MIN_CAPACITY:
+            out.append("Uncalibrated: the sharp-front model with the published nitrogen diffusivity often reaches a "
+                       "depth sooner than measured on alloy steels; set the D_N multiplier from the shop's own "
+                       "sections before quoting times.")
+        return out

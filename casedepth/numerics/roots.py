@@ -1,0 +1,87 @@
+"""Root finding for the inverse problems: the small, well-tested routines every planner shares.
+
+* :func:`illinois` — a bracketed root of a scalar function (regula falsi, Illinois variant);
+* :func:`secant_on_squares` — where to stop a stage so that the case *at the end of the cycle* lands
+  on a target, when later stages (a drop, an equalize) add depth nearly in quadrature.
+"""
+
+from __future__ import annotations
+
+import math  # noqa: F401 (the example below uses it)
+from typing import Any, Callable
+
+from ..errors import SolverError
+
+
+def illinois(f: Callable[[float], float], a: float, fa: float, b: float, fb: float, xtol: float, ftol: float) -> float:
+    """A root of ``f`` between ``a`` and ``b``, where ``fa = f(a)`` and ``fb = f(b)`` have opposite signs.
+
+    Regula falsi with the Illinois modification (the end kept twice has its value halved), which
+    keeps the bracket and converges superlinearly; stops when |f| ≤ ``ftol`` or the bracket is
+    narrower than ``xtol``.
+
+    Examples
+    --------
+    >>> round(illinois(lambda x: x * x - 2.0, 1.0, -1.0, 2.0, 2.0, 1e-12, 1e-12), 10)
+    1.4142135624
+
+    References
+    ----------
+    .. [1] Dowell, M., and P. Jarratt. "A modified regula falsi method for computing the root of an
+       equation." BIT Numerical Mathematics 11 (1971): 168–174.
+    """
+    if fa == 0.0:
+        return a
+    if fb == 0.0:
+        return b
+    if not (fa * fb < 0):
+        raise SolverError(f"the root is not bracketed between {a:g} and {b:g}")
+    side, x = 0, b
+    for _ in range(200):
+        x = (fa * b - fb * a) / (fa - fb)
+        fx = f(x)
+        if abs(fx) <= ftol or abs(b - a) <= xtol:
+            return x
+        if fx * fb > 0:  # same side as b: move b, and halve the stale end if it was kept twice
+            b, fb = x, fx
+            if side == -1:
+                fa *= 0.5
+            side = -1
+        else:
+            a, fa = x, fx
+            if side == 1:
+                fb *= 0.5
+            side = 1
+    return x
+
+
+def secant_on_squares(trial: Callable[[float], tuple[float, float, Any]], goal: float, offset: float,
+                      floor: float, ceiling: float, rtol: float, tries: int = 12) -> tuple[Any, float]:
+    """Where to stop a stage so that the final depth is ``goal`` [m], when what follows adds depth
+    nearly in quadrature: final² ≈ stop² + c, with c varying slowly.
+
+    ``trial(x)`` stops the stage where the depth² is ``x`` [m²] (or as near as it can: not below
+    ``floor``, the depth² the stage starts at) and returns ``(final depth, depth² it stopped at,
+    payload)``. A secant on (stop², final²) starts from ``x = goal² − offset`` (``offset`` is c of an
+    earlier, similar search: most searches then land in one or two trials) and stops when the final
+    depth is within ``rtol`` of the goal, or when the stage cannot stop earlier and the final depth is
+    already past the goal. Returns the payload of the last trial and its c, for the next search.
+
+    Examples
+    --------
+    >>> payload, c = secant_on_squares(lambda x: (math.sqrt(x + 0.3), x, "stop at %.4f" % x), 1.0, 0.0,
+    ...                                0.0, 4.0, 1e-9)
+    >>> payload, round(c, 6)
+    ('stop at 0.7000', 0.3)
+    """
+    x = min(max(goal**2 - offset, floor), ceiling)
+    previous = None
+    for _ in range(tries):
+        final, used, payload = trial(x)
+        offset = final**2 - used
+        if abs(final - goal) <= rtol * goal or (used <= floor * (1 + 1e-12) and final >= goal):
+            return payload, offset
+        slope = 1.0 if previous is None or previous[0] == used else (final**2 - previous[1]) / (used - previous[0])
+        previous = (used, final**2)
+        x = min(max(used + (goal**2 - final**2) / max(slope, 0.1), floor), ceiling)
+    raise SolverError(f"the stop for a final depth of {goal * 1e3:g} mm did not converge in {tries} trials")

@@ -1,0 +1,71 @@
+"""One evaluation path for every surface: a plan's values to its treatment's outcome.
+
+The window, ``casedepth carburize``/``nitride``/``run``/``sheet``/``load``/``calibrate`` and the Python
+API all build a plan (:class:`~casedepth.plan.Plan`, from the window's edits, a file, or
+command-line options read through the parameter table by :func:`plan_from_options`) and call
+:func:`evaluate`; the same values give the same numbers everywhere.
+"""
+
+from __future__ import annotations
+
+from typing import Any, Mapping
+
+from ..errors import InputError
+from ..outcome import Outcome
+from ..parameters import PARAMETERS, check_ranges, read_options
+from ..treatments import TREATMENTS, treatment_of
+from .state import Plan
+
+
+def _values(plan: Plan | Mapping[str, Any]) -> dict[str, Any]:
+    if isinstance(plan, Plan):
+        return plan.values()
+    values = dict(plan)
+    treatment = values.pop("treatment", "carburizing")
+    return Plan(treatment, **values).values()  # typed as the table says (a snapshot is already)
+
+
+def evaluate(plan: Plan | Mapping[str, Any]) -> Outcome:
+    """Solve a plan (or a snapshot of its values: safe to run off the window's thread).
+
+    Raises :class:`InputError` naming the parameter at fault (or :class:`NotReachableError`).
+    """
+    values = _values(plan)
+    check_ranges(values)
+    return treatment_of(values).evaluate(values)
+
+
+def forward(plan: Plan | Mapping[str, Any], soak: float, probe_depth: float | None = None):
+    """What a soak of ``soak`` [s] gives for this plan, its stages counted as the plan counts them."""
+    values = _values(plan)
+    check_ranges({**values, "case_min": 1e-3, "case_max": 1e-3})  # the drawing's window plays no part here
+    return treatment_of(values).forward(values, soak, probe_depth)
+
+
+def compare_temperatures(plan: Plan | Mapping[str, Any], temperatures: list[float]) -> list[tuple[float, float]]:
+    """The soak [s] for the plan's aim at each of ``temperatures`` [K], the plan otherwise unchanged (its
+    cycle and its policy on the shop's stages too): ``(temperature, soak)`` pairs, temperatures the plan
+    cannot run at left out."""
+    values = _values(plan)
+    if not PARAMETERS["temperature"].used_by(values):
+        raise InputError("temperature", f"no comparison: the furnace temperature plays no part in this plan (only in "
+                                        f"{PARAMETERS['temperature'].when})")
+    pairs = []
+    for T in temperatures:
+        try:
+            pairs.append((T, evaluate({**values, "temperature": T}).soak_time))
+        except InputError:
+            continue  # below this steel's Ac3, or out of reach: left out of the comparison
+    return pairs
+
+
+def plan_from_options(treatment: str, options: Mapping[str, str], **values) -> tuple[Plan, dict[str, str]]:
+    """A plan of ``treatment`` from command-line options given as text (``{"steel": "8620", "temperature":
+    "925C", "target": "0.9-1.3mm", "at": "50HRC"}``, the options' names without dashes), on top of the
+    treatment's defaults and any ``values``; and, per parameter key, the option that set it."""
+    if treatment not in TREATMENTS:
+        raise InputError("treatment", f"{treatment!r} is not one of {', '.join(TREATMENTS)}")
+    start = Plan(treatment, **values).values()
+    set_by = read_options(treatment, {k: v for k, v in options.items() if v is not None}, start)
+    start.pop("treatment")
+    return Plan(treatment, **start), set_by

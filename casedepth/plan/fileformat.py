@@ -1,0 +1,144 @@
+"""Plan files: JSON with a schema version, the keys and units of the parameter table, read strictly.
+
+A plan file names every model and policy it was made with, so an old file gives the numbers it gave
+when it was written: :func:`migrate` brings an older file up to :data:`SCHEMA_VERSION`, writing out
+explicitly what that version did (a one-soak plan of schema 1–3 counted the soak at temperature
+alone; a nitriding plan of schema 3 grew its compound layer by the first release's rate law) and
+noting the newer choice as an offer the window shows, never applying it.
+
+Unknown keys, wrong types and choices not in their table are refused with a message naming the key
+(:class:`PlanFileError`). Saving goes through :func:`casedepth.files.atomic_write`.
+"""
+
+from __future__ import annotations
+
+import json
+import os
+from pathlib import Path
+from typing import Any
+
+from ..errors import InputError
+from ..files import atomic_write
+from ..outcome import Offer
+from ..parameters import PARAMETERS, Text
+from .state import Plan
+
+SCHEMA_VERSION = 5
+FILE_KIND = "casedepth plan"
+HEADER_KEYS = ("kind", "schema_version")
+
+
+class PlanFileError(InputError):
+    """A plan file that cannot be read; ``field`` is ``plan file``, the message names the file's key."""
+
+    def __init__(self, message: str):
+        super().__init__("plan file", message)
+
+
+def to_dict(plan: Plan) -> dict:
+    """A plan as its file holds it (units in the key names)."""
+    values = plan.values()
+    out: dict[str, Any] = {"kind": FILE_KIND, "schema_version": SCHEMA_VERSION}
+    for key, row in PARAMETERS.items():
+        out[row.file_key] = row.kind.to_file(values[key])
+    return out
+
+
+# -- migrations: one step per past schema ---------------------------------------------------------------------------
+def _to_2(data: dict, offers: list[Offer], made_with: int) -> None:
+    # schema 2 adds whole cycles; a schema-1 plan planned one isothermal soak
+    data.update(process="single", stages=[], shop={})
+
+
+def _to_3(data: dict, offers: list[Offer], made_with: int) -> None:
+    # schema 3 adds gas nitriding; every earlier plan is a carburizing plan
+    data.update(treatment="carburizing")
+
+
+def _to_4(data: dict, offers: list[Offer], made_with: int) -> None:
+    # schema 4 adds two-stage nitriding; earlier nitriding plans ran one stage
+    data.update(two_stage_nitriding=False, second_nitriding_potential=None)
+
+
+def _to_5(data: dict, offers: list[Offer], made_with: int) -> None:
+    # schema 5 names the models and policies a plan was made with (they were implied before)
+    single = data.get("process", "single") == "single"
+    counted = not (single and made_with <= 3)  # one-soak plans counted the shop's heat-up and drop from schema 4
+    data["shop_stages_counted"] = counted
+    if not counted:
+        offers.append(Offer("count_shop_stages", True,
+                            "Plans made since schema 4 count the carbon that the shop's heat-up, drop and equalize "
+                            "move in the case; this plan counts the soak at temperature alone, as it did when it "
+                            "was made."))
+    nitriding = data.get("treatment") == "nitriding"
+    data["compound_layer_model"] = ("rate-law-2026" if nitriding and made_with <= 3 else
+                                    PARAMETERS["layer_model"].default)
+
+
+MIGRATIONS = {1: _to_2, 2: _to_3, 3: _to_4, 4: _to_5}
+
+
+def migrate(data: dict) -> tuple[dict, list[Offer]]:
+    """Bring a plan file's contents up to :data:`SCHEMA_VERSION` (one step per past version), and the
+    newer choices the migration noted but did not apply."""
+    data = dict(data)
+    made_with = data["schema_version"]
+    offers: list[Offer] = []
+    while data["schema_version"] < SCHEMA_VERSION:
+        version = data["schema_version"]
+        MIGRATIONS[version](data, offers, made_with)
+        data["schema_version"] = version + 1
+    return data, offers
+
+
+# -- reading ---------------------------------------------------------------------------------------------------------
+def from_dict(data: Any) -> Plan:
+    """The plan a file's contents describe; :class:`PlanFileError` naming the key at fault."""
+    if not isinstance(data, dict) or data.get("kind") != FILE_KIND:
+        raise PlanFileError("this is not a casedepth plan file")
+    version = data.get("schema_version")
+    if isinstance(version, bool) or not isinstance(version, int) or version < 1:
+        raise PlanFileError(f"schema_version: unknown schema version {version!r}")
+    if version > SCHEMA_VERSION:
+        raise PlanFileError(f"written by a newer casedepth (schema {version}; this one reads up to {SCHEMA_VERSION}); "
+                            f"update casedepth to open it")
+    by_file_key = {row.file_key: row for row in PARAMETERS.values()}
+    unknown = sorted(set(data) - set(by_file_key) - set(HEADER_KEYS))
+    if unknown:
+        raise PlanFileError(f"unknown key{'s' if len(unknown) > 1 else ''} {', '.join(unknown)}")
+    data, offers = migrate(data)
+    values = {}
+    for file_key, row in by_file_key.items():
+        if file_key not in data:
+            if version < SCHEMA_VERSION or isinstance(row.kind, Text):
+                continue  # a key added within an older schema takes its default, as it did then
+            raise PlanFileError(f"{file_key}: missing (a plan of schema {SCHEMA_VERSION} holds every key)")
+        try:
+            values[row.key] = row.kind.from_file(row.key, data[file_key])
+        except InputError as error:
+            raise PlanFileError(f"{file_key}: {error.message} (expected {row.kind.describe()})") from None
+    treatment = values.pop("treatment", "carburizing")
+    try:
+        plan = Plan(treatment, **values)
+    except InputError as error:
+        raise PlanFileError(f"{PARAMETERS[error.field].file_key if error.field in PARAMETERS else error.field}: "
+                            f"{error.message}") from None
+    plan.file_offers = offers
+    return plan
+
+
+def load(path: str | os.PathLike) -> Plan:
+    """Read a plan file."""
+    try:
+        data = json.loads(Path(path).read_text(encoding="utf-8"))
+    except (OSError, UnicodeDecodeError) as error:
+        raise PlanFileError(f"cannot read {path}: {error}") from None
+    except json.JSONDecodeError as error:
+        raise PlanFileError(f"{path} is not valid JSON (line {error.lineno}): {error.msg}") from None
+    return from_dict(data)
+
+
+def save(plan: Plan, path: str | os.PathLike) -> None:
+    """Write the plan as JSON atomically (a failed save never loses the previous file); the plan is then unmodified."""
+    atomic_write(path, json.dumps(to_dict(plan), indent=2, ensure_ascii=False) + "\n")
+    plan.modified = False

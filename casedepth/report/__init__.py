@@ -1,0 +1,1 @@
+"""What is handed on: printed documents (:mod:`.documents`) and exported profiles (:mod:`.export`)."""

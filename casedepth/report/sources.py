@@ -1,0 +1,35 @@
+"""The models the program uses and where each comes from, for the About box and the contributor guide:
+the method tables' rows (diffusivity, carbon → hardness, compound layer) and the fixed models."""
+
+from __future__ import annotations
+
+from ..models.diffusivity import METHODS
+from ..models.hardness import HARDNESS_RELATIONS
+from ..nitriding.layer import LAYER_MODELS
+
+FIXED = (
+    ("Surface mass transfer", "J = β (C_eq − C_s) — EN 10052 definition; default β 1.5e-5 cm/s for endothermic gas "
+                              "after Ruck, Monceau & Grabke (1996) and Karabelchtchikova (2007), from memory"),
+    ("Alloy factor", "Gunnarson (1967), as quoted in ASM Handbook Vol. 4 (1991), from memory"),
+    ("Carbon saturation (Acm)", "Fe–C diagram; CALPHAD points after Gustafson (1985) and Hallstedt et al. (2010)"),
+    ("Ac3", "Andrews, J. Iron Steel Inst. 203 (1965) 721"),
+    ("HV ↔ HRC", "ASTM E140, Table 1"),
+    ("Time stepping", "ROS2 Rosenbrock method, Verwer et al., SIAM J. Sci. Comput. 20 (1999) 1456"),
+    ("Oxygen probe", "Nernst equation (air reference); C + ½O2 = CO thermochemistry and the activity of carbon in "
+                     "austenite from handbook relations (from memory); ideal probe, trim as the shop does"),
+    ("Nitriding potential", "K_N = p(NH3)/p(H2)^1.5 — Lehrer, Z. Elektrochem. 36 (1930) 383; surface phase from the "
+                            "Lehrer-diagram boundaries (read from the diagram, from memory, ±30 %)"),
+    ("Nitrogen in ferrite", "diffusivity after Bohnenkamp, Arch. Eisenhüttenwes. 38 (1967) 229; saturation against γ′ "
+                            "fitted to the Fe–N diagram of Wriedt, Gokcen & Nafziger (1987)"),
+    ("Nitrided hardness depth", "internal-nitriding front of Wagner, Z. Elektrochem. 63 (1959) 772, and Meijering (1971)"),
+    ("Safety cautions", "common practice under NFPA 86; local codes govern"),
+)
+
+
+def model_sources() -> list[tuple[str, str]]:
+    """``(model, source and status)`` of every model the program uses, the tables' rows first."""
+    rows = [(m.display, f"{m.reference}; valid {m.validity}") for m in METHODS.values()]
+    rows += [(r.display, f"{r.reference}; assumes {r.assumptions}") for r in HARDNESS_RELATIONS.values()]
+    rows += [(m.display, m.reference + ("" if m.superseded_by is None else "; superseded, kept for the plans made "
+                                        "with it")) for m in LAYER_MODELS.values()]
+    return rows + list(FIXED)

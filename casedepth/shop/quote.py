@@ -1,0 +1,109 @@
+"""The shop's standard times and rates, and the cycle-time quote: how long the furnace is busy for one
+load, and what a load and a part cost.
+
+The shop's own figures (:class:`ShopDefaults`) fill in the stages that the case does not decide:
+loading, heat-up, drop and equalize, quench, wash and temper (and the purges and cooling of a
+nitriding retort). They are the user's to edit and save; the values here are placeholders for a demo
+shop, not data from any real one. Each treatment turns them into its own stages
+(:func:`casedepth.carburizing.cycle.shop_stages`, :func:`casedepth.nitriding.cycle.nitriding_cycle`).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import asdict, dataclass, field, fields
+
+from ..errors import InputError
+
+
+def _item(default, label: str, unit: str = ""):
+    """A shop entry with what the window calls it and its unit."""
+    return field(default=default, metadata={"label": label, "unit": unit})
+
+
+@dataclass(frozen=True)
+class ShopDefaults:
+    """A shop's standard times [h], temperatures [°C] and rates. Demo values, to be edited.
+
+    Each entry carries its label and unit (``dataclasses.fields(ShopDefaults)[i].metadata``): the
+    window's dialog is built from them.
+    """
+
+    load_h: float = _item(0.25, "Load and close", "h")
+    heat_up_h: float = _item(1.0, "Heat-up to temperature", "h")
+    drop_temperature_c: float = _item(845.0, "Hardening temperature", "°C")
+    drop_h: float = _item(0.5, "Drop to hardening temperature", "h")
+    equalize_h: float = _item(0.5, "Equalize", "h")
+    hardening_potential: float = _item(0.80, "Potential at hardening temperature", "%C")
+    quench_h: float = _item(0.25, "Quench", "h")
+    wash_h: float = _item(0.5, "Wash", "h")
+    temper_h: float = _item(2.0, "Temper", "h")
+    temper_temperature_c: float = _item(180.0, "Temper temperature", "°C")
+    # CO in the endothermic carrier gas, vol % (common practice: 20 from natural gas)
+    carrier_co_pct: float = _item(20.0, "CO in the carrier gas (for probe mV)", "%")
+    # gas nitriding in a retort: nitrogen purges before ammonia goes in and after the load has cooled
+    nitriding_purge_h: float = _item(0.5, "Nitriding: nitrogen purge", "h")
+    nitriding_heat_up_h: float = _item(3.0, "Nitriding: heat-up", "h")
+    nitriding_cool_h: float = _item(4.0, "Nitriding: cool-down", "h")
+    furnace_rate_per_h: float = _item(95.0, "Furnace rate per hour")
+    parts_per_load: int = _item(120, "Parts per load")
+    currency: str = _item("", "Currency")
+
+    def __post_init__(self):
+        for f in fields(self):
+            value = getattr(self, f.name)
+            if f.name == "currency":
+                if not isinstance(value, str):
+                    raise InputError("shop", f"currency: {value!r} must be text")
+                continue
+            if isinstance(value, bool) or not (isinstance(value, (int, float)) and math.isfinite(value) and value >= 0):
+                raise InputError("shop", f"{f.name}: {value!r} must be a number of zero or more")
+        if self.parts_per_load < 1:
+            raise InputError("shop", "parts_per_load: at least one part per load")
+        if not (5.0 <= self.carrier_co_pct <= 50.0):
+            raise InputError("shop", f"carrier_co_pct: {self.carrier_co_pct:g} % CO is outside 5–50 %")
+
+    def to_dict(self) -> dict:
+        return asdict(self)
+
+    @classmethod
+    def from_dict(cls, data: dict | None) -> "ShopDefaults":
+        """The shop from a plan file's table; missing entries take the defaults, unknown ones are refused."""
+        data = dict(data or {})
+        known = {f.name for f in fields(cls)}
+        unknown = sorted(set(data) - known)
+        if unknown:
+            raise InputError("shop", f"unknown entr{'y' if len(unknown) == 1 else 'ies'} {', '.join(unknown)}; "
+                             f"known: {', '.join(sorted(known))}")
+        return cls(**data)
+
+
+@dataclass
+class Quote:
+    """The cycle broken down by stage, with its cost."""
+
+    lines: list[tuple[str, float]]  # (stage label, hours)
+    total_h: float
+    cost_per_load: float
+    cost_per_part: float
+    currency: str = ""
+
+    def to_dict(self) -> dict:
+        return {"stages": [{"stage": label, "hours": hours} for label, hours in self.lines],
+                "total_h": self.total_h, "cost_per_load": self.cost_per_load, "cost_per_part": self.cost_per_part,
+                "currency": self.currency}
+
+    def text(self) -> str:
+        width = max(len(label) for label, _ in self.lines) if self.lines else 10
+        money = f" {self.currency}" if self.currency else ""
+        rows = [f"  {label:<{width}}  {hours:6.2f} h" for label, hours in self.lines]
+        rows.append(f"  {'whole cycle':<{width}}  {self.total_h:6.2f} h")
+        rows.append(f"  cost per load {self.cost_per_load:.2f}{money}, per part {self.cost_per_part:.3f}{money}")
+        return "\n".join(rows)
+
+
+def quote_lines(lines: list[tuple[str, float]], shop: ShopDefaults) -> Quote:
+    """A quote from ``(label, hours)`` lines: cost = furnace hours × rate, per part = per load / parts per load."""
+    total = sum(hours for _, hours in lines)
+    per_load = total * shop.furnace_rate_per_h
+    return Quote(list(lines), total, per_load, per_load / shop.parts_per_load, shop.currency)

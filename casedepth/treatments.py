@@ -1,0 +1,136 @@
+"""The treatment table: one row per heat treatment the program plans.
+
+A row says what the treatment is called, its command on the command line, the parameter values a
+new plan of it starts from (the rest come from the parameter table, :mod:`casedepth.parameters`,
+whose rows say which treatments use them), the temperatures it runs at, how a plan of it is
+evaluated (into an :class:`~casedepth.outcome.Outcome`) and what a soak of given length gives,
+which parameter calibration adjusts, what parts must share to go in one load, and how its
+case-depth chart is drawn. Dispatch, the command line, the window, the printed documents, loads
+and calibration all read this table; nothing else asks which treatment a plan is.
+
+Adding a treatment is one row here plus its own package (setup, models, outcome); see the
+contributor guide.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Any, Callable, Mapping
+
+from . import safety
+from .carburizing import outcome as carburizing
+from .carburizing.setup import MAX_TEMPERATURE
+from .constants import ZERO_CELSIUS
+from .errors import InputError
+from .models.austenite import Andrews_1965_Ac3
+from .nitriding import outcome as nitriding
+from .nitriding.setup import TEMPERATURE_RANGE as NITRIDING_TEMPERATURES
+from .outcome import Outcome
+from .parameters import Option
+
+
+def _carburizing_chart(values, **kwargs):
+    from .report.documents import case_depth_chart
+
+    return case_depth_chart(carburizing.carburizing_setup({**values, "process": "single"}), **kwargs)
+
+
+def _nitriding_chart(values, **kwargs):
+    from .report.documents import nitriding_chart
+
+    return nitriding_chart(nitriding.nitriding_setup(values), **kwargs)
+
+
+def _carburizing_steel(steel, units) -> str:
+    from .models.surface import Gunnarson_alloy_factor
+
+    return (f"{steel.standard}. Core {steel.carbon:.3f} %C · alloy factor {Gunnarson_alloy_factor(steel.composition):.3f} "
+            f"· Ac3 ≈ {units.format_temperature(Andrews_1965_Ac3(steel.composition))} (Andrews 1965)")
+
+
+def _nitriding_steel(steel, units) -> str:
+    from .nitriding.setup import nitride_capacity
+
+    typical = (f" · typical core {steel.core_hardness_hv:.0f} HV, nitrided {steel.nitrided_surface_hv:.0f} HV"
+               if steel.core_hardness_hv and steel.nitrided_surface_hv else "")
+    return f"{steel.standard}. Nitride formers bind {nitride_capacity(steel.composition):.2f} wt % N{typical}"
+
+
+def _one_soak_only(values: Mapping[str, Any]) -> None:
+    from .carburizing.outcome import CYCLES
+
+    cycle = CYCLES[values["process"]]
+    if not cycle.has_soak:
+        raise InputError("process", f"a {cycle.label.lower()} cycle has no single soak: loads and calibration take "
+                                    f"one-soak plans")
+
+
+def _one_stage_only(values: Mapping[str, Any]) -> None:
+    if values["two_stage"]:
+        raise InputError("two_stage", "a two-stage nitriding plan has no single soak: loads and calibration take "
+                                      "one-stage plans")
+
+
+@dataclass(frozen=True)
+class Treatment:
+    """One row of the treatment table (see the module notes)."""
+
+    key: str
+    label: str
+    command: str  # the command-line command that plans it
+    description: str  # that command's help
+    defaults: Mapping[str, Any]  # what a new plan of it starts from, where the parameter table's defaults differ
+    temperature_range: Callable[[Mapping[str, Any]], tuple[float, float]]  # K, for a plan's values
+    evaluate: Callable[[Mapping[str, Any]], Outcome]
+    forward: Callable[..., Any]  # (values, soak [s], probe depth [m] or None) -> what the soak gives (to_dict, text)
+    calibration_key: str  # the diffusivity multiplier calibration sets
+    potential_key: str  # the atmosphere's parameter: what parts in one load share with the temperature
+    potential_tolerance: float  # potentials this close count as the same atmosphere
+    single_soak: Callable[[Mapping[str, Any]], None]  # refuses a plan with no single soak (loads, calibration)
+    chart: Callable[..., Any]  # (values, temperatures=… or potentials=…, paper, units, hours) -> Document
+    chart_spread: float  # the window's chart: the plan's temperature and this far [K] either side
+    comparison_temperatures: tuple[float, ...]  # K, the window's comparison of temperatures
+    depth_name: str  # what the depth on the drawing is called
+    steel_list: str  # which grades of the steel library are offered
+    steel_note: Callable[[Any, Any], str]  # (steel, display units) -> what matters about a steel for it
+    cautions: Callable[[Mapping[str, Any]], list] = lambda values: []  # the cautions a plan's values call for
+    forward_options: tuple[Option, ...] = ()  # the command line's extra options for what a soak gives
+
+    def chart_temperatures(self, values: Mapping[str, Any]) -> list[float]:
+        """Three temperatures [K] for a chart around the plan's, kept within the treatment's range."""
+        low, high = self.temperature_range(values)
+        T = values["temperature"]
+        return sorted({min(max(T + step, low), high) for step in (-self.chart_spread, 0.0, self.chart_spread)})
+
+
+TREATMENTS: dict[str, Treatment] = {t.key: t for t in (
+    Treatment(
+        "carburizing", "Carburizing", "carburize",
+        "Gas carburizing: the soak at temperature for a target effective case depth (--target, or the drawing's "
+        "window), or the case a soak of given length gives (--time); boost and diffuse with --surface-target.",
+        {"steel": "8620", "temperature": 925.0 + ZERO_CELSIUS, "case_min": 0.8e-3, "case_max": 1.2e-3},
+        lambda values: (Andrews_1965_Ac3(values["composition"]), MAX_TEMPERATURE),
+        carburizing.evaluate, carburizing.forward, "d_multiplier", "carbon_potential", 0.005, _one_soak_only,
+        _carburizing_chart, 25.0, tuple(t + ZERO_CELSIUS for t in (880.0, 900.0, 925.0, 950.0, 980.0, 1000.0)),
+        "effective case depth", "carburizing", _carburizing_steel,
+        lambda values: safety.cautions(values["temperature"]),
+        (Option("--carbon-at", "with --time: also report the carbon at this depth (0.5mm)"),)),
+    Treatment(
+        "nitriding", "Gas nitriding", "nitride",
+        "Gas nitriding: the nitriding time for a nitrided hardness depth (core + 50 HV), the compound layer it "
+        "gives and the surface phase; the K_N (or a two-stage schedule) for a compound-layer window.",
+        {"steel": "4140", "temperature": 520.0 + ZERO_CELSIUS, "case_min": 0.3e-3, "case_max": 0.5e-3},
+        lambda values: NITRIDING_TEMPERATURES,
+        nitriding.evaluate, nitriding.forward, "n_multiplier", "kn", 0.01, _one_stage_only,
+        _nitriding_chart, 20.0, tuple(t + ZERO_CELSIUS for t in (490.0, 510.0, 520.0, 530.0, 550.0, 570.0)),
+        "nitrided hardness depth (core + 50 HV)", "nitriding", _nitriding_steel,
+        lambda values: safety.cautions(ammonia=True)),
+)}
+
+
+def treatment_of(values: Mapping[str, Any]) -> Treatment:
+    """The row of a plan's treatment."""
+    key = values.get("treatment")
+    if key not in TREATMENTS:
+        raise InputError("treatment", f"{key!r} is not one of {', '.join(TREATMENTS)}")
+    return TREATMENTS[key]
