@@ -213,9 +213,6 @@ class Table(Kind):
 
 
 # -- the rows --------------------------------------------------------------------------------------------------
-ALL = ("carburizing", "nitriding")  # every treatment (a new treatment adds its key where a row applies to it)
-
-
 @dataclass(frozen=True)
 class Option:
     """A command-line option that sets one or more parameters: ``read(text, values)`` gives the updates."""
@@ -246,7 +243,7 @@ class Parameter:
     kind: Kind
     default: Any
     file_key: str
-    treatments: tuple[str, ...] = ALL
+    treatments: tuple[str, ...] | None = None  # the treatments that use it (None: every one)
     group: str | None = None  # where the window shows it (None: not in the form)
     unit_label: str = ""  # shown after the value (for quantities without a unit system of their own)
     range: tuple[float, float] | Callable[[Mapping[str, Any]], tuple[float, float]] | None = None
@@ -256,13 +253,22 @@ class Parameter:
     help: str = ""
     affects_result: bool = True
     decimals: int | Callable[[Mapping[str, Any]], int] = 2  # shown in the window
+    #: what the value is called for these values, where that depends on another choice (a thickness or a diameter)
+    named: Callable[[Mapping[str, Any]], str] | None = None
     #: values that change with this one when a person picks it (``(values, new value) -> {key: value}``):
     #: a grade brings its composition, a threshold kind its usual value
     companions: Callable[[Mapping[str, Any], Any], dict] | None = None
 
+    def label_in(self, values: Mapping[str, Any]) -> str:
+        """The label for a plan with these values."""
+        return self.named(values) if self.named is not None else self.label
+
+    def for_treatment(self, treatment: str) -> bool:
+        return self.treatments is None or treatment in self.treatments
+
     def used_by(self, values: Mapping[str, Any]) -> bool:
         """True if the value matters for a plan with these values."""
-        return values.get("treatment") in self.treatments and self.applies(values)
+        return self.for_treatment(values.get("treatment")) and self.applies(values)
 
     def allowed(self, values: Mapping[str, Any]) -> tuple[float, float] | None:
         return self.range(values) if callable(self.range) else self.range
@@ -526,6 +532,7 @@ PARAMETERS: dict[str, Parameter] = {p.key: p for p in (
               "plate", "shape", group="Part", companions=_with_shape,
               options=(Option("--geometry", "plate (default), cylinder, bore or sphere", choices=lambda: list(SHAPES)),)),
     Parameter("size", "Size", Quantity("length", optional=True, unset="thick section"), None, "size_mm", group="Part",
+              named=lambda v: "Thickness" if v.get("shape") == "plate" else "Diameter",
               range=(MIN_SIZE, MAX_SIZE), help="plate thickness (both faces carburized) or diameter; none for a thick section",
               options=(Option("--diameter", "cylinder, sphere or bore diameter: 40mm", _read_size("diameter")),
                        Option("--thickness", "plate thickness, treated from both faces: 10mm (default: thick section)",
@@ -707,7 +714,7 @@ def check_ranges(values: Mapping[str, Any]) -> None:
 
 def options_for(treatment: str) -> list[tuple[Parameter, Option]]:
     """The command-line options of a treatment's command, in table order."""
-    return [(row, option) for row in PARAMETERS.values() if treatment in row.treatments for option in row.options]
+    return [(row, option) for row in PARAMETERS.values() if row.for_treatment(treatment) for option in row.options]
 
 
 def read_options(treatment: str, given: Mapping[str, str], values: dict[str, Any]) -> dict[str, str]:

@@ -90,6 +90,7 @@ class Treatment:
     chart: Callable[..., Any]  # (values, temperatures=… or potentials=…, paper, units, hours) -> Document
     chart_spread: float  # the window's chart: the plan's temperature and this far [K] either side
     comparison_temperatures: tuple[float, ...]  # K, the window's comparison of temperatures
+    comparison_note: str  # what limits the temperature, in words
     depth_name: str  # what the depth on the drawing is called
     steel_list: str  # which grades of the steel library are offered
     steel_note: Callable[[Any, Any], str]  # (steel, display units) -> what matters about a steel for it
@@ -112,6 +113,8 @@ TREATMENTS: dict[str, Treatment] = {t.key: t for t in (
         lambda values: (Andrews_1965_Ac3(values["composition"]), MAX_TEMPERATURE),
         carburizing.evaluate, carburizing.forward, "d_multiplier", "carbon_potential", 0.005, _one_soak_only,
         _carburizing_chart, 25.0, tuple(t + ZERO_CELSIUS for t in (880.0, 900.0, 925.0, 950.0, 980.0, 1000.0)),
+        "Hotter is faster but coarsens grain (above about 980 °C for most carburizing grades) and distorts more; the "
+        "furnace, fixtures and the steel's grain-size control set the limit (common practice).",
         "effective case depth", "carburizing", _carburizing_steel,
         lambda values: safety.cautions(values["temperature"]),
         (Option("--carbon-at", "with --time: also report the carbon at this depth (0.5mm)"),)),
@@ -123,6 +126,8 @@ TREATMENTS: dict[str, Treatment] = {t.key: t for t in (
         lambda values: NITRIDING_TEMPERATURES,
         nitriding.evaluate, nitriding.forward, "n_multiplier", "kn", 0.01, _one_stage_only,
         _nitriding_chart, 20.0, tuple(t + ZERO_CELSIUS for t in (490.0, 510.0, 520.0, 530.0, 550.0, 570.0)),
+        "Hotter is faster but gives a thicker, more porous compound layer and a softer diffusion zone, and must stay "
+        "below the steel's tempering temperature so the core keeps its hardness (common practice).",
         "nitrided hardness depth (core + 50 HV)", "nitriding", _nitriding_steel,
         lambda values: safety.cautions(ammonia=True)),
 )}

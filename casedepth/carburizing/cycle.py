@@ -315,3 +315,11 @@ def stage_lines(stages: list[Stage]) -> list[tuple[str, float]]:
     """``(label, hours)`` of each stage, for a quote."""
     return [(stage.label, stage.duration / 3600.0) for stage in stages]
 
+
+def describe_counted(counted: tuple[Stage, ...]) -> str:
+    """Which of the shop's stages a case counts, in words."""
+    if not counted:
+        return "not counted: the case of the soak at temperature alone"
+    parts = ", ".join(f"{s.label.lower()} {s.duration / 3600:g} h" for s in counted)
+    return f"counted ({parts}): the case at the end of the whole cycle"
+

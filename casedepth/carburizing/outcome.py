@@ -24,15 +24,16 @@ from ..models.diffusivity import Diffusivity
 from ..models.hardness import HARDNESS_RELATIONS, ASTM_E140_hv_to_hrc
 from ..models.steels import steel_for
 from ..numerics.geometry import Geometry
-from ..numerics.solver import History, Profile
+from ..numerics.solver import Profile
 from ..outcome import Curve, Fact, Level, Outcome, Panel, ProfileView, SheetContent, Summary, Timeline, quote_fact
 from ..parameters import drawing_window
 from ..shop.quote import Quote, ShopDefaults, quote_lines
 from ..units import DisplayUnits, Threshold, format_duration
-from .cycle import CycleResult, Stage, run_recipe, shop_stages, stage_from_dict, stage_lines, stage_to_dict, timeline
+from .cycle import (CycleResult, Stage, describe_counted, run_recipe, shop_stages, stage_from_dict, stage_lines,
+                    stage_to_dict, timeline)
 from .planners import plan_boost_diffuse, plan_single_soak
 from .setup import CarburizingSetup, case_warnings
-from .soak import carburize, check_probe_depth, check_soak, soak_times_for_case_depths
+from .soak import CarburizingResult, carburize, check_probe_depth, check_soak, soak_times_for_case_depths
 
 
 # -- plan values -> setup ------------------------------------------------------------------------------------
@@ -216,68 +217,12 @@ def evaluate(values: Mapping[str, Any]) -> "CarburizingOutcome":
 
 
 # -- what a soak gives ---------------------------------------------------------------------------------------
-@dataclass
-class SoakRun:
-    """A soak of given length and what it leaves: the case at the end of the stages counted with it."""
-
-    setup: CarburizingSetup
-    soak_time: float
-    profile: Profile
-    case_depth: float
-    history: History
-    warnings: list[str]
-    counted: tuple[Stage, ...]
-    carbon_at_depth: float | None = None
-    probe_depth: float | None = None
-
-    @property
-    def surface_carbon(self) -> float:
-        return self.profile.surface_carbon
-
-    @property
-    def diffusion_length(self) -> float:
-        """√(D t) with D at the threshold carbon, [m]: a length scale, not a depth where carbon stops."""
-        s = self.setup
-        return math.sqrt(float(s.diffusivity(s.threshold_carbon, s.temperature)) * self.soak_time)
-
-    def to_dict(self) -> dict:
-        out = _setup_dict(self.setup)
-        out.update(soak_time_h=self.soak_time / 3600.0, case_depth_mm=self.case_depth * 1e3,
-                   surface_carbon_pct=self.surface_carbon, shop_stages_counted=bool(self.counted),
-                   diffusion_length_mm=self.diffusion_length * 1e3,
-                   diffusion_length_note="sqrt(D t) with D at the threshold carbon: a length scale, not a depth at "
-                                         "which all carbon stops",
-                   warnings=list(self.warnings), profile=_profile_dict(self.profile))
-        if self.carbon_at_depth is not None:
-            out.update(carbon_at_mm=self.probe_depth * 1e3, carbon_at_pct=self.carbon_at_depth)
-        return out
-
-    def text(self, units: DisplayUnits) -> str:
-        s = self.setup
-        lines = [f"Soak of {format_duration(self.soak_time)} at {units.format_temperature(s.temperature)}, carbon "
-                 f"potential {s.carbon_potential:.2f} %C",
-                 f"  {s.threshold.depth_name:<21} {units.format_length(self.case_depth)} at {s.threshold}"
-                 + _threshold_meaning(s) + " at the end",
-                 f"  shop stages           {_counted_text(self.counted)}",
-                 *_surface_and_setup_lines(s, self.surface_carbon)]
-        if self.carbon_at_depth is not None:
-            lines.append(f"  carbon at {units.format_length(self.probe_depth):<11} {self.carbon_at_depth:.3f} %C")
-        lines.append(f"  diffusion length √(Dt) {units.format_length(self.diffusion_length)} (D at the threshold "
-                     f"carbon; a length scale, not a depth where the carbon stops)")
-        lines += [f"Warning: {w}" for w in self.warnings]
-        s = self.setup
-        lines.append(safety.caution_line(safety.cautions(s.temperature, s.equilibrium_carbon, s.saturation_carbon)))
-        return "\n".join(lines)
-
-
 def run_soak(setup: CarburizingSetup, soak: float, before: tuple[Stage, ...] = (), after: tuple[Stage, ...] = (),
-             probe_depth: float | None = None) -> SoakRun:
+             probe_depth: float | None = None) -> CarburizingResult:
     """A soak of ``soak`` [s] at the setup's temperature and potential, with the ``before`` and ``after``
     stages run around it and counted in the case (none: the soak alone)."""
     if not before and not after:
-        alone = carburize(setup, soak, probe_depth)
-        return SoakRun(setup, soak, alone.profile, alone.case_depth, alone.history, alone.warnings, (),
-                       alone.carbon_at_depth, probe_depth)
+        return carburize(setup, soak, probe_depth)
     check_soak(soak)
     check_probe_depth(setup, probe_depth)
     cycle = run_recipe(setup, [*before, Stage("soak", soak, setup.temperature, setup.carbon_potential), *after])
@@ -285,10 +230,11 @@ def run_soak(setup: CarburizingSetup, soak: float, before: tuple[Stage, ...] = (
     warnings += [w for w in cycle.warnings if w not in warnings]
     counted = tuple(s for s in (*before, *after) if s.moves_carbon and s.duration > 0)
     at = None if probe_depth is None else cycle.profile.carbon_at(probe_depth)
-    return SoakRun(setup, soak, cycle.profile, cycle.case_depth, cycle.history, warnings, counted, at, probe_depth)
+    return CarburizingResult(setup, soak, cycle.profile, cycle.case_depth, cycle.history, warnings,
+                             sum(cycle.stage_uptake), carbon_at_depth=at, probe_depth=probe_depth, counted=counted)
 
 
-def forward(values: Mapping[str, Any], soak: float, probe_depth: float | None = None) -> SoakRun:
+def forward(values: Mapping[str, Any], soak: float, probe_depth: float | None = None) -> CarburizingResult:
     """What a one-soak plan gives after a soak of ``soak`` [s], the shop's stages counted as the plan counts them."""
     setup = carburizing_setup({**values, "process": "single"})
     _, _, before, after = _counted_stages(values, shop_of(values), setup, setup.carbon_potential)
@@ -296,41 +242,6 @@ def forward(values: Mapping[str, Any], soak: float, probe_depth: float | None = 
 
 
 # -- the outcome -----------------------------------------------------------------------------------------------
-def _profile_dict(profile: Profile) -> dict:
-    return {"depth_mm": (profile.depth * 1e3).tolist(), "carbon_pct": profile.carbon.tolist()}
-
-
-def _setup_dict(s: CarburizingSetup) -> dict:
-    return {
-        "threshold": str(s.threshold), "threshold_carbon_pct": s.threshold_carbon,
-        "equilibrium_surface_carbon_pct": s.equilibrium_carbon, "saturation_carbon_pct": s.saturation_carbon,
-        "alloy_factor": s.alloy_factor, "core_carbon_pct": s.steel.carbon, "temperature_c": s.temperature - ZERO_CELSIUS,
-        "carbon_potential_pct": s.carbon_potential, "steel": s.steel.name, "composition_pct": dict(s.steel.composition),
-        "geometry": s.geometry.describe(), "diffusivity_model": s.diffusivity.method,
-        "beta_cm_per_s": None if math.isinf(s.beta) else s.beta * 100.0,
-    }
-
-
-def _threshold_meaning(s: CarburizingSetup) -> str:
-    return f" (= {s.threshold_carbon:.3f} %C)" if s.threshold.kind != "carbon" else ""
-
-
-def _counted_text(counted: tuple[Stage, ...]) -> str:
-    if not counted:
-        return "not counted: the case of the soak at temperature alone"
-    parts = ", ".join(f"{s.label.lower()} {s.duration / 3600:g} h" for s in counted)
-    return f"counted ({parts}): the case at the end of the whole cycle"
-
-
-def _surface_and_setup_lines(s: CarburizingSetup, surface: float) -> list[str]:
-    beta = "inf (surface held at equilibrium)" if math.isinf(s.beta) else f"{s.beta * 100:.3g} cm/s"
-    return [f"  surface carbon        {surface:.3f} %C at the end (equilibrium {s.equilibrium_carbon:.3f} %C, "
-            f"saturation {s.saturation_carbon:.2f} %C)",
-            f"  steel                 {s.steel.name} ({s.steel.standard}), core {s.steel.carbon:.3f} %C, "
-            f"alloy factor {s.alloy_factor:.3f}" + ("" if s.alloy_factor_on else " (off)"),
-            f"  models                D: {s.diffusivity.display}; β = {beta}; {s.geometry.describe()}"]
-
-
 @dataclass
 class CarburizingOutcome(Outcome):
     """What a carburizing plan gives: the soaks (or boost and diffuse), the case and profile at the end,
@@ -513,7 +424,7 @@ class CarburizingOutcome(Outcome):
 
     def to_dict(self) -> dict:
         s = self.setup
-        out = _setup_dict(s)
+        out = s.to_dict()
         out.update({
             "plan": self.values["title"], "treatment": self.treatment, "process": self.cycle_kind,
             "soak_time_h": self.soak_time / 3600.0, "case_depth_mm": self.depth * 1e3,
@@ -521,7 +432,7 @@ class CarburizingOutcome(Outcome):
             "shop_stages_counted": bool(self.values["count_shop_stages"]),
             "stages": [stage_to_dict(stage) for stage in self.stages], "quote": self.quote.to_dict(),
             "warnings": list(self.warnings), "cautions": [c.title for c in self.cautions],
-            "profile": _profile_dict(self.profile),
+            "profile": self.profile.to_dict(),
             "probe_mv": [{"stage": label, "mv": mv} for label, mv in self.probe],
             "carrier_co_pct": self.carrier_co * 100.0,
         })
@@ -552,10 +463,10 @@ class CarburizingOutcome(Outcome):
         else:
             lines = [f"Stages as entered: the cycle runs {format_duration(self.quote.total_h * 3600)}"]
         if self.cycle_kind != "stages":
-            lines.append(f"  shop stages           {_counted_text(self.planned.counted)}")
+            lines.append(f"  shop stages           {describe_counted(self.planned.counted)}")
         lines.append(f"  {s.threshold.depth_name:<21} {units.format_length(self.depth)} at {s.threshold}"
-                     + _threshold_meaning(s))
-        lines += _surface_and_setup_lines(s, self.surface_carbon)
+                     + s.threshold_meaning())
+        lines += s.describe_lines(self.surface_carbon)
         if self.cycle_kind == "boost-diffuse":
             lines[-3] += f"; window {self.values['surface_min']:.2f}–{self.values['surface_max']:.2f} %C"
         if self.probe:
@@ -580,9 +491,12 @@ class CarburizingOutcome(Outcome):
         else:
             lines.append("Stages as entered (see the cycle page)")
         if self.cycle_kind != "stages":
-            lines.append("Shop stages " + _counted_text(self.planned.counted))
+            lines.append("Shop stages " + describe_counted(self.planned.counted))
         lines.append(f"{s.threshold.depth_name.capitalize()} {units.format_length(self.depth)} at {s.threshold}; surface "
                      f"carbon {self.surface_carbon:.3f} %C at the end; aim {units.format_length(aim)}")
+        lines.append(f"Models: {s.models_text()}; alloy factor "
+                     + (f"{s.alloy_factor:.3f} (Gunnarson)" if s.alloy_factor_on else "off")
+                     + (f"; {HARDNESS_RELATIONS[s.hardness_relation].display.lower()}" if s.threshold.is_hardness else ""))
         if self.probe:
             lines.append(f"Oxygen probe (ideal, {self.carrier_co * 100:g} % CO carrier; trim with the controller's CO "
                          f"factor): " + ", ".join(f"{label.lower()} {mv:.0f} mV" for label, mv in self.probe))

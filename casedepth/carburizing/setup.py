@@ -151,6 +151,37 @@ class CarburizingSetup:
                            "fall short of this carbon-based estimate (common practice). Confirm on a test section.")
         return out
 
+    # -- in words ------------------------------------------------------------------------------------
+    def threshold_meaning(self) -> str:
+        """`` (= 0.370 %C)`` for a threshold that is not a carbon content, else nothing."""
+        return f" (= {self.threshold_carbon:.3f} %C)" if self.threshold.kind != "carbon" else ""
+
+    def models_text(self) -> str:
+        """The models of the step, in one line."""
+        beta = "inf (surface held at equilibrium)" if math.isinf(self.beta) else f"{self.beta * 100:.3g} cm/s"
+        multiplier = "" if self.diffusivity.multiplier == 1.0 else f" × {self.diffusivity.multiplier:g}"
+        return f"D: {self.diffusivity.display}{multiplier}; β = {beta}; {self.geometry.describe()}"
+
+    def describe_lines(self, surface: float) -> list[str]:
+        """The surface carbon a case ended with [wt %], the steel and the models, as the command line prints them."""
+        return [f"  surface carbon        {surface:.3f} %C at the end (equilibrium {self.equilibrium_carbon:.3f} %C, "
+                f"saturation {self.saturation_carbon:.2f} %C)",
+                f"  steel                 {self.steel.name} ({self.steel.standard}), core {self.steel.carbon:.3f} %C, "
+                f"alloy factor {self.alloy_factor:.3f}" + ("" if self.alloy_factor_on else " (off)"),
+                f"  models                {self.models_text()}"]
+
+    def to_dict(self) -> dict:
+        """The step in JSON (units in the key names)."""
+        return {
+            "threshold": str(self.threshold), "threshold_carbon_pct": self.threshold_carbon,
+            "equilibrium_surface_carbon_pct": self.equilibrium_carbon, "saturation_carbon_pct": self.saturation_carbon,
+            "alloy_factor": self.alloy_factor, "core_carbon_pct": self.steel.carbon,
+            "temperature_c": self.temperature - ZERO_CELSIUS, "carbon_potential_pct": self.carbon_potential,
+            "steel": self.steel.name, "composition_pct": dict(self.steel.composition),
+            "geometry": self.geometry.describe(), "diffusivity_model": self.diffusivity.method,
+            "beta_cm_per_s": None if math.isinf(self.beta) else self.beta * 100.0,
+        }
+
     # -- helpers for the solver ----------------------------------------------------------------
     def diffusivity_range(self) -> tuple[float, float]:
         """Smallest and largest D [m²/s] between the core carbon and the surface carbon."""

@@ -14,10 +14,12 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from .. import safety
 from ..errors import InputError, NotReachableError
 from ..numerics.march import March
 from ..numerics.solver import History, Profile
-from ..units import both_lengths, length_range
+from ..units import both_lengths, format_duration, length_range
+from .cycle import describe_counted
 from .setup import SOAK_RANGE, TARGET_RANGE, CarburizingSetup, case_warnings
 
 
@@ -38,6 +40,7 @@ class CarburizingResult:
     target_depth: float | None = None
     carbon_at_depth: float | None = None
     probe_depth: float | None = None
+    counted: tuple = ()  # the shop's stages run with the soak and counted in the case (none: the soak alone)
 
     def profile_at(self, time: float) -> Profile:
         """The profile at ``time`` [s] of the soak (linear in time between solver steps, for display)."""
@@ -55,6 +58,38 @@ class CarburizingResult:
     def diffusion_length(self) -> float:
         """√(D t) with D at the threshold carbon, [m]: a length scale, not a depth where carbon stops."""
         return math.sqrt(float(self.setup.diffusivity(self.threshold_carbon, self.setup.temperature)) * self.soak_time)
+
+    def to_dict(self) -> dict:
+        """The JSON of ``casedepth carburize --time`` (units in the key names)."""
+        out = self.setup.to_dict()
+        out.update(soak_time_h=self.soak_time / 3600.0, case_depth_mm=self.case_depth * 1e3,
+                   surface_carbon_pct=self.surface_carbon, shop_stages_counted=bool(self.counted),
+                   diffusion_length_mm=self.diffusion_length * 1e3,
+                   diffusion_length_note="sqrt(D t) with D at the threshold carbon: a length scale, not a depth at "
+                                         "which all carbon stops",
+                   warnings=list(self.warnings), profile=self.profile.to_dict())
+        if self.target_depth is not None:
+            out["target_depth_mm"] = self.target_depth * 1e3
+        if self.carbon_at_depth is not None:
+            out.update(carbon_at_mm=self.probe_depth * 1e3, carbon_at_pct=self.carbon_at_depth)
+        return out
+
+    def text(self, units) -> str:
+        """What ``casedepth carburize --time`` prints (``units`` a :class:`~casedepth.units.DisplayUnits`)."""
+        s = self.setup
+        lines = [f"Soak of {format_duration(self.soak_time)} at {units.format_temperature(s.temperature)}, carbon "
+                 f"potential {s.carbon_potential:.2f} %C",
+                 f"  {s.threshold.depth_name:<21} {units.format_length(self.case_depth)} at {s.threshold}"
+                 + s.threshold_meaning() + " at the end",
+                 f"  shop stages           {describe_counted(self.counted)}",
+                 *s.describe_lines(self.surface_carbon)]
+        if self.carbon_at_depth is not None:
+            lines.append(f"  carbon at {units.format_length(self.probe_depth):<11} {self.carbon_at_depth:.3f} %C")
+        lines.append(f"  diffusion length √(Dt) {units.format_length(self.diffusion_length)} (D at the threshold "
+                     f"carbon; a length scale, not a depth where the carbon stops)")
+        lines += [f"Warning: {w}" for w in self.warnings]
+        lines.append(safety.caution_line(safety.cautions(s.temperature, s.equilibrium_carbon, s.saturation_carbon)))
+        return "\n".join(lines)
 
 
 def check_soak(soak_time: float) -> None:

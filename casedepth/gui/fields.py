@@ -223,7 +223,9 @@ class QuantityField(Field):
 
 
 class EntryField(Field):
-    """A quantity typed as text (scientific notation, or a word such as ``inf``), read as the command line reads it."""
+    """A value typed as text and read only when the entry is done: a quantity in scientific notation or with a word
+    such as ``inf`` (read as the command line reads it), or a composition. Text that cannot be read is marked and
+    kept on show; the plan keeps its value meanwhile."""
 
     def build(self):
         edit = QLineEdit()
@@ -231,18 +233,20 @@ class EntryField(Field):
         self.unread = False
         return edit
 
+    def read(self, text: str) -> dict:
+        """The plan values ``text`` means (an :class:`InputError` if it means none)."""
+        row = self.row
+        option = next((o for o in row.options if o.read is not None), None)
+        if option is None:
+            return {self.key: row.kind.parse(self.key, text)}
+        unit = row.kind.unit.file_unit
+        return option.read(text if any(c.isalpha() for c in text) else f"{text}{unit}", self.context.plan.values())
+
     def _edited(self) -> None:
         if self.showing:
             return
-        text, row = self.widget.text().strip(), self.row
-        option = next((o for o in row.options if o.read is not None), None)
         try:
-            unit = row.kind.unit
-            if option is not None:
-                updates = option.read(text if any(c.isalpha() for c in text) else f"{text}{unit.file_unit}",
-                                      self.context.plan.values())
-            else:
-                updates = {self.key: row.kind.parse(self.key, text)}
+            updates = self.read(self.widget.text().strip())
         except InputError as error:
             self.unread = True
             self.context.unreadable.emit(self.key, error.message)
@@ -253,34 +257,22 @@ class EntryField(Field):
 
     def display(self, value, values):
         if not self.unread:
-            unit = self.row.kind.unit
-            self.widget.setText(f"{value * unit.scale + unit.offset:.3g}")
-
-
-class CompositionField(Field):
-    def build(self):
-        edit = QLineEdit()
-        edit.editingFinished.connect(self._edited)
-        self.unread = False
-        return edit
-
-    def _edited(self) -> None:
-        if self.showing:
-            return
-        try:
-            composition = steels.parse_composition(self.widget.text(), self.key)
-        except InputError as error:
-            self.unread = True
-            self.context.unreadable.emit(self.key, error.message)
-            return
-        self.unread = False
-        self.context.readable.emit(self.key)
-        self.set(composition)
-
-    def display(self, value, values):
-        if not self.unread:
-            self.widget.setText(" ".join(f"{el}={val:g}" for el, val in value.items()))
+            self.widget.setText(self.text_of(value))
             self.widget.setCursorPosition(0)
+
+    def text_of(self, value) -> str:
+        unit = self.row.kind.unit
+        return f"{value * unit.scale + unit.offset:.3g}"
+
+
+class CompositionField(EntryField):
+    """The steel's composition as on a mill certificate: ``C=0.20 Mn=0.80 Cr=0.50`` (wt %)."""
+
+    def read(self, text: str) -> dict:
+        return {self.key: steels.parse_composition(text, self.key)}
+
+    def text_of(self, value) -> str:
+        return " ".join(f"{el}={val:g}" for el, val in value.items())
 
 
 class SteelField(Field):

@@ -17,7 +17,7 @@ from ..parameters import PARAMETERS, Choice
 from ..plan import Plan
 from ..treatments import TREATMENTS
 from ..units import DisplayUnits
-from .fields import INVALID_STYLE, Context, EntryField, CompositionField, Field, make_field
+from .fields import INVALID_STYLE, Context, EntryField, Field, make_field
 
 GROUPS = ("Plan", "Steel", "Part", "Furnace step", "Cycle", "Drawing callout", "Model settings", "Notes")
 #: keys shown on the line of another key, and the word between them
@@ -43,6 +43,7 @@ class PlanForm(QWidget):
         self.lines: dict[str, tuple[QFormLayout, QWidget]] = {}  # key -> (layout, the line's field widget)
         self.groups: dict[str, QGroupBox] = {}
         self.notes: dict[str, QLabel] = {}
+        self.named: dict[str, QLabel] = {}  # the labels of lines whose words follow another choice
         self._invalid: set[str] = set()
         layout = QVBoxLayout(self)
         layout.setContentsMargins(6, 6, 6, 6)
@@ -88,6 +89,8 @@ class PlanForm(QWidget):
         else:
             form.addRow(field.row.label, field.widget)
             self.lines[key] = (form, field.widget)
+            if field.row.named is not None:
+                self.named[key] = form.labelForField(field.widget)
         kind = field.row.kind
         if isinstance(kind, Choice) and kind.notes is not None:
             note = self.notes[key] = QLabel()
@@ -148,11 +151,13 @@ class PlanForm(QWidget):
         """Show every field of the plan, and only those that apply to it."""
         values = self.plan.values()
         for key, field in self.fields.items():
-            if key not in self._invalid or not isinstance(field, (EntryField, CompositionField)):
+            if key not in self._invalid or not isinstance(field, EntryField):
                 field.show(values)
             layout, line = self.lines[key]
             if BESIDE.get(key, (key,))[0] == key:  # a line's first key decides whether the line shows
                 layout.setRowVisible(line, PARAMETERS[key].used_by(values))
+        for key, name in self.named.items():
+            name.setText(PARAMETERS[key].label_in(values))
         for key, note in self.notes.items():
             row = PARAMETERS[key]
             note.setText(row.kind.notes(values[key]))

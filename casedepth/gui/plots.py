@@ -53,6 +53,18 @@ def _swatch(handle) -> str:
     return f"<span style='color:{colour}; font-weight:bold'>{style}</span>"
 
 
+def keep_margins(canvas, figure, left: float, right: float, bottom: float, top: float) -> None:
+    """Hold the figure's margins at these many pixels (not fractions) as the canvas resizes, so axis labels and
+    titles keep their room however small the window; fixed margins also spare a layout engine on every redraw."""
+    def fit(_event=None) -> None:
+        width, height = canvas.get_width_height()
+        if width > 0 and height > 0:
+            figure.subplots_adjust(left=min(0.3, left / width), right=1.0 - min(0.3, right / width),
+                                   bottom=min(0.4, bottom / height), top=1.0 - min(0.3, top / height))
+
+    canvas.mpl_connect("resize_event", fit)
+
+
 class _PlotPage(QWidget):
     """One profile plot with its toolbar, the drawing window band, the aim line, lines and a caption."""
 
@@ -85,6 +97,7 @@ class _PlotPage(QWidget):
         if hrc_axis:
             ax.secondary_yaxis("right", functions=(_hv_to_hrc, _hrc_to_hv)).set_ylabel("[HRC]")
         self._legend_key = None
+        keep_margins(self.canvas, self.figure, 62, 52, 46, 12)
 
     def draw_panel(self, panel: Panel, view: ProfileView, units: DisplayUnits) -> None:
         ax = self.axes
@@ -148,6 +161,7 @@ class _CyclePage(QSplitter):
         self.figure = Figure(figsize=(6, 3))
         self.figure.subplots_adjust(left=0.085, right=0.90, top=0.93, bottom=0.16)
         self.canvas = FigureCanvasQTAgg(self.figure)
+        keep_margins(self.canvas, self.figure, 62, 62, 46, 28)
         top = QWidget()
         layout = QVBoxLayout(top)
         layout.setContentsMargins(0, 0, 0, 0)
@@ -220,6 +234,7 @@ class _TradeoffPage(QSplitter):
         self.figure = Figure(figsize=(6, 3))
         self.figure.subplots_adjust(left=0.09, right=0.97, top=0.9, bottom=0.16)
         self.canvas = FigureCanvasQTAgg(self.figure)
+        keep_margins(self.canvas, self.figure, 62, 20, 46, 28)
         self.addWidget(self.canvas)
         self.axes = self.figure.add_subplot()
         self.table = QTableWidget(0, 2)
@@ -243,9 +258,8 @@ class _TradeoffPage(QSplitter):
         ax.clear()
         try:
             self.pairs = compare_temperatures(values, temperatures)
-            note = ("The plan as it is (its cycle, and its choice on counting the shop's heat-up and drop) at other "
-                    "temperatures. Hotter is faster but coarsens grain and distorts more; the furnace, fixtures and "
-                    "the steel's grain-size control set the limit.")
+            note = ("This plan as it is (every other value, and how it counts its stages) at other temperatures. "
+                    + TREATMENTS[outcome.treatment].comparison_note)
         except InputError as error:
             self.pairs, note = [], error.message
         if self.pairs:

@@ -128,10 +128,26 @@ def austenite_carbon_activity(carbon: float, T: float) -> float:
 
 
 def carbon_for_activity(activity: float, T: float) -> float:
-    """Carbon content [wt %] of plain austenite at T [K] whose carbon activity is ``activity``."""
-    from scipy.optimize import brentq  # imported on first use: it is slow to import
+    """Carbon content [wt %] of plain austenite at T [K] whose carbon activity is ``activity`` (0.0001–5 wt %).
 
-    return brentq(lambda c: math.log10(austenite_carbon_activity(c, T)) - math.log10(activity), 1e-4, 5.0, xtol=1e-12)
+    Examples
+    --------
+    >>> round(carbon_for_activity(austenite_carbon_activity(0.8, 1198.15), 1198.15), 9)
+    0.8
+    """
+    from ..numerics.roots import illinois
+
+    low, high = 1e-4, 5.0
+    target = math.log10(activity)
+
+    def miss(c: float) -> float:
+        return math.log10(austenite_carbon_activity(c, T)) - target
+
+    f_low, f_high = miss(low), miss(high)
+    if not (f_low <= 0.0 <= f_high):
+        raise InputError("activity", f"a carbon activity of {activity:.3g} means a carbon content outside "
+                                     f"{low:g}–{high:g} wt % at {T - ZERO_CELSIUS:.0f} °C")
+    return illinois(miss, low, f_low, high, f_high, 1e-13, 1e-13)
 
 
 def _check(T: float, CO: float) -> None:
@@ -155,6 +171,10 @@ def carbon_potential_from_probe(E: float, T: float, CO: float = ENDO_CO_FRACTION
     if not (math.isfinite(E) and PROBE_RANGE_MV[0] <= E <= PROBE_RANGE_MV[1]):
         raise InputError("mv", f"{E:g} mV is outside {PROBE_RANGE_MV[0]:g}–{PROBE_RANGE_MV[1]:g} mV")
     activity = CO / (CO_formation_constant(T) * math.sqrt(oxygen_probe_pressure(E, T)))
+    if activity >= 1.0:
+        raise InputError("mv", f"{E:g} mV at {T - ZERO_CELSIUS:.0f} °C with {CO * 100:g} % CO means a carbon activity of "
+                               f"{activity:.2f}, at or above graphite (soot would deposit): not a carburizing reading; "
+                               f"check the probe, the temperature and the CO content")
     return carbon_for_activity(activity, T)
 
 

@@ -209,7 +209,7 @@ def parabolic_constants(T: float, K_N: float, uptake: float) -> tuple[float, flo
     drive = c_s - fen.EPSILON_WITH_GAMMA_PRIME
     if drive <= 0.0:
         return 0.0, _gamma_layer_constant(span, D_g, jump_alpha, uptake)
-    from scipy.optimize import brentq  # imported on first use: it is slow to import
+    from ..numerics.roots import illinois
 
     def miss(k1):  # ε/γ′ mass balance; falls as k1 grows
         g = _gamma_layer_constant(span, D_g, jump_alpha, uptake, k1)
@@ -218,7 +218,7 @@ def parabolic_constants(T: float, K_N: float, uptake: float) -> tuple[float, flo
     top = math.sqrt(2.0 * D_e * drive / jump_eps)
     if miss(top * 1e-9) <= 0.0:
         return 0.0, _gamma_layer_constant(span, D_g, jump_alpha, uptake)
-    k1 = brentq(miss, top * 1e-9, top, xtol=top * 1e-13, rtol=1e-13)
+    k1 = illinois(miss, top * 1e-9, miss(top * 1e-9), top, miss(top), top * 1e-13, 0.0)
     return k1, k1 + _gamma_layer_constant(span, D_g, jump_alpha, uptake, k1)
 
 

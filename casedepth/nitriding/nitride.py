@@ -121,9 +121,9 @@ def nitride(setup: NitridingSetup, time: float, layer: CompoundLayer | None = No
 
 
 def _erfcinv(y: float) -> float:
-    from scipy.optimize import brentq  # imported on first use: it is slow to import
+    from ..numerics.roots import illinois
 
-    return brentq(lambda v: math.erfc(v) - y, 0.0, 10.0, xtol=1e-14)
+    return illinois(lambda v: math.erfc(v) - y, 0.0, 1.0 - y, 10.0, math.erfc(10.0) - y, 1e-15, 1e-15 * y)
 
 
 def front_rate(setup: NitridingSetup) -> float:

@@ -265,8 +265,7 @@ class NitridingOutcome(Outcome):
                      f"dissociation) centres it in one stage"),
                   f"  steel                   {setup.steel.name} ({setup.steel.standard}); nitride formers bind "
                   f"{setup.capacity:.2f} wt % N",
-                  f"  models                  {setup.layer.display}; nitrogen in ferrite after Bohnenkamp (1967)"
-                  + ("" if setup.diffusivity_multiplier == 1.0 else f" × {setup.diffusivity_multiplier:g}"),
+                  f"  models                  {setup.models_text()}",
                   "Cycle quote:", self.quote.text()]
         lines += [f"Warning: {w}" for w in self.warnings]
         lines.append(safety.caution_line(self.cautions))
@@ -285,6 +284,7 @@ class NitridingOutcome(Outcome):
             lines.append(f"In two stages: {format_duration(two.first_time)} at K_N {two.first_kn:.2f}, then "
                          f"{format_duration(two.second_time)} at K_N {two.second_kn:.2f} "
                          f"({100 * dissociation_for_potential(two.second_kn):.0f} % dissociation)")
+        lines.append(f"Models: {s.models_text()}")
         rows = [[label, f"{hours:.2f}", units.format_temperature(t_end), "" if kn is None else f"{kn:.2f}",
                  "" if kn is None else f"{100 * dissociation_for_potential(kn):.0f}"]
                 for label, hours, t_end, kn in self.segments]

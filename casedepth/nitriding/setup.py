@@ -22,6 +22,7 @@ from ..constants import GAS_CONSTANT as R, MOLAR_MASS, ZERO_CELSIUS
 from ..errors import InputError
 from ..models.iron_nitrogen import Lehrer_boundaries, nitrogen_saturation_ferrite, surface_phase
 from ..models.steels import Steel
+from ..numerics.roots import illinois
 from .layer import DEFAULT_LAYER_MODEL, LAYER_MODELS, substrate_uptake_coefficient
 
 # nitride-forming elements: nitrogen atoms per metal atom in the nitride formed (CrN, AlN, VN, TiN, Mo2N)
@@ -82,9 +83,11 @@ def nitriding_potential_from_dissociation(dissociation: float) -> float:
 def dissociation_for_potential(K_N: float) -> float:
     """The dissociation [-] of a pure-ammonia feed that gives nitriding potential ``K_N`` [atm^-1/2]."""
     _check_kn(K_N)
-    from scipy.optimize import brentq  # imported on first use: it is slow to import
+    def miss(d: float) -> float:  # falls as the dissociation rises
+        return math.log(nitriding_potential_from_dissociation(d) / K_N)
 
-    return brentq(lambda d: nitriding_potential_from_dissociation(d) - K_N, 1e-6, 1 - 1e-9, xtol=1e-12)
+    low, high = 1e-6, 1 - 1e-9
+    return illinois(miss, low, miss(low), high, miss(high), 1e-14, 1e-13)
 
 
 def Bohnenkamp_1967_nitrogen_diffusivity(T: float) -> float:
@@ -118,14 +121,12 @@ def Wagner_front_factor(surface_nitrogen: float, capacity: float) -> float:
     .. [1] Wagner, C. "Reaktionstypen bei der Oxydation von Legierungen." Z. Elektrochem. 63 (1959) 772–790.
     .. [2] Meijering, J. L. "Internal oxidation in alloys." In Advances in Materials Research 5 (1971) 1–81.
     """
-    from scipy.optimize import brentq  # imported on first use: it is slow to import
-
     ratio = surface_nitrogen / capacity
 
     def f(g):
         return math.sqrt(math.pi) * g * math.exp(g * g) * math.erf(g) - ratio
 
-    return brentq(f, 1e-9, 10.0, xtol=1e-14)
+    return illinois(f, 1e-9, f(1e-9), 10.0, f(10.0), 1e-15, 1e-15 * ratio)
 
 
 def _check_kn(K_N: float) -> None:
@@ -215,6 +216,12 @@ class NitridingSetup:
         gamma = self.front_factor
         return substrate_uptake_coefficient(self.substrate_nitrogen, self.diffusivity,
                                             1.0 if gamma is None else math.erf(gamma))
+
+    def models_text(self) -> str:
+        """The models of the step, in one line."""
+        multiplier = "" if self.diffusivity_multiplier == 1.0 else f" × {self.diffusivity_multiplier:g}"
+        return (f"{self.layer.display}; nitrogen in ferrite after Bohnenkamp (1967){multiplier}; internal-nitriding "
+                f"front after Wagner (1959)")
 
     def warnings(self) -> list[str]:
         out = []

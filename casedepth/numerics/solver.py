@@ -112,6 +112,10 @@ class Profile:
         """Carbon [wt %] at ``depth`` [m] (linear between nodes)."""
         return float(np.interp(depth, self.depth, self.carbon))
 
+    def to_dict(self) -> dict:
+        """The profile in JSON (units in the key names)."""
+        return {"depth_mm": (self.depth * 1e3).tolist(), "carbon_pct": self.carbon.tolist()}
+
 
 @dataclass
 class History:
