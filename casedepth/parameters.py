@@ -313,7 +313,7 @@ class Parameter:
 def _read_steel(text: str, values: dict) -> dict:
     if "=" in text:
         return {"steel": "custom", "composition": steels.parse_composition(text, "steel")}
-    grade = steels.find(text, values.get("treatment", "all"))
+    grade = steels.find(text)  # any grade of the library, as the window takes a grade typed in
     return {"steel": grade.name, "composition": dict(grade.composition)}
 
 
