@@ -541,7 +541,7 @@ PARAMETERS: dict[str, Parameter] = {p.key: p for p in (
     Parameter("temperature", "Temperature", Quantity("temperature"), 925.0 + ZERO_CELSIUS, "temperature_c",
               group="Furnace step", range=_temperature_range, decimals=0,
               applies=lambda v: v.get("process") != "stages" or v.get("treatment") != "carburizing",
-              when="a cycle that is not stages of one's own (those set their own temperatures)",
+              when="cycles other than stages of one's own, which set their own temperatures",
               options=(Option("--temperature", "furnace temperature: 925C, 1700F or 1198K"),)),
     Parameter("carbon_potential", "Carbon potential", Quantity("number"), 1.00, "carbon_potential_pct", CARBURIZING,
               group="Furnace step", unit_label="%C", range=POTENTIAL,

@@ -289,10 +289,17 @@ class SteelField(Field):
         completer.setCaseSensitivity(Qt.CaseInsensitive)
         completer.setCompletionMode(QCompleter.PopupCompletion)
         box.setCompleter(completer)
-        box.activated.connect(lambda i: self.set(box.itemData(i)))
+        box.activated.connect(lambda i: self._picked(box.itemData(i)))
         box.lineEdit().editingFinished.connect(self._typed)
         self.listed = None
         return box
+
+    def _picked(self, name: str) -> None:
+        """A grade picked from the list brings its nominal composition, even picked again after an edit."""
+        if name == "custom":
+            self.set(name)
+        elif not self.showing:
+            self.context.update({"steel": name, "composition": dict(steels.find(name).composition)})
 
     def _typed(self) -> None:
         text = self.widget.currentText().split("—")[0].strip()

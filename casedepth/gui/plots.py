@@ -262,7 +262,11 @@ class _TradeoffPage(QSplitter):
                     + TREATMENTS[outcome.treatment].comparison_note)
         except InputError as error:
             self.pairs, note = [], error.message
-        if self.pairs:
+        if not self.pairs:
+            ax.set_axis_off()
+            ax.text(0.5, 0.5, note, transform=ax.transAxes, ha="center", va="center", wrap=True, fontsize=10, color="#555")
+        else:
+            ax.set_axis_on()
             ax.plot([units.temperature(T) for T, _ in self.pairs], [t / 3600 for _, t in self.pairs], "o-", color=INK)
             own = dict(self.pairs).get(values["temperature"])
             if own is not None:

@@ -48,8 +48,8 @@ def compare_temperatures(plan: Plan | Mapping[str, Any], temperatures: list[floa
     cannot run at left out."""
     values = _values(plan)
     if not PARAMETERS["temperature"].used_by(values):
-        raise InputError("temperature", f"no comparison: the furnace temperature plays no part in this plan (only in "
-                                        f"{PARAMETERS['temperature'].when})")
+        raise InputError("temperature", f"no comparison: the furnace temperature plays a part only in "
+                                        f"{PARAMETERS['temperature'].when}")
     pairs = []
     for T in temperatures:
         try:
