@@ -311,10 +311,8 @@ class Parameter:
 
 # -- reading the command line's composite options ---------------------------------------------------------------
 def _read_steel(text: str, values: dict) -> dict:
-    if "=" in text:
-        return {"steel": "custom", "composition": steels.parse_composition(text, "steel")}
-    grade = steels.find(text)  # any grade of the library, as the window takes a grade typed in
-    return {"steel": grade.name, "composition": dict(grade.composition)}
+    steel = steels.steel_from_text(text)  # any grade of the library, as the window takes a grade typed in
+    return {"steel": steel.name, "composition": dict(steel.composition)}
 
 
 def _read_window(text: str, keys: tuple[str, str], parse: Callable[[str, str], float], field_name: str) -> dict:
@@ -668,11 +666,6 @@ PARAMETERS: dict[str, Parameter] = {p.key: p for p in (
     Parameter("notes", "Notes", Text(lines=3), "", "notes", group="Notes", affects_result=False,
               help="anything the floor or the customer should know"),
 )}
-
-
-def parameter(key: str) -> Parameter:
-    """The row of ``key`` (a ``KeyError`` for an unknown key: that is a programming error, not input)."""
-    return PARAMETERS[key]
 
 
 def label(key: str) -> str:

@@ -214,9 +214,6 @@ class DisplayUnits:
     def temperature(self, kelvin: float) -> float:
         return fahrenheit(kelvin) if self.imperial else celsius(kelvin)
 
-    def temperature_si(self, shown: float) -> float:
-        return (shown - 32.0) * 5.0 / 9.0 + ZERO_CELSIUS if self.imperial else shown + ZERO_CELSIUS
-
     def length(self, metres: float) -> float:
         return metres / 0.0254 if self.imperial else metres * 1e3
 

@@ -24,7 +24,7 @@ from ..errors import InputError
 from ..files import atomic_write
 from ..parameters import PARAMETERS, label
 from ..plan import Plan, PlanFileError, load, save
-from ..report.export import profile_csv
+from ..report.export import profile_csv, write_profile_csv
 from ..report.sources import model_sources
 from ..shop.quote import ShopDefaults
 from ..treatments import TREATMENTS
@@ -553,7 +553,7 @@ class MainWindow(QMainWindow):
         return profile_csv(self.outcome, self.plan.title)
 
     def export_csv(self, path: str | os.PathLike) -> None:
-        atomic_write(path, self.profile_csv())
+        write_profile_csv(self.outcome, self.plan.title, path)
 
     def export_csv_dialog(self) -> None:
         if self.outcome is None:

@@ -114,11 +114,11 @@ def parse_composition(text: str, field_name: str = "steel") -> dict[str, float]:
     return validate_composition({el: val for el, val in pairs}, field_name)
 
 
-def steel_from_text(text: str, field_name: str = "steel", process: str = "all") -> Steel:
+def steel_from_text(text: str, field_name: str = "steel") -> Steel:
     """A library grade by name, or a custom steel when the text holds ``Element=value`` pairs."""
     if "=" in text:
-        return Steel("custom", parse_composition(text, field_name), process=process if process != "all" else "carburizing")
-    return find(text, process)
+        return Steel("custom", parse_composition(text, field_name))
+    return find(text)
 
 
 def steel_for(name: str, composition: dict[str, float], field_name: str = "composition") -> Steel:

@@ -136,10 +136,6 @@ class Plan:
         steel = steels.find(name)
         self.update(steel=steel.name, composition=dict(steel.composition))
 
-    def switch_treatment(self, treatment: str) -> None:
-        """Switch to another treatment as one edit (the new treatment's starting values come with it)."""
-        self.set("treatment", treatment)
-
     # -- newer models and policies ------------------------------------------------------------------------------
     def offers(self) -> list[Offer]:
         """Newer models or policies this plan may take (never applied without being asked): those its file
