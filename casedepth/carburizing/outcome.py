@@ -188,8 +188,9 @@ CYCLES: dict[str, Cycle] = {
         _richest_stage, _hottest_stage, _plan_stages, False),
 }
 
-#: errors of the planners raised against their arguments, and the parameter each stands for
-_PLANNER_FIELDS = {"target": "case_max", "surface target": "surface_min"}
+#: errors of the planners raised against their arguments, and the parameter each stands for (a depth not reached:
+#: the deepest the drawing allows)
+_PLANNER_FIELDS = {"target": "case_max"}
 
 
 def evaluate(values: Mapping[str, Any]) -> "CarburizingOutcome":
