@@ -47,7 +47,8 @@ def test_tibbetts_and_agren_agree(celsius, carbon):
 
 
 def test_textbook_arrhenius_within_a_factor_two_of_tibbetts():
-    """SOURCES.md: the common textbook data sets differ by about 2× at 925 °C."""
+    """Textbook tables (Callister & Rethwisch, Table 5.2, and others quoting 0.15 cm²/s, 135 kJ/mol) differ by about
+    2× at 925 °C; Tibbetts (1980) must lie within a factor two of the Arrhenius default (common practice)."""
     ratio = Tibbetts_1980(0.4, 925 + K) / Arrhenius(0.4, 925 + K)
     assert 0.5 < ratio < 2.0
 
@@ -92,7 +93,8 @@ def test_acm_end_points_of_the_iron_carbon_diagram():
 @pytest.mark.parametrize("celsius,wt", [(800, 0.948), (850, 1.084), (900, 1.227), (925, 1.301), (950, 1.377),
                                         (1000, 1.535), (1050, 1.701), (1100, 1.876)])
 def test_acm_calphad_points(celsius, wt):
-    """SOURCES.md: pycalphad 0.11.2 with Gustafson (1985) austenite and Hallstedt (2010) cementite."""
+    """Acm points computed with pycalphad 0.11.2 for this project from Gustafson, Scand. J. Metall. 14 (1985) 259
+    (austenite) and Hallstedt et al., Calphad 34 (2010) 129 (cementite); the table must pass through them."""
     assert saturation_carbon(celsius + K) == pytest.approx(wt, abs=1e-9)
 
 
@@ -111,7 +113,7 @@ def test_andrews_ac3_limits():
 
 # -- hardness -------------------------------------------------------------------------------------
 def test_astm_e140_pairs():
-    """ASTM E140 Table 1 (from memory, SOURCES.md): 50 HRC ≈ 513 HV, 550 HV ≈ 52.3 HRC."""
+    """ASTM E140 Table 1 (from memory): 50 HRC ≈ 513 HV, 550 HV ≈ 52.3 HRC."""
     assert hardness.ASTM_E140_hrc_to_hv(50) == pytest.approx(513, abs=1)
     assert hardness.ASTM_E140_hv_to_hrc(550) == pytest.approx(52.3, abs=0.2)
     hv = hardness.ASTM_E140_hrc_to_hv(np.arange(20, 69))
@@ -121,13 +123,14 @@ def test_astm_e140_pairs():
 
 @pytest.mark.parametrize("carbon,hrc,tol", [(0.2, 50, 4.0), (0.4, 58, 1.5), (0.6, 65, 1.5), (0.9, 65, 1.5)])
 def test_martensite_hardness_against_published_curves(carbon, hrc, tol):
-    """Krauss; Hodge & Orehoski 1946 (SOURCES.md, from memory): about 50 HRC at 0.2 % C, 58 at 0.4 %,
+    """Krauss, Steels: Processing, Structure, and Performance (2005); Hodge & Orehoski, Trans. AIME 167 (1946) 627
+    (from memory): about 50 HRC at 0.2 % C, 58 at 0.4 %,
     a 64–66 HRC plateau from about 0.6 % C, for 100 % as-quenched martensite."""
     assert hardness.Just_1968_martensite_hrc(carbon) == pytest.approx(hrc, abs=tol)
 
 
 def test_tempered_case_50_hrc_near_0_35_to_0_40_carbon():
-    """Common practice (SOURCES.md): in carburized-and-tempered cases 50 HRC falls near 0.35–0.40 % C."""
+    """Common practice: in carburized-and-tempered cases 50 HRC falls near 0.35–0.40 % C."""
     carbon = hardness.threshold_carbon(Threshold(50, "HRC"), "tempered")
     assert 0.35 <= carbon <= 0.40
 
