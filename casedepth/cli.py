@@ -13,10 +13,12 @@ import argparse
 import json
 import os
 import sys
+from contextlib import contextmanager
 
 from . import __version__
 from .constants import ZERO_CELSIUS
 from .errors import InputError, SolverError
+from .files import FileWriteError
 from .models.atmosphere import carbon_potential_from_probe, probe_voltage_for_potential
 from .models.steels import library
 from .parameters import PARAMETERS, OptionError, label, option_for, options_for
@@ -27,6 +29,15 @@ from .units import DisplayUnits, format_duration, parse_length, parse_number, pa
 
 class _UsageError(Exception):
     pass
+
+
+@contextmanager
+def _writing(field: str):
+    """A file that cannot be written is bad input of the option that named it (exit 2, one line)."""
+    try:
+        yield
+    except FileWriteError as error:
+        raise InputError(field, str(error)) from None
 
 
 class _Parser(argparse.ArgumentParser):
@@ -167,7 +178,8 @@ def _plan(args) -> int:
                  for option in treatment.forward_options if getattr(args, option.dest, None) is not None}
         result = forward(plan, parse_time(args.time, "time"), *extra.values())
         if args.save:
-            save(plan, args.save)
+            with _writing("save"):
+                save(plan, args.save)
         print(json.dumps(result.to_dict()) if args.json else result.text(units))
         return 0
     for option in treatment.forward_options:
@@ -180,7 +192,8 @@ def _plan(args) -> int:
                         if t.strip()]
         comparison = compare_temperatures(plan, temperatures)
     if args.save:
-        save(plan, args.save)
+        with _writing("save"):
+            save(plan, args.save)
     if args.json:
         out = outcome.to_dict()
         if comparison:
@@ -204,12 +217,15 @@ def _run(args) -> int:
     if args.json:
         out = outcome.to_dict()
         out["offers"] = [{"parameter": offer.key, "value": offer.value, "text": offer.text} for offer in plan.offers()]
+        out["file_notes"] = list(plan.file_notes)
         print(json.dumps(out))
         return 0
-    print(f"{plan.title} ({TREATMENTS[plan.treatment].label.lower()}, schema of the file kept)")
+    print(f"{plan.title} ({TREATMENTS[plan.treatment].label.lower()})")
     print(outcome.text(DisplayUnits(args.units)))
     for offer in plan.offers():
         print(f"Newer: {offer.text} (not applied: this plan keeps what it was made with)")
+    for note in plan.file_notes:
+        print(f"Note: {note}")
     return 0
 
 
@@ -261,8 +277,10 @@ def _chart(args) -> int:
         kwargs = {"potentials": potentials}
     document = treatment.chart(plan.values(), paper=args.paper, units=args.units, hours=hours, **kwargs)
     for fmt, path in outputs:
-        for written in save_document(document, path, fmt):
-            print(f"wrote {written}")
+        with _writing(fmt):
+            written = save_document(document, path, fmt)
+        for name in written:
+            print(f"wrote {name}")
     return 0
 
 
@@ -286,8 +304,10 @@ def _sheet(args) -> int:
     document = process_sheet(plan, evaluate(plan), paper=args.paper, units=args.units, shop=args.shop,
                              logo=args.logo, revision=args.revision or plan.revision)
     for fmt, path in outputs:
-        for written in save_document(document, path, fmt):
-            print(f"wrote {written}")
+        with _writing(fmt):
+            written = save_document(document, path, fmt)
+        for name in written:
+            print(f"wrote {name}")
     return 0
 
 
@@ -299,7 +319,8 @@ def _calibrate(args) -> int:
     found = calibrate_plan(plan, parse_time(args.soak, "soak"), parse_length(args.measured, "measured"))
     if args.write:
         plan.set(found.field, round(found.multiplier, 3))
-        save(plan, args.plan)
+        with _writing("plan"):
+            save(plan, args.plan)
     if args.json:
         print(json.dumps({"multiplier": found.multiplier, "field": found.field, "predicted_mm": found.predicted * 1e3,
                           "measured_mm": found.measured * 1e3, "soak_time_h": found.soak_time / 3600.0,

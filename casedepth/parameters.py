@@ -58,16 +58,21 @@ class Kind:
 
 
 class Text(Kind):
+    """Words: a line (up to 200 characters) or, with ``lines`` > 1, notes (up to 20,000)."""
+
     def __init__(self, lines: int = 1):
         self.lines = lines
+        self.longest = 200 if lines == 1 else 20000
 
     def check(self, key, value):
         if not isinstance(value, str):
             raise InputError(key, f"{value!r} is not text")
+        if len(value) > self.longest:
+            raise InputError(key, f"{len(value)} characters is more than the {self.longest} it may hold")
         return value
 
     def describe(self):
-        return "text"
+        return f"text of up to {self.longest} characters"
 
 
 class Flag(Kind):
@@ -134,6 +139,11 @@ UNITS = {
 }
 
 
+#: the largest number (in a quantity's file unit: mm, °C, %, …) a plan may hold at all; ranges are checked later,
+#: this keeps absurd magnitudes (1e308 mm) from reaching any arithmetic
+MAGNITUDE = 1e6
+
+
 class Quantity(Kind):
     """A number with a unit (SI inside); ``optional`` allows None, meaning ``unset`` (a model's default)."""
 
@@ -154,6 +164,10 @@ class Quantity(Kind):
         value = float(value)
         if not math.isfinite(value):
             raise InputError(key, f"{value!r} is not a finite number")
+        shown = value * self.unit.scale + self.unit.offset
+        if abs(shown) > MAGNITUDE:
+            raise InputError(key, f"{shown:g}{' ' + self.unit.file_unit if self.unit.file_unit else ''} is beyond any "
+                                  f"value the models could use")
         return value
 
     def parse(self, key, text):
@@ -253,6 +267,7 @@ class Parameter:
     help: str = ""
     affects_result: bool = True
     decimals: int | Callable[[Mapping[str, Any]], int] = 2  # shown in the window
+    since: int = 1  # the plan-file schema from which every file holds it (see casedepth.plan.fileformat)
     #: what the value is called for these values, where that depends on another choice (a thickness or a diameter)
     named: Callable[[Mapping[str, Any]], str] | None = None
     #: values that change with this one when a person picks it (``(values, new value) -> {key: value}``):
@@ -435,8 +450,10 @@ SHAPE_SIZE = 30e-3
 
 # -- validators of structured values ---------------------------------------------------------------------------
 def _check_stages(key: str, rows: list) -> None:
-    from .carburizing.cycle import stage_from_dict
+    from .carburizing.cycle import MAX_STAGES, stage_from_dict
 
+    if len(rows) > MAX_STAGES:
+        raise InputError(key, f"{len(rows)} stages are more than the {MAX_STAGES} a cycle may have")
     for number, row in enumerate(rows, 1):
         if not isinstance(row, dict):
             raise InputError(key, f"stage {number}: {row!r} is not a table")
@@ -514,9 +531,9 @@ PARAMETERS: dict[str, Parameter] = {p.key: p for p in (
     Parameter("part", "Part", Text(), "", "part", group="Plan", affects_result=False,
               help="part number or description", options=(Option("--part", "part number or description (with --save)"),)),
     Parameter("revision", "Revision", Text(), "A", "revision", group="Plan", affects_result=False,
-              help="revision printed on the process sheet"),
+              help="revision printed on the process sheet", since=4),
     Parameter("treatment", "Treatment", Choice(_treatments), "carburizing", "treatment", group="Plan",
-              companions=_with_treatment),
+              companions=_with_treatment, since=3),
     # the steel
     Parameter("steel", "Steel", Text(), "8620", "steel", group="Steel", companions=_with_steel,
               help="type to filter the steel library (name or standard number)",
@@ -551,63 +568,63 @@ PARAMETERS: dict[str, Parameter] = {p.key: p for p in (
               help="K_N = p(NH3)/p(H2)^1.5",
               options=(Option("--kn", "nitriding potential K_N, atm^-1/2 (e.g. 3)"),
                        Option("--dissociation", "ammonia dissociation of the exhaust, %% (e.g. 30)", _read_dissociation),
-                       Option("--exhaust", "measured exhaust gas, volume %%: NH3=40,H2=45", _read_exhaust))),
+                       Option("--exhaust", "measured exhaust gas, volume %%: NH3=40,H2=45", _read_exhaust)), since=3),
     Parameter("compound_min", "Compound layer from", Quantity("thin length"), 5e-6, "compound_layer_min_um", NITRIDING,
               group="Furnace step", range=(0.0, 100e-6), decimals=1,
-              options=(Option("--compound", "compound-layer window, e.g. 5-10um", _read_compound),)),
+              options=(Option("--compound", "compound-layer window, e.g. 5-10um", _read_compound),), since=3),
     Parameter("compound_max", "Compound layer to", Quantity("thin length"), 10e-6, "compound_layer_max_um", NITRIDING,
-              group="Furnace step", range=(0.0, 100e-6), decimals=1),
+              group="Furnace step", range=(0.0, 100e-6), decimals=1, since=3),
     Parameter("two_stage", "Two stages (second K_N thins the layer)", Flag(), False, "two_stage_nitriding", NITRIDING,
               group="Furnace step", help="nitride at K_N first, then at the second K_N: the layer thins (ε turns to γ′) "
                                          "while the diffusion zone keeps growing",
-              options=(Option("--two-stage", "on: a second, low-K_N stage brings the compound layer into its window"),)),
+              options=(Option("--two-stage", "on: a second, low-K_N stage brings the compound layer into its window"),), since=4),
     Parameter("kn_second", "Second-stage K_N", Quantity("number", optional=True, unset="just above α/γ′"), None,
               "second_nitriding_potential",
               NITRIDING, group="Furnace step", unit_label="atm^-½", range=(0.05, 30.0),
               applies=lambda v: bool(v.get("two_stage")), when="two stages (--two-stage on)",
               help="K_N of the second stage; at or above the α/γ′ boundary so the ferrite stays saturated "
                    "(not set: just above it)",
-              options=(Option("--second-kn", "K_N of the second stage (default: just above the α/γ′ boundary)"),)),
+              options=(Option("--second-kn", "K_N of the second stage (default: just above the α/γ′ boundary)"),), since=4),
     Parameter("core_hardness", "Core hardness", Quantity("number", optional=True, unset="grade's typical"), None,
               "core_hardness_hv", NITRIDING,
               group="Furnace step", unit_label="HV", range=(100.0, 1400.0), decimals=0,
               help="after quench and temper (not set: the grade's typical value)",
-              options=(Option("--core-hardness", "core hardness after quench and temper, HV (default: the grade's)"),)),
+              options=(Option("--core-hardness", "core hardness after quench and temper, HV (default: the grade's)"),), since=3),
     Parameter("surface_hardness", "Nitrided surface hardness", Quantity("number", optional=True, unset="grade's typical"),
               None,
               "nitrided_surface_hardness_hv", NITRIDING, group="Furnace step", unit_label="HV", range=(100.0, 1400.0),
               decimals=0, help="not set: the grade's typical value",
-              options=(Option("--surface-hardness", "nitrided surface hardness, HV (default: the grade's)"),)),
+              options=(Option("--surface-hardness", "nitrided surface hardness, HV (default: the grade's)"),), since=3),
     Parameter("n_multiplier", "D_N multiplier", Quantity("number"), 1.0, "nitrogen_diffusivity_multiplier", NITRIDING,
               group="Furnace step", unit_label="×", range=MULTIPLIER, decimals=3,
               help="calibration factor on the nitrogen diffusivity: fit it to the shop's own sections",
-              options=(Option("--d-multiplier", "calibration factor on the nitrogen diffusivity (default 1)"),)),
+              options=(Option("--d-multiplier", "calibration factor on the nitrogen diffusivity (default 1)"),), since=4),
     # the cycle (carburizing)
-    Parameter("process", "Cycle", Choice(_cycles, notes=_cycle_note), "single", "process", CARBURIZING, group="Cycle"),
+    Parameter("process", "Cycle", Choice(_cycles, notes=_cycle_note), "single", "process", CARBURIZING, group="Cycle", since=2),
     Parameter("boost_potential", "Boost potential", Quantity("number"), 1.15, "boost_potential_pct", CARBURIZING,
               group="Cycle", unit_label="%C", range=POTENTIAL, applies=lambda v: v.get("process") == "boost-diffuse",
               when="boost and diffuse (--surface-target)",
-              options=(Option("--boost-potential", "with --surface-target: carbon potential of the boost, wt %% C"),)),
+              options=(Option("--boost-potential", "with --surface-target: carbon potential of the boost, wt %% C"),), since=2),
     Parameter("diffuse_potential", "Diffuse potential", Quantity("number"), 0.80, "diffuse_potential_pct", CARBURIZING,
               group="Cycle", unit_label="%C", range=POTENTIAL, applies=lambda v: v.get("process") == "boost-diffuse",
               when="boost and diffuse (--surface-target)",
-              options=(Option("--diffuse-potential", "with --surface-target: carbon potential of the diffuse, wt %% C"),)),
+              options=(Option("--diffuse-potential", "with --surface-target: carbon potential of the diffuse, wt %% C"),), since=2),
     Parameter("surface_min", "Surface carbon from", Quantity("number"), 0.75, "surface_carbon_min_pct", CARBURIZING,
               group="Cycle", unit_label="%C", range=(0.05, 2.0), applies=lambda v: v.get("process") == "boost-diffuse",
               when="boost and diffuse (--surface-target)",
               options=(Option("--surface-target", "plan boost and diffuse for a final surface carbon: 0.80 (±0.05) or "
-                                                  "0.75-0.85", _read_surface_target),)),
+                                                  "0.75-0.85", _read_surface_target),), since=2),
     Parameter("surface_max", "Surface carbon to", Quantity("number"), 0.85, "surface_carbon_max_pct", CARBURIZING,
-              group="Cycle", unit_label="%C", range=(0.05, 2.0), applies=lambda v: v.get("process") == "boost-diffuse"),
+              group="Cycle", unit_label="%C", range=(0.05, 2.0), applies=lambda v: v.get("process") == "boost-diffuse", since=2),
     Parameter("stages", "Stages", Table(list, _check_stages, "a list of stages"), [], "stages", CARBURIZING,
-              group="Cycle", applies=lambda v: v.get("process") == "stages", when="stages of one's own"),
+              group="Cycle", applies=lambda v: v.get("process") == "stages", when="stages of one's own", since=2),
     Parameter("count_shop_stages", "Count the carbon of the shop's heat-up and drop", Flag(), True,
               "shop_stages_counted", CARBURIZING, group="Cycle",
               applies=lambda v: v.get("process") in ("single", "boost-diffuse"), when="one soak, or boost and diffuse",
               help="the case at the end of the whole cycle: carbon moved in the shop's heat-up (above Ac3), drop "
                    "and equalize counted (Edit → Shop times and rates); off: the soak at temperature alone",
               options=(Option("--shop-stages", "on (default): count the carbon the shop's heat-up, drop and equalize "
-                                               "move in the case; off: the soak at temperature alone"),)),
+                                               "move in the case; off: the soak at temperature alone"),), since=5),
     # the drawing's callout
     Parameter("case_min", "Minimum case depth", Quantity("length"), 0.8e-3, "case_depth_min_mm", group="Drawing callout",
               range=(0.01e-3, 10e-3), decimals=3,
@@ -659,10 +676,10 @@ PARAMETERS: dict[str, Parameter] = {p.key: p for p in (
     # model settings (nitriding)
     Parameter("layer_model", "Compound-layer model", Choice(_layer_models, _layer_superseded), "somers-mittemeijer-1995",
               "compound_layer_model", NITRIDING, group="Model settings",
-              options=(Option("--layer-model", "compound-layer growth model", choices=lambda: list(_layer_models())),)),
+              options=(Option("--layer-model", "compound-layer growth model", choices=lambda: list(_layer_models())),), since=5),
     # the shop's times and rates (a dialog of their own) and the notes
     Parameter("shop", "Shop times and rates", Table(dict, _check_shop, "a table of the shop's times and rates"), {},
-              "shop", help="the shop's standard times and rates (Edit → Shop times and rates)"),
+              "shop", help="the shop's standard times and rates (Edit → Shop times and rates)", since=2),
     Parameter("notes", "Notes", Text(lines=3), "", "notes", group="Notes", affects_result=False,
               help="anything the floor or the customer should know"),
 )}

@@ -195,7 +195,7 @@ def _file(**changes) -> str:
     ("{not json", "not valid JSON"),
     ('{"kind": "something else"}', "not a casedepth plan"),
     ('{"kind": "casedepth plan", "schema_version": 99}', "newer casedepth"),
-    ('{"kind": "casedepth plan", "schema_version": 1, "temperature_c": "hot"}', "temperature_c: 'hot' is not a number"),
+    (_file(temperature_c="hot"), "temperature_c: 'hot' is not a number"),
     (_file(threshold_kind="hrc "), "threshold_kind: 'hrc ' is not one of carbon, HV, HRC"),
     (_file(diffusivity_model="tibetts"), "diffusivity_model: 'tibetts' is not one of"),
     (_file(alloy_factor="yes"), "alloy_factor: 'yes' is not true or false"),
@@ -221,14 +221,46 @@ def test_non_finite_numbers_in_a_file_are_refused(tmp_path):
         load(path)
 
 
-def test_a_current_file_missing_a_key_is_refused_but_an_older_one_takes_the_default():
+def test_a_file_missing_a_key_of_its_schema_is_refused_and_later_keys_are_filled_and_reported():
+    """Every key a schema holds must be in a file of it (no temperature, no plan: not a silent 925 °C); a key that
+    came later is filled by the migration as for a new plan, and where it matters to the plan that is reported."""
     data = json.loads(_file())
     del data["beta_cm_per_s"]
     with pytest.raises(PlanFileError, match="beta_cm_per_s: missing"):
         from_dict(data)
-    del data["title"]  # text keys may be missing: they only label the plan
-    data["beta_cm_per_s"] = 1.5e-5
-    assert from_dict(data).title == "Untitled plan"
+    old = json.loads((PLANS / "schema-1.cdplan.json").read_text())
+    del old["temperature_c"]
+    with pytest.raises(PlanFileError, match="temperature_c: missing"):
+        from_dict(old)
+    nitrided = load(PLANS / "schema-3.cdplan.json")  # written before the nitrogen multiplier and the revision
+    assert nitrided.n_multiplier == 1.0 and nitrided.revision == "A"
+    assert any(note.startswith("nitrogen_diffusivity_multiplier: not in this file of schema 3") for note in
+               nitrided.file_notes)
+    assert not any("nitriding" in note for note in load(PLANS / "schema-1.cdplan.json").file_notes)
+
+
+@pytest.mark.parametrize("change,words", [
+    ({"title": "x" * 201}, "title: 201 characters is more than the 200"),
+    ({"notes": "y" * 20001}, "notes: 20001 characters"),
+    ({"case_depth_max_mm": 1e308}, r"case_depth_max_mm: 1e\+308 mm is beyond any value"),
+    ({"stages": [{"kind": "soak", "duration_h": 1.0}] * 101}, "101 stages are more than the 100"),
+    ({"stages": [{"kind": "soak", "duration_h": 1.0, "extra": [[[[1]]]]}]}, "unknown entry extra"),
+])
+def test_absurd_values_in_a_file_are_refused(tmp_path, change, words):
+    path = tmp_path / "absurd.cdplan.json"
+    path.write_text(_file(**change))
+    with pytest.raises(PlanFileError, match=words):
+        load(path)
+
+
+def test_a_deeply_nested_or_huge_file_is_refused(tmp_path):
+    path = tmp_path / "deep.cdplan.json"
+    path.write_text('{"kind": "casedepth plan", "notes": ' + "[" * 100000 + "]" * 100000 + "}")
+    with pytest.raises(PlanFileError, match="nested too deeply|not valid JSON"):
+        load(path)
+    path.write_bytes(b" " * 6_000_000)
+    with pytest.raises(PlanFileError, match="far more than any plan file"):
+        load(path)
 
 
 def test_evaluate_gives_window_times():

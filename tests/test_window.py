@@ -119,14 +119,27 @@ def test_naming_a_plan_does_not_solve_it_again(window, qtbot):
     assert window.plan.notes == "deburr before loading" and not asked
 
 
+def test_a_value_typed_outside_its_range_is_refused_with_the_range(window, qtbot):
+    """The widgets hold the parameter table's ranges: 700 °C typed for 8620 (Ac3 798 °C, Andrews 1965) is refused
+    where it is typed, with the range; the plan keeps its value."""
+    spin = window.form.widget("temperature")
+    type_into(qtbot, spin, "700")
+    assert window.plan.temperature == pytest.approx(1198.15)
+    assert "border" in spin.styleSheet() and "798–1100 °C" in spin.toolTip()
+    assert "Temperature" in window.results.status.text() and "700 °C" in window.results.status.text()
+    with qtbot.waitSignal(window.result_shown, timeout=10000):
+        type_into(qtbot, spin, "930")
+    assert spin.styleSheet() == "" and not window.results.stale
+
+
 def test_bad_input_marks_the_field_and_keeps_the_last_result(window, qtbot):
     headline = window.results.headline.text()
     spin = window.form.widget("temperature")
     with qtbot.waitSignal(window.calculator.failed, timeout=10000):
-        type_into(qtbot, spin, "700")
+        window.plan.set("temperature", 700 + 273.15)  # as an opened plan may hold it
     assert window.results.stale
     assert "798–1100 °C" in window.results.status.text() and "Temperature" in window.results.status.text()
-    assert "border" in spin.styleSheet()
+    assert "border" in spin.styleSheet() and spin.value() == pytest.approx(700)
     assert window.results.headline.text() == headline
     assert window.cautions.pressing()[0].key == "below-admission"
     with qtbot.waitSignal(window.result_shown, timeout=10000):
@@ -136,11 +149,18 @@ def test_bad_input_marks_the_field_and_keeps_the_last_result(window, qtbot):
 
 
 def test_runaway_values_are_refused_not_solved(window, qtbot):
-    """A threshold of 1000 %C is outside the table's range: refused at once with the range, nothing is solved."""
+    """A threshold of 1000 %C is outside the table's range: the widget does not take it, and a plan that holds it
+    is refused at once with the range, nothing solved; the range follows the threshold's kind."""
+    spin = window.form.widget("threshold_value")
+    assert (spin.minimum(), spin.maximum()) == (0.05, 1.5)
+    type_into(qtbot, spin, "1000")
+    assert window.plan.threshold_value == pytest.approx(0.40) and "0.05–1.5" in spin.toolTip()
     with qtbot.waitSignal(window.calculator.failed, timeout=10000):
         window.plan.set("threshold_value", 1000.0)
     assert "0.05–1.5" in window.results.status.text()
-    assert "border" in window.form.widget("threshold_value").styleSheet()
+    assert "border" in spin.styleSheet()
+    pick(qtbot, window, "threshold_kind", "HV")
+    assert (spin.minimum(), spin.maximum()) == (100.0, 1000.0) and window.plan.threshold_value == 550.0
 
 
 def test_a_bad_second_stage_potential_is_named_and_marked(window, qtbot):

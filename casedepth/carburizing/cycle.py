@@ -38,6 +38,7 @@ STAGE_KINDS: dict[str, tuple[bool, str]] = {
     "temper": (False, "Temper"),
 }
 MAX_STAGE = 200 * 3600.0  # s
+MAX_STAGES = 100  # stages in one cycle
 # a ramp (heat-up, drop) is crossed in at least this many steps, each at its midpoint condition
 RAMP_STEPS = 10
 

@@ -8,6 +8,22 @@ import sys
 import tempfile
 
 
+def _screenshot_problem(path: str) -> str | None:
+    """Why a picture cannot be written to ``path`` (None if it can): it must be a .png in a folder that exists."""
+    if not path.strip():
+        return "give the file to write, e.g. --screenshot window.png"
+    target = os.path.realpath(path)
+    if not path.lower().endswith(".png"):
+        return f"{path}: the picture is a PNG; name it …png"
+    if os.path.isdir(target):
+        return f"{path} is a folder"
+    if not os.path.isdir(os.path.dirname(target)):
+        return f"{path}: there is no folder {os.path.dirname(target)}"
+    if os.path.exists(target) and not os.access(target, os.W_OK):
+        return f"{path}: the file is read-only"
+    return None
+
+
 def main(argv: list[str] | None = None) -> int:
     argv = sys.argv[1:] if argv is None else list(argv)
     parser = argparse.ArgumentParser(prog="casedepth gui", description="Open the planning window.")
@@ -19,7 +35,11 @@ def main(argv: list[str] | None = None) -> int:
         args = parser.parse_args(argv)
     except SystemExit as stop:
         return int(stop.code or 0)
-    if args.screenshot:
+    if args.screenshot is not None:
+        problem = _screenshot_problem(args.screenshot)
+        if problem:
+            print(f"casedepth: error: --screenshot: {problem}", file=sys.stderr)
+            return 2
         os.environ["QT_QPA_PLATFORM"] = "offscreen"
 
     from PySide6.QtCore import QSettings, QTimer

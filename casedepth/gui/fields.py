@@ -91,17 +91,28 @@ class Field(ABC):
 
 class TextField(Field):
     def build(self):
+        longest = self.row.kind.longest
         if self.row.kind.lines > 1:
             edit = QPlainTextEdit()
             edit.setMaximumHeight(70)
             edit.setPlaceholderText(self.row.help)
-            edit.textChanged.connect(lambda: self.set(edit.toPlainText(), coalesce=True))
+            edit.textChanged.connect(lambda: self._notes_changed(edit, longest))
             return edit
         edit = QLineEdit()
+        edit.setMaxLength(longest)
         if self.row.help:
             edit.setPlaceholderText(self.row.help)
         edit.editingFinished.connect(lambda: self.set(edit.text().strip() or self.row.default))
         return edit
+
+    def _notes_changed(self, edit, longest: int) -> None:
+        text = edit.toPlainText()
+        if len(text) > longest:  # a paste too long to keep: cut to what a plan holds, and say so
+            self.context.unreadable.emit(self.key, f"{len(text)} characters is more than the {longest} it may hold; "
+                                                   f"the rest is left out")
+            edit.setPlainText(text[:longest])
+            return
+        self.set(text, coalesce=True)
 
     def display(self, value, values):
         text = self.widget.toPlainText() if isinstance(self.widget, QPlainTextEdit) else self.widget.text()
@@ -136,13 +147,22 @@ class ChoiceField(Field):
 
 
 class QuantitySpin(QDoubleSpinBox):
-    """A spin box that reads what is typed with ``read`` (text → shown value, or None if it cannot)."""
+    """A spin box that reads what is typed with ``read`` (text → shown value, or None if it cannot) and holds
+    its value within its range; a value typed outside the range is refused and passed to ``refused``."""
 
-    def __init__(self, read: Callable[[str], float | None]):
+    def __init__(self, read: Callable[[str], float | None], refused: Callable[[float], None]):
         super().__init__()
         self._read = read
+        self._refused = refused
+        self._outside: float | None = None  # a readable value typed outside the range, not yet reported
         self.setKeyboardTracking(False)  # one edit per committed value (Enter, Tab, arrows), not per keystroke
         self.setAccelerated(True)
+        self.editingFinished.connect(self._report)
+
+    def _report(self) -> None:
+        if self._outside is not None:
+            value, self._outside = self._outside, None
+            self._refused(value)
 
     def _body(self, text: str) -> str:
         text = text.strip()
@@ -156,7 +176,16 @@ class QuantitySpin(QDoubleSpinBox):
             return QValidator.Acceptable, text, pos
         if not body:
             return QValidator.Intermediate, text, pos
-        return (QValidator.Acceptable if self._read(body) is not None else QValidator.Intermediate), text, pos
+        value = self._read(body)
+        acceptable = value is not None and self.minimum() <= value <= self.maximum()
+        return (QValidator.Acceptable if acceptable else QValidator.Intermediate), text, pos
+
+    def fixup(self, text):
+        """Qt is about to put back the last value: remember a readable value that was outside the range."""
+        value = self._read(self._body(text))
+        if value is not None and not (self.minimum() <= value <= self.maximum()):
+            self._outside = value
+        return text
 
     def valueFromText(self, text):
         body = self._body(text)
@@ -175,9 +204,7 @@ class QuantityField(Field):
     def build(self):
         kind: Quantity = self.row.kind
         self.quantity = kind.unit.name if kind.unit.name in ("temperature", "length", "thin length") else None
-        spin = QuantitySpin(self._read)
-        low = 0.0 if kind.optional or self.quantity in ("length", "thin length") else -WIDE
-        spin.setRange(low, WIDE)
+        spin = QuantitySpin(self._read, self._refused)
         if kind.optional:
             spin.setSpecialValueText(kind.unset)
         spin.valueChanged.connect(self._changed)
@@ -193,6 +220,20 @@ class QuantityField(Field):
             return unit.parse(text, self.key) * unit.scale + unit.offset
         except InputError:
             return None
+
+    def _shown(self, si: float) -> float:
+        if self.quantity is not None:
+            return self.context.units.shown(self.quantity, si)
+        unit = self.row.kind.unit
+        return si * unit.scale + unit.offset
+
+    def _refused(self, shown: float) -> None:
+        """A value typed outside the allowed range: say so against the key (the plan keeps its value)."""
+        values = self.context.plan.values()
+        span = self.row.allowed(values)
+        if span is not None:
+            self.context.unreadable.emit(self.key, f"{self.row.describe(self._to_si(shown))} is outside "
+                                                   f"{self.row.describe_range(span)}")
 
     def _to_si(self, shown: float) -> float:
         if self.quantity is not None:
@@ -215,11 +256,16 @@ class QuantityField(Field):
         spin.setSingleStep(10 ** -decimals if decimals else (10.0 if abs(value or 0) > 50 else 1.0))
         unit = units.unit(self.quantity) if self.quantity else (self.row.unit_label or self.row.kind.unit.file_unit)
         spin.setSuffix(f" {unit}" if unit else "")
-        if value is None:
-            spin.setValue(spin.minimum())
-        else:
-            unit_row = self.row.kind.unit
-            spin.setValue(units.shown(self.quantity, value) if self.quantity else value * unit_row.scale + unit_row.offset)
+        # the allowed range (with the plan's own value, so a value another choice has put out of range is shown
+        # as it is and refused by the next result rather than changed by the widget)
+        span = self.row.allowed(values)
+        low, high = sorted(self._shown(x) for x in span) if span is not None else (-WIDE, WIDE)
+        if value is not None:
+            low, high = min(low, self._shown(value)), max(high, self._shown(value))
+        if self.row.kind.optional:
+            low = 0.0  # "not set" sits at the bottom
+        spin.setRange(low, high)
+        spin.setValue(spin.minimum() if value is None else self._shown(value))
 
 
 class EntryField(Field):

@@ -124,6 +124,7 @@ class MainWindow(QMainWindow):
         self.plan = plan if plan is not None else Plan()
         self.path: Path | None = Path(path) if path else None
         self.outcome = None
+        self.notes_to_show: list[str] = []  # what opening the plan's file had to assume, shown with the first result
         self.calculator = Calculator(parent=self)
         self.calculator.finished.connect(self._show_outcome)
         self.calculator.failed.connect(self._show_failure)
@@ -319,7 +320,8 @@ class MainWindow(QMainWindow):
         self.time_slider.blockSignals(False)
         self.time_label.setText(f"end, {format_duration(outcome.duration)}")
         self.plots.show_outcome(outcome, self.units)
-        self.statusBar().showMessage("Ready", 2000)
+        notes, self.notes_to_show = self.notes_to_show, []
+        self.statusBar().showMessage("Opened with: " + "; ".join(notes) if notes else "Ready", 15000 if notes else 2000)
         self.result_shown.emit()
 
     def _show_failure(self, error) -> None:
@@ -501,6 +503,7 @@ class MainWindow(QMainWindow):
         self.path = Path(path)
         self._remember(self.path)
         self._attach(plan)
+        self.notes_to_show = list(plan.file_notes)  # shown with the first result, not hidden by "Calculating…"
         self.calculate()
         return True
 

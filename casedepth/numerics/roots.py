@@ -11,6 +11,7 @@ import math  # noqa: F401 (the example below uses it)
 from typing import Any, Callable
 
 from ..errors import SolverError
+from .budget import check
 
 
 def illinois(f: Callable[[float], float], a: float, fa: float, b: float, fb: float, xtol: float, ftol: float) -> float:
@@ -38,6 +39,7 @@ def illinois(f: Callable[[float], float], a: float, fa: float, b: float, fb: flo
         raise SolverError(f"the root is not bracketed between {a:g} and {b:g}")
     side, x = 0, b
     for _ in range(200):
+        check()
         x = (fa * b - fb * a) / (fa - fb)
         fx = f(x)
         if abs(fx) <= ftol or abs(b - a) <= xtol:

@@ -33,6 +33,7 @@ from scipy.linalg.lapack import dgtsv
 
 from ..errors import SolverError
 from ..models.diffusivity import Diffusivity
+from .budget import MAX_STEPS, check
 from .geometry import Geometry, extend_nodes, graded_nodes
 
 # ROS2: both roots of 2γ² - 4γ + 1 = 0 give an L-stable method; the smaller has the much smaller
@@ -362,7 +363,13 @@ class CarbonSolver:
         dt = min(acc.first_step * self.time_scale, max_step)
         smoothing = self.SMOOTHING_STEPS
         carbon_range = (float(self.carbon.min()), float(self.carbon.max()))
+        steps = 0
         while end - self.time > 1e-12 * max(end, 1.0):
+            check()
+            steps += 1
+            if steps > MAX_STEPS:
+                raise SolverError(f"the carbon solver took over {MAX_STEPS} steps for one stage of "
+                                  f"{duration / 3600:g} h; the inputs may be outside the models' range")
             h = min(dt, end - self.time)
             cond = condition if isinstance(condition, SurfaceCondition) else condition(self.time - start + h / 2)
             euler = smoothing > 0

@@ -18,13 +18,14 @@ from pathlib import Path
 from typing import Any
 
 from ..errors import InputError
-from ..files import atomic_write
+from ..files import atomic_write, remove_stale_temporaries
 from ..outcome import Offer
-from ..parameters import PARAMETERS, Text
+from ..parameters import PARAMETERS
 from .state import Plan
 
 SCHEMA_VERSION = 5
 FILE_KIND = "casedepth plan"
+LARGEST_FILE = 5_000_000  # bytes: a plan with 100 stages and long notes is under 100 kB
 HEADER_KEYS = ("kind", "schema_version")
 
 
@@ -78,17 +79,23 @@ def _to_5(data: dict, offers: list[Offer], made_with: int) -> None:
 MIGRATIONS = {1: _to_2, 2: _to_3, 3: _to_4, 4: _to_5}
 
 
-def migrate(data: dict) -> tuple[dict, list[Offer]]:
-    """Bring a plan file's contents up to :data:`SCHEMA_VERSION` (one step per past version), and the
-    newer choices the migration noted but did not apply."""
+def migrate(data: dict) -> tuple[dict, list[Offer], list[str]]:
+    """Bring a plan file's contents up to :data:`SCHEMA_VERSION` (one step per past version); returns them, the
+    newer choices the migration noted but did not apply, and the file keys it filled with the table's default
+    (values a version added, or that came within a version before it was numbered anew)."""
     data = dict(data)
     made_with = data["schema_version"]
     offers: list[Offer] = []
+    filled: list[str] = []
     while data["schema_version"] < SCHEMA_VERSION:
-        version = data["schema_version"]
-        MIGRATIONS[version](data, offers, made_with)
-        data["schema_version"] = version + 1
-    return data, offers
+        version = data["schema_version"] + 1
+        MIGRATIONS[version - 1](data, offers, made_with)
+        for row in PARAMETERS.values():  # the rest of what this version holds: as a new plan has it
+            if row.since == version and row.file_key not in data:
+                data[row.file_key] = row.kind.to_file(row.default)
+                filled.append(row.key)
+        data["schema_version"] = version
+    return data, offers, filled
 
 
 # -- reading ---------------------------------------------------------------------------------------------------------
@@ -106,13 +113,12 @@ def from_dict(data: Any) -> Plan:
     unknown = sorted(set(data) - set(by_file_key) - set(HEADER_KEYS))
     if unknown:
         raise PlanFileError(f"unknown key{'s' if len(unknown) > 1 else ''} {', '.join(unknown)}")
-    data, offers = migrate(data)
+    missing = [row.file_key for row in by_file_key.values() if row.since <= version and row.file_key not in data]
+    if missing:
+        raise PlanFileError(f"{missing[0]}: missing (every plan file of schema {version} holds it)")
+    data, offers, filled = migrate(data)
     values = {}
     for file_key, row in by_file_key.items():
-        if file_key not in data:
-            if version < SCHEMA_VERSION or isinstance(row.kind, Text):
-                continue  # a key added within an older schema takes its default, as it did then
-            raise PlanFileError(f"{file_key}: missing (a plan of schema {SCHEMA_VERSION} holds every key)")
         try:
             values[row.key] = row.kind.from_file(row.key, data[file_key])
         except InputError as error:
@@ -124,17 +130,26 @@ def from_dict(data: Any) -> Plan:
         raise PlanFileError(f"{PARAMETERS[error.field].file_key if error.field in PARAMETERS else error.field}: "
                             f"{error.message}") from None
     plan.file_offers = offers
+    plan.file_notes = [f"{PARAMETERS[key].file_key}: not in this file of schema {version}; "
+                       f"{PARAMETERS[key].kind.to_file(PARAMETERS[key].default)!r} taken, as for a new plan"
+                       for key in filled if PARAMETERS[key].used_by(plan.values())]
     return plan
 
 
 def load(path: str | os.PathLike) -> Plan:
     """Read a plan file."""
+    path = Path(path)
+    remove_stale_temporaries(path)
     try:
-        data = json.loads(Path(path).read_text(encoding="utf-8"))
+        if path.stat().st_size > LARGEST_FILE:
+            raise PlanFileError(f"{path} is {path.stat().st_size / 1e6:.0f} MB, far more than any plan file")
+        data = json.loads(path.read_text(encoding="utf-8"))
     except (OSError, UnicodeDecodeError) as error:
-        raise PlanFileError(f"cannot read {path}: {error}") from None
+        raise PlanFileError(f"cannot read {path}: {getattr(error, 'strerror', None) or error}") from None
     except json.JSONDecodeError as error:
         raise PlanFileError(f"{path} is not valid JSON (line {error.lineno}): {error.msg}") from None
+    except RecursionError:
+        raise PlanFileError(f"{path} is nested too deeply to be a plan file") from None
     return from_dict(data)
 
 

@@ -43,6 +43,8 @@ class Plan:
         self.modified = False
         #: offers the plan's file came with (a newer policy than the one it was made with), see :meth:`offers`
         self.file_offers: list[Offer] = []
+        #: what reading its file had to assume (a value the file's schema did not hold yet)
+        self.file_notes: list[str] = []
 
     # -- access ------------------------------------------------------------------------------------------
     def __getattr__(self, name: str):

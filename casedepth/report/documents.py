@@ -82,7 +82,7 @@ def _page(paper: str) -> Figure:
 
 
 def _footer(fig: Figure, text: str, number: int, total: int) -> None:
-    fig.text(0.06, 0.025, text, fontsize=6.5, color="#555")
+    fig.text(0.06, 0.025, text, fontsize=6.5, color="#555", parse_math=False)
     fig.text(0.94, 0.025, f"page {number} of {total}", fontsize=6.5, color="#555", ha="right")
 
 
@@ -292,7 +292,7 @@ def process_sheet(plan, outcome: Outcome, paper: str = "a4", units: str = "metri
         page = _page(paper)
         pages.append(page)
         page.text(0.06, 0.95, f"{plan.title} — cycle" + (f" (continued, {index + 1} of {len(chunks)})" if len(chunks) > 1 else ""),
-                  fontsize=12, weight="bold", color=INK)
+                  fontsize=12, weight="bold", color=INK, parse_math=False)
         if index == 0:
             ax = page.add_axes([0.10, 0.64, 0.80, 0.26])
             _timeline(ax, outcome, u)
@@ -332,14 +332,16 @@ def _title_block(fig: Figure, plan, shop: str, logo: str | None, revision: str, 
             left = 0.17
         except (OSError, ValueError, SyntaxError):
             pass
-    fig.text(left, 0.945, shop or "Process sheet", fontsize=9, color="#555")
-    fig.text(left, 0.915, plan.title, fontsize=14, weight="bold", color=INK)
-    fig.text(left, 0.89, f"Part: {plan.part or '—'}", fontsize=9)
-    fig.text(0.93, 0.945, f"Revision {revision}", fontsize=9, ha="right")
+    # what people type is printed as typed: no "$…$" read as mathematics
+    fig.text(left, 0.945, shop or "Process sheet", fontsize=9, color="#555", parse_math=False)
+    fig.text(left, 0.915, plan.title, fontsize=14, weight="bold", color=INK, parse_math=False)
+    fig.text(left, 0.89, f"Part: {plan.part or '—'}", fontsize=9, parse_math=False)
+    fig.text(0.93, 0.945, f"Revision {revision}", fontsize=9, ha="right", parse_math=False)
     fig.text(0.93, 0.925, f"Date {date.isoformat()}", fontsize=9, ha="right")
     fig.text(0.93, 0.905, TREATMENTS[plan.treatment].label, fontsize=9, ha="right")
     if plan.notes:
-        fig.text(left, 0.868, plan.notes.splitlines()[0][:110], fontsize=7.5, style="italic", color="#333")
+        fig.text(left, 0.868, plan.notes.splitlines()[0][:110], fontsize=7.5, style="italic", color="#333",
+                 parse_math=False)
 
 
 def _profiles(ax, hax, outcome: Outcome, u: DisplayUnits) -> None:
@@ -386,7 +388,7 @@ def _wrapped(fig: Figure, x: float, y: float, text: str, size: float, width: int
 
     lines = textwrap.wrap(text, width)
     for i, line in enumerate(lines):
-        fig.text(x, y - i * size * 0.0019, line, fontsize=size, style=style)
+        fig.text(x, y - i * size * 0.0019, line, fontsize=size, style=style, parse_math=False)
     return y - (len(lines) - 1) * size * 0.0019
 
 
