@@ -18,13 +18,13 @@ from contextlib import contextmanager
 from . import __version__
 from .constants import ZERO_CELSIUS
 from .errors import InputError, SolverError
-from .files import FileWriteError
+from .files import FileWriteError, writable
 from .models.atmosphere import carbon_potential_from_probe, probe_voltage_for_potential
 from .models.steels import library
 from .parameters import PARAMETERS, OptionError, label, option_for, options_for
 from .plan import Plan, compare_temperatures, evaluate, forward, load, plan_from_options, save
 from .treatments import TREATMENTS
-from .units import DisplayUnits, format_duration, parse_length, parse_number, parse_temperature, parse_time
+from .units import DisplayUnits, check_text, format_duration, parse_length, parse_number, parse_temperature, parse_time
 
 
 class _UsageError(Exception):
@@ -38,6 +38,12 @@ def _writing(field: str):
         yield
     except FileWriteError as error:
         raise InputError(field, str(error)) from None
+
+
+def _shown(path) -> str:
+    """A file name as it can be printed: bytes the system could not decode (a name from another encoding)
+    shown as replacement characters rather than stopping the print."""
+    return os.fsencode(str(path)).decode("utf-8", "replace")
 
 
 class _Parser(argparse.ArgumentParser):
@@ -171,6 +177,9 @@ def _plan(args) -> int:
     treatment = TREATMENTS[args.treatment]
     plan, args.set_by = plan_from_options(treatment.key, _given(args, treatment.key))
     units = DisplayUnits(args.units)
+    if args.save:
+        with _writing("save"):
+            writable(args.save)
     if args.time is not None:
         if args.compare_temperatures:
             raise InputError("compare_temperatures", "only used with --target")
@@ -207,7 +216,7 @@ def _plan(args) -> int:
         for T, t in comparison:
             print(f"  {units.format_temperature(T):>8}  {format_duration(t):>12}  ({t / 3600:.2f} h)")
     if args.save:
-        print(f"Plan written to {args.save}")
+        print(f"Plan written to {_shown(args.save)}")
     return 0
 
 
@@ -234,6 +243,9 @@ def _outputs(args) -> list[tuple[str, str]]:
     outputs = [(fmt, getattr(args, fmt)) for fmt in ("pdf", "svg", "png") if getattr(args, fmt)]
     if not outputs:
         raise InputError("output", "say where to write it: --pdf FILE, --svg FILE or --png FILE")
+    for fmt, path in outputs:  # refused before the work, not after
+        with _writing(fmt):
+            writable(path)
     return outputs
 
 
@@ -280,7 +292,7 @@ def _chart(args) -> int:
         with _writing(fmt):
             written = save_document(document, path, fmt)
         for name in written:
-            print(f"wrote {name}")
+            print(f"wrote {_shown(name)}")
     return 0
 
 
@@ -300,6 +312,9 @@ def _sheet(args) -> int:
     from .report.documents import process_sheet, save as save_document
 
     outputs = _outputs(args)
+    for field in ("shop", "revision"):
+        if getattr(args, field):
+            check_text(field, getattr(args, field), lines=False)
     plan = load(args.plan)
     document = process_sheet(plan, evaluate(plan), paper=args.paper, units=args.units, shop=args.shop,
                              logo=args.logo, revision=args.revision or plan.revision)
@@ -307,7 +322,7 @@ def _sheet(args) -> int:
         with _writing(fmt):
             written = save_document(document, path, fmt)
         for name in written:
-            print(f"wrote {name}")
+            print(f"wrote {_shown(name)}")
     return 0
 
 
@@ -316,6 +331,9 @@ def _calibrate(args) -> int:
     from .shop.calibration import calibrate_plan
 
     plan = load(args.plan)
+    if args.write:
+        with _writing("plan"):
+            writable(args.plan)
     found = calibrate_plan(plan, parse_time(args.soak, "soak"), parse_length(args.measured, "measured"))
     if args.write:
         plan.set(found.field, round(found.multiplier, 3))
@@ -327,7 +345,7 @@ def _calibrate(args) -> int:
                           "written": bool(args.write)}))
         return 0
     print(found.describe())
-    print(f"  {'stored in ' + str(args.plan) if args.write else 'add --write to store it in the plan'} "
+    print(f"  {'stored in ' + _shown(args.plan) if args.write else 'add --write to store it in the plan'} "
           f"({label(found.field)})")
     return 0
 
@@ -390,6 +408,13 @@ def _all_actions(parser, command):
     return actions
 
 
+def _one_value_each(args, parser) -> None:
+    """Refuse a flag given a list where it takes one value (argparse turns ``--steel=--`` into ``[]``)."""
+    for action in _all_actions(parser, getattr(args, "command", None)):
+        if action.nargs is None and action.option_strings and isinstance(getattr(args, action.dest, None), list):
+            raise _UsageError(f"{action.option_strings[0]}: give one value after the flag")
+
+
 def main(argv: list[str] | None = None) -> int:
     """Run the command line; returns the exit code."""
     argv = sys.argv[1:] if argv is None else list(argv)
@@ -401,6 +426,7 @@ def main(argv: list[str] | None = None) -> int:
     args = None
     try:
         args = parser.parse_args(argv)
+        _one_value_each(args, parser)
         if getattr(args, "handler", None) is None:
             parser.print_help()
             return 0

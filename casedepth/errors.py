@@ -9,6 +9,20 @@ window can mark the widget and a plan file can name its key.
 from __future__ import annotations
 
 
+#: the longest message an error carries: one that quotes a huge value the user gave is cut in the middle of the
+#: quote, keeping its start (what was wrong) and its end (the allowed range)
+LONGEST_MESSAGE = 400
+
+
+def brief(message: str) -> str:
+    """``message`` cut to :data:`LONGEST_MESSAGE` characters, the middle replaced by an ellipsis."""
+    if len(message) <= LONGEST_MESSAGE:
+        return message
+    head = LONGEST_MESSAGE * 2 // 3
+    tail = LONGEST_MESSAGE - head - 3
+    return f"{message[:head]} … {message[-tail:]}"
+
+
 class CasedepthError(Exception):
     """Base of every error the library raises on purpose."""
 
@@ -26,6 +40,7 @@ class InputError(CasedepthError, ValueError):
     """
 
     def __init__(self, field: str, message: str):
+        message = brief(message)
         super().__init__(f"{field}: {message}")
         self.field = field
         self.message = message

@@ -5,15 +5,20 @@ Plans, printed documents, exported profiles and pictures are all written through
 (an atomic replace on POSIX and Windows), and the folder flushed too. What the target is is kept: a
 symbolic link is written through to the file it names, an existing file keeps its permission bits
 (a new one gets what the user's umask allows), and a read-only file or a folder is refused rather
-than replaced. A temporary file a killed save left behind is removed by the next save of that file.
-A file with other hard links is replaced under this name only (atomicity is kept over the links).
+than replaced. A file with other hard links is replaced under this name only (atomicity is kept over the links).
+
+A save killed part-way leaves the old file or the new one, and as little else as the system allows: where
+Linux offers unnamed temporary files (``O_TMPFILE``), text is written into one, which vanishes with the
+process, and is given its name only for the instant before the rename. A named temporary carries the
+writer's process number (``.NAME.<pid>.<random>.tmp…``), so the next save or open of that file removes
+the leftovers of writers that are gone (and any older than :data:`STALE_AFTER`).
 """
 
 from __future__ import annotations
 
 import os
+import secrets
 import stat
-import tempfile
 import time
 from pathlib import Path
 from typing import Callable
@@ -38,20 +43,41 @@ def _new_file_mode() -> int:
     return 0o666 & ~umask
 
 
-def _temporary_prefix(path: Path) -> str:
-    return f".{path.name}."
+def _temporary_name(target: Path) -> Path:
+    """A fresh hidden name beside ``target`` that says whose it is: ``.NAME.<pid>.<random>.tmp<suffix>``."""
+    return target.with_name(f".{target.name}.{os.getpid()}.{secrets.token_hex(4)}.tmp{target.suffix}")
+
+
+def _writer_gone(pid: str) -> bool:
+    try:
+        os.kill(int(pid), 0)
+    except (ValueError, OverflowError):
+        return True
+    except ProcessLookupError:
+        return True
+    except OSError:  # alive, but another user's (PermissionError), or not to be asked on this system
+        return False
+    return False
 
 
 def remove_stale_temporaries(path: str | os.PathLike) -> None:
-    """Remove what killed saves of ``path`` left beside it (temporary files older than :data:`STALE_AFTER`)."""
+    """Remove what killed saves of ``path`` left beside it: temporaries whose writing process is gone, and any
+    older than :data:`STALE_AFTER` (a save running now in another process is younger and is left alone)."""
     path = Path(path)
     now = time.time()
+    prefix = f".{path.name}."
     try:
-        for leftover in path.parent.glob(f"{_temporary_prefix(path)}*.tmp*"):
-            if now - leftover.stat().st_mtime >= STALE_AFTER:
+        for leftover in path.parent.glob(f"{glob_escape(prefix)}*.tmp*"):
+            pid = leftover.name[len(prefix):].split(".", 1)[0]
+            if now - leftover.stat().st_mtime >= STALE_AFTER or (pid != str(os.getpid()) and _writer_gone(pid)):
                 leftover.unlink()
     except OSError:
-        pass  # tidying up must never stop a save
+        pass  # tidying up must never stop a save or an open
+
+
+def glob_escape(text: str) -> str:
+    """``text`` with the characters glob gives a meaning ([, *, ?) taken literally."""
+    return "".join(f"[{c}]" if c in "[*?" else c for c in text)
 
 
 def _target(path: Path) -> Path:
@@ -61,9 +87,49 @@ def _target(path: Path) -> Path:
         raise FileWriteError(path, "it is a folder")
     if not target.parent.is_dir():
         raise FileWriteError(path, f"there is no folder {target.parent}")
-    if target.exists() and not os.access(target, os.W_OK):
-        raise FileWriteError(path, "the file is read-only")
+    if target.exists() and (not os.access(target, os.W_OK) or not target.stat().st_mode & 0o222):
+        raise FileWriteError(path, "the file is read-only")  # refused even where the user could override it
     return target
+
+
+def writable(path: str | os.PathLike) -> Path:
+    """The file a save of ``path`` would write (the end of its links), or :class:`FileWriteError` saying why it
+    cannot be written: a folder, no such folder, a read-only file, a name too long. Lets a command refuse an
+    output before it does the work."""
+    try:
+        return _target(Path(path))
+    except FileWriteError:
+        raise
+    except OSError as error:  # a name too long, a folder we may not look into, …
+        raise FileWriteError(path, error.strerror or str(error)) from None
+
+
+def _write_unnamed(folder: Path, temporary: Path, data: bytes, mode: int) -> None:
+    """Write ``data`` to ``temporary`` so that it exists under that name only once it is whole and on disk: into
+    an unnamed file of ``folder`` where the system has them (gone with the process if it is killed), named at
+    the end; elsewhere into the named file directly."""
+    handle, anonymous = None, hasattr(os, "O_TMPFILE") and os.path.isdir("/proc/self/fd")
+    if anonymous:
+        try:
+            handle = os.open(folder, os.O_TMPFILE | os.O_WRONLY, 0o600)
+        except OSError:  # a file system without them: a named file
+            anonymous = False
+    if not anonymous:
+        handle = os.open(temporary, os.O_WRONLY | os.O_CREAT | os.O_EXCL, 0o600)
+    try:
+        view = memoryview(data)
+        while view:
+            view = view[os.write(handle, view):]
+        os.fsync(handle)
+        os.fchmod(handle, mode) if hasattr(os, "fchmod") else os.chmod(temporary, mode)
+        if anonymous:  # linkat(…, AT_SYMLINK_FOLLOW) through /proc, as open(2) describes for O_TMPFILE
+            descriptors = os.open("/proc/self/fd", os.O_RDONLY)
+            try:
+                os.link(str(handle), temporary, src_dir_fd=descriptors, follow_symlinks=True)
+            finally:
+                os.close(descriptors)
+    finally:
+        os.close(handle)
 
 
 def _sync_folder(folder: Path) -> None:
@@ -88,35 +154,33 @@ def atomic_write(path: str | os.PathLike, content: str | bytes | Callable[[str],
     the reason; the previous file, if any, is then untouched and no temporary file is left.
     """
     path = Path(path)
-    target = _target(path)
-    remove_stale_temporaries(target)
-    mode = stat.S_IMODE(target.stat().st_mode) if target.exists() else _new_file_mode()
+    target = writable(path)
     try:
-        handle, temporary = tempfile.mkstemp(prefix=_temporary_prefix(target), suffix=".tmp" + target.suffix,
-                                             dir=target.parent)
+        mode = stat.S_IMODE(target.stat().st_mode) if target.exists() else _new_file_mode()
     except OSError as error:
         raise FileWriteError(path, error.strerror or str(error)) from None
+    remove_stale_temporaries(target)
+    temporary = _temporary_name(target)
     try:
-        if callable(content):
-            os.close(handle)
-            content(temporary)
+        if callable(content):  # the writer wants a file name (and may judge the format by its extension)
+            with open(temporary, "xb"):
+                pass
+            content(str(temporary))
             with open(temporary, "rb+") as stream:
                 os.fsync(stream.fileno())
+            os.chmod(temporary, mode)
         else:
             data = content.encode(encoding) if isinstance(content, str) else content
-            with os.fdopen(handle, "wb") as stream:
-                stream.write(data)
-                stream.flush()
-                os.fsync(stream.fileno())
-        os.chmod(temporary, mode)
+            _write_unnamed(target.parent, temporary, data, mode)
         os.replace(temporary, target)
     except BaseException as error:
-        if os.path.exists(temporary):
+        if os.path.lexists(temporary):
             os.unlink(temporary)
         if isinstance(error, (KeyboardInterrupt, SystemExit, CasedepthError)):
             raise
         if isinstance(error, Exception):  # a full disk shows as OSError, or as an error of the writer (zlib)
-            raise FileWriteError(path, getattr(error, "strerror", None) or f"{type(error).__name__}: {error}") from None
+            reason = getattr(error, "strerror", None) or f"{type(error).__name__}: {error}"
+            raise FileWriteError(path, reason.strip().splitlines()[0] if reason.strip() else type(error).__name__) from None
         raise
     _sync_folder(target.parent)
     return path

@@ -25,7 +25,7 @@ from .models.diffusivity import ARRHENIUS_D0, ARRHENIUS_Q, METHODS
 from .models.hardness import HARDNESS_RELATIONS
 from .models.surface import DEFAULT_BETA
 from .numerics.geometry import MAX_SIZE, MIN_SIZE, SHAPES
-from .units import (TOTAL_CASE_EXCESS, both_lengths, length_range, parse_length, parse_number, parse_temperature,
+from .units import (TOTAL_CASE_EXCESS, check_text, finite_number, both_lengths, length_range, parse_length, parse_number, parse_temperature,
                     parse_threshold, parse_velocity, temperature_range)
 
 
@@ -69,6 +69,7 @@ class Text(Kind):
             raise InputError(key, f"{value!r} is not text")
         if len(value) > self.longest:
             raise InputError(key, f"{len(value)} characters is more than the {self.longest} it may hold")
+        check_text(key, value, lines=self.lines > 1)
         return value
 
     def describe(self):
@@ -161,9 +162,9 @@ class Quantity(Kind):
             return None
         if isinstance(value, bool) or not isinstance(value, (int, float)):
             raise InputError(key, f"{value!r} is not a number")
-        value = float(value)
-        if not math.isfinite(value):
+        if not finite_number(value):
             raise InputError(key, f"{value!r} is not a finite number")
+        value = float(value)
         shown = value * self.unit.scale + self.unit.offset
         if abs(shown) > MAGNITUDE:
             raise InputError(key, f"{shown:g}{' ' + self.unit.file_unit if self.unit.file_unit else ''} is beyond any "
@@ -183,7 +184,7 @@ class Quantity(Kind):
     def from_file(self, key, value):
         if value is None and self.optional:
             return None
-        if isinstance(value, bool) or not isinstance(value, (int, float)) or not math.isfinite(value):
+        if not finite_number(value):
             raise InputError(key, f"{value!r} is not a number")
         return (float(value) - self.unit.offset) / self.unit.scale
 

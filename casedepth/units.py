@@ -30,6 +30,11 @@ TIME_UNITS = {"s": 1.0, "sec": 1.0, "min": 60.0, "h": 3600.0, "hr": 3600.0, "hrs
 VELOCITY_UNITS = {"m/s": 1.0, "cm/s": 1e-2, "mm/s": 1e-3, "um/s": 1e-6, "µm/s": 1e-6, "in/s": 0.0254}
 
 
+#: the largest number read with a unit: far beyond every range, small enough that any unit conversion stays finite
+#: (the parameter table then refuses what is out of its own range with the range)
+LARGEST_TYPED = 1e15
+
+
 def _split(text: str, field: str) -> tuple[float, str]:
     text = str(text).strip()
     match = re.fullmatch(rf"\s*({_NUMBER})\s*(.*?)\s*", text)
@@ -38,7 +43,35 @@ def _split(text: str, field: str) -> tuple[float, str]:
     value = float(match.group(1))
     if not math.isfinite(value):
         raise InputError(field, f"{text!r} is not a finite number")
+    if abs(value) > LARGEST_TYPED:
+        raise InputError(field, f"{text!r} is beyond any value the models could use")
     return value, match.group(2).lower()
+
+
+def finite_number(value) -> bool:
+    """True for an int or float that is a finite number a float can hold (not a bool, not NaN or inf, not an
+    integer of 400 digits)."""
+    if isinstance(value, bool) or not isinstance(value, (int, float)):
+        return False
+    try:
+        return math.isfinite(value)
+    except OverflowError:
+        return False
+
+
+def check_text(field: str, text: str, lines: bool = True) -> str:
+    """Refuse text that cannot be written or printed: characters that are not Unicode (a lone surrogate, as a
+    JSON escape or an undecodable command-line byte brings) or control characters other than tabs and (where
+    ``lines``) line breaks."""
+    try:
+        text.encode("utf-8")
+    except UnicodeEncodeError:
+        raise InputError(field, "the text holds a character that is not valid Unicode (an undecodable byte?)") from None
+    allowed = "\t\n\r" if lines else "\t"
+    bad = next((c for c in text if (ord(c) < 32 and c not in allowed) or ord(c) == 127), None)
+    if bad is not None:
+        raise InputError(field, f"the text holds the control character U+{ord(bad):04X}")
+    return text
 
 
 def parse_number(value: str | float, field: str) -> float:

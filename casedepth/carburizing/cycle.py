@@ -21,7 +21,7 @@ from ..constants import ROOM_TEMPERATURE, ZERO_CELSIUS
 from ..errors import InputError
 from ..models.austenite import Andrews_1965_Ac3, saturation_carbon
 from ..numerics.solver import CarbonSolver, History, Profile, SurfaceCondition
-from ..units import both_temperatures
+from ..units import both_temperatures, finite_number
 from .setup import GRAIN_GROWTH_TEMPERATURE, MAX_TEMPERATURE, POTENTIAL_RANGE, CarburizingSetup
 
 # kind -> (moves carbon, ramps temperature by default, label)
@@ -135,7 +135,7 @@ def stage_from_dict(data: dict, number: int = 0) -> Stage:
     if unknown:
         raise InputError("stages", f"{where}: unknown entr{'y' if len(unknown) == 1 else 'ies'} {', '.join(unknown)}; "
                          f"known: {', '.join(STAGE_FILE_KEYS)}")
-    if data.get("kind") not in STAGE_KINDS:
+    if not isinstance(data.get("kind"), str) or data.get("kind") not in STAGE_KINDS:
         raise InputError("stages", f"{where}: kind {data.get('kind')!r} is not one of {', '.join(STAGE_KINDS)}")
     numbers = {}
     for key in STAGE_FILE_KEYS[1:]:
@@ -143,7 +143,7 @@ def stage_from_dict(data: dict, number: int = 0) -> Stage:
         if value is None and key != "duration_h":
             numbers[key] = None
             continue
-        if isinstance(value, bool) or not isinstance(value, (int, float)) or not math.isfinite(value):
+        if not finite_number(value):
             raise InputError("stages", f"{where}: {key} {value!r} is not a number")
         numbers[key] = float(value)
     temperature = numbers["temperature_c"]

@@ -144,12 +144,13 @@ def _carburizing_stages(values) -> list[Stage]:
 
 
 def _richest_stage(values) -> tuple[float, str]:
-    rich = [stage.carbon_potential for stage in _carburizing_stages(values)]
+    rich = [stage.carbon_potential for stage in _carburizing_stages(values) if stage.carbon_potential is not None]
     return (float(max(rich)), "stages") if rich else (values["carbon_potential"], "carbon_potential")
 
 
 def _hottest_stage(values) -> tuple[float, str]:
-    hot = [stage.temperature for stage in _carburizing_stages(values) if stage.kind != "heat-up"]
+    hot = [stage.temperature for stage in _carburizing_stages(values)
+           if stage.kind != "heat-up" and stage.temperature is not None]
     return (float(max(hot)), "stages") if hot else (values["temperature"], "temperature")
 
 

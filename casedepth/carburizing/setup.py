@@ -13,7 +13,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..constants import ZERO_CELSIUS
-from ..errors import InputError
+from ..errors import InputError, NotReachableError
 from ..models.austenite import Andrews_1965_Ac3
 from ..models.diffusivity import Diffusivity
 from ..models.hardness import HARDNESS_RELATIONS, threshold_carbon
@@ -94,6 +94,11 @@ class CarburizingSetup:
             raise InputError("threshold_value", f"{self.threshold} {meaning} not above the core carbon "
                              f"{self.steel.carbon:.3f} %C: the whole part would count as case; "
                              f"choose a threshold above {self.steel.carbon + 0.01:.2f} %C")
+        if carbon >= self.equilibrium_carbon:
+            meaning = "" if self.threshold.kind == "carbon" else f" ({carbon:.2f} %C)"
+            raise NotReachableError("threshold_value", f"{self.threshold}{meaning} is not below the surface carbon the carbon "
+                             f"potential {self.carbon_potential:.2f} gives this steel ({self.equilibrium_carbon:.2f} %C): "
+                             f"no effective case can form; lower the threshold or raise the potential")
 
     # -- derived quantities ---------------------------------------------------------------
     @property
@@ -134,9 +139,6 @@ class CarburizingSetup:
         if self.equilibrium_carbon <= self.steel.carbon:
             out.append(f"The carbon potential ({self.carbon_potential:.2f} %C) is not above the core carbon "
                        f"({self.steel.carbon:.2f} %C): this atmosphere decarburizes.")
-        if self.threshold_carbon >= self.equilibrium_carbon:
-            out.append(f"The threshold ({self.threshold_carbon:.2f} %C) is not below the surface carbon this "
-                       f"atmosphere gives ({self.equilibrium_carbon:.2f} %C): no effective case can form.")
         if self.temperature > GRAIN_GROWTH_TEMPERATURE:
             out.append(f"{T_c:.0f} °C is above about 980 °C, where most carburizing grades coarsen their grain "
                        f"unless made fine-grained (common practice); check the steel's grain-size control.")

@@ -45,6 +45,7 @@ def main(argv: list[str] | None = None) -> int:
     from PySide6.QtCore import QSettings, QTimer
     from PySide6.QtWidgets import QApplication
 
+    from ..files import FileWriteError, atomic_write
     from ..plan import PlanFileError, load
     from .window import MainWindow
 
@@ -70,8 +71,18 @@ def main(argv: list[str] | None = None) -> int:
         outcome = {"code": 1}
 
         def shoot():
-            window.grab().save(args.screenshot)
-            outcome["code"] = 0
+            picture = window.grab()
+
+            def write(name: str) -> None:
+                if not picture.save(name, "PNG"):
+                    raise OSError("Qt could not write a PNG")
+
+            try:
+                atomic_write(args.screenshot, write)
+                outcome["code"] = 0
+            except FileWriteError as error:
+                print(f"casedepth: error: --screenshot: {error}", file=sys.stderr)
+                outcome["code"] = 2
             app.quit()
 
         window.result_shown.connect(lambda: QTimer.singleShot(150, shoot))

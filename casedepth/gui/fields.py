@@ -148,13 +148,14 @@ class ChoiceField(Field):
 
 class QuantitySpin(QDoubleSpinBox):
     """A spin box that reads what is typed with ``read`` (text → shown value, or None if it cannot) and holds
-    its value within its range; a value typed outside the range is refused and passed to ``refused``."""
+    its value within its range; a value typed outside the range is refused and passed to ``refused``, and so is
+    text that cannot be read (as the text)."""
 
-    def __init__(self, read: Callable[[str], float | None], refused: Callable[[float], None]):
+    def __init__(self, read: Callable[[str], float | None], refused: Callable[[float | str], None]):
         super().__init__()
         self._read = read
         self._refused = refused
-        self._outside: float | None = None  # a readable value typed outside the range, not yet reported
+        self._outside: float | str | None = None  # a value typed outside the range (or unreadable text), not yet told
         self.setKeyboardTracking(False)  # one edit per committed value (Enter, Tab, arrows), not per keystroke
         self.setAccelerated(True)
         self.editingFinished.connect(self._report)
@@ -181,9 +182,12 @@ class QuantitySpin(QDoubleSpinBox):
         return (QValidator.Acceptable if acceptable else QValidator.Intermediate), text, pos
 
     def fixup(self, text):
-        """Qt is about to put back the last value: remember a readable value that was outside the range."""
-        value = self._read(self._body(text))
-        if value is not None and not (self.minimum() <= value <= self.maximum()):
+        """Qt is about to put back the last value: remember a value outside the range, or text it cannot read."""
+        body = self._body(text)
+        value = self._read(body)
+        if value is None and body and body != self.specialValueText():
+            self._outside = body
+        elif value is not None and not (self.minimum() <= value <= self.maximum()):
             self._outside = value
         return text
 
@@ -212,14 +216,17 @@ class QuantityField(Field):
 
     def _read(self, text: str) -> float | None:
         """The value typed, in the units shown (None if it cannot be read)."""
-        units = self.context.units
         try:
-            if self.quantity is not None:
-                return units.shown(self.quantity, units.read(self.quantity, text, self.key))
-            unit = self.row.kind.unit
-            return unit.parse(text, self.key) * unit.scale + unit.offset
+            return self._read_or_raise(text)
         except InputError:
             return None
+
+    def _read_or_raise(self, text: str) -> float:
+        units = self.context.units
+        if self.quantity is not None:
+            return units.shown(self.quantity, units.read(self.quantity, text, self.key))
+        unit = self.row.kind.unit
+        return unit.parse(text, self.key) * unit.scale + unit.offset
 
     def _shown(self, si: float) -> float:
         if self.quantity is not None:
@@ -227,8 +234,15 @@ class QuantityField(Field):
         unit = self.row.kind.unit
         return si * unit.scale + unit.offset
 
-    def _refused(self, shown: float) -> None:
-        """A value typed outside the allowed range: say so against the key (the plan keeps its value)."""
+    def _refused(self, shown: float | str) -> None:
+        """A value typed outside the allowed range, or text that is no value: say so against the key (the plan
+        keeps its value)."""
+        if isinstance(shown, str):
+            try:
+                self._read_or_raise(shown)
+            except InputError as error:
+                self.context.unreadable.emit(self.key, error.message)
+            return
         values = self.context.plan.values()
         span = self.row.allowed(values)
         if span is not None:

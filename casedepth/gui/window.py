@@ -21,7 +21,7 @@ from PySide6.QtWidgets import (QCheckBox, QDialog, QDialogButtonBox, QDoubleSpin
 
 from .. import __version__, safety
 from ..errors import InputError
-from ..files import atomic_write
+from ..files import FileWriteError, atomic_write
 from ..parameters import PARAMETERS, label
 from ..plan import Plan, PlanFileError, load, save
 from ..report.export import profile_csv, write_profile_csv
@@ -60,7 +60,7 @@ class ShopDialog(QDialog):
             whole = isinstance(item.default, int)
             spin = QDoubleSpinBox()
             spin.setDecimals(0 if whole else 2)
-            spin.setRange(1 if whole else 0, 100000)
+            spin.setRange(*item.metadata["range"])
             spin.setSuffix(f" {item.metadata['unit']}" if item.metadata["unit"] else "")
             spin.setValue(float(getattr(shop, item.name)))
             form.addRow(item.metadata["label"], spin)
@@ -74,6 +74,18 @@ class ShopDialog(QDialog):
         buttons.accepted.connect(self.accept)
         buttons.rejected.connect(self.reject)
         form.addRow(buttons)
+        self.currency.setMaxLength(20)
+        self.name.setMaxLength(200)
+        self.logo.setMaxLength(1000)
+
+    def accept(self) -> None:
+        """Close only on values the shop accepts; otherwise say which entry and its range."""
+        try:
+            self.values()
+        except InputError as error:
+            QMessageBox.warning(self, "Shop times and rates", error.message)
+            return
+        super().accept()
 
     def values(self) -> ShopDefaults:
         data = {name: spin.value() if spin.decimals() else int(round(spin.value())) for name, spin in self.spins.items()}
@@ -518,12 +530,25 @@ class MainWindow(QMainWindow):
         path, _ = QFileDialog.getSaveFileName(self, "Save plan as", start, PLAN_FILTER)
         return self.save_plan(path) if path else False
 
+    def _written(self, title: str, path: str | os.PathLike, write) -> bool:
+        """Run ``write()``; a file that cannot be written is told in one message naming the path and the reason."""
+        try:
+            write()
+        except FileWriteError as error:
+            QMessageBox.warning(self, title, str(error))
+            return False
+        except OSError as error:
+            QMessageBox.warning(self, title, f"cannot write {path}: {error.strerror or error}")
+            return False
+        except InputError as error:
+            QMessageBox.warning(self, title, error.message)
+            return False
+        self.statusBar().showMessage(f"Wrote {path}", 3000)
+        return True
+
     def save_plan(self, path: str | os.PathLike) -> bool:
         path = Path(path)
-        try:
-            save(self.plan, path)
-        except OSError as error:
-            QMessageBox.warning(self, "Cannot save the plan", f"{path}: {error.strerror or error}")
+        if not self._written("Cannot save the plan", path, lambda: save(self.plan, path)):
             return False
         self.path = path
         self._remember(path)
@@ -563,7 +588,7 @@ class MainWindow(QMainWindow):
             return
         path, _ = QFileDialog.getSaveFileName(self, "Export profile", f"{self.plan.title}-profile.csv", "CSV (*.csv)")
         if path:
-            self.export_csv(path)
+            self._written("Cannot export the profile", path, lambda: self.export_csv(path))
 
     def export_plot(self, path: str | os.PathLike) -> None:
         """Save the plot on show; the format follows the extension (.png, .svg, .pdf)."""
@@ -576,7 +601,7 @@ class MainWindow(QMainWindow):
         path, _ = QFileDialog.getSaveFileName(self, "Export plot", f"{self.plan.title}-profile.png",
                                               "PNG image (*.png);;SVG drawing (*.svg);;PDF document (*.pdf)")
         if path:
-            self.export_plot(path)
+            self._written("Cannot export the plot", path, lambda: self.export_plot(path))
 
     # -- printed documents --------------------------------------------------------------------------------------------
     @property
@@ -627,9 +652,9 @@ class MainWindow(QMainWindow):
         path, _ = QFileDialog.getSaveFileName(self, "Export", name,
                                               "PDF document (*.pdf);;SVG drawing (*.svg);;PNG image (*.png)")
         if path:
-            from ..report.documents import save
+            from ..report.documents import save as save_document
 
-            save(document, path)
+            self._written("Cannot export", path, lambda: save_document(document, path))
 
     # -- help ----------------------------------------------------------------------------------------------------
     def models_text(self) -> str:

@@ -177,7 +177,15 @@ def threshold_carbon(threshold: Threshold, relation: str = "tempered") -> float:
         hrc = threshold.value if threshold.kind == "HRC" else ASTM_E140_hv_to_hrc(threshold.value)
     except InputError as error:
         raise error.renamed("threshold_value") from None
-    return HARDNESS_RELATIONS[relation].carbon_for_hrc(hrc)
+    rel = HARDNESS_RELATIONS[relation]
+    try:
+        return rel.carbon_for_hrc(hrc)
+    except InputError:
+        if threshold.kind == "HRC":
+            raise
+        low, high = (float(ASTM_E140_hrc_to_hv(x)) for x in (rel.hrc(0.0), rel.hrc(JUST_PLATEAU_CARBON)))
+        raise InputError("threshold_value", f"{threshold} ({hrc:.1f} HRC) is outside what the case can have under "
+                         f"'{rel.display}', {low:.0f}–{high:.0f} HV") from None
 
 
 __all__ = [

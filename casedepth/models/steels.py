@@ -94,7 +94,7 @@ def validate_composition(composition: dict[str, float], field_name: str = "compo
             raise InputError(field_name, f"unknown element {element!r}; known: {', '.join(ELEMENT_LIMITS)}")
         try:
             amount = float(value)
-        except (TypeError, ValueError):
+        except (TypeError, ValueError, OverflowError):
             raise InputError(field_name, f"{symbol}={value!r} is not a number") from None
         limit = ELEMENT_LIMITS[symbol]
         if not (0.0 <= amount <= limit):

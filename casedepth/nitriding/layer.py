@@ -38,6 +38,7 @@ from typing import Callable
 
 from ..constants import GAS_CONSTANT as R, ZERO_CELSIUS
 from ..errors import InputError, SolverError
+from ..numerics.budget import check
 from ..models import iron_nitrogen as fen
 
 # Effective nitrogen diffusivities in the nitrides, D = D(843 K) exp(−Q/R (1/T − 1/843 K)).
@@ -287,6 +288,7 @@ def _integrate_stage(T, K_N, uptake, p1, p2, start, end):
 
     y, t = [p1, p2], start
     while t < end:
+        check()  # a calculation the window has made stale stops here
         events = [layer_gone] + ([eps_gone] if y[0] > floor else [])
         solution = solve_ivp(rates, (t, end), y, method="LSODA", rtol=1e-9, atol=1e-14, events=events)
         y, t = list(solution.y[:, -1]), solution.t[-1]

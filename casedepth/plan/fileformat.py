@@ -13,6 +13,7 @@ Unknown keys, wrong types and choices not in their table are refused with a mess
 from __future__ import annotations
 
 import json
+import math
 import os
 from pathlib import Path
 from typing import Any
@@ -136,6 +137,11 @@ def from_dict(data: Any) -> Plan:
     return plan
 
 
+def _integer(digits: str) -> int | float:
+    """An integer of the file; one too long for a float is read as infinity, which every check then refuses."""
+    return int(digits) if len(digits) <= 300 else math.inf
+
+
 def load(path: str | os.PathLike) -> Plan:
     """Read a plan file."""
     path = Path(path)
@@ -143,11 +149,13 @@ def load(path: str | os.PathLike) -> Plan:
     try:
         if path.stat().st_size > LARGEST_FILE:
             raise PlanFileError(f"{path} is {path.stat().st_size / 1e6:.0f} MB, far more than any plan file")
-        data = json.loads(path.read_text(encoding="utf-8"))
+        data = json.loads(path.read_text(encoding="utf-8"), parse_int=_integer)
     except (OSError, UnicodeDecodeError) as error:
         raise PlanFileError(f"cannot read {path}: {getattr(error, 'strerror', None) or error}") from None
     except json.JSONDecodeError as error:
         raise PlanFileError(f"{path} is not valid JSON (line {error.lineno}): {error.msg}") from None
+    except ValueError as error:  # a number JSON allows but Python will not read (an integer of 5,000 digits)
+        raise PlanFileError(f"{path} holds a number too long to read: {error}") from None
     except RecursionError:
         raise PlanFileError(f"{path} is nested too deeply to be a plan file") from None
     return from_dict(data)
@@ -155,5 +163,9 @@ def load(path: str | os.PathLike) -> Plan:
 
 def save(plan: Plan, path: str | os.PathLike) -> None:
     """Write the plan as JSON atomically (a failed save never loses the previous file); the plan is then unmodified."""
-    atomic_write(path, json.dumps(to_dict(plan), indent=2, ensure_ascii=False) + "\n")
+    try:
+        text = json.dumps(to_dict(plan), indent=2, ensure_ascii=False, allow_nan=False) + "\n"
+    except ValueError:  # the plan's setters refuse NaN and inf, so this is a bug; never write it into a file
+        raise InputError("plan", "holds a value that is not a finite number; nothing was saved") from None
+    atomic_write(path, text)
     plan.modified = False

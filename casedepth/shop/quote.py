@@ -14,11 +14,16 @@ import math
 from dataclasses import asdict, dataclass, field, fields
 
 from ..errors import InputError
+from ..units import finite_number
 
 
-def _item(default, label: str, unit: str = ""):
-    """A shop entry with what the window calls it and its unit."""
-    return field(default=default, metadata={"label": label, "unit": unit})
+#: the range of a shop time [h]: a stage of a week is already beyond any shop's standard
+HOURS = (0.0, 168.0)
+
+
+def _item(default, label: str, unit: str = "", allowed: tuple[float, float] | None = None):
+    """A shop entry with what the window calls it, its unit and the range it may take (None: text)."""
+    return field(default=default, metadata={"label": label, "unit": unit, "range": allowed})
 
 
 @dataclass(frozen=True)
@@ -29,39 +34,42 @@ class ShopDefaults:
     window's dialog is built from them.
     """
 
-    load_h: float = _item(0.25, "Load and close", "h")
-    heat_up_h: float = _item(1.0, "Heat-up to temperature", "h")
-    drop_temperature_c: float = _item(845.0, "Hardening temperature", "°C")
-    drop_h: float = _item(0.5, "Drop to hardening temperature", "h")
-    equalize_h: float = _item(0.5, "Equalize", "h")
-    hardening_potential: float = _item(0.80, "Potential at hardening temperature", "%C")
-    quench_h: float = _item(0.25, "Quench", "h")
-    wash_h: float = _item(0.5, "Wash", "h")
-    temper_h: float = _item(2.0, "Temper", "h")
-    temper_temperature_c: float = _item(180.0, "Temper temperature", "°C")
+    load_h: float = _item(0.25, "Load and close", "h", HOURS)
+    heat_up_h: float = _item(1.0, "Heat-up to temperature", "h", HOURS)
+    drop_temperature_c: float = _item(845.0, "Hardening temperature", "°C", (700.0, 1000.0))
+    drop_h: float = _item(0.5, "Drop to hardening temperature", "h", HOURS)
+    equalize_h: float = _item(0.5, "Equalize", "h", HOURS)
+    hardening_potential: float = _item(0.80, "Potential at hardening temperature", "%C", (0.2, 1.4))
+    quench_h: float = _item(0.25, "Quench", "h", HOURS)
+    wash_h: float = _item(0.5, "Wash", "h", HOURS)
+    temper_h: float = _item(2.0, "Temper", "h", HOURS)
+    temper_temperature_c: float = _item(180.0, "Temper temperature", "°C", (100.0, 700.0))
     # CO in the endothermic carrier gas, vol % (common practice: 20 from natural gas)
-    carrier_co_pct: float = _item(20.0, "CO in the carrier gas (for probe mV)", "%")
+    carrier_co_pct: float = _item(20.0, "CO in the carrier gas (for probe mV)", "%", (5.0, 50.0))
     # gas nitriding in a retort: nitrogen purges before ammonia goes in and after the load has cooled
-    nitriding_purge_h: float = _item(0.5, "Nitriding: nitrogen purge", "h")
-    nitriding_heat_up_h: float = _item(3.0, "Nitriding: heat-up", "h")
-    nitriding_cool_h: float = _item(4.0, "Nitriding: cool-down", "h")
-    furnace_rate_per_h: float = _item(95.0, "Furnace rate per hour")
-    parts_per_load: int = _item(120, "Parts per load")
+    nitriding_purge_h: float = _item(0.5, "Nitriding: nitrogen purge", "h", HOURS)
+    nitriding_heat_up_h: float = _item(3.0, "Nitriding: heat-up", "h", HOURS)
+    nitriding_cool_h: float = _item(4.0, "Nitriding: cool-down", "h", HOURS)
+    furnace_rate_per_h: float = _item(95.0, "Furnace rate per hour", "", (0.0, 1e6))
+    parts_per_load: int = _item(120, "Parts per load", "", (1, 1_000_000))
     currency: str = _item("", "Currency")
 
     def __post_init__(self):
         for f in fields(self):
             value = getattr(self, f.name)
             if f.name == "currency":
-                if not isinstance(value, str):
-                    raise InputError("shop", f"currency: {value!r} must be text")
+                if not isinstance(value, str) or len(value) > 20:
+                    raise InputError("shop", f"currency: {str(value)[:40]!r} must be text of at most 20 characters")
                 continue
-            if isinstance(value, bool) or not (isinstance(value, (int, float)) and math.isfinite(value) and value >= 0):
-                raise InputError("shop", f"{f.name}: {value!r} must be a number of zero or more")
-        if self.parts_per_load < 1:
-            raise InputError("shop", "parts_per_load: at least one part per load")
-        if not (5.0 <= self.carrier_co_pct <= 50.0):
-            raise InputError("shop", f"carrier_co_pct: {self.carrier_co_pct:g} % CO is outside 5–50 %")
+            low, high = f.metadata["range"]
+            if not finite_number(value):
+                raise InputError("shop", f"{f.name}: {value!r} must be a number")
+            if isinstance(f.default, int) and value != int(value):
+                raise InputError("shop", f"{f.name}: {value!r} must be a whole number")
+            if not low <= value <= high:
+                unit = f" {f.metadata['unit']}" if f.metadata["unit"] else ""
+                raise InputError("shop", f"{f.name} ({f.metadata['label']}): {value:g}{unit} is outside "
+                                         f"{low:g}–{high:g}{unit}")
 
     def to_dict(self) -> dict:
         return asdict(self)
