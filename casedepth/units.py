@@ -49,14 +49,22 @@ def _split(text: str, field: str) -> tuple[float, str]:
 
 
 def finite_number(value) -> bool:
-    """True for an int or float that is a finite number a float can hold (not a bool, not NaN or inf, not an
-    integer of 400 digits)."""
-    if isinstance(value, bool) or not isinstance(value, (int, float)):
+    """True for a number (int, float, numpy scalar) that is finite and a float can hold: not a bool or text,
+    not NaN or inf, not an integer of 400 digits."""
+    if isinstance(value, bool):
         return False
     try:
         return math.isfinite(value)
-    except OverflowError:
+    except (TypeError, ValueError, OverflowError):
         return False
+
+
+def as_number(value, field: str) -> float:
+    """``value`` as a float, or an :class:`InputError` naming ``field`` if it is not a finite number (the guard
+    of every argument the library's functions take from their callers)."""
+    if not finite_number(value):
+        raise InputError(field, f"{str(value)[:40]!r} is not a finite number")
+    return float(value)
 
 
 def check_text(field: str, text: str, lines: bool = True) -> str:

@@ -144,3 +144,27 @@ def test_chart_time_axis_covers_its_table():
     nitrided = nitriding_chart(NitridingSetup(find("4140"), 520 + K, 3.0), temperatures=[500 + K, 520 + K])
     longest = max(t for row in nitrided.values["times"] for t in row if not math.isnan(t))
     assert nitrided.values["hours"] * 3600 >= longest or nitrided.values["hours"] == 200
+
+
+def test_what_people_type_stays_in_its_place_on_the_sheet(tmp_path):
+    """A 200-character title, a shop name and revision of hundreds of characters and notes of one unbroken line:
+    each is cut with an ellipsis where its place ends (nothing runs off the page or into the next field), and
+    "$…$" is printed as typed, not read as mathematics."""
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+
+    plan = load(EXAMPLES / "pinion-shaft.cdplan.json")
+    plan.update(title="T" * 200, part="$\\bad$ " + "P" * 190, notes="w" * 20000)
+    document = process_sheet(plan, evaluate(plan), shop="S" * 300, revision="R" * 100)
+    for page in document.pages:
+        renderer = FigureCanvasAgg(page).get_renderer()
+        for text in page.texts:
+            box = text.get_window_extent(renderer)
+            assert box.x0 >= 0 and box.x1 <= page.bbox.width, text.get_text()[:40]
+    first = document.pages[0]
+    texts = [t.get_text() for t in first.texts]
+    assert any(t.startswith("TTTT") and t.endswith("…") for t in texts)
+    assert any(t.startswith("Part: $\\bad$") for t in texts)
+    title = next(t for t in first.texts if t.get_text().startswith("TTTT"))
+    revision = next(t for t in first.texts if t.get_text().startswith("Revision"))
+    renderer = FigureCanvasAgg(first).get_renderer()
+    assert title.get_window_extent(renderer).x1 < revision.get_window_extent(renderer).x0

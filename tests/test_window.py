@@ -286,6 +286,18 @@ def test_screenshot_command(tmp_path):
     assert out.stat().st_size > 20000
 
 
+@pytest.mark.parametrize("target,reason", [("", "give the file"), ("shot", "PNG"), ("shot.pdf", "PNG"),
+                                           ("no folder/shot.png", "no folder"), ("folder.png", "folder")])
+def test_screenshot_refuses_a_path_it_cannot_write_as_png(tmp_path, capsys, target, reason):
+    """Refused before the window opens (exit 2, one line), never a silent exit 0 or a wait for a person."""
+    from casedepth.gui.app import main as window_main
+
+    (tmp_path / "folder.png").mkdir()
+    assert window_main(["--screenshot", str(tmp_path / target) if target else ""]) == 2
+    err = capsys.readouterr().err
+    assert err.count("\n") == 1 and "--screenshot" in err and reason in err
+
+
 def test_custom_composition_and_plan_name(window, qtbot):
     pick(qtbot, window, "steel", "custom")
     window.form.widget("composition").setText("C=0.18 Mn=0.9 Cr=1.0")
@@ -353,6 +365,22 @@ def test_shop_times_and_rates(window, qtbot):
     window.plan.modified = False
     window.new_plan()
     assert window.plan.shop["furnace_rate_per_h"] == 200.0  # kept for new plans
+
+
+def test_the_shop_dialog_takes_only_what_the_shop_accepts(window, monkeypatch):
+    """Its spin boxes have the ranges of the shop's own entries (carrier CO 5–50 %), and OK on a value the shop
+    refuses says which entry and keeps the dialog open."""
+    from casedepth.gui.window import ShopDialog
+    from casedepth.shop.quote import ShopDefaults
+
+    dialog = ShopDialog(ShopDefaults(), window)
+    assert (dialog.spins["carrier_co_pct"].minimum(), dialog.spins["carrier_co_pct"].maximum()) == (5.0, 50.0)
+    told = []
+    monkeypatch.setattr(QMessageBox, "warning", lambda parent, title, text: told.append(text))
+    monkeypatch.setattr(ShopDialog, "values", lambda self: ShopDefaults(carrier_co_pct=80.0))
+    dialog.accept()
+    assert told and "carrier_co_pct" in told[0] and "5–50" in told[0]
+    assert dialog.result() != ShopDialog.Accepted
 
 
 def test_temperatures_tab_uses_the_plan_s_own_policy(window):

@@ -21,7 +21,7 @@ from ..models.steels import Steel
 from ..models.surface import DEFAULT_BETA, Gunnarson_alloy_factor, equilibrium_surface_carbon, steel_saturation_carbon
 from ..numerics.geometry import Geometry
 from ..numerics.solver import Accuracy, CarbonSolver, SurfaceCondition
-from ..units import Threshold, both_temperatures, temperature_range
+from ..units import Threshold, as_number, both_temperatures, finite_number, temperature_range
 
 MAX_TEMPERATURE = 1100.0 + ZERO_CELSIUS  # K; top of the range the diffusivity and Acm data cover
 GRAIN_GROWTH_TEMPERATURE = 980.0 + ZERO_CELSIUS  # K; common practice, see warnings()
@@ -72,7 +72,10 @@ class CarburizingSetup:
 
     def __post_init__(self):
         ac3 = Andrews_1965_Ac3(self.steel.composition)
-        T = self.temperature
+        T = as_number(self.temperature, "temperature")
+        as_number(self.carbon_potential, "carbon_potential")
+        if not (self.beta == math.inf or finite_number(self.beta)):
+            raise InputError("beta", f"{str(self.beta)[:40]!r} is not a number (or inf for a surface held at equilibrium)")
         if not math.isfinite(T) or T < ac3:
             raise InputError("temperature", f"{both_temperatures(T)} is below the Ac3 of this steel ({both_temperatures(ac3)}, Andrews "
                              f"1965): it would not be fully austenitic; allowed {temperature_range(ac3, MAX_TEMPERATURE)}")

@@ -18,7 +18,7 @@ from .. import safety
 from ..errors import InputError, NotReachableError
 from ..numerics.march import March
 from ..numerics.solver import History, Profile
-from ..units import both_lengths, format_duration, length_range
+from ..units import as_number, both_lengths, format_duration, length_range
 from .cycle import describe_counted
 from .setup import SOAK_RANGE, TARGET_RANGE, CarburizingSetup, case_warnings
 
@@ -94,6 +94,7 @@ class CarburizingResult:
 
 def check_soak(soak_time: float) -> None:
     """Refuse a soak [s] outside the range the models are used for (key ``time``)."""
+    soak_time = as_number(soak_time, "time")
     if not (math.isfinite(soak_time) and SOAK_RANGE[0] <= soak_time <= SOAK_RANGE[1]):
         raise InputError("time", f"{soak_time / 3600:g} h is outside {SOAK_RANGE[0] / 60:g} min–{SOAK_RANGE[1] / 3600:g} h")
 
@@ -101,6 +102,7 @@ def check_soak(soak_time: float) -> None:
 def check_probe_depth(setup: CarburizingSetup, probe_depth: float | None) -> None:
     """Refuse a depth [m] to report the carbon at that lies outside the part (key ``carbon_at``)."""
     if probe_depth is not None:
+        probe_depth = as_number(probe_depth, "carbon_at")
         limit = min(setup.geometry.half_section, TARGET_RANGE[1] * 5)
         if not (math.isfinite(probe_depth) and 0.0 <= probe_depth <= limit):
             raise InputError("carbon_at", f"{both_lengths(probe_depth)} is outside {length_range(0.0, limit)}")
@@ -125,6 +127,7 @@ def carburize(setup: CarburizingSetup, soak_time: float, probe_depth: float | No
 
 def check_target(setup: CarburizingSetup, target: float, field: str = "target") -> None:
     """Refuse a target depth [m] outside the range the models cover (or beyond the centre of the section)."""
+    target = as_number(target, field)
     lo, hi = TARGET_RANGE
     limit = min(hi, setup.geometry.half_section)
     if not (math.isfinite(target) and lo <= target <= limit):

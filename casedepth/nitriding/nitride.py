@@ -16,7 +16,7 @@ import numpy as np
 from .. import safety
 from ..constants import ZERO_CELSIUS
 from ..errors import InputError, NotReachableError
-from ..units import both_lengths, length_range
+from ..units import as_number, both_lengths, length_range
 from .layer import CompoundLayer
 from .setup import NitridingSetup
 
@@ -92,6 +92,7 @@ def nitride(setup: NitridingSetup, time: float, layer: CompoundLayer | None = No
     front and ``core`` beyond it, so the depth at core + 50 HV is the front; without them, dissolved
     nitrogen follows the erfc solution (Crank 1975) and hardness rises with it by a solid-solution term.
     """
+    time = as_number(time, "time")
     if not (math.isfinite(time) and SOAK_RANGE[0] * (1 - 1e-9) <= time <= SOAK_RANGE[1] * (1 + 1e-9)):
         raise InputError("time", f"{time / 3600:g} h is outside 1 min–500 h")
     T, D = setup.temperature, setup.diffusivity
@@ -142,6 +143,7 @@ def nitriding_time(setup: NitridingSetup, target_depth: float) -> NitridingResul
     At one temperature and K_N the compound layer and the front below it both advance as √t, so the
     soak is (target / (k_layer + k_front))², with no search.
     """
+    target_depth = as_number(target_depth, "target")
     if not (math.isfinite(target_depth) and TARGET_RANGE[0] <= target_depth <= TARGET_RANGE[1]):
         raise InputError("target", f"{both_lengths(target_depth)} is outside {length_range(*TARGET_RANGE)}")
     rate = setup.layer.constants(float(setup.temperature), float(setup.nitriding_potential), float(setup.uptake))[1]

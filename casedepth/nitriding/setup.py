@@ -23,6 +23,7 @@ from ..errors import InputError
 from ..models.iron_nitrogen import Lehrer_boundaries, nitrogen_saturation_ferrite, surface_phase
 from ..models.steels import Steel
 from ..numerics.roots import illinois
+from ..units import as_number
 from .layer import DEFAULT_LAYER_MODEL, LAYER_MODELS, substrate_uptake_coefficient
 
 # nitride-forming elements: nitrogen atoms per metal atom in the nitride formed (CrN, AlN, VN, TiN, Mo2N)
@@ -130,6 +131,7 @@ def Wagner_front_factor(surface_nitrogen: float, capacity: float) -> float:
 
 
 def _check_kn(K_N: float) -> None:
+    K_N = as_number(K_N, "kn")
     if not (math.isfinite(K_N) and KN_RANGE[0] <= K_N <= KN_RANGE[1]):
         raise InputError("kn", f"K_N = {K_N:g} atm^-1/2 is outside {KN_RANGE[0]:g}–{KN_RANGE[1]:g}")
 
@@ -147,7 +149,7 @@ class NitridingSetup:
     layer_model: str = DEFAULT_LAYER_MODEL
 
     def __post_init__(self):
-        T = self.temperature
+        T = as_number(self.temperature, "temperature")
         lo, hi = TEMPERATURE_RANGE
         if not (math.isfinite(T) and lo <= T <= hi):
             raise InputError("temperature", f"{T - ZERO_CELSIUS:.0f} °C is outside the gas-nitriding range "
@@ -155,12 +157,13 @@ class NitridingSetup:
                              f"below the eutectoid of Fe–N at 590 °C)")
         _check_kn(self.nitriding_potential)
         for name, value in (("core_hardness", self.core), ("surface_hardness", self.surface)):
+            value = as_number(value, name)
             if not (math.isfinite(value) and 100.0 <= value <= 1400.0):
                 raise InputError(name, f"{value:g} HV is outside 100–1400 HV")
         if self.surface <= self.core + 50.0:
             raise InputError("surface_hardness", f"{self.surface:g} HV must exceed the core ({self.core:g} HV) "
                              f"by more than 50 HV for a nitrided hardness depth to exist")
-        if not (math.isfinite(self.diffusivity_multiplier) and 0.1 <= self.diffusivity_multiplier <= 10.0):
+        if not (math.isfinite(as_number(self.diffusivity_multiplier, "n_multiplier")) and 0.1 <= self.diffusivity_multiplier <= 10.0):
             raise InputError("n_multiplier", f"{self.diffusivity_multiplier:g} is outside 0.1–10")
         if self.layer_model not in LAYER_MODELS:
             raise InputError("layer_model", f"unknown model {self.layer_model!r}; choose one of {', '.join(LAYER_MODELS)}")

@@ -14,6 +14,7 @@ from dataclasses import dataclass, field, replace
 from pathlib import Path
 
 import numpy as np
+from matplotlib.backends.backend_agg import FigureCanvasAgg
 from matplotlib.backends.backend_pdf import PdfPages
 from matplotlib.figure import Figure
 from matplotlib.patches import Rectangle
@@ -81,8 +82,35 @@ def _page(paper: str) -> Figure:
     return Figure(figsize=PAPER[paper])
 
 
+def _fitted(fig: Figure, x: float, y: float, text: str, width: float, **style):
+    """Put ``text`` at (x, y) (figure fractions) within ``width`` of the page: what the user typed is printed
+    as typed (no "$…$" read as mathematics), and a text too long for its place is cut with an ellipsis, measured
+    in the font it is printed in, so it never runs into its neighbours or off the page."""
+    artist = fig.text(x, y, text, parse_math=False, **style)
+    if not isinstance(fig.canvas, FigureCanvasAgg):
+        FigureCanvasAgg(fig)
+    renderer = fig.canvas.get_renderer()
+    limit = width * fig.bbox.width
+
+    def fits(candidate: str) -> bool:
+        artist.set_text(candidate)
+        return artist.get_window_extent(renderer).width <= limit
+
+    if fits(text):
+        return artist
+    low, high = 0, len(text)  # the longest start of the text that fits with its ellipsis
+    while low < high:
+        middle = (low + high + 1) // 2
+        if fits(text[:middle].rstrip() + "…"):
+            low = middle
+        else:
+            high = middle - 1
+    artist.set_text(text[:low].rstrip() + "…")
+    return artist
+
+
 def _footer(fig: Figure, text: str, number: int, total: int) -> None:
-    fig.text(0.06, 0.025, text, fontsize=6.5, color="#555", parse_math=False)
+    _fitted(fig, 0.06, 0.025, text, 0.76, fontsize=6.5, color="#555")
     fig.text(0.94, 0.025, f"page {number} of {total}", fontsize=6.5, color="#555", ha="right")
 
 
@@ -291,8 +319,8 @@ def process_sheet(plan, outcome: Outcome, paper: str = "a4", units: str = "metri
     for index, chunk in enumerate(chunks):
         page = _page(paper)
         pages.append(page)
-        page.text(0.06, 0.95, f"{plan.title} — cycle" + (f" (continued, {index + 1} of {len(chunks)})" if len(chunks) > 1 else ""),
-                  fontsize=12, weight="bold", color=INK, parse_math=False)
+        continued = f" (continued, {index + 1} of {len(chunks)})" if len(chunks) > 1 else ""
+        _fitted(page, 0.06, 0.95, f"{plan.title} — cycle{continued}", 0.88, fontsize=12, weight="bold", color=INK)
         if index == 0:
             ax = page.add_axes([0.10, 0.64, 0.80, 0.26])
             _timeline(ax, outcome, u)
@@ -332,16 +360,17 @@ def _title_block(fig: Figure, plan, shop: str, logo: str | None, revision: str, 
             left = 0.17
         except (OSError, ValueError, SyntaxError):
             pass
-    # what people type is printed as typed: no "$…$" read as mathematics
-    fig.text(left, 0.945, shop or "Process sheet", fontsize=9, color="#555", parse_math=False)
-    fig.text(left, 0.915, plan.title, fontsize=14, weight="bold", color=INK, parse_math=False)
-    fig.text(left, 0.89, f"Part: {plan.part or '—'}", fontsize=9, parse_math=False)
-    fig.text(0.93, 0.945, f"Revision {revision}", fontsize=9, ha="right", parse_math=False)
+    # what people type is printed as typed, each in its own place: the left column up to the right one's
+    words = 0.72 - left
+    _fitted(fig, left, 0.945, shop or "Process sheet", words, fontsize=9, color="#555")
+    _fitted(fig, left, 0.915, plan.title, words, fontsize=14, weight="bold", color=INK)
+    _fitted(fig, left, 0.89, f"Part: {plan.part or '—'}", words, fontsize=9)
+    _fitted(fig, 0.93, 0.945, f"Revision {revision}", 0.19, fontsize=9, ha="right")
     fig.text(0.93, 0.925, f"Date {date.isoformat()}", fontsize=9, ha="right")
     fig.text(0.93, 0.905, TREATMENTS[plan.treatment].label, fontsize=9, ha="right")
-    if plan.notes:
-        fig.text(left, 0.868, plan.notes.splitlines()[0][:110], fontsize=7.5, style="italic", color="#333",
-                 parse_math=False)
+    if plan.notes.strip():
+        _fitted(fig, left, 0.868, plan.notes.strip().splitlines()[0], 0.93 - left, fontsize=7.5, style="italic",
+                color="#333")
 
 
 def _profiles(ax, hax, outcome: Outcome, u: DisplayUnits) -> None:
