@@ -28,7 +28,7 @@ import pytest
 pytest.importorskip("PySide6")
 
 from PySide6.QtCore import QSettings, Qt  # noqa: E402
-from PySide6.QtWidgets import QCheckBox, QComboBox, QFileDialog, QLabel, QLineEdit, QMessageBox, QPlainTextEdit  # noqa: E402
+from PySide6.QtWidgets import QComboBox, QFileDialog, QLabel, QLineEdit, QMessageBox, QPlainTextEdit  # noqa: E402
 
 from casedepth.errors import CasedepthError  # noqa: E402
 from casedepth.gui.fields import (AimField, ChoiceField, EntryField, FlagField, PotentialField,  # noqa: E402
@@ -110,7 +110,7 @@ class Fuzzer:
             return self.edit_stages(field)
         if isinstance(field, AimField):
             field.slider.setValue(rng.randint(0, 100))
-            return f"aim slider"
+            return "aim slider"
         if isinstance(field, PotentialField) and rng.random() < 0.3:
             field.dissociation.setValue(rng.uniform(0.0, 100.0))
             return "dissociation"
@@ -394,3 +394,33 @@ def test_a_stale_solve_is_stopped_by_the_next_edit(window, qtbot):
     assert time.perf_counter() - start < 3.0
     assert window.outcome.values["case_max"] == pytest.approx(1.2e-3)
     assert not math.isnan(window.outcome.soak_time)
+
+
+def test_corrupted_plan_files_open_whole_or_not_at_all(window, qtbot, tmp_path):
+    """The plan-file fuzzer's variants (tests/test_fuzz_plans.py), opened in the window: a file that fails leaves
+    the window exactly as it was (plan, path, title, result) with one message; one that opens is solved or
+    refused like any plan, and saves again."""
+    import test_fuzz_plans as corrupted
+
+    told = []
+    with pytest.MonkeyPatch.context() as patch:
+        patch.setattr(QMessageBox, "warning", lambda parent, title, text: told.append(text))
+        rng = random.Random(3)
+        variants = [v for family in corrupted.FAMILIES for v in corrupted._sample(family)]
+        rng.shuffle(variants)
+        for number, variant in enumerate(variants[:int(40 * SCALE)]):
+            path = tmp_path / f"variant-{number}.cdplan.json"
+            path.write_bytes(variant.make())
+            before = (window.plan, window.path, window.windowTitle(), window.outcome)
+            told.clear()
+            with qtbot.captureExceptions() as raised:
+                opened = window.open_plan(path)
+                qtbot.waitUntil(lambda: window.calculator._job is None and not window.calculator._timer.isActive(),
+                                timeout=int(SOLVE * 1000))
+            assert not raised, f"{variant.describe()}: {raised[0][1]!r}"
+            if not opened:
+                assert (window.plan, window.path, window.windowTitle(), window.outcome) == before, variant.describe()
+                assert len(told) == 1 and "\n" not in told[0].strip(), variant.describe()
+            else:
+                assert window.save_plan(tmp_path / "again.cdplan.json"), variant.describe()
+                Fuzzer.assert_no_nan_in_file(tmp_path / "again.cdplan.json")

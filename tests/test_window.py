@@ -132,6 +132,16 @@ def test_a_value_typed_outside_its_range_is_refused_with_the_range(window, qtbot
     assert spin.styleSheet() == "" and not window.results.stale
 
 
+@pytest.mark.parametrize("text,words", [("abc", "cannot read 'abc'"), ("1e308", "beyond any value"),
+                                        ("5kg", "unknown temperature unit 'kg'")])
+def test_text_typed_that_is_no_value_is_refused_with_the_reason(window, qtbot, text, words):
+    """Not a silent return to the old value: the field is marked and the reason shown; the plan keeps its value."""
+    spin = window.form.widget("temperature")
+    type_into(qtbot, spin, text)
+    assert window.plan.temperature == pytest.approx(1198.15)
+    assert "border" in spin.styleSheet() and words in window.results.status.text()
+
+
 def test_bad_input_marks_the_field_and_keeps_the_last_result(window, qtbot):
     headline = window.results.headline.text()
     spin = window.form.widget("temperature")

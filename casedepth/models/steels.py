@@ -8,6 +8,7 @@ so a heat's certificate should be entered as a custom composition when it matter
 from __future__ import annotations
 
 import json
+import math
 import re
 from dataclasses import dataclass, field
 from functools import lru_cache
@@ -96,6 +97,8 @@ def validate_composition(composition: dict[str, float], field_name: str = "compo
             amount = float(value)
         except (TypeError, ValueError, OverflowError):
             raise InputError(field_name, f"{symbol}={value!r} is not a number") from None
+        if isinstance(value, bool) or not math.isfinite(amount):
+            raise InputError(field_name, f"{symbol}={value!r} is not a finite number")
         limit = ELEMENT_LIMITS[symbol]
         if not (0.0 <= amount <= limit):
             raise InputError(field_name, f"{symbol}={amount:g} wt % is outside 0–{limit:g} wt %")

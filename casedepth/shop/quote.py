@@ -10,7 +10,6 @@ shop, not data from any real one. Each treatment turns them into its own stages
 
 from __future__ import annotations
 
-import math
 from dataclasses import asdict, dataclass, field, fields
 
 from ..errors import InputError
