@@ -2,5 +2,29 @@ import os
 import sys
 from pathlib import Path
 
+import pytest
+
 os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
 sys.path.insert(0, str(Path(__file__).resolve().parent))
+
+
+@pytest.fixture
+def window(qtbot, tmp_path, monkeypatch):
+    """The planning window on a new plan, its first result shown; settings in a scratch file, message boxes
+    answered at once (a test that wants the answer patches them itself), no "unsaved changes" question at
+    teardown."""
+    from PySide6.QtCore import QSettings
+    from PySide6.QtWidgets import QMessageBox
+
+    from casedepth.gui.window import MainWindow
+
+    for name in ("warning", "information", "about", "critical"):
+        monkeypatch.setattr(QMessageBox, name, lambda *a, **k: QMessageBox.Ok)
+    settings = QSettings(str(tmp_path / "settings.ini"), QSettings.IniFormat)
+    win = MainWindow(settings=settings)
+    qtbot.addWidget(win, before_close_func=lambda w: setattr(w.plan, "modified", False))
+    win.show()
+    qtbot.waitUntil(lambda: win.outcome is not None, timeout=10000)
+    yield win
+    win.plan.modified = False
+    win.calculator.wait()

@@ -641,6 +641,11 @@ def check(argv: list[str], folder: Path, result: Result, before: dict[str, str],
 
 def run_line(argv: list[str], folder: Path, sub=None) -> list[str]:
     """Make the folder, run the line in it, check it; the folder stays (unlocked) for a look afterwards."""
+    return _run(argv, folder, sub)[1]
+
+
+def _run(argv: list[str], folder: Path, sub=None):
+    """The line's result and the problems the checks find."""
     locked = make_folder(folder, argv)
     before = _snapshot(folder)
     here = os.getcwd()
@@ -653,7 +658,7 @@ def run_line(argv: list[str], folder: Path, sub=None) -> list[str]:
             problems = check(argv, folder, result, before, sub)
         finally:
             unlock(locked)
-    return problems
+    return result, problems
 
 
 def subparsers() -> dict[str, argparse.ArgumentParser]:
@@ -731,19 +736,10 @@ def replay(argv: list[str]) -> int:
     """Run one line as the test does, in a fresh fixture folder, and print what the checks say."""
     folder = Path(tempfile.mkdtemp(prefix="casedepth-replay-")) / "line"
     print(f"folder: {folder}")
-    locked = make_folder(folder, argv)
-    before = _snapshot(folder)
-    here = os.getcwd()
-    os.chdir(folder)
-    try:
-        result = call(argv)
-    finally:
-        os.chdir(here)
-        unlock(locked)
+    result, problems = _run(argv, folder, SUBPARSERS.get(argv[0]))
     sys.stdout.write(result.out)
     sys.stdout.flush()
     sys.stderr.write(result.err)
-    problems = check(argv, folder, result, before, SUBPARSERS.get(argv[0]))
     print(f"exit code {result.code!r}")
     print("\n".join(problems) if problems else "checks: nothing wrong")
     return 1 if problems else 0

@@ -27,7 +27,7 @@ import pytest
 
 pytest.importorskip("PySide6")
 
-from PySide6.QtCore import QSettings, Qt  # noqa: E402
+from PySide6.QtCore import Qt  # noqa: E402
 from PySide6.QtWidgets import QComboBox, QFileDialog, QLabel, QLineEdit, QMessageBox, QPlainTextEdit  # noqa: E402
 
 from casedepth.errors import CasedepthError  # noqa: E402
@@ -82,6 +82,7 @@ class Fuzzer:
         self.save_paths = [folder / "plan.cdplan.json", folder / "no such folder" / "plan.cdplan.json", folder,
                            folder / ("n" * 300 + ".cdplan.json"), folder / "other.cdplan.json"]
         self.next_path = folder / "plan.cdplan.json"
+        monkeypatch.setattr(QMessageBox, "question", lambda *a, **k: QMessageBox.Discard)  # unsaved changes: go on
         monkeypatch.setattr(QFileDialog, "getSaveFileName", lambda *a, **k: (str(self.next_path), ""))
         monkeypatch.setattr(QFileDialog, "getOpenFileName", lambda *a, **k: (str(self.next_path), ""))
         monkeypatch.setattr(QFileDialog, "getOpenFileNames", lambda *a, **k: ([str(p) for p in OLD_PLANS[:2]], ""))
@@ -346,21 +347,6 @@ class Fuzzer:
             assert name == "settle" or took < STALL, f"action {number} ({what}) took {took:.1f} s\n" + \
                 "\n".join(self.log[-15:])
         self.settle()
-
-
-@pytest.fixture
-def window(qtbot, tmp_path, monkeypatch):
-    for name in ("warning", "information", "about", "critical"):
-        monkeypatch.setattr(QMessageBox, name, lambda *a, **k: QMessageBox.Ok)
-    monkeypatch.setattr(QMessageBox, "question", lambda *a, **k: QMessageBox.Discard)
-    settings = QSettings(str(tmp_path / "settings.ini"), QSettings.IniFormat)
-    win = MainWindow(settings=settings)
-    qtbot.addWidget(win, before_close_func=lambda w: setattr(w.plan, "modified", False))
-    win.show()
-    qtbot.waitUntil(lambda: win.outcome is not None, timeout=10000)
-    yield win
-    win.plan.modified = False
-    win.calculator.wait()
 
 
 @pytest.mark.parametrize("seed", SEEDS)

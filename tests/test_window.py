@@ -12,27 +12,11 @@ pytest.importorskip("PySide6")
 from PySide6.QtCore import QSettings, Qt  # noqa: E402
 from PySide6.QtWidgets import QMessageBox  # noqa: E402
 
-from casedepth.gui.window import MainWindow  # noqa: E402
 from casedepth.parameters import PARAMETERS  # noqa: E402
 from casedepth.plan import Plan, evaluate, load, save  # noqa: E402
 
 PLANS = Path(__file__).parent / "data" / "plans"
 EXAMPLES = Path(__file__).resolve().parent.parent / "resources" / "examples"
-
-
-@pytest.fixture
-def window(qtbot, tmp_path, monkeypatch):
-    for name in ("warning", "information", "about"):
-        monkeypatch.setattr(QMessageBox, name, lambda *a, **k: QMessageBox.Ok)
-    settings = QSettings(str(tmp_path / "settings.ini"), QSettings.IniFormat)
-    win = MainWindow(settings=settings)
-    # closing at teardown must not stop at the "unsaved changes" question
-    qtbot.addWidget(win, before_close_func=lambda w: setattr(w.plan, "modified", False))
-    win.show()
-    qtbot.waitUntil(lambda: win.outcome is not None, timeout=10000)
-    yield win
-    win.plan.modified = False
-    win.calculator.wait()
 
 
 def type_into(qtbot, spin, text):
