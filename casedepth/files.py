@@ -49,6 +49,10 @@ def _temporary_name(target: Path) -> Path:
 
 
 def _writer_gone(pid: str) -> bool:
+    """Whether the process that named a temporary file has ended (POSIX: signal 0 asks without touching it;
+    elsewhere unknown, so only the age of the file counts — on Windows ``os.kill`` would end the process)."""
+    if os.name != "posix":
+        return False
     try:
         os.kill(int(pid), 0)
     except (ValueError, OverflowError):
