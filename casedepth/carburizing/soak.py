@@ -135,15 +135,6 @@ def check_target(setup: CarburizingSetup, target: float, field: str = "target") 
         raise InputError(field, f"{both_lengths(target)} is outside {length_range(lo, limit)}{what}")
 
 
-def check_reachable(setup: CarburizingSetup) -> None:
-    """Refuse a threshold the atmosphere cannot bring the surface above."""
-    thr = setup.threshold_carbon
-    if thr >= setup.equilibrium_carbon:
-        raise NotReachableError("threshold_value", f"the threshold {thr:.3f} %C is not below the surface carbon this "
-                                f"atmosphere gives ({setup.equilibrium_carbon:.3f} %C); raise the carbon potential or "
-                                f"lower the threshold")
-
-
 def soak_times_for_case_depths(setup: CarburizingSetup, targets: list[float],
                                size_for: float | None = None) -> list[CarburizingResult]:
     """Soaks [s] for several effective case depths [m] (e.g. a drawing's minimum, aim and maximum) from one march.
@@ -155,7 +146,6 @@ def soak_times_for_case_depths(setup: CarburizingSetup, targets: list[float],
     """
     for target in targets:
         check_target(setup, target)
-    check_reachable(setup)
     deepest = max(targets)
     march = March(setup.solver(case_depth=size_for if size_for is not None else sorted(targets)[len(targets) // 2]),
                   setup.threshold_carbon)
