@@ -493,6 +493,32 @@ def _layer_superseded(key: str) -> str | None:
     return LAYER_MODELS[key].superseded_by if key in LAYER_MODELS else None
 
 
+def _zone_models() -> dict[str, str]:
+    from .nitriding.zone import ZONE_MODELS
+    return {key: m.display for key, m in ZONE_MODELS.items()}
+
+
+def _zone_superseded(key: str) -> str | None:
+    from .nitriding.zone import ZONE_MODELS
+    return ZONE_MODELS[key].superseded_by if key in ZONE_MODELS else None
+
+
+def _with_zone_model(values, key) -> dict:
+    # the precipitation model's grade constants were set with the default nitrogen diffusivity
+    from .models.iron_nitrogen import DEFAULT_NITROGEN_DIFFUSIVITY
+    return {"n_diffusivity": DEFAULT_NITROGEN_DIFFUSIVITY} if key == "precipitation-2026" else {}
+
+
+def _n_diffusivities() -> dict[str, str]:
+    from .models.iron_nitrogen import NITROGEN_DIFFUSIVITIES
+    return {key: m.display for key, m in NITROGEN_DIFFUSIVITIES.items()}
+
+
+def _n_diffusivity_note(key: str) -> str:
+    from .models.iron_nitrogen import NITROGEN_DIFFUSIVITIES
+    return NITROGEN_DIFFUSIVITIES[key].note if key in NITROGEN_DIFFUSIVITIES else ""
+
+
 def _temperature_range(values) -> tuple[float, float]:
     from .treatments import TREATMENTS
     return TREATMENTS[values.get("treatment", "carburizing")].temperature_range(values)
@@ -596,6 +622,12 @@ PARAMETERS: dict[str, Parameter] = {p.key: p for p in (
               "nitrided_surface_hardness_hv", NITRIDING, group="Furnace step", unit_label="HV", range=(100.0, 1400.0),
               decimals=0, help="not set: the grade's typical value",
               options=(Option("--surface-hardness", "nitrided surface hardness, HV (default: the grade's)"),), since=3),
+    Parameter("nitrided_limit", "Hardness limit", Quantity("number", optional=True, unset="core + 50 HV"), None,
+              "nitrided_hardness_limit_hv", NITRIDING, group="Drawing callout", unit_label="HV", range=(100.0, 1400.0),
+              decimals=0, help="the hardness the nitrided depth is read at (not set: core + 50 HV, DIN 50190-3 / "
+                               "ISO 18203; some drawings state e.g. 400 HV)",
+              options=(Option("--nitrided-limit", "hardness the nitrided depth is read at, HV (default: core + 50 HV)"),),
+              since=6),
     Parameter("n_multiplier", "D_N multiplier", Quantity("number"), 1.0, "nitrogen_diffusivity_multiplier", NITRIDING,
               group="Furnace step", unit_label="×", range=MULTIPLIER, decimals=3,
               help="calibration factor on the nitrogen diffusivity: fit it to the shop's own sections",
@@ -678,6 +710,14 @@ PARAMETERS: dict[str, Parameter] = {p.key: p for p in (
     Parameter("layer_model", "Compound-layer model", Choice(_layer_models, _layer_superseded), "somers-mittemeijer-1995",
               "compound_layer_model", NITRIDING, group="Model settings",
               options=(Option("--layer-model", "compound-layer growth model", choices=lambda: list(_layer_models())),), since=5),
+    Parameter("zone_model", "Diffusion-zone model", Choice(_zone_models, _zone_superseded), "precipitation-2026",
+              "diffusion_zone_model", NITRIDING, group="Model settings", companions=_with_zone_model,
+              help="how nitrogen and hardness spread below the compound layer",
+              options=(Option("--zone-model", "diffusion-zone model", choices=lambda: list(_zone_models())),), since=6),
+    Parameter("n_diffusivity", "Nitrogen diffusivity", Choice(_n_diffusivities, notes=_n_diffusivity_note),
+              "da-silva-mclellan-1976", "nitrogen_diffusivity_model", NITRIDING, group="Model settings",
+              options=(Option("--n-diffusivity", "diffusivity of nitrogen in ferrite",
+                              choices=lambda: list(_n_diffusivities())),), since=6),
     # the shop's times and rates (a dialog of their own) and the notes
     Parameter("shop", "Shop times and rates", Table(dict, _check_shop, "a table of the shop's times and rates"), {},
               "shop", help="the shop's standard times and rates (Edit → Shop times and rates)", since=2),

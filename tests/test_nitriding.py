@@ -133,9 +133,11 @@ def test_two_stage_schedule_lands_the_layer_in_its_window():
     assert two.second_kn < two.first_kn and N.surface_phase(s.temperature, two.second_kn) == "gamma'"
 
 
-def test_more_nitride_formers_slow_the_case():
-    """Wagner (1959): the front slows as the nitride formers trap more nitrogen."""
-    times = [N.nitriding_time(setup(grade), 0.3e-3).time for grade in ("4140", "31CrMoV9", "41CrAlMo7-10", "H13")]
+def test_more_nitride_formers_slow_the_sharp_front():
+    """Wagner (1959): in the sharp-front model (kept for older plans) the front slows as the nitride formers trap
+    more nitrogen. (Measured depths do not follow this ordering: see test_nitriding_zone.py.)"""
+    times = [N.nitriding_time(setup(grade, zone_model="sharp-front-2026"), 0.3e-3).time
+             for grade in ("4140", "31CrMoV9", "41CrAlMo7-10", "H13")]
     assert times == sorted(times)
 
 
@@ -174,12 +176,15 @@ def test_cli_takes_measured_exhaust_fractions(capsys):
     assert data["nitriding_potential"] == pytest.approx(0.40 / 0.45**1.5, rel=1e-12)
 
 
-def test_calibration_multiplier_scales_the_front():
-    """The front below the compound layer grows as √(D t) (Wagner 1959): halving D divides it by √2."""
+@pytest.mark.parametrize("model", ["precipitation-2026", "sharp-front-2026"])
+def test_calibration_multiplier_scales_the_zone(model):
+    """The diffusion zone below the compound layer grows as √(D t) (Wagner 1959; any self-similar zone):
+    halving D divides its depth by √2."""
     t = 20 * 3600.0
-    plain = N.nitride(setup(), t)
-    slow = N.nitride(setup(diffusivity_multiplier=0.5), t)
-    assert slow.front - slow.compound_layer == pytest.approx((plain.front - plain.compound_layer) / math.sqrt(2), rel=1e-9)
+    plain = N.nitride(setup(zone_model=model), t)
+    slow = N.nitride(setup(diffusivity_multiplier=0.5, zone_model=model), t)
+    assert slow.nitrided_depth - slow.compound_layer == pytest.approx(
+        (plain.nitrided_depth - plain.compound_layer) / math.sqrt(2), rel=1e-9)
 
 
 @pytest.mark.parametrize("args,flag", [
@@ -214,7 +219,7 @@ def test_cli_runs_a_saved_nitriding_plan(capsys):
     assert data["cautions"][0] == "Ammonia is toxic"
     # a schema-3 plan keeps the first release's layer law (11.8 µm, as when it was written) and is offered the newer
     assert data["layer_model"] == "rate-law-2026" and data["compound_layer_um"] == pytest.approx(11.82, abs=0.01)
-    assert [offer["parameter"] for offer in data["offers"]] == ["layer_model"]
+    assert [offer["parameter"] for offer in data["offers"]] == ["layer_model", "zone_model"]
     newer = load(plan)
     newer.accept(newer.offers()[0])
     assert 5 <= evaluate(newer).aim.compound_layer * 1e6 <= 10

@@ -32,6 +32,7 @@ def changed_plan() -> Plan:
                 shop={"furnace_rate_per_h": 80.0, "parts_per_load": 50}, count_shop_stages=False, treatment="nitriding",
                 kn=2.0, compound_min=4e-6, compound_max=8e-6, core_hardness=310.0, surface_hardness=800.0,
                 n_multiplier=0.5, two_stage=True, kn_second=0.4, layer_model="rate-law-2026")
+    plan.update(zone_model="sharp-front-2026", n_diffusivity="bohnenkamp-1967", nitrided_limit=400.0)
     return plan
 
 
@@ -154,9 +155,20 @@ def test_migration_writes_the_models_and_policies_explicitly_and_offers_the_newe
     assert evaluate(old).soak_time == before
     nitrided = load(PLANS / "schema-3.cdplan.json")
     assert nitrided.layer_model == "rate-law-2026"
-    assert [o.key for o in nitrided.offers()] == ["layer_model"]  # the shop-stage policy is not a nitriding one
-    assert load(PLANS / "schema-4.cdplan.json").offers() == []
-    assert Plan().offers() == []
+    # the shop-stage policy is not a nitriding one; the diffusion zone of schema 5 and earlier was the sharp front
+    assert [o.key for o in nitrided.offers()] == ["layer_model", "zone_model"]
+    for name in ("schema-4.cdplan.json", "schema-5.cdplan.json"):
+        older = load(PLANS / name)
+        assert (older.zone_model, older.n_diffusivity, older.nitrided_limit) == ("sharp-front-2026", "bohnenkamp-1967", None)
+        [offer] = older.offers()
+        assert (offer.key, offer.value) == ("zone_model", "precipitation-2026")
+        before = evaluate(older).soak_time
+        older.accept(offer)  # the precipitation model comes with the diffusivity its grade constants were set with
+        assert (older.zone_model, older.n_diffusivity) == ("precipitation-2026", "da-silva-mclellan-1976")
+        assert evaluate(older).soak_time > 1.5 * before  # 4140: the sharp front ran ahead of practice
+        older.undo()
+        assert evaluate(older).soak_time == before
+    assert Plan().offers() == [] and Plan(treatment="nitriding").offers() == []
 
 
 @pytest.mark.parametrize("path", OLD_FILES, ids=lambda p: p.name)

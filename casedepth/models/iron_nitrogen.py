@@ -142,3 +142,81 @@ def surface_nitrogen(T: float, K_N: float) -> float:
         share = math.log(K_N / alpha_gamma) / math.log(gamma_epsilon / alpha_gamma)
         return GAMMA_PRIME_WITH_ALPHA + (GAMMA_PRIME_WITH_EPSILON - GAMMA_PRIME_WITH_ALPHA) * share
     return min(EPSILON_MAX, EPSILON_WITH_GAMMA_PRIME + EPSILON_SLOPE * math.log(K_N / gamma_epsilon))
+
+
+def Bohnenkamp_1967_nitrogen_diffusivity(T: float) -> float:
+    r"""Diffusivity of nitrogen in ferrite, D = 1.5e-6 exp(−79.9 kJ/mol / RT) m²/s.
+
+    Parameters
+    ----------
+    T : float
+        Temperature, [K]; measured over about 400–850 °C
+
+    Returns
+    -------
+    D : float
+        [m²/s]
+
+    Examples
+    --------
+    >>> round(Bohnenkamp_1967_nitrogen_diffusivity(793.15) * 1e12, 2)
+    8.21
+
+    References
+    ----------
+    .. [1] Bohnenkamp, K. Arch. Eisenhüttenwes. 38 (1967) 229 (D0 = 1.5e-2 cm²/s, Q = 79.9 kJ/mol).
+    """
+    return 1.5e-6 * math.exp(-79900.0 / (R * T))
+
+
+def da_Silva_McLellan_1976_nitrogen_diffusivity(T: float) -> float:
+    r"""Diffusivity of nitrogen in ferrite, D = 6.6e-7 exp(−77.9 kJ/mol / RT) m²/s.
+
+    Parameters
+    ----------
+    T : float
+        Temperature, [K]; for ferrite below about 850 °C
+
+    Returns
+    -------
+    D : float
+        [m²/s]; about 0.6 of Bohnenkamp's (1967) at gas-nitriding temperatures
+
+    Notes
+    -----
+    The values are quoted from memory as those of the evaluation of da Silva & McLellan (1976); check
+    them against the paper when it is in hand.
+
+    Examples
+    --------
+    >>> round(da_Silva_McLellan_1976_nitrogen_diffusivity(793.15) * 1e12, 2)
+    4.89
+
+    References
+    ----------
+    .. [1] da Silva, J. R. G., R. B. McLellan. "Diffusion of carbon and nitrogen in b.c.c. iron."
+       Mater. Sci. Eng. 26 (1976) 83–87.
+    """
+    return 6.6e-7 * math.exp(-77900.0 / (R * T))
+
+
+class NitrogenDiffusivity:
+    """One row of the nitrogen-diffusivity table: the name shown, a short name for sentences, the function."""
+
+    def __init__(self, display: str, short: str, function, note: str = ""):
+        self.display, self.short, self.function, self.note = display, short, function, note
+
+
+#: the diffusivities of nitrogen in ferrite a plan may name (``n_diffusivity``); the precipitation
+#: model's grade constants were set with the default
+NITROGEN_DIFFUSIVITIES: dict[str, NitrogenDiffusivity] = {
+    "da-silva-mclellan-1976": NitrogenDiffusivity(
+        "da Silva & McLellan (1976)", "da Silva & McLellan (1976)", da_Silva_McLellan_1976_nitrogen_diffusivity,
+        "da Silva & McLellan, Mater. Sci. Eng. 26 (1976) 83 (values from memory); the grade constants of the "
+        "precipitation model were set with it"),
+    "bohnenkamp-1967": NitrogenDiffusivity(
+        "Bohnenkamp (1967)", "Bohnenkamp (1967)", Bohnenkamp_1967_nitrogen_diffusivity,
+        "Bohnenkamp, Arch. Eisenhüttenwes. 38 (1967) 229; about 1.7× da Silva & McLellan at 520 °C: depths about "
+        "1.3× deeper with the same grade constants"),
+}
+DEFAULT_NITROGEN_DIFFUSIVITY = "da-silva-mclellan-1976"

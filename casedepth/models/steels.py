@@ -35,6 +35,7 @@ class Steel:
     process: str = "carburizing"  # the treatment the grade is listed for: carburizing or nitriding
     core_hardness_hv: float | None = None  # typical after quench and temper (nitriding grades), [HV]
     nitrided_surface_hv: float | None = None  # typical after gas nitriding (nitriding grades), [HV]
+    nitriding: "NitridingConstants | None" = field(default=None, compare=False)  # the precipitation model's constants
 
     @property
     def carbon(self) -> float:
@@ -61,9 +62,30 @@ def _all_grades() -> tuple[Steel, ...]:
     return tuple(
         Steel(entry["name"], validate_composition(entry["composition"], f"steel library entry {entry['name']}"),
               entry["standard"], entry.get("note", ""), tuple(entry.get("also", ())),
-              entry.get("process", "carburizing"), entry.get("core_hardness_hv"), entry.get("nitrided_surface_hv"))
+              entry.get("process", "carburizing"), entry.get("core_hardness_hv"), entry.get("nitrided_surface_hv"),
+              _constants(entry))
         for entry in data["steels"]
     )
+
+
+def _constants(entry: dict) -> "NitridingConstants | None":
+    from .nitrides import NitridingConstants
+
+    row = entry.get("nitriding")
+    if row is None:
+        return None
+    return NitridingConstants(float(row["excess_nitrogen"]), float(row["strength_hv_per_pct_n"]),
+                              f"the library's constants for {entry['name']}")
+
+
+def nitriding_constants(steel: Steel) -> "NitridingConstants":
+    """The precipitation model's constants for ``steel``: its own, or those of the library grade with the
+    nearest nitride formers (:func:`casedepth.models.nitrides.nearest_constants`)."""
+    if steel.nitriding is not None:
+        return steel.nitriding
+    from .nitrides import nearest_constants
+
+    return nearest_constants(steel.composition, library("nitriding"))
 
 
 def library(process: str = "carburizing") -> tuple[Steel, ...]:

@@ -1,8 +1,8 @@
 """Gas nitriding, forward and inverse: what a soak gives, and the soak for a nitrided hardness depth.
 
 The compound layer grows by the setup's layer model (:mod:`casedepth.nitriding.layer`); the
-diffusion zone beneath it by the internal-nitriding front of Wagner (1959) and Meijering (1971), or,
-in a steel without nitride formers, by the erfc solution of dissolved nitrogen (Crank 1975).
+diffusion zone beneath it by the setup's zone model (:mod:`casedepth.nitriding.zone`). Both advance
+as √t at one temperature and K_N, so the soak for a depth needs no search.
 Everything is SI inside; nitrogen in wt %, hardness in HV.
 """
 
@@ -19,10 +19,8 @@ from ..errors import InputError, NotReachableError
 from ..units import as_number, both_lengths, length_range
 from .layer import CompoundLayer
 from .setup import NitridingSetup
+from .zone import check_reached
 
-# nitrogen in solid solution raises ferrite hardness by about this much per wt % N (with the fine γ′
-# that forms on cooling); from memory, order of magnitude only
-SOLUTION_HARDENING_HV_PER_PCT = 1000.0
 #: nitrided hardness depth the models are used for, m
 TARGET_RANGE = (0.02e-3, 2e-3)
 #: nitriding soaks the models are used for, s
@@ -60,7 +58,8 @@ class NitridingResult:
             "nitriding_potential": s.nitriding_potential, "temperature_c": s.temperature - ZERO_CELSIUS,
             "dissociation_pct": 100.0 * dissociation_for_potential(s.nitriding_potential),
             "core_hardness_hv": s.core, "surface_hardness_hv": s.surface, "steel": s.steel.name,
-            "layer_model": s.layer_model, "warnings": list(self.warnings),
+            "layer_model": s.layer_model, "zone_model": s.zone_model, "nitrogen_diffusivity": s.nitrogen_diffusivity,
+            "hardness_limit_hv": s.hardness_limit, "depth_uncertainty": s.uncertainty, "warnings": list(self.warnings),
             "profile": {"depth_mm": (self.depth * 1e3).tolist(), "nitrogen_pct": self.nitrogen.tolist(),
                         "hardness_hv": self.hardness.tolist()},
         }
@@ -75,7 +74,7 @@ class NitridingResult:
         lines = [f"Nitriding for {format_duration(self.time)} at {units.format_temperature(s.temperature)}, K_N "
                  f"{s.nitriding_potential:.2f} atm^-1/2 ({100 * dissociation_for_potential(s.nitriding_potential):.0f} % "
                  f"dissociation)",
-                 f"  nitrided hardness depth {units.format_length(self.nitrided_depth)} (core {s.core:.0f} HV + 50 HV)",
+                 f"  nitrided hardness depth {units.format_length(self.nitrided_depth)} ({s.limit_text}); {s.uncertainty}",
                  f"  compound layer          {self.layer.describe()}; surface phase {PHASE_NAMES[self.layer.surface_phase]}"]
         lines += [f"Warning: {w}" for w in self.warnings]
         lines.append(safety.caution_line(safety.cautions(ammonia=True)))
@@ -87,54 +86,32 @@ def nitride(setup: NitridingSetup, time: float, layer: CompoundLayer | None = No
     """What a nitriding soak of ``time`` [s] gives: compound layer, nitrogen and hardness profiles, nitrided depth.
 
     The compound layer grows by the setup's layer model (:mod:`casedepth.nitriding.layer`) unless ``layer`` is
-    given (a staged schedule). The diffusion zone starts under the compound layer. With nitride
-    formers, the sharp-front model (Wagner 1959; Meijering 1971) gives hardness ``surface`` behind the
-    front and ``core`` beyond it, so the depth at core + 50 HV is the front; without them, dissolved
-    nitrogen follows the erfc solution (Crank 1975) and hardness rises with it by a solid-solution term.
+    given (a staged schedule). The diffusion zone starts under the compound layer and follows the setup's
+    zone model (:mod:`casedepth.nitriding.zone`); the nitrided depth is where its hardness falls to the
+    setup's limit (core + 50 HV unless set).
     """
     time = as_number(time, "time")
     if not (math.isfinite(time) and SOAK_RANGE[0] * (1 - 1e-9) <= time <= SOAK_RANGE[1] * (1 + 1e-9)):
         raise InputError("time", f"{time / 3600:g} h is outside 1 min–500 h")
-    T, D = setup.temperature, setup.diffusivity
     if layer is None:
-        layer = setup.layer.layer(T, setup.nitriding_potential, time, setup.uptake)
+        layer = setup.layer.layer(setup.temperature, setup.nitriding_potential, time, setup.uptake)
     s = layer.thickness
-    c_s, c_m = setup.substrate_nitrogen, setup.capacity
-    length = 2.0 * math.sqrt(D * time)
-    x = np.linspace(0.0, 1.0, 401) ** 1.5 * max(4.0 * length, 1e-4)
-    core, surface = setup.core, setup.surface
-    gamma = setup.front_factor
-    if gamma is not None:
-        from scipy.special import erf  # imported on first use: it is slow to import
-
-        front = gamma * length
-        dissolved = np.where(x < front, c_s * (1.0 - erf(x / length) / erf(gamma)), 0.0)
-        nitrogen = dissolved + np.where(x < front, c_m, 0.0)
-        hardness = np.where(x < front, surface, core)
-    else:
-        front = 0.0
-        dissolved = c_s * np.array([math.erfc(v) for v in x / length])
-        nitrogen = dissolved
-        hardness = core + SOLUTION_HARDENING_HV_PER_PCT * dissolved
-    depth = front_rate(setup) * math.sqrt(time)  # core + 50 HV: the front, or where solution hardening adds 50 HV
+    zone = setup.zone
+    length = 2.0 * math.sqrt(setup.diffusivity * time)
+    reach = max(4.0 * length, 1e-4)
+    depth = front_rate(setup) * math.sqrt(time)
+    x = np.linspace(0.0, 1.0, 401) ** 1.5 * max(reach, 1.5 * depth)
+    nitrogen, hardness = zone.profile(time, x)
+    front = getattr(zone, "gamma", None)
+    front = 0.0 if front is None else front * length  # the sharp front (the first release's model only)
     warnings = setup.warnings()
     return NitridingResult(setup, time, layer, s + front, s + depth, s + x, nitrogen, hardness, warnings)
 
 
-def _erfcinv(y: float) -> float:
-    from ..numerics.roots import illinois
-
-    return illinois(lambda v: math.erfc(v) - y, 0.0, 1.0 - y, 10.0, math.erfc(10.0) - y, 1e-15, 1e-15 * y)
-
-
 def front_rate(setup: NitridingSetup) -> float:
-    """Nitrided depth below the compound layer per √time [m/√s], as :func:`nitride` draws it: 2γ√D for the
-    Wagner front, 2 erfc⁻¹(50 HV / rise)√D without nitride formers (0 if dissolved nitrogen cannot add 50 HV)."""
-    gamma = setup.front_factor
-    if gamma is not None:
-        return 2.0 * gamma * math.sqrt(setup.diffusivity)
-    rise = SOLUTION_HARDENING_HV_PER_PCT * setup.substrate_nitrogen
-    return 2.0 * _erfcinv(50.0 / rise) * math.sqrt(setup.diffusivity) if rise > 50.0 else 0.0
+    """Nitrided depth below the compound layer per √time [m/√s], where the zone's hardness falls to the
+    setup's limit (0 if it never reaches it)."""
+    return setup.zone.depth_rate()
 
 
 def nitriding_time(setup: NitridingSetup, target_depth: float) -> NitridingResult:
@@ -146,6 +123,7 @@ def nitriding_time(setup: NitridingSetup, target_depth: float) -> NitridingResul
     target_depth = as_number(target_depth, "target")
     if not (math.isfinite(target_depth) and TARGET_RANGE[0] <= target_depth <= TARGET_RANGE[1]):
         raise InputError("target", f"{both_lengths(target_depth)} is outside {length_range(*TARGET_RANGE)}")
+    check_reached(setup.zone, setup)
     rate = setup.layer.constants(float(setup.temperature), float(setup.nitriding_potential), float(setup.uptake))[1]
     rate += front_rate(setup)
     time = (target_depth / rate) ** 2 if rate > 0.0 else math.inf

@@ -26,13 +26,14 @@ from .cycle import nitriding_cycle, segments_timeline
 from .nitride import NitridingResult, nitride, nitriding_time
 from .schedule import TwoStageSchedule, compound_layer_advice, staged_layer_at, two_stage_for_depth
 from .setup import NitridingSetup, dissociation_for_potential
+from .zone import ZONE_MODELS, SharpFrontZone
 
 
 def nitriding_setup(values: Mapping[str, Any]) -> NitridingSetup:
     """The validated setup of a plan's values; an :class:`InputError` names the parameter at fault."""
     return NitridingSetup(steel_for(values["steel"], values["composition"]), values["temperature"], values["kn"],
                           values["core_hardness"], values["surface_hardness"], values["n_multiplier"],
-                          values["layer_model"])
+                          values["layer_model"], values["zone_model"], values["n_diffusivity"], values["nitrided_limit"])
 
 
 def _curvature_warnings(values: Mapping[str, Any], depth: float) -> list[str]:
@@ -175,14 +176,16 @@ class NitridingOutcome(Outcome):
             Fact("reached", "Surface phase at the end", PHASE_NAMES[aim.layer.surface_phase]),
             Fact("threshold", "K_N for the layer window",
                  "—" if self.kn_for_window is None else f"{self.kn_for_window:.2f} atm^-½"),
-            Fact("equilibrium", "Hardness", f"core {setup.core:.0f} HV, nitrided surface {setup.surface:.0f} HV"),
+            Fact("equilibrium", "Hardness", f"core {setup.core:.0f} HV, top of the zone {setup.surface:.0f} HV; depth "
+                                            f"read at {setup.limit_text}"),
+            Fact("uncertainty", "How sure", setup.uncertainty),
             Fact("saturation", "Nitride formers", f"bind {setup.capacity:.2f} wt % N"),
             Fact("probe", "Exhaust (ammonia feed)", "  then  ".join(gases)),
             quote_fact(self.quote),
         ]
         return Summary(f"Nitride {format_duration(aim.time)}",
                        f"{how}, for {units.format_length(aim.nitrided_depth)} nitrided hardness depth "
-                       f"(core {setup.core:.0f} HV + 50 HV)", facts)
+                       f"({setup.limit_text})", facts)
 
     def timeline(self) -> Timeline:
         times, temps, pots, labels = segments_timeline(self.segments)
@@ -196,15 +199,21 @@ class NitridingOutcome(Outcome):
                 else f"after {format_duration(final.time)} of nitriding")
         band = (shown.layer.thickness, "compound layer " + shown.layer.describe()) if shown.layer.thickness > 0 else None
         main = Panel("nitrogen [wt %]", Curve(shown.depth, shown.nitrogen,
-                                              "nitrogen in the diffusion zone (dissolved and in nitrides)"),
+                                              "nitrogen in the diffusion zone (dissolved, in nitrides and in excess)"),
                      Curve(final.depth, final.nitrogen, "at the end of nitriding") if scrubbing else None,
-                     [Level(setup.capacity, f"nitrogen the nitride formers bind, {setup.capacity:.2f} %", "limit")],
+                     [Level(setup.capacity, f"stoichiometric nitrides of all formers, {setup.capacity:.2f} %", "limit")],
                      (0.0, max(float(final.nitrogen.max()), setup.capacity, 0.05) * 1.25), "Nitrogen " + when, band)
-        hardness = Panel("hardness [HV]", Curve(shown.depth, shown.hardness, "estimated (sharp nitriding front)"),
+        zone = setup.zone
+        sharp = isinstance(zone, SharpFrontZone)
+        limit = (f"core + 50 HV = {setup.hardness_limit:.0f} HV" if setup.hardness_limit_hv is None
+                 else f"limit {setup.hardness_limit:.0f} HV")
+        hardness = Panel("hardness [HV]", Curve(shown.depth, shown.hardness, zone.label),
                          Curve(final.depth, final.hardness, "at the end of nitriding") if scrubbing else None,
-                         [Level(setup.core + 50.0, f"core + 50 HV = {setup.core + 50:.0f} HV", "threshold")],
-                         (setup.core - 80, setup.surface + 80),
-                         "Hardness " + when + " (sharp-front model; measured profiles are smoother)", band, hrc_axis=True)
+                         [Level(setup.hardness_limit, limit, "threshold")],
+                         (setup.core - 80, max(setup.surface, setup.hardness_limit) + 80),
+                         "Hardness " + when + (" (sharp-front model; measured profiles are smoother)" if sharp else
+                                               f" (depth {ZONE_MODELS[setup.zone_model].short_uncertainty} until "
+                                               f"calibrated)"), band, hrc_axis=True)
         return ProfileView(self.profile_name, main, hardness, max(self.targets[2] * 1.8, final.nitrided_depth * 1.5),
                            self.targets)
 
@@ -212,7 +221,7 @@ class NitridingOutcome(Outcome):
         aim = self.aim
         return (f"nitrided {aim.time / 3600:.4f} h at {aim.setup.temperature - ZERO_CELSIUS:.0f} C, K_N "
                 f"{aim.setup.nitriding_potential:.3g}; compound layer {aim.compound_layer * 1e6:.2f} um "
-                f"(epsilon {aim.layer.epsilon * 1e6:.2f} um); hardness from the sharp-front model")
+                f"(epsilon {aim.layer.epsilon * 1e6:.2f} um); hardness from the {aim.setup.zone_model} zone model")
 
     def to_dict(self) -> dict:
         setup, aim = self.setup, self.aim
@@ -225,7 +234,9 @@ class NitridingOutcome(Outcome):
             "temperature_c": setup.temperature - ZERO_CELSIUS,
             "dissociation_pct": 100.0 * dissociation_for_potential(setup.nitriding_potential),
             "core_hardness_hv": setup.core, "surface_hardness_hv": setup.surface, "steel": setup.steel.name,
-            "layer_model": setup.layer_model, "target_depth_mm": [d * 1e3 for d in self.targets],
+            "layer_model": setup.layer_model, "zone_model": setup.zone_model,
+            "nitrogen_diffusivity": setup.nitrogen_diffusivity, "hardness_limit_hv": setup.hardness_limit,
+            "depth_uncertainty": setup.uncertainty, "target_depth_mm": [d * 1e3 for d in self.targets],
             "window_soak_time_h": [self.low.time / 3600.0, self.high.time / 3600.0],
             "compound_window_um": [w * 1e6 for w in self.compound_window], "kn_for_compound_window": self.kn_for_window,
             "stages": [{"time_h": t / 3600.0, "kn": kn} for t, kn in
@@ -257,7 +268,8 @@ class NitridingOutcome(Outcome):
         if high > low:
             lines.append(f"  drawing window          {units.format_length(low)} to {units.format_length(high)}: "
                          f"{format_duration(self.low.time)} to {format_duration(self.high.time)} (one stage)")
-        lines += [f"  nitrided hardness depth {units.format_length(aim.nitrided_depth)} (core {setup.core:.0f} HV + 50 HV)",
+        lines += [f"  nitrided hardness depth {units.format_length(aim.nitrided_depth)} ({setup.limit_text}); "
+                  f"{setup.uncertainty}",
                   f"  compound layer          {aim.layer.describe()}; surface phase {PHASE_NAMES[aim.layer.surface_phase]}",
                   f"  layer window            {self.compound_window[0] * 1e6:g}–{self.compound_window[1] * 1e6:g} µm"
                   + ("" if self.kn_for_window is None else
@@ -277,8 +289,9 @@ class NitridingOutcome(Outcome):
                  f"{s.nitriding_potential:.2f} atm^-1/2 ({100 * dissociation_for_potential(s.nitriding_potential):.0f} % "
                  f"dissociation); window {units.format_length(low)}–{units.format_length(high)}: "
                  f"{format_duration(self.low.time)} to {format_duration(self.high.time)}",
-                 f"Nitrided hardness depth {units.format_length(a.nitrided_depth)} (core {s.core:.0f} HV + 50 HV); "
-                 f"compound layer {a.layer.describe()}"]
+                 f"Nitrided hardness depth {units.format_length(a.nitrided_depth)} ({s.limit_text}); "
+                 f"compound layer {a.layer.describe()}",
+                 f"How sure: {s.uncertainty}"]
         if self.schedule is not None:
             two = self.schedule
             lines.append(f"In two stages: {format_duration(two.first_time)} at K_N {two.first_kn:.2f}, then "

@@ -4,10 +4,10 @@ range) and knows the warnings about the step.
 
 * nitriding potential K_N = p(NH3)/p(H2)^1.5 and its conversion from ammonia dissociation — exact
   definitions (Lehrer 1930; Mittemeijer & Somers 2015);
-* nitrogen diffusion in ferrite, Bohnenkamp (1967);
-* the internal-nitriding front of Wagner (1959) as applied to nitriding by Meijering (1971): nitride
-  formers (Cr, Al, V, Ti, Mo) do not move and take up all nitrogen that reaches them, so a sharp
-  front advances as ξ = 2γ√(D t) with √π γ exp(γ²) erf(γ) = c_s / c_M.
+* nitrogen diffusion in ferrite, Bohnenkamp (1967) or da Silva & McLellan (1976), one row each of
+  :data:`casedepth.models.iron_nitrogen.NITROGEN_DIFFUSIVITIES`;
+* the nitride formers of the steel (:mod:`casedepth.models.nitrides`) and the grade's constants for
+  them; the diffusion zone they make is the setup's zone model (:mod:`casedepth.nitriding.zone`).
 
 Everything is SI inside; nitrogen and alloy contents in wt %.
 """
@@ -20,11 +20,15 @@ from functools import cached_property
 
 from ..constants import GAS_CONSTANT as R, MOLAR_MASS, ZERO_CELSIUS
 from ..errors import InputError
-from ..models.iron_nitrogen import Lehrer_boundaries, nitrogen_saturation_ferrite, surface_phase
-from ..models.steels import Steel
+from ..models import nitrides
+from ..models.iron_nitrogen import (DEFAULT_NITROGEN_DIFFUSIVITY, NITROGEN_DIFFUSIVITIES,
+                                    Bohnenkamp_1967_nitrogen_diffusivity, Lehrer_boundaries,
+                                    nitrogen_saturation_ferrite, surface_phase)
+from ..models.steels import Steel, nitriding_constants
 from ..numerics.roots import illinois
 from ..units import as_number
-from .layer import DEFAULT_LAYER_MODEL, LAYER_MODELS, substrate_uptake_coefficient
+from .layer import DEFAULT_LAYER_MODEL, LAYER_MODELS
+from .zone import DEFAULT_ZONE_MODEL, ZONE_MODELS, Precipitate, Zone, wagner_front_factor
 
 # nitride-forming elements: nitrogen atoms per metal atom in the nitride formed (CrN, AlN, VN, TiN, Mo2N)
 NITRIDE_FORMERS = {"Cr": 1.0, "Al": 1.0, "V": 1.0, "Ti": 1.0, "Mo": 0.5}
@@ -91,43 +95,13 @@ def dissociation_for_potential(K_N: float) -> float:
     return illinois(miss, low, miss(low), high, miss(high), 1e-14, 1e-13)
 
 
-def Bohnenkamp_1967_nitrogen_diffusivity(T: float) -> float:
-    r"""Diffusivity of nitrogen in ferrite, D = 1.5e-6 exp(−79.9 kJ/mol / RT) m²/s.
-
-    Examples
-    --------
-    >>> round(Bohnenkamp_1967_nitrogen_diffusivity(793.15) * 1e12, 2)
-    8.21
-
-    References
-    ----------
-    .. [1] Bohnenkamp, K. Arch. Eisenhüttenwes. 38 (1967) 229 (D0 = 1.5e-2 cm²/s, Q = 79.9 kJ/mol).
-    """
-    return 1.5e-6 * math.exp(-79900.0 / (R * T))
-
-
 def nitride_capacity(composition: dict[str, float]) -> float:
     """Nitrogen [wt %] the nitride formers of a steel take up: CrN, AlN, VN, TiN, Mo2N (all of each)."""
     return sum(float(composition.get(el, 0.0)) / MOLAR_MASS[el] * atoms * MOLAR_MASS["N"]
                for el, atoms in NITRIDE_FORMERS.items())
 
 
-def Wagner_front_factor(surface_nitrogen: float, capacity: float) -> float:
-    r"""γ of the internal-nitriding front ξ = 2γ√(Dt): root of √π γ e^{γ²} erf(γ) = c_s / c_M.
-
-    For a small ratio γ² ≈ c_s / (2 c_M), the familiar ξ² = 2 D c_s t / c_M.
-
-    References
-    ----------
-    .. [1] Wagner, C. "Reaktionstypen bei der Oxydation von Legierungen." Z. Elektrochem. 63 (1959) 772–790.
-    .. [2] Meijering, J. L. "Internal oxidation in alloys." In Advances in Materials Research 5 (1971) 1–81.
-    """
-    ratio = surface_nitrogen / capacity
-
-    def f(g):
-        return math.sqrt(math.pi) * g * math.exp(g * g) * math.erf(g) - ratio
-
-    return illinois(f, 1e-9, f(1e-9), 10.0, f(10.0), 1e-15, 1e-15 * ratio)
+Wagner_front_factor = wagner_front_factor  # the name earlier releases exported
 
 
 def _check_kn(K_N: float) -> None:
@@ -138,7 +112,9 @@ def _check_kn(K_N: float) -> None:
 
 @dataclass(frozen=True)
 class NitridingSetup:
-    """A gas-nitriding step: steel, temperature [K], nitriding potential [atm^-1/2], core and nitrided hardness [HV]."""
+    """A gas-nitriding step: steel, temperature [K], nitriding potential [atm^-1/2], core and nitrided
+    hardness [HV], the calibration on D_N, and the models: compound layer, diffusion zone, D_N; the
+    hardness limit of the nitrided depth [HV] (None: core + 50 HV, DIN 50190-3 / ISO 18203)."""
 
     steel: Steel
     temperature: float
@@ -147,6 +123,11 @@ class NitridingSetup:
     surface_hardness: float | None = None
     diffusivity_multiplier: float = 1.0
     layer_model: str = DEFAULT_LAYER_MODEL
+    zone_model: str = DEFAULT_ZONE_MODEL
+    nitrogen_diffusivity: str = DEFAULT_NITROGEN_DIFFUSIVITY
+    hardness_limit_hv: float | None = None
+
+    min_capacity = MIN_CAPACITY
 
     def __post_init__(self):
         T = as_number(self.temperature, "temperature")
@@ -156,24 +137,54 @@ class NitridingSetup:
                              f"{lo - ZERO_CELSIUS:.0f}–{hi - ZERO_CELSIUS:.0f} °C (below the tempering temperature, "
                              f"below the eutectoid of Fe–N at 590 °C)")
         _check_kn(self.nitriding_potential)
-        for name, value in (("core_hardness", self.core), ("surface_hardness", self.surface)):
+        if self.zone_model not in ZONE_MODELS:
+            raise InputError("zone_model", f"unknown model {self.zone_model!r}; choose one of {', '.join(ZONE_MODELS)}")
+        sharp = ZONE_MODELS[self.zone_model].key == "sharp-front-2026"
+        for name, value in (("core_hardness", self.core), ("surface_hardness", self.typical_surface if sharp else
+                                                           self.surface_hardness)):
+            if value is None:
+                continue
             value = as_number(value, name)
             if not (math.isfinite(value) and 100.0 <= value <= 1400.0):
                 raise InputError(name, f"{value:g} HV is outside 100–1400 HV")
-        if self.surface <= self.core + 50.0:
-            raise InputError("surface_hardness", f"{self.surface:g} HV must exceed the core ({self.core:g} HV) "
-                             f"by more than 50 HV for a nitrided hardness depth to exist")
+        limit = self.hardness_limit
+        if self.hardness_limit_hv is not None:
+            value = as_number(self.hardness_limit_hv, "nitrided_limit")
+            if not (math.isfinite(value) and 100.0 <= value <= 1400.0):
+                raise InputError("nitrided_limit", f"{value:g} HV is outside 100–1400 HV")
+            if value <= self.core:
+                raise InputError("nitrided_limit", f"{value:g} HV must exceed the core hardness ({self.core:g} HV)")
+        surface = self.typical_surface if sharp else self.surface_hardness
+        if surface is not None and surface <= limit:
+            raise InputError("surface_hardness", f"{surface:g} HV must exceed the hardness limit ({limit:g} HV) for a "
+                             f"nitrided hardness depth to exist")
         if not (math.isfinite(as_number(self.diffusivity_multiplier, "n_multiplier")) and 0.1 <= self.diffusivity_multiplier <= 10.0):
             raise InputError("n_multiplier", f"{self.diffusivity_multiplier:g} is outside 0.1–10")
         if self.layer_model not in LAYER_MODELS:
             raise InputError("layer_model", f"unknown model {self.layer_model!r}; choose one of {', '.join(LAYER_MODELS)}")
+        if self.nitrogen_diffusivity not in NITROGEN_DIFFUSIVITIES:
+            raise InputError("n_diffusivity", f"unknown model {self.nitrogen_diffusivity!r}; choose one of "
+                             f"{', '.join(NITROGEN_DIFFUSIVITIES)}")
 
     @property
     def core(self) -> float:
         return float(self.core_hardness if self.core_hardness is not None else (self.steel.core_hardness_hv or 300.0))
 
     @property
-    def surface(self) -> float:
+    def hardness_limit(self) -> float:
+        """The hardness [HV] the nitrided depth is read at: as set, or core + 50 HV (DIN 50190-3 / ISO 18203)."""
+        return float(self.hardness_limit_hv) if self.hardness_limit_hv is not None else self.core + 50.0
+
+    @property
+    def limit_text(self) -> str:
+        """The hardness limit in words: ``core 300 HV + 50 HV`` or ``400 HV``."""
+        if self.hardness_limit_hv is None:
+            return f"core {self.core:.0f} HV + 50 HV"
+        return f"{self.hardness_limit:.0f} HV"
+
+    @property
+    def typical_surface(self) -> float:
+        """The nitrided surface hardness [HV] as set, or the grade's typical value (or an estimate from the formers)."""
         if self.surface_hardness is not None:
             return float(self.surface_hardness)
         if self.steel.nitrided_surface_hv:
@@ -182,12 +193,17 @@ class NitridingSetup:
         return self.core + 250.0 * nitride_capacity(self.steel.composition) / 0.27 + 70.0
 
     @property
+    def surface(self) -> float:
+        """Hardness at the top of the diffusion zone [HV], as the zone model gives it."""
+        return self.zone.surface_hardness
+
+    @property
     def phase(self) -> str:
         return surface_phase(self.temperature, self.nitriding_potential)
 
     @property
     def diffusivity(self) -> float:
-        return self.diffusivity_multiplier * Bohnenkamp_1967_nitrogen_diffusivity(self.temperature)
+        return self.diffusivity_multiplier * NITROGEN_DIFFUSIVITIES[self.nitrogen_diffusivity].function(self.temperature)
 
     @property
     def substrate_nitrogen(self) -> float:
@@ -201,41 +217,69 @@ class NitridingSetup:
     def capacity(self) -> float:
         return nitride_capacity(self.steel.composition)
 
-    @cached_property  # a root solve, needed several times per result
+    @cached_property
+    def constants(self) -> nitrides.NitridingConstants:
+        """The grade's excess-nitrogen ratio and strength constant (its own, or the nearest grade's)."""
+        return nitriding_constants(self.steel)
+
+    @property
+    def precipitates(self) -> list[Precipitate]:
+        """The steel's nitride formers at this temperature, with the grade's excess nitrogen."""
+        excess = self.constants.excess
+        return [Precipitate(el, capacity, nitrides.solubility_product(el, self.temperature), excess)
+                for el, capacity in nitrides.capacities(self.steel.composition).items()]
+
+    @cached_property  # one solve per setup, read by every result
+    def zone(self) -> Zone:
+        """The diffusion zone (a row of :data:`casedepth.nitriding.zone.ZONE_MODELS`, solved for this step)."""
+        return ZONE_MODELS[self.zone_model].build(self)
+
+    @property
     def front_factor(self) -> float | None:
-        """γ of the internal-nitriding front (Wagner 1959), or None for a steel without nitride formers."""
+        """γ of the sharp internal-nitriding front (Wagner 1959), or None for a steel without nitride formers."""
         if self.capacity < MIN_CAPACITY:
             return None
-        return Wagner_front_factor(self.substrate_nitrogen, self.capacity)
+        return wagner_front_factor(self.substrate_nitrogen, self.capacity)
 
     @property
     def layer(self):
         """The compound-layer model (a row of :data:`casedepth.nitriding.layer.LAYER_MODELS`)."""
         return LAYER_MODELS[self.layer_model]
 
-    @cached_property
+    @property
     def uptake(self) -> float:
         """A of the nitrogen flux A/√t the diffusion zone draws from under the compound layer [wt % m/√s]."""
-        gamma = self.front_factor
-        return substrate_uptake_coefficient(self.substrate_nitrogen, self.diffusivity,
-                                            1.0 if gamma is None else math.erf(gamma))
+        return self.zone.uptake
 
     def models_text(self) -> str:
         """The models of the step, in one line."""
         multiplier = "" if self.diffusivity_multiplier == 1.0 else f" × {self.diffusivity_multiplier:g}"
-        return (f"{self.layer.display}; nitrogen in ferrite after Bohnenkamp (1967){multiplier}; internal-nitriding "
-                f"front after Wagner (1959)")
+        diffusivity = NITROGEN_DIFFUSIVITIES[self.nitrogen_diffusivity].short
+        zone = ZONE_MODELS[self.zone_model]
+        if zone.key == "sharp-front-2026":
+            return (f"{self.layer.display}; nitrogen in ferrite after {diffusivity}{multiplier}; internal-nitriding "
+                    f"front after Wagner (1959)")
+        return f"{self.layer.display}; nitrogen in ferrite after {diffusivity}{multiplier}; {zone.display.lower()}"
+
+    @property
+    def uncertainty(self) -> str:
+        """How sure the nitrided depth is, in words (printed with every depth the zone model gives)."""
+        return ZONE_MODELS[self.zone_model].uncertainty
 
     def warnings(self) -> list[str]:
         out = []
         if self.capacity < 0.05:
             out.append("This steel has almost no nitride formers (Cr, Al, V, Ti, Mo): the diffusion zone hardens "
-                       "little, and a depth at core + 50 HV may be shallow or absent.")
+                       "little, and a nitrided hardness depth may be shallow or absent.")
         if self.phase == "alpha":
             out.append("K_N is below the α/γ′ boundary: no compound layer forms (the boundary values are uncertain "
                        "by perhaps ±30 %).")
-        if self.diffusivity_multiplier == 1.0 and self.capacity >= MIN_CAPACITY:
+        sharp = ZONE_MODELS[self.zone_model].key == "sharp-front-2026"
+        if sharp and self.diffusivity_multiplier == 1.0 and self.capacity >= MIN_CAPACITY:
             out.append("Uncalibrated: the sharp-front model with the published nitrogen diffusivity often reaches a "
                        "depth sooner than measured on alloy steels; set the D_N multiplier from the shop's own "
                        "sections before quoting times.")
+        if not sharp and self.capacity >= MIN_CAPACITY and self.steel.nitriding is None:
+            out.append(f"No nitriding constants for {self.steel.name}: the excess nitrogen and hardness use "
+                       f"{self.constants.source}; calibrate on the shop's own sections before quoting times.")
         return out

@@ -24,7 +24,7 @@ from ..outcome import Offer
 from ..parameters import PARAMETERS
 from .state import Plan
 
-SCHEMA_VERSION = 5
+SCHEMA_VERSION = 6
 FILE_KIND = "casedepth plan"
 LARGEST_FILE = 5_000_000  # bytes: a plan with 100 stages and long notes is under 100 kB
 HEADER_KEYS = ("kind", "schema_version")
@@ -77,7 +77,16 @@ def _to_5(data: dict, offers: list[Offer], made_with: int) -> None:
                                     PARAMETERS["layer_model"].default)
 
 
-MIGRATIONS = {1: _to_2, 2: _to_3, 3: _to_4, 4: _to_5}
+def _to_6(data: dict, offers: list[Offer], made_with: int) -> None:
+    # schema 6 adds the diffusion-zone model (nitride precipitation), the choice of nitrogen diffusivity and the
+    # hardness limit of the nitrided depth; earlier nitriding plans used the sharp front with Bohnenkamp's
+    # diffusivity at core + 50 HV (the newer model is offered as a superseded choice, never applied)
+    if data.get("treatment") == "nitriding":
+        data.update(diffusion_zone_model="sharp-front-2026", nitrogen_diffusivity_model="bohnenkamp-1967",
+                    nitrided_hardness_limit_hv=None)
+
+
+MIGRATIONS = {1: _to_2, 2: _to_3, 3: _to_4, 4: _to_5, 5: _to_6}
 
 
 def migrate(data: dict) -> tuple[dict, list[Offer], list[str]]:

@@ -259,13 +259,13 @@ def nitriding_chart(setup: NitridingSetup, temperatures: list[float] | None = No
     what = (f"K_N {setup.nitriding_potential:.2f} atm^-1/2 "
             f"({100 * dissociation_for_potential(setup.nitriding_potential):.0f} % dissociation)" if temperatures
             else f"temperature {u.format_temperature(setup.temperature)}")
-    multiplier = "" if setup.diffusivity_multiplier == 1.0 else f" × {setup.diffusivity_multiplier:g} (shop calibration)"
+    calibrated = "" if setup.diffusivity_multiplier == 1.0 else f"; D_N × {setup.diffusivity_multiplier:g} (shop calibration)"
     lines = [
-        f"{steel.standard}; {what}; nitrided hardness depth at core + 50 HV (core {setup.core:.0f} HV, "
-        f"nitrided {setup.surface:.0f} HV); nitride formers bind {setup.capacity:.2f} wt % N",
-        f"Models: nitrogen in ferrite after Bohnenkamp (1967){multiplier}; internal-nitriding front after Wagner "
-        f"(1959); compound layer after Somers & Mittemeijer (1995), ±50 %. Time at temperature only: heat-up, "
-        f"purge and cool-down are not included.",
+        f"{steel.standard}; {what}; nitrided hardness depth at {setup.limit_text} (under the layer "
+        f"{setup.surface:.0f} HV at {u.format_temperature(setup.temperature)}); nitride formers bind "
+        f"{setup.capacity:.2f} wt % N",
+        f"Models: {setup.models_text()}{calibrated}. Uncertainty: {setup.uncertainty}; compound layer ±50 %. "
+        f"Time at temperature only: heat-up, purge and cool-down are not included.",
     ]
     _chart_heading(fig, f"Nitriding chart — {steel.name}", lines, date)
     header = [f"nitrided depth ({u.length_unit})"] + [f"at {label}" for label in labels]

@@ -1,11 +1,14 @@
 """The models the program uses and where each comes from, for the About box and the contributor guide:
-the method tables' rows (diffusivity, carbon → hardness, compound layer) and the fixed models."""
+the method tables' rows (diffusivity, carbon → hardness, compound layer, diffusion zone, nitrogen diffusivity)
+and the fixed models."""
 
 from __future__ import annotations
 
 from ..models.diffusivity import METHODS
 from ..models.hardness import HARDNESS_RELATIONS
+from ..models.iron_nitrogen import NITROGEN_DIFFUSIVITIES
 from ..nitriding.layer import LAYER_MODELS
+from ..nitriding.zone import ZONE_MODELS
 
 FIXED = (
     ("Surface mass transfer", "J = β (C_eq − C_s) — EN 10052 definition; default β 1.5e-5 cm/s for endothermic gas "
@@ -19,9 +22,8 @@ FIXED = (
                      "austenite from handbook relations (from memory); ideal probe, trim as the shop does"),
     ("Nitriding potential", "K_N = p(NH3)/p(H2)^1.5 — Lehrer, Z. Elektrochem. 36 (1930) 383; surface phase from the "
                             "Lehrer-diagram boundaries (read from the diagram, from memory, ±30 %)"),
-    ("Nitrogen in ferrite", "diffusivity after Bohnenkamp, Arch. Eisenhüttenwes. 38 (1967) 229; saturation against γ′ "
-                            "fitted to the Fe–N diagram of Wriedt, Gokcen & Nafziger (1987)"),
-    ("Nitrided hardness depth", "internal-nitriding front of Wagner, Z. Elektrochem. 63 (1959) 772, and Meijering (1971)"),
+    ("Nitrogen in ferrite", "saturation against γ′ fitted to the Fe–N diagram of Wriedt, Gokcen & Nafziger (1987)"),
+    ("Nitrided hardness depth", "where the hardness falls to core + 50 HV (DIN 50190-3 / ISO 18203) or a set limit"),
     ("Safety cautions", "common practice under NFPA 86; local codes govern"),
 )
 
@@ -31,5 +33,6 @@ def model_sources() -> list[tuple[str, str]]:
     rows = [(m.display, f"{m.reference}; valid {m.validity}") for m in METHODS.values()]
     rows += [(r.display, f"{r.reference}; assumes {r.assumptions}") for r in HARDNESS_RELATIONS.values()]
     rows += [(m.display, m.reference + ("" if m.superseded_by is None else "; superseded, kept for the plans made "
-                                        "with it")) for m in LAYER_MODELS.values()]
+                                        "with it")) for m in (*LAYER_MODELS.values(), *ZONE_MODELS.values())]
+    rows += [(f"Nitrogen diffusivity in ferrite, {m.display}", m.note) for m in NITROGEN_DIFFUSIVITIES.values()]
     return rows + list(FIXED)
