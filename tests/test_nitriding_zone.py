@@ -174,3 +174,61 @@ def test_the_sharp_front_model_still_gives_the_first_releases_numbers():
     are those of the first release (11.0 h for 0.4 mm on 4140 at 520 °C, K_N 3)."""
     old = setup(zone_model="sharp-front-2026", nitrogen_diffusivity="bohnenkamp-1967")
     assert N.nitriding_time(old, 0.4e-3).time / 3600 == pytest.approx(11.03, abs=0.01)
+
+
+# -- every surface shows it ---------------------------------------------------------------------------------------
+def test_chart_and_sheet_state_how_sure_the_depth_is():
+    from casedepth.plan import Plan, evaluate
+    from casedepth.report.documents import nitriding_chart, process_sheet
+
+    chart = nitriding_chart(setup(), temperatures=[500 + K, 520 + K])
+    assert any("±25 %" in t.get_text() for page in chart.pages for t in page.texts)
+    plan = Plan(treatment="nitriding", case_min=0.3e-3, case_max=0.5e-3, temperature=793.15, kn=3.0)
+    plan.choose_steel("4140")
+    sheet = process_sheet(plan, evaluate(plan.values()))
+    assert any("±25 %" in t.get_text() for page in sheet.pages for t in page.texts)
+
+
+def test_json_profile_is_the_graded_hardness(capsys):
+    import json
+
+    from casedepth.cli import main
+
+    assert main(["nitride", "--steel", "4140", "--temperature", "520C", "--kn", "3", "--target", "0.4mm", "--json"]) == 0
+    data = json.loads(capsys.readouterr().out)
+    assert data["zone_model"] == "precipitation-2026" and "±25 %" in data["depth_uncertainty"]
+    hardness, depth = np.array(data["profile"]["hardness_hv"]), np.array(data["profile"]["depth_mm"])
+    assert len(set(np.round(hardness[depth < 0.4]))) > 50  # graded, not a step
+    assert np.interp(0.4, depth, hardness) == pytest.approx(350.0, abs=0.5)
+
+
+@pytest.mark.parametrize("grade", ["4140", "41CrAlMo7-10", "31CrMoV9", "H13"])
+def test_deeper_with_time_temperature_and_potential(grade):
+    """More time, a higher temperature or a higher K_N never gives a shallower nitrided depth or a thinner layer
+    (any diffusion-controlled case); checked over a grid of the working range."""
+    for celsius in (490.0, 520.0, 560.0):
+        for kn in (0.5, 3.0, 10.0):
+            base = N.nitride(setup(grade, celsius, kn), 20 * 3600)
+            for other in (N.nitride(setup(grade, celsius, kn), 30 * 3600),
+                          N.nitride(setup(grade, celsius + 10, kn), 20 * 3600),
+                          N.nitride(setup(grade, celsius, kn * 1.5), 20 * 3600)):
+                assert other.nitrided_depth >= base.nitrided_depth * (1 - 1e-9)
+                assert other.compound_layer >= base.compound_layer * (1 - 1e-12)
+
+
+@pytest.mark.parametrize("grade", ["4140", "41CrAlMo7-10", "H13"])
+def test_against_an_independent_method_of_lines(grade):
+    """The same diffusion–precipitation problem solved directly in depth and time (finite volumes, scipy BDF; the
+    benchmark's peer, benchmarks/peer_nitriding.py) gives the same depth at core + 50 HV and the same nitrogen
+    uptake within 0.2 %: the similarity solution is the problem's, not an artefact of the shooting."""
+    import sys
+    from pathlib import Path
+
+    sys.path.insert(0, str(Path(__file__).resolve().parent.parent / "benchmarks"))
+    from peer_nitriding import focused_extent, peer_depth_rate
+
+    s = setup(grade)
+    extent = focused_extent(s) if grade == "H13" else None  # a steep front: put the fine cells where it is
+    run = peer_depth_rate(s, 30.0, 100, rtol=1e-6, extent=extent)
+    assert run.rate == pytest.approx(s.zone.depth_rate(), rel=2e-3)
+    assert run.uptake == pytest.approx(s.uptake, rel=2e-3)

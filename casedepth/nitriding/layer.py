@@ -290,7 +290,7 @@ def _integrate_stage(T, K_N, uptake, p1, p2, start, end):
     while t < end:
         check()  # a calculation the window has made stale stops here
         events = [layer_gone] + ([eps_gone] if y[0] > floor else [])
-        solution = solve_ivp(rates, (t, end), y, method="LSODA", rtol=1e-9, atol=1e-14, events=events)
+        solution = solve_ivp(rates, (t, end), y, method="LSODA", rtol=1e-7, atol=1e-14, events=events)
         y, t = list(solution.y[:, -1]), solution.t[-1]
         if solution.status == 1:  # an event: ε or the whole layer is gone
             if y[1] <= floor * (1 + 1e-6):
