@@ -176,8 +176,7 @@ class NitridingOutcome(Outcome):
             Fact("reached", "Surface phase at the end", PHASE_NAMES[aim.layer.surface_phase]),
             Fact("threshold", "K_N for the layer window",
                  "—" if self.kn_for_window is None else f"{self.kn_for_window:.2f} atm^-½"),
-            Fact("equilibrium", "Hardness", f"core {setup.core:.0f} HV, top of the zone {setup.surface:.0f} HV; depth "
-                                            f"read at {setup.limit_text}"),
+            Fact("equilibrium", "Hardness", f"core {setup.core:.0f} HV, under the layer {setup.surface:.0f} HV"),
             Fact("uncertainty", "How sure", setup.uncertainty),
             Fact("saturation", "Nitride formers", f"bind {setup.capacity:.2f} wt % N"),
             Fact("probe", "Exhaust (ammonia feed)", "  then  ".join(gases)),

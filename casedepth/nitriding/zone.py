@@ -342,12 +342,12 @@ ZONE_MODELS: dict[str, ZoneModel] = {
         "precipitation-2026", "Nitrogen diffusion with nitride precipitation (graded hardness)",
         "after Sun & Bell, Mater. Sci. Eng. A 224 (1997) 33; excess nitrogen after Schacherl, Graat & Mittemeijer, "
         "Metall. Mater. Trans. A 35 (2004) 3387; products and grade constants fitted to common practice (from memory)",
-        PrecipitationZone, "depth ±25 % (time ±50 %) until calibrated on the shop's own sections; hardness ±60 HV",
+        PrecipitationZone, "depth ±25 %, time ±50 % until calibrated on the shop's sections; hardness ±60 HV",
         "±25 %"),
     "sharp-front-2026": ZoneModel(
         "sharp-front-2026", "Sharp internal-nitriding front (first release, superseded)",
         "Wagner, Z. Elektrochem. 63 (1959) 772; Meijering (1971); hardness a step",
-        SharpFrontZone, "runs ahead of measured depths on low-alloy steels (up to 2× the depth); hardness a step",
+        SharpFrontZone, "up to 2× too deep on low-alloy steels; hardness a step",
         "up to 2× too deep", superseded_by="precipitation-2026"),
 }
 DEFAULT_ZONE_MODEL = "precipitation-2026"
