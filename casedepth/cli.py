@@ -130,13 +130,17 @@ def _build_parser() -> argparse.ArgumentParser:
     r.set_defaults(handler=_run)
 
     cb = commands.add_parser("calibrate", help="the diffusivity multiplier that reproduces a measured section",
-                             description="From a plan, the soak a load actually had and the depth measured on its "
-                                         "section, the diffusivity multiplier with which the plan's models give that "
-                                         "depth (carburizing: effective case depth at the plan's threshold; nitriding: "
-                                         "nitrided hardness depth).")
+                             description="From a plan, the soak a load actually had and what was measured on its "
+                                         "section, the diffusivity multiplier with which the plan's models reproduce "
+                                         "it: a depth (--measured; carburizing: effective case depth at the plan's "
+                                         "threshold; nitriding: nitrided hardness depth), or for nitriding a whole "
+                                         "hardness traverse (--traverse; the multiplier whose hardness profile fits "
+                                         "the readings best).")
     cb.add_argument("plan", metavar="PLAN", help="the plan file (one soak, or one nitriding stage)")
     cb.add_argument("--soak", required=True, help="the soak the load had at temperature: 6h, 6h30min, 390min")
-    cb.add_argument("--measured", required=True, help="the depth measured on the section: 0.95mm, 0.037in")
+    cb.add_argument("--measured", help="the depth measured on the section: 0.95mm, 0.037in")
+    cb.add_argument("--traverse", help="nitriding: hardness readings from the surface inwards, depth=HV separated by "
+                                       "commas (at least 3): \"0.05mm=590,0.1mm=560,0.2mm=480,0.3mm=400\"")
     cb.add_argument("--write", action="store_true", help="store the multiplier in the plan file")
     _printing(cb, units=False)
     cb.set_defaults(handler=_calibrate)
@@ -328,21 +332,31 @@ def _sheet(args) -> int:
 
 # -- the shop ------------------------------------------------------------------------------------------------------
 def _calibrate(args) -> int:
-    from .shop.calibration import calibrate_plan
+    from .shop.calibration import calibrate_plan, calibrate_traverse, parse_traverse
 
+    if (args.measured is None) == (args.traverse is None):
+        raise _UsageError("calibrate: give exactly one of --measured (a depth, e.g. 0.95mm) or --traverse "
+                          "(hardness readings, e.g. \"0.1mm=560,0.2mm=480,0.3mm=400\")")
     plan = load(args.plan)
     if args.write:
         with _writing("plan"):
             writable(args.plan)
-    found = calibrate_plan(plan, parse_time(args.soak, "soak"), parse_length(args.measured, "measured"))
+    soak = parse_time(args.soak, "soak")
+    if args.traverse is not None:
+        found = calibrate_traverse(plan, soak, parse_traverse(args.traverse))
+    else:
+        found = calibrate_plan(plan, soak, parse_length(args.measured, "measured"))
     if args.write:
         plan.set(found.field, round(found.multiplier, 3))
         with _writing("plan"):
             save(plan, args.plan)
     if args.json:
-        print(json.dumps({"multiplier": found.multiplier, "field": found.field, "predicted_mm": found.predicted * 1e3,
-                          "measured_mm": found.measured * 1e3, "soak_time_h": found.soak_time / 3600.0,
-                          "written": bool(args.write)}))
+        if args.traverse is not None:
+            print(json.dumps({**found.to_dict(), "written": bool(args.write)}))
+        else:
+            print(json.dumps({"multiplier": found.multiplier, "field": found.field,
+                              "predicted_mm": found.predicted * 1e3, "measured_mm": found.measured * 1e3,
+                              "soak_time_h": found.soak_time / 3600.0, "written": bool(args.write)}))
         return 0
     print(found.describe())
     print(f"  {'stored in ' + _shown(args.plan) if args.write else 'add --write to store it in the plan'} "

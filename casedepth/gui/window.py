@@ -406,41 +406,88 @@ class MainWindow(QMainWindow):
         return self.outcome.soak_time, self.outcome.targets[1]
 
     def calibrate_dialog(self) -> None:
-        """Ask for the soak a load had and the depth measured on its section, then calibrate."""
+        """Ask for the soak a load had and what was measured on its section (a depth, or for nitriding a hardness
+        traverse), then calibrate."""
+        from PySide6.QtWidgets import QButtonGroup, QRadioButton
+
+        from ..shop.calibration import check_traverse, parse_traverse
+
         soak_time, aim = self.calibration_defaults()
+        nitriding = self.plan.values()["treatment"] == "nitriding"
+        unit = self.units.length_unit
         dialog = QDialog(self)
         dialog.setWindowTitle("Calibrate from a measured section")
         form = QFormLayout(dialog)
-        form.addRow(QLabel("The soak a load of this plan had, and the depth measured on its section\n"
-                           "(effective case depth at the plan's threshold, or nitrided hardness depth)."))
+        form.addRow(QLabel("The soak a load of this plan had, and what was measured on its section: the depth\n"
+                           "(effective case depth at the plan's threshold, or nitrided hardness depth), or for\n"
+                           "nitriding a hardness traverse (the multiplier whose profile fits the readings best)."))
         soak = QDoubleSpinBox()
         soak.setRange(0.1, 200.0)
         soak.setDecimals(2)
         soak.setSuffix(" h")
         soak.setValue(round(soak_time / 3600.0, 2))
         form.addRow("Soak at temperature", soak)
+        by_depth, by_traverse = QRadioButton("Measured depth"), QRadioButton("Hardness traverse")
+        choice = QButtonGroup(dialog)
+        choice.addButton(by_depth)
+        choice.addButton(by_traverse)
+        by_depth.setChecked(True)
         depth = QDoubleSpinBox()
         depth.setDecimals(self.units.length_decimals)
         depth.setRange(0.0, 400.0)
-        depth.setSuffix(f" {self.units.length_unit}")
+        depth.setSuffix(f" {unit}")
         depth.setValue(self.units.length(aim))
-        form.addRow("Measured depth", depth)
+        form.addRow(by_depth, depth)
+        readings = QLineEdit()
+        readings.setObjectName("traverse")
+        example = "0.05=590, 0.1=560, 0.2=480, 0.3=400" if unit == "mm" else "0.002=590, 0.004=560, 0.008=480, 0.012=400"
+        readings.setPlaceholderText(f"depth ({unit}) = HV, …   e.g. {example}")
+        readings.setToolTip(f"Hardness readings from the surface inwards, at least 3, each written depth=HV and "
+                            f"separated by commas; a depth without a unit is in {unit}.")
+        readings.setMinimumWidth(360)
+        form.addRow(by_traverse, readings)
+        by_traverse.setEnabled(nitriding)
+        if not nitriding:
+            by_traverse.setToolTip("A hardness traverse calibrates nitriding plans only.")
+        by_depth.toggled.connect(lambda on: (depth.setEnabled(on), readings.setEnabled(not on)))
+        readings.setEnabled(False)
         buttons = QDialogButtonBox(QDialogButtonBox.Ok | QDialogButtonBox.Cancel)
-        buttons.accepted.connect(dialog.accept)
+
+        def accept() -> None:  # a traverse that cannot be read keeps the dialog open, with the text
+            if by_traverse.isChecked():
+                try:
+                    check_traverse(parse_traverse(readings.text(), unit))
+                except InputError as error:
+                    QMessageBox.warning(dialog, "Hardness traverse", error.message)
+                    return
+            dialog.accept()
+
+        buttons.accepted.connect(accept)
         buttons.rejected.connect(dialog.reject)
         form.addRow(buttons)
         if dialog.exec() == QDialog.Accepted:  # an untouched field keeps its exact value (not the rounded one shown)
             shown_soak, shown_depth = round(soak_time / 3600.0, 2), self.units.length(aim)
-            self.calibrate(soak_time if soak.value() == shown_soak else soak.value() * 3600.0,
-                           aim if abs(depth.value() - shown_depth) < 0.5 * 10 ** -depth.decimals()
-                           else self.units.length_si(depth.value()))
+            soak_s = soak_time if soak.value() == shown_soak else soak.value() * 3600.0
+            if by_traverse.isChecked():
+                self.calibrate(soak_s, traverse=readings.text())
+            else:
+                self.calibrate(soak_s, aim if abs(depth.value() - shown_depth) < 0.5 * 10 ** -depth.decimals()
+                               else self.units.length_si(depth.value()))
 
-    def calibrate(self, soak_time: float, measured_depth: float) -> str:
-        """Set the plan's diffusivity multiplier from a measured section (one undoable edit); returns the message."""
-        from ..shop.calibration import calibrate_plan
+    def calibrate(self, soak_time: float, measured_depth: float | None = None, traverse=None) -> str:
+        """Set the plan's diffusivity multiplier from a measured section (one undoable edit); returns the message.
+
+        Either ``measured_depth`` [m], or ``traverse``: hardness readings, as text ``"depth=HV, …"`` (depths in the
+        window's length unit unless written with one) or (depth [m], HV) pairs."""
+        from ..shop.calibration import calibrate_plan, calibrate_traverse, parse_traverse
 
         try:
-            found = calibrate_plan(self.plan, soak_time, measured_depth)
+            if traverse is not None:
+                if isinstance(traverse, str):
+                    traverse = parse_traverse(traverse, self.units.length_unit)
+                found = calibrate_traverse(self.plan, soak_time, traverse)
+            else:
+                found = calibrate_plan(self.plan, soak_time, measured_depth)
         except InputError as error:
             QMessageBox.warning(self, "Cannot calibrate", error.message)
             return error.message
