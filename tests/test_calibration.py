@@ -16,6 +16,7 @@ from casedepth.errors import InputError, NotReachableError
 from casedepth.plan import Plan, evaluate, load, save
 
 EXAMPLES = Path(__file__).resolve().parent.parent / "resources" / "examples"
+OLD_ROD = Path(__file__).resolve().parent / "data" / "piston-rod-schema-3.cdplan.json"  # the sharp front
 NO_SHOP_STAGES = {"heat_up_h": 0.0, "drop_h": 0.0, "equalize_h": 0.0}
 
 
@@ -155,7 +156,7 @@ def test_traverses_that_cannot_be_fitted():
         calibrate_traverse(load(EXAMPLES / "pinion-shaft.cdplan.json"), 6 * 3600.0, GOOD)
     assert error.value.field == "traverse" and "--measured" in error.value.message
     with pytest.raises(InputError) as error:
-        calibrate_traverse(load(EXAMPLES / "piston-rod-nitrided.cdplan.json"), TRAVERSE_SOAK, GOOD)
+        calibrate_traverse(load(OLD_ROD), TRAVERSE_SOAK, GOOD)
     assert error.value.field == "traverse" and "sharp-front" in error.value.message
     for flat in (600.0, 305.0):  # hard all through: ever faster; at the core all through: ever slower
         with pytest.raises(NotReachableError) as error:

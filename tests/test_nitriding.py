@@ -211,7 +211,8 @@ def test_cli_bad_input(capsys, args, flag):
 def test_cli_runs_a_saved_nitriding_plan(capsys):
     from pathlib import Path
 
-    plan = Path(__file__).resolve().parent.parent / "resources" / "examples" / "piston-rod-nitrided.cdplan.json"
+    # the piston-rod example as the first release wrote it (schema 3)
+    plan = Path(__file__).resolve().parent / "data" / "piston-rod-schema-3.cdplan.json"
     assert main(["run", str(plan), "--json"]) == 0
     data = json.loads(capsys.readouterr().out)
     low, _, high = data["target_depth_mm"]

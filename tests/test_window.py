@@ -455,15 +455,16 @@ def test_two_stage_nitriding_from_the_window(window, qtbot):
     assert window.outcome.schedule.second_kn == pytest.approx(0.5)
 
 
-@pytest.mark.parametrize("newer", [False, True], ids=["its own layer model", "the newer layer model"])
-def test_two_stages_on_the_piston_rod_example(window, qtbot, newer):
+@pytest.mark.parametrize("older", [True, False], ids=["as the first release wrote it", "the example now"])
+def test_two_stages_on_the_piston_rod_example(window, qtbot, older):
     """Ticking Two stages on the piston-rod example plans a schedule whose layer lies in the window (aimed at the
-    middle of the part of the window the two stages can reach), and marks no field."""
+    middle of the part of the window the two stages can reach), and marks no field: the example as the first
+    release wrote it (schema 3, its own layer and zone models) and as it is now."""
+    old = Path(__file__).resolve().parent / "data" / "piston-rod-schema-3.cdplan.json"
     with qtbot.waitSignal(window.result_shown, timeout=20000):
-        window.open_plan(EXAMPLES / "piston-rod-nitrided.cdplan.json")
-    if newer:
-        with qtbot.waitSignal(window.result_shown, timeout=20000):
-            window.offers.take.click()
+        window.open_plan(old if older else EXAMPLES / "piston-rod-nitrided.cdplan.json")
+    if older:
+        assert [offer.key for offer in window.plan.offers()] == ["layer_model", "zone_model"]
     with qtbot.waitSignal(window.result_shown, timeout=20000):
         window.form.widget("two_stage").setChecked(True)
     assert not window.results.stale
