@@ -14,7 +14,12 @@ from dataclasses import dataclass, field
 from functools import lru_cache
 from pathlib import Path
 
+from typing import TYPE_CHECKING
+
 from ..errors import InputError
+
+if TYPE_CHECKING:
+    from .nitrides import NitridingConstants
 
 # Elements the models use, with the largest content accepted [wt %].
 ELEMENT_LIMITS = {

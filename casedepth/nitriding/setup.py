@@ -18,11 +18,10 @@ import math
 from dataclasses import dataclass
 from functools import cached_property
 
-from ..constants import GAS_CONSTANT as R, MOLAR_MASS, ZERO_CELSIUS
+from ..constants import MOLAR_MASS, ZERO_CELSIUS
 from ..errors import InputError
 from ..models import nitrides
-from ..models.iron_nitrogen import (DEFAULT_NITROGEN_DIFFUSIVITY, NITROGEN_DIFFUSIVITIES,
-                                    Bohnenkamp_1967_nitrogen_diffusivity, Lehrer_boundaries,
+from ..models.iron_nitrogen import (DEFAULT_NITROGEN_DIFFUSIVITY, NITROGEN_DIFFUSIVITIES, Lehrer_boundaries,
                                     nitrogen_saturation_ferrite, surface_phase)
 from ..models.steels import Steel, nitriding_constants
 from ..numerics.roots import illinois

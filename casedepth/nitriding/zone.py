@@ -225,6 +225,11 @@ class Zone:
     uptake: float  # A of the nitrogen flux A/√t drawn from under the compound layer [wt % m/√s]
     surface_hardness: float  # hardness at the top of the zone [HV]
 
+    def __init__(self, setup):
+        self.setup = setup
+        self.diffusivity = setup.diffusivity  # m²/s
+        self.surface_nitrogen = setup.substrate_nitrogen  # dissolved at the top of the zone, wt %
+
     def depth_rate(self) -> float:
         """Depth below the layer at the hardness limit, per √time [m/√s] (0 if the limit is not reached)."""
         raise NotImplementedError
@@ -240,9 +245,8 @@ class SharpFrontZone(Zone):
     label = "estimated (sharp nitriding front)"
 
     def __init__(self, setup):
-        self.setup = setup
-        self.diffusivity = D = setup.diffusivity
-        self.surface_nitrogen = c_s = setup.substrate_nitrogen
+        super().__init__(setup)
+        D, c_s = self.diffusivity, self.surface_nitrogen
         self.capacity = setup.capacity
         self.gamma = None if self.capacity < setup.min_capacity else wagner_front_factor(c_s, self.capacity)
         self.surface_hardness = setup.typical_surface
@@ -275,9 +279,8 @@ class PrecipitationZone(Zone):
     label = "estimated from the nitrides formed"
 
     def __init__(self, setup):
-        self.setup = setup
-        self.diffusivity = D = setup.diffusivity
-        self.surface_nitrogen = c_s = setup.substrate_nitrogen
+        super().__init__(setup)
+        D, c_s = self.diffusivity, self.surface_nitrogen
         self.precipitates = setup.precipitates
         self.solution_hardening = (ALLOY_SOLUTION_HARDENING_HV_PER_PCT if setup.capacity >= setup.min_capacity
                                    else SOLUTION_HARDENING_HV_PER_PCT)
