@@ -183,6 +183,29 @@ class Outcome(ABC):
         none for a treatment whose cycle is not made of such stages."""
         return []
 
+    #: the case carbon [wt %] whose hardenability is shown beside the core's (None: the core only)
+    hardenability_case_carbon = None
+
+    def hardenability(self) -> dict:
+        """The steel's hardenability for the window and the sheet: the facts of
+        :func:`casedepth.models.hardenability.hardenability_facts`, plus a Jominy curve of the core
+        (``curve_distances`` [m], ``curve_hrc``) and, where the outcome has a case carbon, of the case
+        (``case_curve_hrc``); ``{"error": message}`` for a steel beyond ASTM A255's factors."""
+        from .errors import InputError
+        from .models.hardenability import hardenability_facts, jominy_curve
+
+        steel = self.setup.steel
+        case = self.hardenability_case_carbon
+        try:
+            facts = hardenability_facts(steel.composition, steel.grain_size, case_carbon=case)
+            distances = np.linspace(1.0, 32.0, 63) * 0.0254 / 16.0
+            facts["curve_distances"] = distances
+            facts["curve_hrc"] = jominy_curve(steel.composition, distances)
+            facts["case_curve_hrc"] = None if case is None else jominy_curve(steel.composition, distances, carbon=case)
+        except InputError as error:
+            return {"error": error.message}
+        return facts
+
     @abstractmethod
     def describe_end(self) -> str:
         """What the profile at the end is the profile of, in a few words (for exports)."""

@@ -25,7 +25,7 @@ from .models.diffusivity import ARRHENIUS_D0, ARRHENIUS_Q, METHODS
 from .models.hardness import HARDNESS_RELATIONS
 from .models.surface import DEFAULT_BETA
 from .numerics.geometry import MAX_SIZE, MIN_SIZE, SHAPES
-from .units import (TOTAL_CASE_EXCESS, check_text, finite_number, both_lengths, length_range, parse_length, parse_number, parse_temperature,
+from .units import (TOTAL_CASE_EXCESS, parse_time, check_text, finite_number, both_lengths, length_range, parse_length, parse_number, parse_temperature,
                     parse_threshold, parse_velocity, temperature_range)
 
 
@@ -135,6 +135,7 @@ UNITS = {
     "velocity": Unit("velocity", "cm/s", lambda text, key: parse_velocity(text, key), 1e2),
     "energy": Unit("energy", "kJ/mol", lambda text, key: parse_number(str(text).lower().removesuffix("kj/mol"), key) * 1e3,
                    1e-3),
+    "time": Unit("time", "h", lambda text, key: parse_time(text, key), 1.0 / 3600.0),
     "number": Unit("number", "", lambda text, key: parse_number(str(text).strip().rstrip("%").strip()
                                                                   if isinstance(text, str) else text, key)),
 }
@@ -344,6 +345,56 @@ def _read_window(text: str, keys: tuple[str, str], parse: Callable[[str, str], f
         return {keys[0]: low, keys[1]: high}
     value = parse(compact, field_name)
     return {keys[0]: value, keys[1]: value}
+
+
+def _parse_hrc(text: str, key: str) -> float:
+    """``60``, ``60HRC`` or ``700HV`` (turned into HRC through ASTM E140)."""
+    from .models.hardness import ASTM_E140_hv_to_hrc
+
+    compact = str(text).strip().upper().replace(" ", "")
+    if compact.endswith("HV"):
+        try:
+            return float(ASTM_E140_hv_to_hrc(parse_number(compact[:-2], key)))
+        except InputError as error:
+            raise error.renamed(key) from None
+    return parse_number(compact.removesuffix("HRC"), key)
+
+
+def _read_hardness_window(keys: tuple[str, str]) -> Callable[[str, dict], dict]:
+    """``58-62HRC`` (a window), ``58HRC`` (a minimum only); HV is turned into HRC."""
+    def read(text: str, values: dict) -> dict:
+        compact = str(text).strip()
+        if "-" in compact.replace("–", "-"):
+            return _read_window(compact, keys, _parse_hrc, keys[0])
+        return {keys[0]: _parse_hrc(compact, keys[0]), keys[1]: None}
+    return read
+
+
+def _read_temper(text: str, values: dict) -> dict:
+    """``180C/2h`` (temperature and time), ``180C`` (two hours) or ``none`` (as quenched)."""
+    compact = str(text).strip()
+    if compact.lower() in ("none", "no", "as-quenched", "as quenched"):
+        return {"temper_temperature": None}
+    temperature, _, time = compact.partition("/")
+    out = {"temper_temperature": parse_temperature(temperature, "temper_temperature")}
+    if time:
+        out["temper_time"] = parse_time(time, "temper_time")
+    return out
+
+
+def _quench_media() -> dict[str, str]:
+    from .models.quench import QUENCH_MEDIA
+    return {key: m.label for key, m in QUENCH_MEDIA.items()}
+
+
+def _with_quench(values, key) -> dict:
+    # a medium comes with its usual bath temperature (water 25 °C, oil 60 °C, …)
+    from .models.quench import QUENCH_MEDIA
+    return {"quench_temperature": QUENCH_MEDIA[key].bath_temperature} if key in QUENCH_MEDIA else {}
+
+
+def _relation_superseded(key: str) -> str | None:
+    return HARDNESS_RELATIONS[key].superseded_by if key in HARDNESS_RELATIONS else None
 
 
 def _read_target(text: str, values: dict) -> dict:
@@ -658,6 +709,24 @@ PARAMETERS: dict[str, Parameter] = {p.key: p for p in (
                    "and equalize counted (Edit → Shop times and rates); off: the soak at temperature alone",
               options=(Option("--shop-stages", "on (default): count the carbon the shop's heat-up, drop and equalize "
                                                "move in the case; off: the soak at temperature alone"),), since=5),
+    # the quench and temper (carburizing)
+    Parameter("quench", "Quench", Choice(_quench_media), "oil", "quench_medium", CARBURIZING, group="Quench and temper",
+              companions=_with_quench,
+              help="the medium the part is quenched in from the hardening temperature (Edit → Shop times and rates)",
+              options=(Option("--quench", "quench medium (default oil: moderately agitated quench oil)",
+                              choices=lambda: list(_quench_media())),), since=6),
+    Parameter("quench_temperature", "Quench temperature", Quantity("temperature"), 60.0 + ZERO_CELSIUS,
+              "quench_temperature_c", CARBURIZING, group="Quench and temper", range=(0.0 + ZERO_CELSIUS, 300.0 + ZERO_CELSIUS),
+              decimals=0, help="the bath (oil) temperature: the lowest the case reaches before tempering",
+              options=(Option("--quench-temperature", "quench (bath) temperature, e.g. 60C (default 60 °C)"),), since=6),
+    Parameter("temper_temperature", "Temper", Quantity("temperature", optional=True, unset="as quenched"),
+              170.0 + ZERO_CELSIUS, "temper_temperature_c", CARBURIZING, group="Quench and temper",
+              range=(100.0 + ZERO_CELSIUS, 250.0 + ZERO_CELSIUS), decimals=0,
+              help="tempering temperature (not set: as quenched)",
+              options=(Option("--temper", "temper: 180C/2h, 180C (2 h), or none (as quenched)", _read_temper),), since=6),
+    Parameter("temper_time", "Temper time", Quantity("time"), 2 * 3600.0, "temper_time_h", CARBURIZING,
+              group="Quench and temper", range=(0.25 * 3600.0, 24 * 3600.0), decimals=2, unit_label="h",
+              applies=lambda v: v.get("temper_temperature") is not None, when="a temper", since=6),
     # the drawing's callout
     Parameter("case_min", "Minimum case depth", Quantity("length"), 0.8e-3, "case_depth_min_mm", group="Drawing callout",
               range=(0.01e-3, 10e-3), decimals=3,
@@ -674,6 +743,25 @@ PARAMETERS: dict[str, Parameter] = {p.key: p for p in (
                                       "(default 0.40%%C)", _read_threshold),)),
     Parameter("threshold_kind", "Threshold kind", Choice({k: t.label for k, t in THRESHOLD_KINDS.items()}), "carbon",
               "threshold_kind", CARBURIZING, group="Drawing callout", companions=_with_threshold_kind),
+    Parameter("surface_hrc_min", "Surface hardness from", Quantity("number", optional=True, unset="not checked"), None,
+              "surface_hardness_min_hrc", CARBURIZING, group="Drawing callout", unit_label="HRC", range=(20.0, 68.0),
+              decimals=1, help="the drawing's surface-hardness window (not set: not checked)",
+              options=(Option("--surface-hardness", "the drawing's surface hardness: 58-62HRC (or HV), or 58HRC "
+                                                    "for a minimum", _read_hardness_window(("surface_hrc_min",
+                                                                                          "surface_hrc_max"))),),
+              since=6),
+    Parameter("surface_hrc_max", "Surface hardness to", Quantity("number", optional=True, unset="not checked"), None,
+              "surface_hardness_max_hrc", CARBURIZING, group="Drawing callout", unit_label="HRC", range=(20.0, 68.0),
+              decimals=1, since=6),
+    Parameter("core_hrc_min", "Core hardness from", Quantity("number", optional=True, unset="not checked"), None,
+              "core_hardness_min_hrc", CARBURIZING, group="Drawing callout", unit_label="HRC", range=(10.0, 68.0),
+              decimals=1, help="the drawing's core-hardness window (not set: not checked)",
+              options=(Option("--core-hardness", "the drawing's core hardness: 30-40HRC (or HV), or 30HRC for a "
+                                                 "minimum", _read_hardness_window(("core_hrc_min", "core_hrc_max"))),),
+              since=6),
+    Parameter("core_hrc_max", "Core hardness to", Quantity("number", optional=True, unset="not checked"), None,
+              "core_hardness_max_hrc", CARBURIZING, group="Drawing callout", unit_label="HRC", range=(10.0, 68.0),
+              decimals=1, since=6),
     # model settings (carburizing)
     Parameter("diffusivity", "Carbon diffusivity", Choice({k: m.display for k, m in METHODS.items()}), "tibbetts",
               "diffusivity_model", CARBURIZING, group="Model settings",
@@ -701,11 +789,13 @@ PARAMETERS: dict[str, Parameter] = {p.key: p for p in (
     Parameter("alloy_factor", "Alloy factor (Gunnarson)", Flag(), True, "alloy_factor", CARBURIZING, group="Model settings",
               options=(Option("--alloy-factor", "apply the Gunnarson alloy factor (default on)",
                               choices=lambda: ["on", "off"]),)),
-    Parameter("hardness_relation", "Carbon → hardness", Choice({k: r.display for k, r in HARDNESS_RELATIONS.items()}),
-              "tempered", "hardness_relation", CARBURIZING, group="Model settings",
+    Parameter("hardness_relation", "Carbon → hardness",
+              Choice({k: r.display for k, r in HARDNESS_RELATIONS.items()}, _relation_superseded),
+              "structure-2026", "hardness_relation", CARBURIZING, group="Model settings",
               help="turns carbon into the hardness plotted, and HV or HRC thresholds into carbon",
               options=(Option("--hardness-relation", "carbon-to-hardness relation for HV/HRC thresholds (default "
-                                                     "tempered)", choices=lambda: list(HARDNESS_RELATIONS)),)),
+                                                     "structure-2026: from the quench and temper)",
+                              choices=lambda: list(HARDNESS_RELATIONS)),)),
     # model settings (nitriding)
     Parameter("layer_model", "Compound-layer model", Choice(_layer_models, _layer_superseded), "somers-mittemeijer-1995",
               "compound_layer_model", NITRIDING, group="Model settings",

@@ -45,7 +45,20 @@ def _carburizing_steel(steel, units) -> str:
     from .models.surface import Gunnarson_alloy_factor
 
     return (f"{steel.standard}. Core {steel.carbon:.3f} %C · alloy factor {Gunnarson_alloy_factor(steel.composition):.3f} "
-            f"· Ac3 ≈ {units.format_temperature(Andrews_1965_Ac3(steel.composition))} (Andrews 1965)")
+            f"· Ac3 ≈ {units.format_temperature(Andrews_1965_Ac3(steel.composition))} (Andrews 1965)"
+            + _ideal_diameter(steel))
+
+
+def _ideal_diameter(steel) -> str:
+    """`` · D_I 48 mm (1.90 in)`` (ASTM A255), or nothing for a steel beyond its factors."""
+    from .errors import InputError
+    from .models.hardenability import ideal_critical_diameter
+
+    try:
+        ideal = float(ideal_critical_diameter(steel.composition, steel.grain_size))
+    except InputError:
+        return ""
+    return f" · D_I {ideal * 1e3:.0f} mm ({ideal / 0.0254:.2f} in; ASTM A255, grain size {steel.grain_size:g})"
 
 
 def _nitriding_steel(steel, units) -> str:
@@ -53,7 +66,8 @@ def _nitriding_steel(steel, units) -> str:
 
     typical = (f" · typical core {steel.core_hardness_hv:.0f} HV, nitrided {steel.nitrided_surface_hv:.0f} HV"
                if steel.core_hardness_hv and steel.nitrided_surface_hv else "")
-    return f"{steel.standard}. Nitride formers bind {nitride_capacity(steel.composition):.2f} wt % N{typical}"
+    return (f"{steel.standard}. Nitride formers bind {nitride_capacity(steel.composition):.2f} wt % N{typical}"
+            + _ideal_diameter(steel))
 
 
 def _one_soak_only(values: Mapping[str, Any]) -> None:

@@ -48,10 +48,16 @@ def test_units_in_and_out(capsys):
 
 
 def test_hardness_threshold_reports_its_carbon(capsys):
-    _, out, _ = run(capsys, "--target", "1.0mm", "--at", "50HRC", "--json")
+    """50 HRC on 8620: about 0.35–0.40 %C in a well-quenched, tempered case (common practice, from memory); read
+    from the quench, a thick section in oil needs a little more carbon (bainite where the case is leanest)."""
+    _, out, _ = run(capsys, "--target", "1.0mm", "--at", "50HRC", "--hardness-relation", "tempered", "--json")
     data = json.loads(out)
     assert 0.35 <= data["threshold_carbon_pct"] <= 0.40
     assert any("50 HRC is taken as" in w for w in data["warnings"])
+    _, out, _ = run(capsys, "--target", "1.0mm", "--at", "50HRC", "--json")
+    data = json.loads(out)
+    assert 0.35 <= data["threshold_carbon_pct"] <= 0.46
+    assert any("50 HRC is read as" in w for w in data["warnings"])
 
 
 @pytest.mark.parametrize("args", [

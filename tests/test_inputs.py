@@ -81,8 +81,10 @@ def test_custom_compositions():
     ({"potential": "nan"}, "potential", "finite"),
     ({"beta": "1e-12"}, "beta", "cm/s"),
     ({"at": "0.15%C"}, "at", "core carbon"),
-    ({"at": "40HRC"}, "at", "core carbon"),
-    ({"at": "70HRC"}, "at", "13.5–60.0 HRC"),
+    ({"at": "40HRC", "hardness_relation": "tempered"}, "at", "core carbon"),
+    ({"at": "70HRC", "hardness_relation": "tempered"}, "at", "13.5–60.0 HRC"),
+    ({"at": "20HRC"}, "at", "the core .* already reaches"),
+    ({"at": "70HRC"}, "at", "above the .* HRC the case reaches"),
     ({"at": "1000HV"}, "at", "238–940 HV"),
     ({"geometry": "cylinder"}, "diameter", "needs its diameter"),
     ({"geometry": "cylinder", "diameter": "0.01mm"}, "diameter", "0.1–2000 mm"),
@@ -121,12 +123,19 @@ def test_warnings_for_carbides_and_grain_growth():
 
 def test_plain_carbon_grades_with_a_hardness_threshold_are_flagged():
     """Common practice: plain-carbon case-hardening grades need a fast quench for the case to harden through to a
-    hardness threshold; alloy grades do not get the note, nor do carbon thresholds."""
+    hardness threshold. Under the first release's fixed relation they get a note (alloy grades and carbon
+    thresholds do not); from the quench, an oil-quenched 1018 case never reaches 50 HRC and the threshold is refused
+    with what would help, while a water or brine quench reaches it."""
     def notes(grade, at):
-        return [w for w in casedepth.setup(grade, "925C", 1.0, at=at).warnings() if "plain-carbon" in w]
+        return [w for w in casedepth.setup(grade, "925C", 1.0, at=at, hardness_relation="tempered").warnings()
+                if "plain-carbon" in w]
 
     assert notes("1018", "50HRC") and notes("C15E", "550HV")
     assert not notes("8620", "50HRC") and not notes("1018", "0.40%C")
+    with pytest.raises(InputError, match="harsher quench") as error:
+        casedepth.setup("1018", "925C", 1.0, at="50HRC")
+    assert error.value.field == "at"
+    assert 0.3 <= casedepth.setup("1018", "925C", 1.0, at="50HRC", quench="brine").threshold_carbon <= 0.45
 
 
 def test_total_case_threshold():

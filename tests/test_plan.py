@@ -32,7 +32,9 @@ def changed_plan() -> Plan:
                 shop={"furnace_rate_per_h": 80.0, "parts_per_load": 50}, count_shop_stages=False, treatment="nitriding",
                 kn=2.0, compound_min=4e-6, compound_max=8e-6, core_hardness=310.0, surface_hardness=800.0,
                 n_multiplier=0.5, two_stage=True, kn_second=0.4, layer_model="rate-law-2026")
-    plan.update(zone_model="sharp-front-2026", n_diffusivity="bohnenkamp-1967", nitrided_limit=400.0)
+    plan.update(zone_model="sharp-front-2026", n_diffusivity="bohnenkamp-1967", nitrided_limit=400.0, quench="still-water",
+                quench_temperature=40 + 273.15, temper_temperature=180 + 273.15, temper_time=3 * 3600.0,
+                surface_hrc_min=58.0, surface_hrc_max=62.0, core_hrc_min=30.0, core_hrc_max=42.0)
     return plan
 
 
@@ -145,12 +147,21 @@ def test_migration_writes_the_models_and_policies_explicitly_and_offers_the_newe
     old = load(PLANS / "schema-1.cdplan.json")
     assert old.count_shop_stages is False
     assert to_dict(old)["shop_stages_counted"] is False
-    [offer] = old.offers()
+    offer, relation = old.offers()  # and the carbon → hardness relation from the quench (schema 6)
+    assert (relation.key, relation.value) == ("hardness_relation", "structure-2026")
     assert (offer.key, offer.value) == ("count_shop_stages", True) and "schema 4" in offer.text
     before = evaluate(old).soak_time
     old.accept(offer)
-    assert old.count_shop_stages and not old.offers()
+    assert old.count_shop_stages and [o.key for o in old.offers()] == ["hardness_relation"]
     assert evaluate(old).soak_time < before  # the heat-up and drop now add case
+    old.undo()
+    assert evaluate(old).soak_time == before
+    # its 550 HV threshold was a fixed carbon; from the quench it is read at the plan's own section and quench
+    fixed = evaluate(old).setup.threshold_carbon
+    old.accept(relation)
+    newer = evaluate(old)
+    assert newer.hardened is not None and newer.setup.threshold_carbon != pytest.approx(fixed, abs=0.01)
+    assert newer.soak_time != pytest.approx(before, rel=0.02)
     old.undo()
     assert evaluate(old).soak_time == before
     nitrided = load(PLANS / "schema-3.cdplan.json")

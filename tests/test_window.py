@@ -222,12 +222,13 @@ def test_old_files_open_with_their_own_numbers_and_the_newer_choice_offered(wind
     with qtbot.waitSignal(window.result_shown, timeout=20000):
         window.offers.take.click()
     assert window.plan.count_shop_stages and window.outcome.soak_time < old
-    assert not window.offers.isVisibleTo(window)
+    # the next newer choice: hardness from the quench (schema 6)
+    assert window.offers.isVisibleTo(window) and "Carbon → hardness" in window.offers.text.text()
     with qtbot.waitSignal(window.result_shown, timeout=20000):
         window.undo_action.trigger()
-    assert window.outcome.soak_time == old and window.offers.isVisibleTo(window)
+    assert window.outcome.soak_time == old and "schema 4" in window.offers.text.text()
     window.offers.keep.click()
-    assert not window.offers.isVisibleTo(window) and not window.plan.count_shop_stages
+    assert not window.plan.count_shop_stages and "schema 4" not in window.offers.text.text()
 
 
 def test_unsaved_changes_prompt(window, monkeypatch):

@@ -12,6 +12,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field, replace
+from functools import cached_property
 from typing import Any, Callable, Mapping
 
 import numpy as np
@@ -21,7 +22,7 @@ from ..constants import ZERO_CELSIUS
 from ..errors import InputError
 from ..models.atmosphere import ENDO_CO_FRACTION, probe_setpoints
 from ..models.diffusivity import Diffusivity
-from ..models.hardness import HARDNESS_RELATIONS, ASTM_E140_hv_to_hrc
+from ..models.hardness import HARDNESS_RELATIONS, HV_RANGE, ASTM_E140_hrc_to_hv, ASTM_E140_hv_to_hrc
 from ..models.steels import steel_for
 from ..numerics.geometry import Geometry
 from ..numerics.solver import Profile
@@ -32,6 +33,7 @@ from ..units import DisplayUnits, Threshold, format_duration
 from .cycle import (CycleResult, Stage, describe_counted, run_recipe, shop_stages, stage_from_dict, stage_lines,
                     stage_to_dict, timeline)
 from .planners import plan_boost_diffuse, plan_single_soak
+from .hardening import DEFAULT_HARDNESS_DEPTH, Hardening, core_depth, hardness_at
 from .setup import CarburizingSetup, case_warnings
 from .soak import CarburizingResult, carburize, check_probe_depth, check_soak, soak_times_for_case_depths
 
@@ -62,6 +64,8 @@ def carburizing_setup(values: Mapping[str, Any]) -> CarburizingSetup:
             alloy_factor_on=values["alloy_factor"],
             geometry=Geometry(values["shape"], values["size"]),
             hardness_relation=values["hardness_relation"],
+            hardening=hardening_of(values),
+            hardness_depth=_aim_depth(values),
         )
     except InputError as error:
         renamed = {"carbon_potential": key, "temperature": temperature_key}.get(error.field, error.field)
@@ -70,6 +74,21 @@ def carburizing_setup(values: Mapping[str, Any]) -> CarburizingSetup:
 
 def shop_of(values: Mapping[str, Any]) -> ShopDefaults:
     return ShopDefaults.from_dict(values["shop"])
+
+
+def hardening_of(values: Mapping[str, Any]) -> Hardening:
+    """The plan's quench and temper, quenched from the shop's hardening temperature."""
+    return Hardening(values["quench"], values["quench_temperature"], values["temper_temperature"],
+                     values["temper_time"], shop_of(values).drop_temperature_c + ZERO_CELSIUS)
+
+
+def _aim_depth(values: Mapping[str, Any]) -> float:
+    """The drawing's aim depth [m], where a hardness threshold's cooling is read (the window's middle if the
+    window itself is at fault: its own error comes later, naming it)."""
+    try:
+        return drawing_window(values)[1]
+    except InputError:
+        return DEFAULT_HARDNESS_DEPTH
 
 
 # -- the cycles ---------------------------------------------------------------------------------------------
@@ -211,11 +230,14 @@ def evaluate(values: Mapping[str, Any]) -> "CarburizingOutcome":
         probe = probe_setpoints(planned.stages, carrier_co)
     except InputError:  # a stage outside the probe relation's range: no setpoint rather than no plan
         probe = []
-    return CarburizingOutcome(
+    outcome = CarburizingOutcome(
         values=dict(values), setup=setup, cycle_kind=cycle.key, planned=planned, targets=targets,
-        quote=quote_lines(stage_lines(planned.stages), shop), warnings=planned.warnings,
+        quote=quote_lines(stage_lines(planned.stages), shop), warnings=list(planned.warnings),
         cautions=safety.cautions(setup.temperature, setup.equilibrium_carbon, setup.saturation_carbon),
         probe=probe, carrier_co=carrier_co)
+    if outcome.hardened is not None:
+        outcome.warnings += outcome.hardened.warnings(values)
+    return outcome
 
 
 # -- what a soak gives ---------------------------------------------------------------------------------------
@@ -244,6 +266,68 @@ def forward(values: Mapping[str, Any], soak: float, probe_depth: float | None = 
 
 
 # -- the outcome -----------------------------------------------------------------------------------------------
+#: how sure a hardness from the quench is, HRC: the coefficients are from memory and the quench's constant h is
+#: an average (an oil-quenched surface cools faster in the boiling stage); printed with every figure
+HARDNESS_UNCERTAINTY_HRC = 3.0
+
+
+@dataclass
+class Hardened:
+    """The part after its quench and temper (the structure relation): hardness [HV] and retained austenite
+    [-] along the profile at the end, the surface and core hardness [HV], where the core was read [m], the
+    ideal critical diameter of the core and of the case at the surface carbon [m], and the hardening."""
+
+    depth: np.ndarray
+    hardness: np.ndarray
+    retained_austenite: np.ndarray
+    martensite: np.ndarray
+    surface: float
+    core: float
+    core_depth: float
+    ideal_diameter: float
+    case_ideal_diameter: float
+    hardening: Hardening
+
+    @property
+    def surface_hrc(self) -> float:
+        return float(ASTM_E140_hv_to_hrc(np.clip(self.surface, HV_RANGE[0], HV_RANGE[1])))
+
+    @property
+    def core_hrc(self) -> float:
+        return float(ASTM_E140_hv_to_hrc(np.clip(self.core, HV_RANGE[0], HV_RANGE[1])))
+
+    def warnings(self, values: Mapping[str, Any]) -> list[str]:
+        """Which of the drawing's surface and core hardness windows the part misses, and what would move it."""
+        out = []
+        ra = 100.0 * float(self.retained_austenite[0])
+        low, high = values.get("surface_hrc_min"), values.get("surface_hrc_max")
+        if low is not None and self.surface_hrc < low:
+            why = (f"retained austenite is about {ra:.0f} % there: a lower surface carbon (a diffuse stage), a colder "
+                   f"quench or a deep freeze would raise it" if ra >= 10.0 else
+                   "the case does not fully harden there: a harsher quench or a richer steel would raise it"
+                   if float(self.martensite[0]) < 0.9 else
+                   "a lower temper or a higher surface carbon would raise it")
+            out.append(f"Surface hardness {self.surface_hrc:.1f} HRC is below the drawing's {_window(low, high)}: {why}.")
+        if high is not None and self.surface_hrc > high:
+            out.append(f"Surface hardness {self.surface_hrc:.1f} HRC is above the drawing's {_window(low, high)}: a "
+                       f"higher temper or a lower surface carbon would lower it.")
+        low, high = values.get("core_hrc_min"), values.get("core_hrc_max")
+        if low is not None and self.core_hrc < low:
+            out.append(f"Core hardness {self.core_hrc:.1f} HRC is below the drawing's {_window(low, high)}: a richer "
+                       f"steel (ideal diameter now {self.ideal_diameter * 1e3:.0f} mm), a harsher quench or a higher "
+                       f"core carbon would raise it.")
+        if high is not None and self.core_hrc > high:
+            out.append(f"Core hardness {self.core_hrc:.1f} HRC is above the drawing's {_window(low, high)}: a milder "
+                       f"quench or a leaner steel would lower it.")
+        return out
+
+
+def _window(low: float | None, high: float | None) -> str:
+    if high is None:
+        return f"minimum {low:.0f} HRC"
+    return f"{low:.0f}–{high:.0f} HRC" if low is not None else f"maximum {high:.0f} HRC"
+
+
 @dataclass
 class CarburizingOutcome(Outcome):
     """What a carburizing plan gives: the soaks (or boost and diffuse), the case and profile at the end,
@@ -310,6 +394,39 @@ class CarburizingOutcome(Outcome):
     def duration(self) -> float:
         return float(self._end.history.times[-1])
 
+    @property
+    def hardenability_case_carbon(self) -> float:
+        return round(min(self.surface_carbon, 0.9), 2)
+
+    @cached_property  # the quench through the section and the structure at every depth: once per outcome
+    def hardened(self) -> Hardened | None:
+        """The part after its quench and temper (None under the first release's carbon → hardness relations)."""
+        s = self.setup
+        if not s.structure:
+            return None
+        from ..models.hardenability import ideal_critical_diameter
+
+        end = self.profile
+        grain = s.steel.grain_size
+        core_x = core_depth(s.geometry)
+        depths = np.append(end.depth, core_x)
+        carbon = np.append(end.carbon, s.steel.carbon)
+        out = hardness_at(s.steel.composition, s.geometry, s.hardening, depths, carbon)
+        hv, ra, martensite = out["hv"], out["retained_austenite"], out["martensite"]
+        return Hardened(end.depth, hv[:-1], ra[:-1], martensite[:-1], float(hv[0]), float(hv[-1]), core_x,
+                        float(ideal_critical_diameter(s.steel.composition, grain)),
+                        float(ideal_critical_diameter(s.steel.composition, grain, carbon=min(end.surface_carbon, 0.9))),
+                        s.hardening)
+
+    def _hardness_of(self, profile: Profile):
+        """Hardness [HV] along ``profile``: from the quench's structure, or the relation's carbon → hardness."""
+        s = self.setup
+        if s.structure:
+            if profile is self.profile:
+                return self.hardened.hardness
+            return hardness_at(s.steel.composition, s.geometry, s.hardening, profile.depth, profile.carbon)["hv"]
+        return HARDNESS_RELATIONS[s.hardness_relation].hv(profile.carbon)
+
     def profile_at(self, time: float) -> Profile:
         return self._end.profile_at(time)
 
@@ -368,11 +485,48 @@ class CarburizingOutcome(Outcome):
             Fact("equilibrium", "Surface carbon in equilibrium" if self.cycle_kind == "single" else "Richest gas, in equilibrium",
                  f"{s.equilibrium_carbon:.3f} %C (alloy factor {s.alloy_factor:.3f})"),
             Fact("saturation", "Saturation (Acm)", f"{s.saturation_carbon:.2f} %C"),
+            *self._hardness_facts(),
             Fact("probe", "Oxygen probe (ideal)", (", ".join(f"{label.lower()} {mv:.0f} mV" for label, mv in self.probe)
                                                    or "—") + f"  ({100 * self.carrier_co:.0f} % CO carrier)"),
             quote_fact(self.quote),
         ]
         return Summary(self._headline(), self._how(units), facts)
+
+    def _hardness_facts(self) -> list[Fact]:
+        hardened = self.hardened
+        if hardened is None:
+            return []
+        v = self.values
+
+        def window(low, high):
+            return "" if low is None and high is None else f" (drawing {_window(low, high)})"
+
+        return [Fact("hardness", f"Surface / core hardness (±{HARDNESS_UNCERTAINTY_HRC:g} HRC)",
+                     f"{hardened.surface_hrc:.1f} HRC{window(v['surface_hrc_min'], v['surface_hrc_max'])} / "
+                     f"{hardened.core_hrc:.1f} HRC{window(v['core_hrc_min'], v['core_hrc_max'])}"),
+                Fact("hardenability", "Retained austenite, D_I",
+                     f"{100 * float(hardened.retained_austenite[0]):.0f} % at the surface; ideal diameter "
+                     f"{hardened.ideal_diameter * 1e3:.0f} mm (core)")]
+
+    def _hardness_lines(self, units: DisplayUnits) -> list[str]:
+        """The surface and core hardness against the drawing, retained austenite and D_I, for text and sheet."""
+        hardened = self.hardened
+        if hardened is None:
+            return []
+        v = self.values
+
+        def against(hrc, low, high):
+            if low is None and high is None:
+                return ""
+            ok = (low is None or hrc >= low) and (high is None or hrc <= high)
+            return f" (drawing {_window(low, high)}: {'in' if ok else 'OUT'})"
+
+        return [f"  surface hardness      {hardened.surface_hrc:.1f} HRC ±{HARDNESS_UNCERTAINTY_HRC:g}"
+                f"{against(hardened.surface_hrc, v['surface_hrc_min'], v['surface_hrc_max'])}; retained austenite "
+                f"{100 * float(hardened.retained_austenite[0]):.0f} %",
+                f"  core hardness         {hardened.core_hrc:.1f} HRC{against(hardened.core_hrc, v['core_hrc_min'], v['core_hrc_max'])}"
+                f" at {units.format_length(hardened.core_depth)}; ideal diameter D_I {hardened.ideal_diameter * 1e3:.0f} mm",
+                f"  quench and temper     {hardened.hardening.describe(units)}"]
 
     def timeline(self) -> Timeline:
         times, temps, pots, labels = timeline(self.stages)
@@ -387,8 +541,13 @@ class CarburizingOutcome(Outcome):
         when = (f"after {format_duration(shown.time)} of {format_duration(self.duration)}" if scrubbing
                 else f"after the full {whole}, {format_duration(self.duration)}")
         relation = HARDNESS_RELATIONS[s.hardness_relation]
-        threshold_hv = float(relation.hv(s.threshold_carbon))
-        hv, end_hv = relation.hv(shown.carbon), relation.hv(end.carbon)
+        if s.structure:
+            threshold_hv = (float(relation.hv(np.array([s.threshold_carbon]), s.quenched_at(s.hardness_depth))[0])
+                            if not s.threshold.is_hardness else
+                            (s.threshold.value if s.threshold.kind == "HV" else float(ASTM_E140_hrc_to_hv(s.threshold.value))))
+        else:
+            threshold_hv = float(relation.hv(s.threshold_carbon))
+        hv, end_hv = self._hardness_of(shown), self._hardness_of(end)
         final_label = "at the end of the " + whole
         top = max(s.saturation_carbon, s.equilibrium_carbon, float(end.carbon.max())) * 1.08
         main = Panel("carbon [wt %]", Curve(shown.depth, shown.carbon, "carbon"),
@@ -398,12 +557,14 @@ class CarburizingOutcome(Outcome):
                       Level(s.steel.carbon, f"core {s.steel.carbon:.2f} %C", "core"),
                       Level(s.saturation_carbon, f"saturation (Acm) {s.saturation_carbon:.2f} %C", "limit")],
                      (0.0, top), "Carbon " + when)
-        hardness = Panel("hardness [HV]", Curve(shown.depth, hv, f"estimated: {relation.display}"),
+        hardness = Panel("hardness [HV]", Curve(shown.depth, hv, "estimated from the quench and temper" if s.structure
+                                                else f"estimated: {relation.display}"),
                          Curve(end.depth, end_hv, final_label) if scrubbing else None,
                          [Level(threshold_hv, f"threshold ≈ {threshold_hv:.0f} HV "
                                               f"({ASTM_E140_hv_to_hrc(threshold_hv):.1f} HRC)", "threshold")],
                          (min(float(end_hv.min()), threshold_hv) - 60, max(float(end_hv.max()), threshold_hv) + 60),
-                         "Hardness " + when + "; assumes a fully martensitic case", hrc_axis=True)
+                         "Hardness " + when + ("; " + s.hardening.describe() if s.structure else
+                                               "; assumes a fully martensitic case"), hrc_axis=True)
         reach = max(high * 2.2, self.depth * 2.0)
         half = s.geometry.half_section
         return ProfileView(self.profile_name, main, hardness, min(reach, half) if np.isfinite(half) else reach,
@@ -417,7 +578,7 @@ class CarburizingOutcome(Outcome):
         relation = HARDNESS_RELATIONS[s.hardness_relation]
         what = (f"soak {self.duration / 3600:.4f} h at {s.temperature - ZERO_CELSIUS:.0f} C" if self.cycle is None
                 else f"end of a {self.duration / 3600:.4f} h cycle")
-        return f"{what}; hardness assumes {relation.assumptions}"
+        return f"{what}; hardness " + (s.hardening.describe() if s.structure else f"assumes {relation.assumptions}")
 
     def profile_columns(self):
         comment, columns = super().profile_columns()
@@ -441,6 +602,18 @@ class CarburizingOutcome(Outcome):
         if self.cycle_kind == "single":
             low, _, high = self.soak_window
             out["window_soak_time_h"] = [low / 3600.0, high / 3600.0]
+        out["profile"]["hardness_hv"] = [float(v) for v in self._hardness_of(self.profile)]
+        hardened = self.hardened
+        if hardened is not None:
+            out.update(surface_hardness_hrc=hardened.surface_hrc, core_hardness_hrc=hardened.core_hrc,
+                       core_depth_mm=hardened.core_depth * 1e3,
+                       retained_austenite_surface_pct=100.0 * float(hardened.retained_austenite[0]),
+                       ideal_diameter_mm=hardened.ideal_diameter * 1e3,
+                       case_ideal_diameter_mm=hardened.case_ideal_diameter * 1e3,
+                       quench=self.values["quench"], quench_temperature_c=hardened.hardening.quench_temperature - ZERO_CELSIUS,
+                       temper_temperature_c=(None if hardened.hardening.temper_temperature is None else
+                                             hardened.hardening.temper_temperature - ZERO_CELSIUS),
+                       temper_time_h=hardened.hardening.temper_time / 3600.0)
         if self.boost_time is not None:
             out.update(boost_time_h=self.boost_time / 3600.0, diffuse_time_h=self.diffuse_time / 3600.0,
                        surface_target_pct=[self.values["surface_min"], self.values["surface_max"]],
@@ -471,6 +644,7 @@ class CarburizingOutcome(Outcome):
         lines += s.describe_lines(self.surface_carbon)
         if self.cycle_kind == "boost-diffuse":
             lines[-3] += f"; window {self.values['surface_min']:.2f}–{self.values['surface_max']:.2f} %C"
+        lines += self._hardness_lines(units)
         if self.probe:
             lines.append("  oxygen probe          " + ", ".join(f"{label.lower()} {mv:.0f} mV" for label, mv in self.probe)
                          + f" ({self.carrier_co * 100:g} % CO carrier; ideal probe, trim with the controller's CO factor)")
@@ -496,6 +670,7 @@ class CarburizingOutcome(Outcome):
             lines.append("Shop stages " + describe_counted(self.planned.counted))
         lines.append(f"{s.threshold.depth_name.capitalize()} {units.format_length(self.depth)} at {s.threshold}; surface "
                      f"carbon {self.surface_carbon:.3f} %C at the end; aim {units.format_length(aim)}")
+        lines += [line.strip() for line in self._hardness_lines(units)]
         lines.append(f"Models: {s.models_text()}; alloy factor "
                      + (f"{s.alloy_factor:.3f} (Gunnarson)" if s.alloy_factor_on else "off")
                      + (f"; {HARDNESS_RELATIONS[s.hardness_relation].display.lower()}" if s.threshold.is_hardness else ""))

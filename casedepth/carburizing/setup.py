@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
+from functools import cached_property
 
 import numpy as np
 
@@ -16,12 +17,13 @@ from ..constants import ZERO_CELSIUS
 from ..errors import InputError, NotReachableError
 from ..models.austenite import Andrews_1965_Ac3
 from ..models.diffusivity import Diffusivity
-from ..models.hardness import HARDNESS_RELATIONS, threshold_carbon
+from ..models.hardness import DEFAULT_HARDNESS_RELATION, HARDNESS_RELATIONS, Quenched, threshold_carbon
 from ..models.steels import Steel
 from ..models.surface import DEFAULT_BETA, Gunnarson_alloy_factor, equilibrium_surface_carbon, steel_saturation_carbon
 from ..numerics.geometry import Geometry
 from ..numerics.solver import Accuracy, CarbonSolver, SurfaceCondition
 from ..units import Threshold, as_number, both_temperatures, finite_number, temperature_range
+from .hardening import DEFAULT_HARDNESS_DEPTH, Hardening, quenched_at
 
 MAX_TEMPERATURE = 1100.0 + ZERO_CELSIUS  # K; top of the range the diffusivity and Acm data cover
 GRAIN_GROWTH_TEMPERATURE = 980.0 + ZERO_CELSIUS  # K; common practice, see warnings()
@@ -55,6 +57,10 @@ class CarburizingSetup:
         Shape and size of the part.
     hardness_relation : str
         Key of :data:`casedepth.hardness.HARDNESS_RELATIONS` used for hardness thresholds.
+    hardening : Hardening
+        The quench and temper (the structure relation reads hardness from them).
+    hardness_depth : float
+        Depth at whose cooling a hardness threshold is turned into carbon, [m]: the drawing's aim.
     accuracy : Accuracy
         Discretisation settings.
     """
@@ -67,8 +73,10 @@ class CarburizingSetup:
     beta: float = DEFAULT_BETA
     alloy_factor_on: bool = True
     geometry: Geometry = field(default_factory=Geometry)
-    hardness_relation: str = "tempered"
+    hardness_relation: str = DEFAULT_HARDNESS_RELATION
     accuracy: Accuracy = field(default_factory=Accuracy)
+    hardening: Hardening = field(default_factory=Hardening)
+    hardness_depth: float = DEFAULT_HARDNESS_DEPTH
 
     def __post_init__(self):
         ac3 = Andrews_1965_Ac3(self.steel.composition)
@@ -119,12 +127,24 @@ class CarburizingSetup:
         """Carbon saturation (Acm) of this steel's austenite at the temperature, [wt %]."""
         return steel_saturation_carbon(self.temperature, self.alloy_factor)
 
-    @property
+    @cached_property  # a root search for the structure relation; read by every step of a march
     def threshold_carbon(self) -> float:
-        """The carbon content [wt %] that the threshold stands for (total case: the core's carbon plus the excess)."""
+        """The carbon content [wt %] that the threshold stands for (total case: the core's carbon plus the excess;
+        a hardness under the structure relation: the carbon whose case reaches it with the quench at
+        :attr:`hardness_depth`)."""
         if self.threshold.kind == "above core":
             return self.steel.carbon + self.threshold.value
-        return threshold_carbon(self.threshold, self.hardness_relation)
+        quenched = self.quenched_at(self.hardness_depth) if self.structure and self.threshold.is_hardness else None
+        return threshold_carbon(self.threshold, self.hardness_relation, quenched, self.steel.carbon)
+
+    @property
+    def structure(self) -> bool:
+        """Whether hardness comes from the quench's structure (the relation's row says)."""
+        return HARDNESS_RELATIONS[self.hardness_relation].structure
+
+    def quenched_at(self, depth: float) -> Quenched:
+        """How ``depth`` [m] of this part is quenched and tempered (for the structure relation)."""
+        return quenched_at(self.steel.composition, self.geometry, self.hardening, depth)
 
     @property
     def surface_condition(self) -> SurfaceCondition:
@@ -147,10 +167,14 @@ class CarburizingSetup:
                        f"unless made fine-grained (common practice); check the steel's grain-size control.")
         if self.threshold.is_hardness:
             rel = HARDNESS_RELATIONS[self.hardness_relation]
-            out.append(f"{self.threshold} is taken as {self.threshold_carbon:.2f} %C ({rel.display}; "
-                       f"assumes {rel.assumptions}).")
+            if rel.structure:
+                out.append(f"{self.threshold} is read as {self.threshold_carbon:.2f} %C: the carbon whose case reaches "
+                           f"it with this steel, quench and temper at the aim depth ({self.hardness_depth * 1e3:.2f} mm).")
+            else:
+                out.append(f"{self.threshold} is taken as {self.threshold_carbon:.2f} %C ({rel.display}; "
+                           f"assumes {rel.assumptions}).")
             c = self.steel.composition
-            if sum(float(c.get(el, 0.0)) for el in ("Cr", "Ni", "Mo")) < 0.3 and float(c.get("Mn", 0.0)) < 1.0:
+            if not rel.structure and sum(float(c.get(el, 0.0)) for el in ("Cr", "Ni", "Mo")) < 0.3 and float(c.get("Mn", 0.0)) < 1.0:
                 out.append("This is a plain-carbon grade: its case hardens through to the threshold only with a fast "
                            "(water or brine) quench or in thin sections; after an oil quench the hardness depth may "
                            "fall short of this carbon-based estimate (common practice). Confirm on a test section.")

@@ -286,8 +286,67 @@ class _TradeoffPage(QSplitter):
         self.note.setText(note)
 
 
+def _diameter(metres: float) -> str:
+    """An ideal critical diameter as the trade quotes it: ``48 mm (1.90 in)``."""
+    return f"{metres * 1e3:.0f} mm ({metres / 0.0254:.2f} in)"
+
+
+class _HardenabilityPage(QSplitter):
+    """The steel's hardenability: its Jominy curve (and the case's, at the surface carbon), the ideal critical
+    diameter, and what the estimate rests on."""
+
+    def __init__(self, parent=None):
+        super().__init__(Qt.Vertical, parent)
+        self.figure = Figure(figsize=(6, 3))
+        self.figure.subplots_adjust(left=0.09, right=0.97, top=0.9, bottom=0.16)
+        self.canvas = FigureCanvasQTAgg(self.figure)
+        keep_margins(self.canvas, self.figure, 62, 20, 46, 28)
+        self.addWidget(self.canvas)
+        self.axes = self.figure.add_subplot()
+        self.note = QLabel()
+        self.note.setObjectName("hardenability_note")
+        self.note.setWordWrap(True)
+        self.note.setMinimumHeight(44)
+        self.addWidget(self.note)
+        self.setSizes([400, 80])
+
+    def show_outcome(self, outcome: Outcome, units: DisplayUnits) -> None:
+        facts = outcome.hardenability()
+        ax = self.axes
+        ax.clear()
+        steel = outcome.setup.steel
+        if "error" in facts:
+            ax.set_axis_off()
+            ax.text(0.5, 0.5, facts["error"], transform=ax.transAxes, ha="center", va="center", wrap=True, fontsize=10,
+                    color="#555")
+            self.note.setText("")
+            self.canvas.draw_idle()
+            return
+        ax.set_axis_on()
+        distance = facts["curve_distances"] / 0.0254 * 16.0  # sixteenths of an inch, as Jominy curves are read
+        ax.plot(distance, facts["curve_hrc"], color=INK, lw=2, label=f"core, {steel.carbon:.2f} %C")
+        if facts["case_curve_hrc"] is not None:
+            ax.plot(distance, facts["case_curve_hrc"], color=THRESHOLD, lw=2, ls="--",
+                    label=f"case at the surface carbon, {facts['case_carbon']:.2f} %C")
+        ax.set_xlabel("distance from the quenched end [1/16 in]")
+        ax.set_ylabel("hardness [HRC]")
+        ax.set_xlim(0, 32)
+        ax.grid(True, color="#dddddd", lw=0.6)
+        ax.legend(fontsize=8, loc="upper right")
+        ideal = facts["ideal_diameter"]
+        ax.set_title(f"Jominy end-quench curve of {steel.name}, estimated (D_I {_diameter(ideal)})", fontsize=10)
+        self.canvas.draw_idle()
+        case = ("" if facts["case_ideal_diameter"] is None else
+                f"; the case at {facts['case_carbon']:.2f} %C: D_I {_diameter(facts['case_ideal_diameter'])}")
+        methods = facts["methods"]
+        self.note.setText(f"Ideal critical diameter of the core {_diameter(ideal)} (grain size ASTM "
+                          f"{facts['grain_size']:g}){case}. {methods[:1].upper() + methods[1:]}. "
+                          + " ".join(facts["warnings"]))
+
+
 class ProfilePlots(QTabWidget):
-    """Four pages: the main profile (carbon or nitrogen), hardness, the cycle and quote, other temperatures."""
+    """Five pages: the main profile (carbon or nitrogen), hardness, the cycle and quote, other temperatures, and
+    the steel's hardenability."""
 
     def __init__(self, parent=None):
         super().__init__(parent)
@@ -295,8 +354,10 @@ class ProfilePlots(QTabWidget):
         self.hardness_page = _PlotPage(hrc_axis=True)
         self.cycle_page = _CyclePage()
         self.tradeoff_page = _TradeoffPage()
-        self.pages = (self.carbon_page, self.hardness_page, self.cycle_page, self.tradeoff_page)
-        for page, name in zip(self.pages, ("Carbon profile", "Hardness profile", "Cycle and quote", "Temperatures")):
+        self.hardenability_page = _HardenabilityPage()
+        self.pages = (self.carbon_page, self.hardness_page, self.cycle_page, self.tradeoff_page, self.hardenability_page)
+        for page, name in zip(self.pages, ("Carbon profile", "Hardness profile", "Cycle and quote", "Temperatures",
+                                           "Hardenability")):
             self.addTab(page, name)
         self.outcome: Outcome | None = None
         self.units = DisplayUnits()

@@ -2,9 +2,10 @@
 
 Drawings give effective case depth at a hardness (550 HV after ISO 18203, 50 HRC after
 SAE J423) as often as at a carbon content. The solver works in carbon, so a hardness
-threshold is turned into the carbon content whose martensite has that hardness. The
-relations here assume a fully martensitic case (enough hardenability and a quench severe
-enough for the section); they do not model bainite, retained austenite or alloy effects.
+threshold is turned into the carbon content whose case has that hardness. The first release's
+relations assume a fully martensitic case (enough hardenability and a quench severe enough for
+the section); the structure relation works out what each depth becomes in the plan's quench
+(:mod:`casedepth.models.transformation`, :mod:`casedepth.models.quench`).
 """
 
 from __future__ import annotations
@@ -123,50 +124,122 @@ LOW_TEMPER_DROP_HRC = 6.5
 
 
 @dataclass(frozen=True)
+class Quenched:
+    """How a depth of the part was quenched and tempered, for the relation that works from the structure:
+    the steel's composition [wt %], the cooling rate at 700 °C there [K/s], the lowest temperature of the
+    quench [K] and the temper (temperature [K] and time [s], or None for as quenched)."""
+
+    composition: dict
+    cooling_rate: float
+    quench_temperature: float
+    temper_temperature: float | None = None
+    temper_time: float | None = None
+
+
+@dataclass(frozen=True)
 class HardnessRelation:
-    """One row of the carbon → hardness method table."""
+    """One row of the carbon → hardness method table.
+
+    A row either offsets the Just (1968) martensite hardness by a fixed number of HRC (``offset_hrc``;
+    the first release's rows, a fully martensitic case), or, with ``structure`` set, works out the
+    structure each depth gets in the quench — martensite, bainite, ferrite–pearlite, retained austenite,
+    and the temper — from :mod:`casedepth.models.transformation`, given a :class:`Quenched`.
+    """
 
     key: str
     display: str
     offset_hrc: float
     assumptions: str
     reference: str
+    structure: bool = False
+    superseded_by: str | None = None
 
-    def hrc(self, carbon):
-        """Hardness [HRC] of the case at carbon content [wt %]."""
-        return Just_1968_martensite_hrc(carbon) - self.offset_hrc
-
-    def hv(self, carbon):
-        """Hardness [HV] of the case at carbon content [wt %] (through ASTM E140); below 20 HRC clipped to the table."""
+    def hv(self, carbon, quenched: Quenched | None = None):
+        """Hardness [HV] of the case at carbon content [wt %] (through ASTM E140 for the fixed rows; below
+        20 HRC clipped to the table)."""
+        if self.structure:
+            return self.profile(carbon, quenched)["hv"]
         return ASTM_E140_hrc_to_hv(np.clip(self.hrc(carbon), HRC_RANGE[0], HRC_RANGE[1]))
 
-    def carbon_for_hrc(self, hrc: float) -> float:
-        """Carbon content [wt %] whose martensite has the given hardness [HRC]."""
-        top = self.hrc(JUST_PLATEAU_CARBON)
-        bottom = self.hrc(0.0)
-        if not (bottom < hrc < top):
-            raise InputError("threshold_value", f"{hrc:.1f} HRC is outside what the case can have under "
-                             f"'{self.display}', {bottom:.1f}–{top:.1f} HRC")
-        return ((hrc - 20.0 + self.offset_hrc) / 60.0) ** 2
+    def hrc(self, carbon, quenched: Quenched | None = None):
+        """Hardness [HRC] of the case at carbon content [wt %]."""
+        if self.structure:
+            hv = np.clip(self.hv(carbon, quenched), HV_RANGE[0], HV_RANGE[1])
+            return ASTM_E140_hv_to_hrc(hv)
+        return Just_1968_martensite_hrc(carbon) - self.offset_hrc
+
+    def profile(self, carbon, quenched: Quenched | None) -> dict:
+        """The structure and hardness at carbon content(s) [wt %] (structure rows only): the dict of
+        :func:`casedepth.models.transformation.hardness_profile`."""
+        from .transformation import hardness_profile
+
+        if quenched is None:
+            raise InputError("hardness_relation", f"'{self.display}' needs the quench (medium, temperature) and temper")
+        carbon = np.asarray(carbon, dtype=float)
+        rate = np.broadcast_to(np.asarray(quenched.cooling_rate, dtype=float), carbon.shape)
+        return hardness_profile(quenched.composition, carbon, rate, quenched.quench_temperature,
+                                quenched.temper_temperature, quenched.temper_time)
+
+    def carbon_for_hrc(self, hrc: float, quenched: Quenched | None = None, core: float = 0.0) -> float:
+        """Carbon content [wt %] whose case has the given hardness [HRC] (above ``core`` carbon, where the
+        hardness rises with carbon)."""
+        if not self.structure:
+            top = self.hrc(JUST_PLATEAU_CARBON)
+            bottom = self.hrc(0.0)
+            if not (bottom < hrc < top):
+                raise InputError("threshold_value", f"{hrc:.1f} HRC is outside what the case can have under "
+                                 f"'{self.display}', {bottom:.1f}–{top:.1f} HRC")
+            return ((hrc - 20.0 + self.offset_hrc) / 60.0) ** 2
+        from ..numerics.roots import illinois
+
+        # the hardness rises with carbon up to where retained austenite takes over: search below that peak
+        grid = np.linspace(core, 1.0, 61)
+        curve = np.asarray(self.hrc(grid, quenched), dtype=float)
+        peak = int(np.argmax(curve))
+        if curve[0] >= hrc:
+            raise InputError("threshold_value", f"{hrc:.1f} HRC: the core ({core:.2f} %C) already reaches "
+                             f"{curve[0]:.1f} HRC with this quench, so the whole section would count as case; "
+                             f"choose a higher threshold or a milder quench")
+        if curve[peak] <= hrc:
+            raise InputError("threshold_value", f"{hrc:.1f} HRC is above the {curve[peak]:.1f} HRC the case "
+                             f"reaches with this steel, quench and temper (at {grid[peak]:.2f} %C); lower the "
+                             f"threshold, or choose a richer steel or a harsher quench")
+        i = int(np.argmax(curve[:peak + 1] >= hrc))
+
+        def miss(c):
+            return float(self.hrc(np.array([c]), quenched)[0]) - hrc
+
+        return illinois(miss, float(grid[i - 1]), float(curve[i - 1]) - hrc, float(grid[i]), float(curve[i]) - hrc,
+                        1e-7, 1e-4)
 
 
 HARDNESS_RELATIONS: dict[str, HardnessRelation] = {
+    "structure-2026": HardnessRelation(
+        "structure-2026", "From the quench: hardenability, retained austenite, temper", 0.0,
+        "the structure each depth gets in the plan's quench (cooling rate at 700 °C through the part), "
+        "martensite/bainite/ferrite–pearlite by Maynier, Jungmann & Dollet (1978), retained austenite by "
+        "Koistinen & Marburger (1959), and the plan's temper",
+        "Maynier, Jungmann & Dollet (1978); Koistinen & Marburger, Acta Metall. 7 (1959) 59; Hollomon & Jaffe, "
+        "Trans. AIME 162 (1945) 223; cooling after Carslaw & Jaeger (1959)", structure=True),
     "tempered": HardnessRelation(
-        "tempered", "Martensite tempered at 150–200 °C", LOW_TEMPER_DROP_HRC,
+        "tempered", "Martensite tempered at 150–200 °C (first release)", LOW_TEMPER_DROP_HRC,
         "fully martensitic case, low-temperature temper; Just (1968) as-quenched hardness "
         f"less {LOW_TEMPER_DROP_HRC} HRC (common practice)",
-        "Just, Härterei-Tech. Mitt. 23 (1968) 85; temper drop: common practice",
+        "Just, Härterei-Tech. Mitt. 23 (1968) 85; temper drop: common practice", superseded_by="structure-2026",
     ),
     "as-quenched": HardnessRelation(
-        "as-quenched", "As-quenched martensite", 0.0,
+        "as-quenched", "As-quenched martensite (first release)", 0.0,
         "fully martensitic case, untempered, no retained austenite",
-        "Just, Härterei-Tech. Mitt. 23 (1968) 85",
+        "Just, Härterei-Tech. Mitt. 23 (1968) 85", superseded_by="structure-2026",
     ),
 }
+DEFAULT_HARDNESS_RELATION = "structure-2026"
 
 
-def threshold_carbon(threshold: Threshold, relation: str = "tempered") -> float:
-    """The carbon content [wt %] equivalent to a case-depth threshold (carbon passes through)."""
+def threshold_carbon(threshold: Threshold, relation: str = "tempered", quenched: Quenched | None = None,
+                     core: float = 0.0) -> float:
+    """The carbon content [wt %] equivalent to a case-depth threshold (carbon passes through); the
+    structure relation reads it at the quench ``quenched`` (and above the ``core`` carbon)."""
     if threshold.kind == "carbon":
         return threshold.value
     if threshold.kind == "above core":
@@ -179,9 +252,9 @@ def threshold_carbon(threshold: Threshold, relation: str = "tempered") -> float:
         raise error.renamed("threshold_value") from None
     rel = HARDNESS_RELATIONS[relation]
     try:
-        return rel.carbon_for_hrc(hrc)
+        return rel.carbon_for_hrc(hrc, quenched, core)
     except InputError:
-        if threshold.kind == "HRC":
+        if threshold.kind == "HRC" or rel.structure:
             raise
         low, high = (float(ASTM_E140_hrc_to_hv(x)) for x in (rel.hrc(0.0), rel.hrc(JUST_PLATEAU_CARBON)))
         raise InputError("threshold_value", f"{threshold} ({hrc:.1f} HRC) is outside what the case can have under "
@@ -190,5 +263,5 @@ def threshold_carbon(threshold: Threshold, relation: str = "tempered") -> float:
 
 __all__ = [
     "ASTM_E140_hrc_to_hv", "ASTM_E140_hv_to_hrc", "Just_1968_martensite_hrc", "HARDNESS_RELATIONS",
-    "HardnessRelation", "threshold_carbon",
+    "DEFAULT_HARDNESS_RELATION", "HardnessRelation", "Quenched", "threshold_carbon",
 ]

@@ -41,6 +41,7 @@ class Steel:
     core_hardness_hv: float | None = None  # typical after quench and temper (nitriding grades), [HV]
     nitrided_surface_hv: float | None = None  # typical after gas nitriding (nitriding grades), [HV]
     nitriding: "NitridingConstants | None" = field(default=None, compare=False)  # the precipitation model's constants
+    grain_size: float = 7.0  # austenite grain size, ASTM E112 number (library grades: typical; 7 when not known)
 
     @property
     def carbon(self) -> float:
@@ -68,7 +69,7 @@ def _all_grades() -> tuple[Steel, ...]:
         Steel(entry["name"], validate_composition(entry["composition"], f"steel library entry {entry['name']}"),
               entry["standard"], entry.get("note", ""), tuple(entry.get("also", ())),
               entry.get("process", "carburizing"), entry.get("core_hardness_hv"), entry.get("nitrided_surface_hv"),
-              _constants(entry))
+              _constants(entry), float(entry.get("grain_size_astm", 7.0)))
         for entry in data["steels"]
     )
 
