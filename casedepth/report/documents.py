@@ -183,7 +183,8 @@ def case_depth_chart(setup: CarburizingSetup, temperatures: list[float] | None =
     lines = [
         f"{steel.standard}; core {steel.carbon:.3f} %C; {what}; threshold {setup.threshold}"
         + ("" if setup.threshold.kind == "carbon" else f" (= {setup.threshold_carbon:.3f} %C"
-           + (f", {relation.display.lower()})" if setup.threshold.is_hardness else ")")),
+           + ((f", read from the quench: {setup.hardening.describe(u)}, at {u.format_length(setup.hardness_depth)})"
+               if relation.structure else f", {relation.display.lower()})") if setup.threshold.is_hardness else ")")),
         f"Models: D {setup.diffusivity.display}; {beta}; alloy factor "
         + (f"{setup.alloy_factor:.3f} (Gunnarson)" if setup.alloy_factor_on else "off")
         + f"; {setup.geometry.describe()}. Time at temperature only: heat-up and drop are not included.",
