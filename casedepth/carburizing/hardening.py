@@ -52,6 +52,15 @@ class Hardening:
                   f"tempered {temp(self.temper_temperature)} for {self.temper_time / 3600:g} h")
         return f"quenched from {temp(self.start_temperature)} in {medium.lower()} at {temp(self.quench_temperature)}, {temper}"
 
+    def short(self, units=None) -> str:
+        """The quench and temper in a few words, for plot titles: ``oil at 60 °C, temper 170 °C/2 h``."""
+        def temp(T):
+            return units.format_temperature(T) if units is not None else f"{T - ZERO_CELSIUS:.0f} °C"
+
+        temper = ("as quenched" if self.temper_temperature is None else
+                  f"temper {temp(self.temper_temperature)}/{self.temper_time / 3600:g} h")
+        return f"{self.medium} at {temp(self.quench_temperature)}, {temper}"
+
 
 def _quench_body(geometry) -> tuple[str, float | None]:
     """The body the quench model solves: the part's own plate, cylinder or sphere; a bore (a hole in a large

@@ -528,6 +528,22 @@ class CarburizingOutcome(Outcome):
                 f" at {units.format_length(hardened.core_depth)}; ideal diameter D_I {hardened.ideal_diameter * 1e3:.0f} mm",
                 f"  quench and temper     {hardened.hardening.describe(units)}"]
 
+    def _hardness_sheet_lines(self, units: DisplayUnits) -> list[str]:
+        """The hardness figures in two lines for the process sheet."""
+        hardened = self.hardened
+        if hardened is None:
+            return []
+        v = self.values
+
+        def against(low, high):
+            return "" if low is None and high is None else f" (drawing {_window(low, high)})"
+
+        return [f"Hardness (±{HARDNESS_UNCERTAINTY_HRC:g} HRC): surface {hardened.surface_hrc:.1f} HRC"
+                f"{against(v['surface_hrc_min'], v['surface_hrc_max'])}, retained austenite "
+                f"{100 * float(hardened.retained_austenite[0]):.0f} %; core {hardened.core_hrc:.1f} HRC"
+                f"{against(v['core_hrc_min'], v['core_hrc_max'])}; D_I {hardened.ideal_diameter * 1e3:.0f} mm",
+                f"Quench and temper: {hardened.hardening.describe(units)}"]
+
     def timeline(self) -> Timeline:
         times, temps, pots, labels = timeline(self.stages)
         return Timeline(times, temps, pots, labels, self.potential_name, 1.6)
@@ -563,7 +579,7 @@ class CarburizingOutcome(Outcome):
                          [Level(threshold_hv, f"threshold ≈ {threshold_hv:.0f} HV "
                                               f"({ASTM_E140_hv_to_hrc(threshold_hv):.1f} HRC)", "threshold")],
                          (min(float(end_hv.min()), threshold_hv) - 60, max(float(end_hv.max()), threshold_hv) + 60),
-                         "Hardness " + when + ("; " + s.hardening.describe() if s.structure else
+                         "Hardness " + when + ("; " + s.hardening.short() if s.structure else
                                                "; assumes a fully martensitic case"), hrc_axis=True)
         reach = max(high * 2.2, self.depth * 2.0)
         half = s.geometry.half_section
@@ -670,7 +686,7 @@ class CarburizingOutcome(Outcome):
             lines.append("Shop stages " + describe_counted(self.planned.counted))
         lines.append(f"{s.threshold.depth_name.capitalize()} {units.format_length(self.depth)} at {s.threshold}; surface "
                      f"carbon {self.surface_carbon:.3f} %C at the end; aim {units.format_length(aim)}")
-        lines += [line.strip() for line in self._hardness_lines(units)]
+        lines += self._hardness_sheet_lines(units)
         lines.append(f"Models: {s.models_text()}; alloy factor "
                      + (f"{s.alloy_factor:.3f} (Gunnarson)" if s.alloy_factor_on else "off")
                      + (f"; {HARDNESS_RELATIONS[s.hardness_relation].display.lower()}" if s.threshold.is_hardness else ""))

@@ -297,8 +297,11 @@ def process_sheet(plan, outcome: Outcome, paper: str = "a4", units: str = "metri
     y -= 0.02
     for line in [*content.lines, *_quote_line(outcome.quote)]:
         y = _wrapped(first, 0.06, y, line, 8, 128) - 0.017
-    profile_ax = first.add_axes([0.10, 0.38, 0.38, 0.22])
-    hardness_ax = first.add_axes([0.58, 0.38, 0.36, 0.22])
+    # the profiles fill what the result's lines leave above the warnings (which start at 0.32)
+    height = min(0.22, max(0.15, y - 0.035 - 0.38))
+    top = min(0.60, y - 0.035)
+    profile_ax = first.add_axes([0.10, top - height, 0.38, height])
+    hardness_ax = first.add_axes([0.58, top - height, 0.36, height])
     _profiles(profile_ax, hardness_ax, outcome, u)
     warnings = list(outcome.warnings)
     y = 0.32
