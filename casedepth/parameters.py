@@ -720,7 +720,7 @@ PARAMETERS: dict[str, Parameter] = {p.key: p for p in (
               decimals=0, help="the bath (oil) temperature: the lowest the case reaches before tempering",
               options=(Option("--quench-temperature", "quench (bath) temperature, e.g. 60C (default 60 °C)"),), since=6),
     Parameter("temper_temperature", "Temper", Quantity("temperature", optional=True, unset="as quenched"),
-              170.0 + ZERO_CELSIUS, "temper_temperature_c", CARBURIZING, group="Quench and temper",
+              180.0 + ZERO_CELSIUS, "temper_temperature_c", CARBURIZING, group="Quench and temper",
               range=(100.0 + ZERO_CELSIUS, 250.0 + ZERO_CELSIUS), decimals=0,
               help="tempering temperature (not set: as quenched)",
               options=(Option("--temper", "temper: 180C/2h, 180C (2 h), or none (as quenched)", _read_temper),), since=6),

@@ -119,3 +119,19 @@ def test_plans_keep_the_relation_they_were_made_with():
     new = shaft()
     assert new.hardness_relation == "structure-2026"
     assert evaluate(shaft(quench="brine").values()).setup.threshold_carbon < evaluate(new.values()).setup.threshold_carbon
+
+
+def test_the_cycle_runs_the_plans_own_temper():
+    """The temper is the part's: the cycle quote's temper stage has the plan's time and temperature (none when the
+    parts are left as quenched); a file written before schema 6 keeps its shop's temper as the plan's."""
+    plan = shaft(temper_temperature=160 + 273.15, temper_time=3 * 3600.0)
+    stages = evaluate(plan.values()).stages
+    [temper] = [s for s in stages if s.kind == "temper"]
+    assert temper.duration == pytest.approx(3 * 3600.0) and temper.temperature == pytest.approx(160 + 273.15)
+    plan.set("temper_temperature", None)
+    assert not [s for s in evaluate(plan.values()).stages if s.kind == "temper"]
+    from casedepth.plan.fileformat import migrate
+
+    old = {"schema_version": 5, "shop": {"temper_h": 1.5, "temper_temperature_c": 150.0}}
+    data, _, _ = migrate(old)
+    assert (data["temper_time_h"], data["temper_temperature_c"]) == (1.5, 150.0)

@@ -33,7 +33,7 @@ def changed_plan() -> Plan:
                 kn=2.0, compound_min=4e-6, compound_max=8e-6, core_hardness=310.0, surface_hardness=800.0,
                 n_multiplier=0.5, two_stage=True, kn_second=0.4, layer_model="rate-law-2026")
     plan.update(zone_model="sharp-front-2026", n_diffusivity="bohnenkamp-1967", nitrided_limit=400.0, quench="still-water",
-                quench_temperature=40 + 273.15, temper_temperature=180 + 273.15, temper_time=3 * 3600.0,
+                quench_temperature=40 + 273.15, temper_temperature=160 + 273.15, temper_time=3 * 3600.0,
                 surface_hrc_min=58.0, surface_hrc_max=62.0, core_hrc_min=30.0, core_hrc_max=42.0)
     return plan
 

@@ -289,11 +289,17 @@ def timeline(stages: list[Stage], start_temperature: float | None = None):
     return np.array(times), np.array(temps), np.array(pots, dtype=float), labels
 
 
-def shop_stages(shop, temperature: float, potential: float) -> tuple[tuple[Stage, ...], tuple[Stage, ...]]:
+#: ``temper`` argument of :func:`shop_stages` meaning "the shop's standard temper" (plans before schema 6)
+SHOP_TEMPER = "shop"
+
+
+def shop_stages(shop, temperature: float, potential: float,
+                temper=SHOP_TEMPER) -> tuple[tuple[Stage, ...], tuple[Stage, ...]]:
     """The stages a shop runs around a carburizing step at ``temperature`` [K] and ``potential`` [wt %],
     from its standard times (a :class:`~casedepth.shop.quote.ShopDefaults`): before it, load and heat-up
     in the carburizing atmosphere; after it, the drop to the hardening temperature and equalize (if that
-    is cooler), quench, wash and temper."""
+    is cooler), quench, wash and temper. ``temper`` is the plan's own (temperature [K], time [s]), None
+    for parts left as quenched, or :data:`SHOP_TEMPER` for the shop's standard one."""
     before = []
     if shop.load_h > 0:
         before.append(Stage("load", shop.load_h * 3600.0))
@@ -306,9 +312,12 @@ def shop_stages(shop, temperature: float, potential: float) -> tuple[tuple[Stage
             after.append(Stage("drop", shop.drop_h * 3600.0, drop_to, shop.hardening_potential))
         if shop.equalize_h > 0:
             after.append(Stage("equalize", shop.equalize_h * 3600.0, drop_to, shop.hardening_potential))
-    for kind, hours in (("quench", shop.quench_h), ("wash", shop.wash_h), ("temper", shop.temper_h)):
-        if hours > 0:
-            after.append(Stage(kind, hours * 3600.0, shop.temper_temperature_c + ZERO_CELSIUS if kind == "temper" else None))
+    if temper == SHOP_TEMPER:
+        temper = (shop.temper_temperature_c + ZERO_CELSIUS, shop.temper_h * 3600.0)
+    for kind, seconds in (("quench", shop.quench_h * 3600.0), ("wash", shop.wash_h * 3600.0),
+                          ("temper", 0.0 if temper is None else temper[1])):
+        if seconds > 0:
+            after.append(Stage(kind, seconds, temper[0] if kind == "temper" else None))
     return tuple(before), tuple(after)
 
 

@@ -37,7 +37,7 @@ class Hardening:
 
     medium: str = "oil"
     quench_temperature: float = 60.0 + ZERO_CELSIUS
-    temper_temperature: float | None = 170.0 + ZERO_CELSIUS
+    temper_temperature: float | None = 180.0 + ZERO_CELSIUS
     temper_time: float = 2 * 3600.0
     start_temperature: float = 845.0 + ZERO_CELSIUS
 

@@ -110,7 +110,8 @@ class Planned:
 
 def _counted_stages(values, shop, setup, potential) -> tuple[tuple, tuple, tuple, tuple]:
     """The shop's stages before and after the step (for the quote), and those counted in the case."""
-    before, after = shop_stages(shop, setup.temperature, potential)
+    temper = None if values["temper_temperature"] is None else (values["temper_temperature"], values["temper_time"])
+    before, after = shop_stages(shop, setup.temperature, potential, temper)
     moves = any(s.moves_carbon and s.duration > 0 for s in (*before, *after))
     if values["count_shop_stages"] and moves:
         return before, after, before, after

@@ -54,8 +54,9 @@ class ShopDialog(QDialog):
         self.logo.setPlaceholderText("path of a PNG logo for process sheets (optional)")
         form.addRow("Logo file", self.logo)
         self.spins = {}
+        self.shop = shop
         for item in fields(ShopDefaults):
-            if item.name == "currency":
+            if item.name == "currency" or item.metadata.get("retired"):
                 continue
             whole = isinstance(item.default, int)
             spin = QDoubleSpinBox()
@@ -89,7 +90,8 @@ class ShopDialog(QDialog):
 
     def values(self) -> ShopDefaults:
         data = {name: spin.value() if spin.decimals() else int(round(spin.value())) for name, spin in self.spins.items()}
-        return ShopDefaults(**data, currency=self.currency.text().strip())
+        retired = {f.name: getattr(self.shop, f.name) for f in fields(ShopDefaults) if f.metadata.get("retired")}
+        return ShopDefaults(**data, **retired, currency=self.currency.text().strip())
 
 
 class OfferBar(QFrame):

@@ -84,6 +84,13 @@ def _to_6(data: dict, offers: list[Offer], made_with: int) -> None:
     if data.get("treatment") == "nitriding":
         data.update(diffusion_zone_model="sharp-front-2026", nitrogen_diffusivity_model="bohnenkamp-1967",
                     nitrided_hardness_limit_hv=None)
+    # the temper moves from the shop's standard times to the plan (the part's own); a file's shop temper is kept
+    shop = data.get("shop") if isinstance(data.get("shop"), dict) else {}
+    low, high = (v - 273.15 for v in PARAMETERS["temper_temperature"].range)
+    if isinstance(shop.get("temper_temperature_c"), (int, float)) and low <= shop["temper_temperature_c"] <= high:
+        data["temper_temperature_c"] = shop["temper_temperature_c"]
+    if isinstance(shop.get("temper_h"), (int, float)) and 0.25 <= shop["temper_h"] <= 24:
+        data["temper_time_h"] = shop["temper_h"]
 
 
 MIGRATIONS = {1: _to_2, 2: _to_3, 3: _to_4, 4: _to_5, 5: _to_6}

@@ -41,8 +41,11 @@ class ShopDefaults:
     hardening_potential: float = _item(0.80, "Potential at hardening temperature", "%C", (0.2, 1.4))
     quench_h: float = _item(0.25, "Quench", "h", HOURS)
     wash_h: float = _item(0.5, "Wash", "h", HOURS)
-    temper_h: float = _item(2.0, "Temper", "h", HOURS)
-    temper_temperature_c: float = _item(180.0, "Temper temperature", "°C", (100.0, 700.0))
+    # kept so plan files written before schema 6 read as they were; the plan's own temper (Quench and temper)
+    # is what a cycle runs, so the dialog does not show these
+    temper_h: float = field(default=2.0, metadata={"label": "Temper", "unit": "h", "range": HOURS, "retired": True})
+    temper_temperature_c: float = field(default=180.0, metadata={"label": "Temper temperature", "unit": "°C",
+                                                                 "range": (100.0, 700.0), "retired": True})
     # CO in the endothermic carrier gas, vol % (common practice: 20 from natural gas)
     carrier_co_pct: float = _item(20.0, "CO in the carrier gas (for probe mV)", "%", (5.0, 50.0))
     # gas nitriding in a retort: nitrogen purges before ammonia goes in and after the load has cooled
