@@ -19,7 +19,7 @@ from . import __version__
 from .constants import ZERO_CELSIUS
 from .errors import InputError, SolverError
 from .files import FileWriteError, writable
-from .models.atmosphere import carbon_potential_from_probe, probe_voltage_for_potential
+from .models.atmosphere import carbon_potential_from_probe, check_carburizing_potential, probe_voltage_for_potential
 from .models.steels import library
 from .parameters import PARAMETERS, OptionError, label, option_for, options_for
 from .plan import Plan, compare_temperatures, evaluate, forward, load, plan_from_options, save
@@ -112,6 +112,9 @@ def _build_parser() -> argparse.ArgumentParser:
     ch.add_argument("--kn", help="nitriding, with --temperatures: the nitriding potential K_N (default 3)")
     ch.add_argument("--at", help="carburizing: threshold 0.40%%C, 550HV, 50HRC or total")
     ch.add_argument("--hours", help="length of the time axis, h (default: long enough for the table)")
+    ch.add_argument("--shop", default="", help="the shop's name, printed over the title")
+    ch.add_argument("--customer", default="", help="the customer the chart is for, printed over the title")
+    ch.add_argument("--logo", help="logo image (PNG) printed at the top right")
     _document_outputs(ch, "chart")
     ch.set_defaults(handler=_chart)
 
@@ -121,6 +124,8 @@ def _build_parser() -> argparse.ArgumentParser:
     sh.add_argument("--shop", default="", help="shop name for the title block")
     sh.add_argument("--logo", help="logo image (PNG) for the title block")
     sh.add_argument("--revision", help="revision (default: the plan's)")
+    sh.add_argument("--quote", action="store_true", help="the quote for the office (stage times and cost) instead "
+                                                        "of the floor's process sheet")
     sh.set_defaults(handler=_sheet)
 
     r = commands.add_parser("run", help="run a saved plan and print its results and the cycle quote",
@@ -161,6 +166,8 @@ def _build_parser() -> argparse.ArgumentParser:
     reading.add_argument("--potential", dest="carbon_potential", help="carbon potential, wt %% C: prints the probe voltage")
     reading.add_argument("--mv", help="probe voltage, mV: prints the carbon potential")
     pr.add_argument("--carrier-co", default="20", help="CO in the carrier gas, vol %% (default 20)")
+    pr.add_argument("--steel", help="the steel in the furnace, a grade or \"C=0.20 Mn=0.80 …\": a reading or potential "
+                                    "that would decarburize its core is refused (without it: below 0.10 %%C)")
     _printing(pr, units=False)
     pr.set_defaults(handler=_probe)
 
@@ -291,7 +298,11 @@ def _chart(args) -> int:
         for p in potentials:
             _checked(plan, {treatment.potential_key: p}, "potentials")
         kwargs = {"potentials": potentials}
-    document = treatment.chart(plan.values(), paper=args.paper, units=args.units, hours=hours, **kwargs)
+    for field in ("shop", "customer"):
+        if getattr(args, field):
+            check_text(field, getattr(args, field), lines=False)
+    document = treatment.chart(plan.values(), paper=args.paper, units=args.units, hours=hours, shop=args.shop,
+                               customer=args.customer, logo=args.logo, **kwargs)
     for fmt, path in outputs:
         with _writing(fmt):
             written = save_document(document, path, fmt)
@@ -313,15 +324,16 @@ def _checked(plan: Plan, change: dict, field: str) -> None:
 
 
 def _sheet(args) -> int:
-    from .report.documents import process_sheet, save as save_document
+    from .report.documents import process_sheet, quote_sheet, save as save_document
 
     outputs = _outputs(args)
     for field in ("shop", "revision"):
         if getattr(args, field):
             check_text(field, getattr(args, field), lines=False)
     plan = load(args.plan)
-    document = process_sheet(plan, evaluate(plan), paper=args.paper, units=args.units, shop=args.shop,
-                             logo=args.logo, revision=args.revision or plan.revision)
+    document = (quote_sheet if args.quote else process_sheet)(plan, evaluate(plan), paper=args.paper, units=args.units,
+                                                               shop=args.shop, logo=args.logo,
+                                                               revision=args.revision or plan.revision)
     for fmt, path in outputs:
         with _writing(fmt):
             written = save_document(document, path, fmt)
@@ -378,12 +390,20 @@ def _load(args) -> int:
 def _probe(args) -> int:
     T = parse_temperature(args.temperature, "temperature")
     co = parse_number(args.carrier_co.rstrip("%"), "carrier_co") / 100.0
+    core_potential = None
+    if args.steel is not None:  # the potential that holds its core carbon: the core carbon over its alloy factor
+        from .models.steels import steel_from_text
+        from .models.surface import Gunnarson_alloy_factor
+
+        steel = steel_from_text(args.steel)
+        core_potential = steel.carbon / Gunnarson_alloy_factor(steel.composition)
     if args.carbon_potential is not None:
         potential = parse_number(args.carbon_potential, "carbon_potential")
+        check_carburizing_potential(potential, T, co, core_potential)
         mv = probe_voltage_for_potential(potential, T, co)
     else:
         mv = parse_number(args.mv, "mv")
-        potential = carbon_potential_from_probe(mv, T, co)
+        potential = carbon_potential_from_probe(mv, T, co, core_potential)
     if args.json:
         print(json.dumps({"temperature_c": round(T - ZERO_CELSIUS, 6), "carbon_potential_pct": potential, "probe_mv": mv,
                           "carrier_co_pct": co * 100.0}))

@@ -3,9 +3,11 @@
 Plans, printed documents, exported profiles and pictures are all written through
 :func:`atomic_write`: to a temporary file beside the target, flushed to disk, then renamed over it
 (an atomic replace on POSIX and Windows), and the folder flushed too. What the target is is kept: a
-symbolic link is written through to the file it names, an existing file keeps its permission bits
-(a new one gets what the user's umask allows), and a read-only file or a folder is refused rather
-than replaced. A file with other hard links is replaced under this name only (atomicity is kept over the links).
+symbolic link is written through to the file it names, an existing file keeps its permission bits,
+and a read-only file or a folder is refused rather than replaced. A new file gets the permissions a
+plain ``open(path, "w")`` gives it (0o666 less the umask, or what the folder's default ACL says): the
+temporary is created with mode 0o666 and the system applies the umask as it does to any new file, so
+the umask is never read by setting it (``os.umask`` changes it for every thread while it is asked). A file with other hard links is replaced under this name only (atomicity is kept over the links).
 
 A save killed part-way leaves the old file or the new one, and as little else as the system allows: where
 Linux offers unnamed temporary files (``O_TMPFILE``), text is written into one, which vanishes with the
@@ -35,12 +37,6 @@ class FileWriteError(CasedepthError, OSError):
     def __init__(self, path: str | os.PathLike, reason: str):
         super().__init__(f"cannot write {path}: {reason}")
         self.path, self.reason = Path(path), reason
-
-
-def _new_file_mode() -> int:
-    umask = os.umask(0)
-    os.umask(umask)
-    return 0o666 & ~umask
 
 
 def _temporary_name(target: Path) -> Path:
@@ -108,24 +104,33 @@ def writable(path: str | os.PathLike) -> Path:
         raise FileWriteError(path, error.strerror or str(error)) from None
 
 
-def _write_unnamed(folder: Path, temporary: Path, data: bytes, mode: int) -> None:
+#: the mode a new file is created with before the umask (what ``open(path, "w")`` asks for)
+NEW_FILE_MODE = 0o666
+#: the mode of a temporary while it is written over an existing file, whose own mode it gets at the end
+PRIVATE_MODE = 0o600
+
+
+def _write_unnamed(folder: Path, temporary: Path, data: bytes, mode: int | None) -> None:
     """Write ``data`` to ``temporary`` so that it exists under that name only once it is whole and on disk: into
     an unnamed file of ``folder`` where the system has them (gone with the process if it is killed), named at
-    the end; elsewhere into the named file directly."""
+    the end; elsewhere into the named file directly. ``mode`` is the existing file's, set before the file is
+    named; None for a new file, which keeps the mode the system gave it (0o666 less the umask)."""
+    asked = NEW_FILE_MODE if mode is None else PRIVATE_MODE
     handle, anonymous = None, hasattr(os, "O_TMPFILE") and os.path.isdir("/proc/self/fd")
     if anonymous:
         try:
-            handle = os.open(folder, os.O_TMPFILE | os.O_WRONLY, 0o600)
+            handle = os.open(folder, os.O_TMPFILE | os.O_WRONLY, asked)  # the umask applies as with O_CREAT
         except OSError:  # a file system without them: a named file
             anonymous = False
     if not anonymous:
-        handle = os.open(temporary, os.O_WRONLY | os.O_CREAT | os.O_EXCL, 0o600)
+        handle = os.open(temporary, os.O_WRONLY | os.O_CREAT | os.O_EXCL, asked)
     try:
         view = memoryview(data)
         while view:
             view = view[os.write(handle, view):]
         os.fsync(handle)
-        os.fchmod(handle, mode) if hasattr(os, "fchmod") else os.chmod(temporary, mode)
+        if mode is not None:
+            os.fchmod(handle, mode) if hasattr(os, "fchmod") else os.chmod(temporary, mode)
         if anonymous:  # linkat(…, AT_SYMLINK_FOLLOW) through /proc, as open(2) describes for O_TMPFILE
             descriptors = os.open("/proc/self/fd", os.O_RDONLY)
             try:
@@ -160,15 +165,22 @@ def atomic_write(path: str | os.PathLike, content: str | bytes | Callable[[str],
     path = Path(path)
     target = writable(path)
     try:
-        mode = stat.S_IMODE(target.stat().st_mode) if target.exists() else _new_file_mode()
+        mode = stat.S_IMODE(target.stat().st_mode) if target.exists() else None
     except OSError as error:
         raise FileWriteError(path, error.strerror or str(error)) from None
     remove_stale_temporaries(target)
     temporary = _temporary_name(target)
     try:
         if callable(content):  # the writer wants a file name (and may judge the format by its extension)
-            with open(temporary, "xb"):
-                pass
+            handle = os.open(temporary, os.O_WRONLY | os.O_CREAT | os.O_EXCL,
+                             NEW_FILE_MODE if mode is None else PRIVATE_MODE)
+            try:
+                if mode is None:  # the mode the system gives a new file here; the writer may need to reopen it
+                    mode = stat.S_IMODE(os.fstat(handle).st_mode)
+                    if mode & PRIVATE_MODE != PRIVATE_MODE:
+                        os.chmod(temporary, mode | PRIVATE_MODE)
+            finally:
+                os.close(handle)
             content(str(temporary))
             with open(temporary, "rb+") as stream:
                 os.fsync(stream.fileno())

@@ -14,7 +14,7 @@ Times in s, depths in m, temperatures in K inside; the text and JSON give the us
 from __future__ import annotations
 
 from abc import ABC, abstractmethod
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from typing import Any
 
 import numpy as np
@@ -46,7 +46,11 @@ class Summary:
 class Timeline:
     """Temperature [K] and potential against time [s] through the whole cycle, for plots: one point per
     stage boundary (ramps straight between them, a stepped potential repeats its time; NaN where no
-    atmosphere acts), the stages' (start, end, label), and what the potential is."""
+    atmosphere acts), the stages' (start, end, label), what the potential is, and the moments to mark
+    (time, what happens: a purge, the atmosphere going in).
+
+    A label that spans no time (start equal to end) is such a moment: the cycle functions give their
+    moments that way among the labels, and they are moved to :attr:`markers` here."""
 
     times: np.ndarray
     temperatures: np.ndarray
@@ -54,6 +58,13 @@ class Timeline:
     labels: list[tuple[float, float, str]]
     potential_name: str
     potential_floor: float  # the potential axis shows at least 0 to this
+    markers: tuple[tuple[float, str], ...] = ()
+
+    def __post_init__(self) -> None:
+        moments = tuple((start, label) for start, end, label in self.labels if start == end)
+        if moments:
+            self.labels = [entry for entry in self.labels if entry[0] != entry[1]]
+            self.markers = tuple(self.markers) + moments
 
 
 @dataclass
@@ -102,11 +113,18 @@ class ProfileView:
 
 @dataclass
 class SheetContent:
-    """What a process sheet prints of a result: lines of text and the stage table of the cycle."""
+    """What a process sheet prints of a result: lines of text and the stage table of the cycle; for the floor,
+    the drawing's callout, the setpoints with their tolerances (a row per stage: stage, time h:min,
+    temperature, atmosphere, probe or exhaust reading) and how the result is inspected."""
 
     lines: list[str]
     header: list[str]
     rows: list[list[str]]
+    callout: list[str] = field(default_factory=list)
+    setpoint_header: list[str] = field(default_factory=list)
+    setpoints: list[list[str]] = field(default_factory=list)
+    inspection: list[str] = field(default_factory=list)
+    setpoint_notes: list[str] = field(default_factory=list)  # footnotes of the setpoint table
 
 
 class Outcome(ABC):

@@ -234,6 +234,13 @@ def format_duration(seconds: float) -> str:
     return f"{hours} h {minutes:02d} min"
 
 
+def format_clock(seconds: float) -> str:
+    """``19080`` -> ``"5:18"``: hours and minutes, as the floor reads a furnace's timer."""
+    minutes = int(round(seconds / 60.0))
+    hours, minutes = divmod(minutes, 60)
+    return f"{hours}:{minutes:02d}"
+
+
 @dataclass(frozen=True)
 class DisplayUnits:
     """How values are shown to a person: metric (°C, mm) or imperial (°F, in). SI stays inside."""

@@ -168,3 +168,50 @@ def test_what_people_type_stays_in_its_place_on_the_sheet(tmp_path):
     revision = next(t for t in first.texts if t.get_text().startswith("Revision"))
     renderer = FigureCanvasAgg(first).get_renderer()
     assert title.get_window_extent(renderer).x1 < revision.get_window_extent(renderer).x0
+
+
+def test_the_floor_sheet_carries_the_job_callout_setpoints_inspection_and_no_money(tmp_path):
+    """Issue 14: the process sheet is one the floor can run a load from: the job, the drawing's callout, every
+    setpoint with its tolerance and a column for readings, times in h:min, the inspection, signatures; the cost is
+    on the office's quote sheet instead."""
+    from casedepth.report.documents import quote_sheet
+
+    plan = load(EXAMPLES / "pinion-shaft.cdplan.json")
+    plan.update(load_number="L-0042")
+    outcome = evaluate(plan.values())
+    sheet = process_sheet(plan, outcome, shop="Demo shop (invented)")
+    texts = " ".join(t.get_text() for page in sheet.pages for t in page.texts)
+    tables = " ".join(cell.get_text().get_text() for page in sheet.pages for ax in page.axes for table in ax.tables
+                      for cell in table.get_celld().values())
+    for words in ("Load no.: L-0042", "Furnace:", "Drawing callout", "0.800 mm–1.200 mm at 0.40 %C",
+                  "Surface hardness 58–63 HRC", "Inspection", "Prepared", "Approved", "Whole cycle 10:59"):
+        assert words in texts, words
+    assert "per load" not in texts and "cost" not in texts.lower()
+    for words in ("925 °C ±8", "1.00 ±0.05 %C", "mV", "actual", "initials", "5:59"):
+        assert words in tables, words
+    quote = quote_sheet(plan, outcome)
+    quoted = " ".join(t.get_text() for page in quote.pages for t in page.texts)
+    assert "Cost per load" in quoted and "per part" in quoted
+    save(quote, tmp_path / "quote.pdf")
+    assert (tmp_path / "quote.pdf").stat().st_size > 3000
+
+
+def test_customer_chart_names_shop_and_customer_and_keeps_its_header_above_the_plot():
+    """Issue 14: a chart for the customer carries the shop's and the customer's names; the header never runs into
+    the plot (the plot starts below the last header line), and the time axis is the shortest round length that
+    shows the whole table."""
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+
+    setup = casedepth.setup("8620", "925C", 1.0, at="50HRC")
+    document = case_depth_chart(setup, temperatures=[900 + K, 925 + K, 950 + K], units="imperial",
+                                shop="Demo shop (invented)", customer="Demo customer (invented)")
+    page = document.pages[0]
+    texts = [t for t in page.texts]
+    assert any("Demo shop (invented) — for Demo customer (invented)" in t.get_text() for t in texts)
+    assert not any("°C" in t.get_text() or "°c" in t.get_text() for t in texts)  # imperial throughout
+    renderer = FigureCanvasAgg(page).get_renderer()
+    plot = page.axes[0]
+    lowest_header = min(t.get_window_extent(renderer).y0 for t in texts if t.get_position()[1] > 0.8)
+    assert plot.get_tightbbox(renderer).y1 <= lowest_header
+    longest = max(t for row in document.values["soak_times"] for t in row if math.isfinite(t)) / 3600
+    assert longest <= document.values["hours"] < 1.5 * longest

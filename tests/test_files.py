@@ -32,16 +32,85 @@ def leftovers(folder: Path) -> list[str]:
     return sorted(p.name for p in folder.iterdir() if p.name.startswith("."))
 
 
-def test_a_new_file_gets_what_the_umask_allows(tmp_path):
-    old = os.umask(0o027)
+def mode_of(path: Path) -> int:
+    return stat.S_IMODE(path.stat().st_mode)
+
+
+def plain_open_mode(folder: Path) -> int:
+    """The mode ``open(path, "w")`` gives a new file in ``folder`` under the current umask (POSIX open(2):
+    the mode asked, 0o666, less the umask)."""
+    probe = folder / "plain-open.txt"
+    with open(probe, "w"):
+        pass
+    mode = mode_of(probe)
+    probe.unlink()
+    return mode
+
+
+def write_text(path: Path) -> None:
+    atomic_write(path, "text")
+
+
+def write_through_a_writer(path: Path) -> None:  # as savefig and QImage.save do: given a name, they open it again
+    atomic_write(path, lambda name: Path(name).write_text("text"))
+
+
+@pytest.fixture
+def no_unnamed_temporaries(monkeypatch):
+    """A system (or file system) without O_TMPFILE: the named temporary is used."""
+    monkeypatch.delattr(os, "O_TMPFILE", raising=False)
+
+
+@pytest.mark.parametrize("umask,expected", [(0o022, 0o644), (0o077, 0o600), (0o027, 0o640), (0o277, 0o400)])
+@pytest.mark.parametrize("write", [write_text, write_through_a_writer])
+@pytest.mark.parametrize("unnamed", [True, False])
+def test_a_new_file_gets_what_a_plain_open_gives(tmp_path, request, umask, expected, write, unnamed):
+    """POSIX open(2): a new file's mode is 0o666 less the umask (0o022 → 0o644, 0o077 → 0o600); a save makes its
+    new file the same way, whether written into an unnamed temporary, a named one, or by a writer given a name."""
+    if not unnamed:
+        request.getfixturevalue("no_unnamed_temporaries")
+    old = os.umask(umask)
     try:
-        atomic_write(tmp_path / "a.txt", "x")
+        write(tmp_path / "a.txt")
+        assert mode_of(tmp_path / "a.txt") == expected == plain_open_mode(tmp_path)
     finally:
         os.umask(old)
-    assert stat.S_IMODE((tmp_path / "a.txt").stat().st_mode) == 0o640
+    assert (tmp_path / "a.txt").read_text() == "text"
+    assert leftovers(tmp_path) == []
 
 
-def test_an_existing_file_keeps_its_mode(tmp_path):
+def test_a_save_never_sets_the_umask(tmp_path, monkeypatch):
+    """The umask is one per process: setting it to read it would give files other threads create meanwhile the
+    wrong mode, so a save leaves it to the system."""
+    def refuse(_mask):
+        raise AssertionError("os.umask called")
+
+    old = os.umask(0o022)
+    try:
+        monkeypatch.setattr(os, "umask", refuse)
+        write_text(tmp_path / "a.txt")
+        write_through_a_writer(tmp_path / "b.txt")
+    finally:
+        monkeypatch.undo()
+        os.umask(old)
+    assert mode_of(tmp_path / "a.txt") == mode_of(tmp_path / "b.txt") == 0o644
+
+
+@pytest.mark.parametrize("kept", [0o640, 0o604, 0o600])
+@pytest.mark.parametrize("write", [write_text, write_through_a_writer])
+def test_an_existing_file_keeps_its_mode_whatever_the_umask(tmp_path, kept, write):
+    path = tmp_path / "plan.txt"
+    path.write_text("old")
+    os.chmod(path, kept)
+    old = os.umask(0o077)
+    try:
+        write(path)
+    finally:
+        os.umask(old)
+    assert mode_of(path) == kept and path.read_text() == "text"
+
+
+def test_an_existing_plan_keeps_its_mode(tmp_path):
     path = tmp_path / "plan.cdplan.json"
     save(Plan(title="first"), path)
     os.chmod(path, 0o604)

@@ -34,7 +34,8 @@ def changed_plan() -> Plan:
                 n_multiplier=0.5, two_stage=True, kn_second=0.4, layer_model="rate-law-2026")
     plan.update(zone_model="sharp-front-2026", n_diffusivity="bohnenkamp-1967", nitrided_limit=400.0, quench="still-water",
                 quench_temperature=40 + 273.15, temper_temperature=160 + 273.15, temper_time=3 * 3600.0,
-                surface_hrc_min=58.0, surface_hrc_max=62.0, core_hrc_min=30.0, core_hrc_max=42.0)
+                surface_hrc_min=58.0, surface_hrc_max=62.0, core_hrc_min=30.0, core_hrc_max=42.0, furnace="IQ-3",
+                load_number="L-0042", quantity=80.0, fixture="basket 2")
     return plan
 
 

@@ -5,6 +5,7 @@ import subprocess
 import sys
 from pathlib import Path
 
+import numpy as np
 import pytest
 
 pytest.importorskip("PySide6")
@@ -341,11 +342,65 @@ def test_own_stages_table_edits_the_plan(window, qtbot):
     assert len(window.plan.stages) == 1
 
 
+def test_stages_of_my_own_start_from_the_result_s_cycle(window, qtbot):
+    """Choosing "Stages of my own" on a plan with no stages yet fills the table with the cycle the result ran (one
+    undoable edit), which runs as it is: the same whole cycle, nothing marked."""
+    before = window.outcome
+    pick(qtbot, window, "process", "stages")
+    assert window.plan.process == "stages" and window.plan.stages == before.stage_rows()
+    assert not window.results.stale and "border" not in window.form.widget("stages").styleSheet()
+    assert window.form.widget("stages").rowCount() == len(before.stage_rows())
+    assert window.outcome.quote.total_h == pytest.approx(before.quote.total_h)
+    window.undo_action.trigger()
+    assert window.plan.process == "single" and window.plan.stages == []
+
+
+def test_the_cycle_plot_draws_the_atmosphere_only_where_it_may_be_admitted(window):
+    """Below the safe temperature for a flammable atmosphere (760 °C, NFPA 86 practice, from casedepth.safety) the
+    carbon potential is not drawn; the heat-up is split where it passes it, and the purge is marked there."""
+    from casedepth.safety import SAFE_ADMISSION_TEMPERATURE
+
+    line = window.outcome.timeline()
+    below = line.temperatures < SAFE_ADMISSION_TEMPERATURE - 1e-9
+    assert below.any() and np.isnan(line.potentials[below]).all()
+    crossing = np.flatnonzero(np.isclose(line.temperatures, SAFE_ADMISSION_TEMPERATURE))
+    assert len(crossing) == 2  # the ramp's point there, without and with the atmosphere
+    assert np.isnan(line.potentials[crossing[0]]) and line.potentials[crossing[1]] == pytest.approx(1.0)
+    heat_up = next((start, end) for start, end, label in line.labels if label == "Heat-up")
+    assert heat_up[0] < line.times[crossing[0]] < heat_up[1]
+    hot = ~below
+    hot[crossing[0]] = False
+    assert np.isfinite(line.potentials[hot]).all()  # heat-up above it, soak, drop and equalize
+    assert [(time, what) for time, what in line.markers] == [(line.times[crossing[0]], "purge, then atmosphere in")]
+    page = window.plots.cycle_page
+    window.plots.setCurrentIndex(window.plots.pages.index(page))
+    drawn = page.potential_axes.get_lines()[0].get_ydata()
+    assert np.array_equal(np.isnan(drawn), np.isnan(line.potentials))
+    assert [text.get_text().strip() for text in page.marker_texts] == ["purge, then atmosphere in"]
+
+
+def test_the_nitriding_cycle_marks_its_purges(window, qtbot):
+    """K_N is drawn only while nitriding; each purge with nitrogen is marked where it starts, and ammonia going in."""
+    pick(qtbot, window, "treatment", "nitriding")
+    line = window.outcome.timeline()
+    purges = [start for start, end, label in line.labels if label.startswith("Purge")]
+    nitriding = next(start for start, end, label in line.labels if label.startswith("Nitride"))
+    assert len(purges) == 2
+    assert sorted(line.markers) == sorted([(purges[0], "nitrogen purge"), (nitriding, "ammonia in"),
+                                           (purges[1], "nitrogen purge")])
+    assert np.isnan(line.potentials[line.times < nitriding]).all()
+    page = window.plots.cycle_page
+    window.plots.setCurrentIndex(window.plots.pages.index(page))
+    assert sorted(text.get_text().strip() for text in page.marker_texts) == ["ammonia in", "nitrogen purge",
+                                                                              "nitrogen purge"]
+
+
 def test_shop_times_and_rates(window, qtbot):
     from casedepth.gui.window import ShopDialog
     from casedepth.shop.quote import ShopDefaults
 
     dialog = ShopDialog(ShopDefaults(), window)
+    assert dialog.spins["drop_temperature_c"].text() == "845 °C"  # whole degrees, as a furnace is set
     dialog.spins["furnace_rate_per_h"].setValue(200.0)
     dialog.spins["parts_per_load"].setValue(50)
     dialog.currency.setText("EUR")
@@ -360,6 +415,40 @@ def test_shop_times_and_rates(window, qtbot):
     window.plan.modified = False
     window.new_plan()
     assert window.plan.shop["furnace_rate_per_h"] == 200.0  # kept for new plans
+
+
+def test_the_shop_dialog_picks_a_logo_file(window, monkeypatch, tmp_path):
+    from PySide6.QtWidgets import QFileDialog
+
+    from casedepth.gui.window import ShopDialog
+    from casedepth.shop.quote import ShopDefaults
+
+    asked = []
+    logo = str(tmp_path / "logo.png")
+    monkeypatch.setattr(QFileDialog, "getOpenFileName",
+                        lambda parent, title, start, filters: asked.append(filters) or (logo, filters))
+    dialog = ShopDialog(ShopDefaults(), window)
+    dialog.logo_button.click()
+    assert dialog.logo.text() == logo and "*.png" in asked[0] and "*.jpg" in asked[0]
+
+
+def test_the_shop_menu_opens_the_plan_s_shop_and_applies_it(window, qtbot, monkeypatch):
+    """Edit → Shop times and rates: the dialog starts from the plan's shop; OK applies it (one undoable edit) and keeps
+    the name and logo in the settings."""
+    from casedepth.gui.window import ShopDialog
+
+    def answer(dialog):
+        assert dialog.spins["furnace_rate_per_h"].value() == window.plan.shop.get("furnace_rate_per_h", 95.0)
+        dialog.spins["parts_per_load"].setValue(60)
+        dialog.name.setText("Example Heat Treat")
+        return ShopDialog.Accepted
+
+    monkeypatch.setattr(ShopDialog, "exec", answer)
+    with qtbot.waitSignal(window.result_shown, timeout=20000):
+        window.edit_shop()
+    assert window.plan.shop["parts_per_load"] == 60 and window.settings.value("shop_name") == "Example Heat Treat"
+    window.undo_action.trigger()
+    assert window.plan.shop.get("parts_per_load", 120) == 120
 
 
 def test_the_shop_dialog_takes_only_what_the_shop_accepts(window, monkeypatch):

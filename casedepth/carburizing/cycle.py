@@ -264,28 +264,46 @@ def timeline(stages: list[Stage], start_temperature: float | None = None):
     """Temperature [K] and carbon potential [wt %] against time [s] at the stage boundaries, for plots.
 
     Returns (times, temperatures, potentials, labels): one point per boundary (ramps are straight
-    between them; a stepped potential repeats its time); potential is NaN where no atmosphere acts.
+    between them; a stepped potential repeats its time); potential is NaN where no atmosphere acts,
+    which includes wherever the furnace is below the safe temperature for admitting a flammable
+    atmosphere (:data:`casedepth.safety.SAFE_ADMISSION_TEMPERATURE`, NFPA 86 practice): a ramp that
+    crosses it gets a point there. ``labels`` are the stages' (start, end, label) and, where the
+    atmosphere goes in, the moment (time, time, "purge, then atmosphere in"), which
+    :class:`casedepth.outcome.Timeline` keeps as a marker.
     """
+    from ..safety import SAFE_ADMISSION_TEMPERATURE as safe
+
     if start_temperature is None:
         first = next((s for s in stages if s.moves_carbon), None)
         start_temperature = ROOM_TEMPERATURE if first is None or first.kind == "heat-up" else first.temperature
     times, temps, pots, labels = [0.0], [start_temperature], [math.nan], []
     now, t_now = 0.0, start_temperature
     for stage in stages:
-        labels.append((now, now + stage.duration, stage.label))
+        end = now + stage.duration
+        if stage.duration > 0:  # a stage of no time has no span to label
+            labels.append((now, end, stage.label))
         if stage.moves_carbon:
             begin = stage.start_potential if stage.start_potential is not None else stage.carbon_potential
-            times += [now, now + stage.duration]
-            temps += [t_now, stage.temperature]
-            pots += [begin, stage.carbon_potential]
-            t_now = stage.temperature
+            t_end = stage.temperature
+            points = [(now, t_now, begin), (end, t_end, stage.carbon_potential)]
+            if (t_now - safe) * (t_end - safe) < 0:  # the ramp crosses the safe temperature: a point there
+                w = (safe - t_now) / (t_end - t_now)
+                points.insert(1, (now + w * stage.duration, safe, begin + w * (stage.carbon_potential - begin)))
+            for (ta, Ta, pa), (tb, Tb, pb) in zip(points, points[1:]):
+                held = min(Ta, Tb) >= safe - 1e-9
+                if held and not np.isfinite(pots[-1]):  # below it the furnace ran under nitrogen
+                    labels.append((ta, ta, "purge, then atmosphere in"))
+                times += [ta, tb]
+                temps += [Ta, Tb]
+                pots += [pa, pb] if held else [math.nan, math.nan]
+            t_now = t_end
         else:
             here = stage.temperature if stage.temperature is not None else (ROOM_TEMPERATURE if stage.kind == "load" else BATH)
-            times += [now, now + stage.duration]
+            times += [now, end]
             temps += [here, here]
             pots += [math.nan, math.nan]
             t_now = here
-        now += stage.duration
+        now = end
     return np.array(times), np.array(temps), np.array(pots, dtype=float), labels
 
 

@@ -29,7 +29,7 @@ from ..numerics.solver import Profile
 from ..outcome import Curve, Fact, Level, Outcome, Panel, ProfileView, SheetContent, Summary, Timeline, quote_fact
 from ..parameters import drawing_window
 from ..shop.quote import Quote, ShopDefaults, quote_lines
-from ..units import DisplayUnits, Threshold, format_duration
+from ..units import DisplayUnits, Threshold, format_clock, format_duration
 from .cycle import (CycleResult, Stage, describe_counted, run_recipe, shop_stages, stage_from_dict, stage_lines,
                     stage_to_dict, timeline)
 from .planners import plan_boost_diffuse, plan_single_soak
@@ -698,7 +698,71 @@ class CarburizingOutcome(Outcome):
                  "" if stage.temperature is None else units.format_temperature(stage.temperature),
                  "" if stage.carbon_potential is None else f"{stage.carbon_potential:.2f}",
                  _probe_cell(stage, self.carrier_co)] for stage in self.stages]
-        return SheetContent(lines, ["stage", "hours", "temperature", "potential %C", "probe mV"], rows)
+        shop = shop_of(self.values)
+        notes = [f"* The carburizing atmosphere goes in only with the furnace at or above "
+                 f"{units.format_temperature(safety.SAFE_ADMISSION_TEMPERATURE)}, after the purge (NFPA 86 practice). "
+                 f"Bands: temperature ±{shop.temperature_tolerance_c * (1.8 if units.imperial else 1.0):.0f}"
+                 f"{units.temperature_unit.replace('°', ' °')}, potential ±{shop.potential_tolerance_pct:.2f} %C "
+                 f"(the shop's, Edit → Shop times and rates); probe band for {self.carrier_co * 100:g} % CO carrier."]
+        return SheetContent(lines, ["stage", "hours", "temperature", "potential %C", "probe mV"], rows,
+                            self._callout(units), ["stage", "h:min", "temperature", "carbon potential",
+                                                   "probe (ideal)"], self._setpoints(units), self._inspection(units),
+                            notes)
+
+    # -- the floor's sheet ----------------------------------------------------------------------------------
+    def _callout(self, units: DisplayUnits) -> list[str]:
+        s, (low, aim, high), v = self.setup, self.targets, self.values
+        out = [f"{s.threshold.depth_name.capitalize()} {units.format_length(low)}–{units.format_length(high)} at "
+               f"{s.threshold} (aim {units.format_length(aim)})"]
+        if self.cycle_kind == "boost-diffuse":
+            out.append(f"Surface carbon {v['surface_min']:.2f}–{v['surface_max']:.2f} %C")
+        hardness = []
+        if v["surface_hrc_min"] is not None or v["surface_hrc_max"] is not None:
+            hardness.append(f"surface hardness {_window(v['surface_hrc_min'], v['surface_hrc_max'])}")
+        if v["core_hrc_min"] is not None or v["core_hrc_max"] is not None:
+            hardness.append(f"core hardness {_window(v['core_hrc_min'], v['core_hrc_max'])}")
+        if hardness:
+            text = "; ".join(hardness)
+            out.append(text[:1].upper() + text[1:])
+        return out
+
+    def _setpoints(self, units: DisplayUnits) -> list[list[str]]:
+        shop = shop_of(self.values)
+        band_t = shop.temperature_tolerance_c * (1.8 if units.imperial else 1.0)
+        band_p = shop.potential_tolerance_pct
+        rows = []
+        for stage in self.stages:
+            temperature = ("" if stage.temperature is None else
+                           f"{units.format_temperature(stage.temperature)} ±{band_t:.0f}")
+            potential = "" if stage.carbon_potential is None else f"{stage.carbon_potential:.2f} ±{band_p:.2f} %C"
+            if potential and stage.kind == "heat-up":  # the atmosphere goes in hot, after the purge
+                potential += " *"
+            probe = ""
+            if stage.carbon_potential is not None:
+                low, high = (_probe_cell(replace(stage, carbon_potential=stage.carbon_potential + d), self.carrier_co)
+                             for d in (-band_p, band_p))
+                probe = f"{low}–{high} mV" if low and high else ""
+            rows.append([stage.label, format_clock(stage.duration), temperature, potential, probe])
+        return rows
+
+    def _inspection(self, units: DisplayUnits) -> list[str]:
+        s, (low, _, high), v = self.setup, self.targets, self.values
+        window = f"{units.format_length(low)}–{units.format_length(high)}"
+        out = ["Coupon: a piece of the same steel heat and section as the parts, in the load, sectioned after the "
+               "temper (common practice)."]
+        if s.threshold.is_hardness:
+            out.append(f"Case depth: microhardness traverse (HV 1) on the coupon's section, read at {s.threshold} "
+                       f"(ISO 18203 / SAE J423); accept {window}.")
+        else:
+            out.append(f"Case depth: carbon at {s.threshold} by analysis of turned layers, or a microhardness traverse "
+                       f"read through the plan's carbon → hardness relation; accept {window}.")
+        if v["surface_hrc_min"] is not None or v["surface_hrc_max"] is not None:
+            out.append(f"Surface hardness: HRC (or HR15N / HV on small parts) on the coupon's surface; accept "
+                       f"{_window(v['surface_hrc_min'], v['surface_hrc_max'])}.")
+        if v["core_hrc_min"] is not None or v["core_hrc_max"] is not None:
+            out.append(f"Core hardness: HRC at the centre of the section; accept "
+                       f"{_window(v['core_hrc_min'], v['core_hrc_max'])}.")
+        return out
 
 
 def _probe_cell(stage: Stage, carrier_co: float) -> str:

@@ -27,8 +27,17 @@ from ..treatments import TREATMENTS
 from ..units import DisplayUnits
 
 INVALID_STYLE = "border: 2px solid #d1495b; background: #fdecee;"
+#: the widest a line is made to show its whole text, in average characters (longer text scrolls in its line)
+WIDEST_LINE = 52
 #: the widest range a spin box takes: values outside the allowed range are let through to be refused with a message
 WIDE = 1e6
+
+
+def fit_text(widget: QWidget, text: str, frame: int = 16) -> None:
+    """Make a line edit (or an editable combo box, with ``frame`` its button's room) wide enough to show ``text``
+    whole, up to :data:`WIDEST_LINE` characters: the form then widens to what it holds."""
+    metrics = widget.fontMetrics()
+    widget.setMinimumWidth(min(metrics.horizontalAdvance(text), WIDEST_LINE * metrics.averageCharWidth()) + frame)
 
 
 class Context(QObject):
@@ -40,6 +49,8 @@ class Context(QObject):
     def __init__(self, plan, units: DisplayUnits):
         super().__init__()
         self.plan, self.units = plan, units
+        #: the cycle the last result ran, as rows of a stage table (:meth:`casedepth.outcome.Outcome.stage_rows`)
+        self.planned_stages: list[dict] = []
 
     def set(self, key: str, value: Any, coalesce: bool = False) -> None:
         try:
@@ -116,8 +127,13 @@ class TextField(Field):
 
     def display(self, value, values):
         text = self.widget.toPlainText() if isinstance(self.widget, QPlainTextEdit) else self.widget.text()
+        line = isinstance(self.widget, QLineEdit)
         if text != value:
-            (self.widget.setPlainText if isinstance(self.widget, QPlainTextEdit) else self.widget.setText)(value)
+            (self.widget.setText if line else self.widget.setPlainText)(value)
+            if line:
+                self.widget.setCursorPosition(0)  # the start of a long name, not its end
+        if line:
+            fit_text(self.widget, value)
 
 
 class FlagField(Field):
@@ -144,6 +160,18 @@ class ChoiceField(Field):
 
     def display(self, value, values):
         self.widget.setCurrentIndex(max(self.widget.findData(value), 0))
+
+
+class CycleField(ChoiceField):
+    """The kind of cycle. Choosing stages of one's own with none entered yet starts the table from the cycle the
+    last result ran (one edit), rather than from an empty table that cannot run."""
+
+    def set(self, value, coalesce: bool = False) -> None:
+        planned = self.context.planned_stages
+        if value == "stages" and not self.showing and planned and not self.context.plan.stages:
+            self.context.update({self.key: value, "stages": [dict(row) for row in planned]})
+        else:
+            super().set(value, coalesce)
 
 
 class QuantitySpin(QDoubleSpinBox):
@@ -318,6 +346,7 @@ class EntryField(Field):
     def display(self, value, values):
         if not self.unread:
             self.widget.setText(self.text_of(value))
+            fit_text(self.widget, self.widget.text())
             self.widget.setCursorPosition(0)
 
     def text_of(self, value) -> str:
@@ -386,6 +415,7 @@ class SteelField(Field):
             box.setCurrentIndex(index)
         else:
             box.setEditText(value)
+        fit_text(box, box.currentText(), frame=44)
         box.lineEdit().setCursorPosition(0)
 
 
@@ -481,7 +511,6 @@ class StagesField(Field):
             self.buttons[key] = button
         buttons.addStretch(1)
         layout.addLayout(buttons)
-        self.planned: list[dict] = []  # the cycle the last result ran, as stage rows (set by the window)
         self.target = table
         return widget
 
@@ -505,8 +534,8 @@ class StagesField(Field):
             self.set(rows)
             self.table.setCurrentCell(other, 0)
             return
-        elif key == "copy" and self.planned:
-            rows = [dict(row) for row in self.planned]
+        elif key == "copy" and self.context.planned_stages:
+            rows = [dict(row) for row in self.context.planned_stages]
         else:
             return
         self.set(rows)
@@ -565,7 +594,7 @@ class StagesField(Field):
 
 #: widgets chosen by key where the kind alone does not say it (a view's choice; binding is still by key)
 SPECIAL: dict[str, type[Field]] = {"steel": SteelField, "aim": AimField, "kn": PotentialField, "beta": EntryField,
-                                   "d0": EntryField, "stages": StagesField}
+                                   "d0": EntryField, "stages": StagesField, "process": CycleField}
 
 
 def make_field(key: str, context: Context) -> Field:

@@ -173,8 +173,9 @@ class PlanForm(QWidget):
             self.steel_facts.setText("")
 
     def set_planned_stages(self, rows: list[dict]) -> None:
-        """The stages the last result ran, for the stage table's "From last result"."""
-        self.fields["stages"].planned = rows
+        """The stages the last result ran: where stages of one's own start, and the stage table's "From last
+        result"."""
+        self.context.planned_stages = rows
 
     # -- marking bad input --------------------------------------------------------------------------------------------
     def _unreadable(self, key: str, message: str) -> None:

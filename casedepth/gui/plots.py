@@ -10,11 +10,15 @@ titles costs far more than solving, and a planner expects the plot to follow an 
 
 from __future__ import annotations
 
+import html
+import warnings
+
 import numpy as np
 from matplotlib.backends.backend_qtagg import FigureCanvasQTAgg, NavigationToolbar2QT
 from matplotlib.figure import Figure
 from PySide6.QtCore import Qt
-from PySide6.QtWidgets import QHeaderView, QLabel, QSplitter, QTableWidget, QTableWidgetItem, QTabWidget, QVBoxLayout, QWidget
+from PySide6.QtWidgets import (QHeaderView, QLabel, QSplitter, QTableWidget, QTableWidgetItem, QTabWidget, QVBoxLayout,
+                               QWidget)
 
 from ..errors import InputError
 from ..models.hardness import ASTM_E140_hrc_to_hv, ASTM_E140_hv_to_hrc
@@ -31,6 +35,7 @@ CORE = "#6c757d"
 LIMIT = "#b5651d"
 LAYER = "#c9c9c9"
 LEVEL_STYLES = {"threshold": (THRESHOLD, "--", 1.2), "core": (CORE, ":", 1.0), "limit": (LIMIT, "-.", 1.0)}
+MARKER = "#2a7f62"  # the moments of a cycle: purges, the atmosphere going in
 
 
 def _hv_to_hrc(hv):
@@ -49,40 +54,77 @@ def _swatch(handle) -> str:
     colour = to_hex(handle.get_color() if line else handle.get_facecolor(), keep_alpha=False)
     if not line:
         return f"<span style='color:{colour}'>■</span>"
+    if handle.get_linestyle() in ("None", "", " ") and handle.get_marker() not in ("None", "", " ", None):
+        return f"<span style='color:{colour}'>●</span>"
     style = {"--": "╍╍", ":": "┈┈", "-.": "━·"}.get(handle.get_linestyle(), "━━")
     return f"<span style='color:{colour}; font-weight:bold'>{style}</span>"
 
 
-def keep_margins(canvas, figure, left: float, right: float, bottom: float, top: float) -> None:
-    """Hold the figure's margins at these many pixels (not fractions) as the canvas resizes, so axis labels and
-    titles keep their room however small the window; fixed margins also spare a layout engine on every redraw."""
+def fit_margins(figure) -> None:
+    """Margins that hold every title, axis label and tick label inside the canvas as it is now (matplotlib's tight
+    layout, measured in pixels). Called when the canvas is resized and when texts or ranges change, not on every
+    redraw: measuring every text costs half a redraw."""
+    width, height = figure.canvas.get_width_height()
+    if width > 80 and height > 60:
+        with warnings.catch_warnings():  # a canvas too small for its texts keeps the margins it had
+            warnings.simplefilter("ignore")
+            figure.tight_layout(pad=0.5)
+
+
+def keep_fitted(canvas, figure, then=None) -> None:
+    """Fit the figure's margins (:func:`fit_margins`) whenever the canvas is resized; ``then`` is called after (to
+    place what depends on the size of the axes)."""
     def fit(_event=None) -> None:
-        width, height = canvas.get_width_height()
-        if width > 0 and height > 0:
-            figure.subplots_adjust(left=min(0.3, left / width), right=1.0 - min(0.3, right / width),
-                                   bottom=min(0.4, bottom / height), top=1.0 - min(0.3, top / height))
+        fit_margins(figure)
+        if then is not None:
+            then()
 
     canvas.mpl_connect("resize_event", fit)
 
 
+class _Key(QLabel):
+    """The key of a plot, in Qt under it: drawing a legend in the figure costs a third of every redraw, and inside
+    the axes it covers the curves. Exported pictures draw it as a legend (:func:`save_with_legend`)."""
+
+    def __init__(self, parent=None):
+        super().__init__(parent)
+        self.setObjectName("plot_key")
+        self.setWordWrap(True)
+        self.shown = None
+
+    def show_handles(self, handles) -> None:
+        """Show the labelled lines and bands (re-made only when its entries change)."""
+        key = tuple((h.get_label(), _swatch(h)) for h in handles)
+        if key != self.shown:
+            # an entry stays on one line; the key wraps between entries
+            self.setText(" &nbsp; ".join(f"{swatch}&nbsp;{html.escape(label).replace(' ', '&nbsp;')}"
+                                         for label, swatch in key))
+            self.shown = key
+
+
+def save_with_legend(figure, axes, handles, path: str, dpi: int = 200) -> None:
+    """Save the figure with its key drawn in as a legend (an exported picture stands alone)."""
+    legend = axes.legend(handles=handles, fontsize=8, loc="best", framealpha=0.9) if handles else None
+    try:
+        figure.savefig(path, dpi=dpi)
+    finally:
+        if legend is not None:
+            legend.remove()
+
+
 class _PlotPage(QWidget):
-    """One profile plot with its toolbar, the drawing window band, the aim line, lines and a caption."""
+    """One profile plot with its toolbar, the drawing window band, the aim line, lines, and a caption over it."""
 
     def __init__(self, hrc_axis: bool, parent=None):
         super().__init__(parent)
         self.figure = Figure(figsize=(6, 4))
-        # fixed margins: a layout engine would re-measure every text on every redraw
-        self.figure.subplots_adjust(left=0.085, right=0.92, top=0.95, bottom=0.11)
         self.canvas = FigureCanvasQTAgg(self.figure)
         self.toolbar = NavigationToolbar2QT(self.canvas, self)
         layout = QVBoxLayout(self)
         layout.setContentsMargins(0, 0, 0, 0)
         layout.addWidget(self.toolbar)
         layout.addWidget(self.canvas, 1)
-        # the key lives in Qt, not in the figure: drawing a legend costs a third of every redraw
-        self.key = QLabel()
-        self.key.setObjectName("plot_key")
-        self.key.setWordWrap(True)
+        self.key = _Key()
         layout.addWidget(self.key)
         ax = self.axes = self.figure.add_subplot()
         ax.grid(True, color="#dddddd", lw=0.6)
@@ -92,12 +134,13 @@ class _PlotPage(QWidget):
         self.final, = ax.plot([], [], color=EARLIER, lw=1.2, ls="--")
         self.line, = ax.plot([], [], color=INK, lw=2.2)
         self.levels: list = []
-        self.caption = ax.text(0.01, 0.985, "", transform=ax.transAxes, va="top", ha="left", fontsize=9,
-                               bbox={"boxstyle": "round,pad=0.3", "fc": "white", "ec": "#cccccc", "alpha": 0.9})
+        # the caption is the plot's title, over the axes rather than over the curves
+        self.caption = ax.set_title("", loc="left", fontsize=9)
         if hrc_axis:
+            ax.set_ylim(250.0, 900.0)  # HV the HRC scale spans, until a result sets the range (fitting measures it)
             ax.secondary_yaxis("right", functions=(_hv_to_hrc, _hrc_to_hv)).set_ylabel("[HRC]")
-        self._legend_key = None
-        keep_margins(self.canvas, self.figure, 62, 52, 46, 12)
+        self._fitted = None  # the texts and ranges the margins were fitted to
+        keep_fitted(self.canvas, self.figure)
 
     def draw_panel(self, panel: Panel, view: ProfileView, units: DisplayUnits) -> None:
         ax = self.axes
@@ -131,6 +174,11 @@ class _PlotPage(QWidget):
         ax.set_ylim(*panel.limits)
         self.caption.set_text(panel.caption)
         self.legend()
+        # margins follow the texts and ranges, not the time scrubbed (the caption's length only roughly)
+        fitted = (ax.get_xlabel(), ax.get_ylabel(), ax.get_xlim(), ax.get_ylim(), len(panel.caption) // 12)
+        if fitted != self._fitted:
+            fit_margins(self.figure)
+            self._fitted = fitted
         self.canvas.draw_idle()
 
     def _handles(self):
@@ -138,53 +186,84 @@ class _PlotPage(QWidget):
         return [h for h in self.axes.get_lines() + patches if h.get_visible() and not h.get_label().startswith("_")]
 
     def legend(self) -> None:
-        """Show the key under the plot (re-made only when its entries change)."""
-        key = tuple((h.get_label(), _swatch(h)) for h in self._handles())
-        if key != self._legend_key:
-            self.key.setText("&nbsp;&nbsp;&nbsp;".join(f"{swatch}&nbsp;{label}" for label, swatch in key))
-            self._legend_key = key
+        """Show the key under the plot."""
+        self.key.show_handles(self._handles())
 
     def save(self, path: str, dpi: int = 200) -> None:
         """Save the figure with the key drawn into it as a legend (an exported picture stands alone)."""
-        legend = self.axes.legend(handles=self._handles(), fontsize=8, loc="upper right", framealpha=0.9)
-        try:
-            self.figure.savefig(path, dpi=dpi)
-        finally:
-            legend.remove()
+        save_with_legend(self.figure, self.axes, self._handles(), path, dpi)
 
 
-class _CyclePage(QSplitter):
-    """Temperature and potential through the whole cycle, and the quote under it."""
+def _compact(table: QTableWidget) -> None:
+    """Rows as high as their text, so a usual cycle's stages show without scrolling."""
+    table.verticalHeader().setDefaultSectionSize(table.fontMetrics().height() + 6)
+    table.verticalHeader().setVisible(False)
+    table.setEditTriggers(QTableWidget.NoEditTriggers)
+
+
+class _Beside(QSplitter):
+    """A plot with a table beside it (``side``: the table, or a widget holding it), as wide as the table's contents
+    until the user moves the divider."""
+
+    def __init__(self, plot: QWidget, side: QWidget, table: QTableWidget, parent=None):
+        super().__init__(Qt.Horizontal, parent)
+        self.table = table
+        self.addWidget(plot)
+        self.addWidget(side)
+        self.setStretchFactor(0, 1)
+        self.setStretchFactor(1, 0)
+        self.setSizes([620, 300])
+        self.moved_by_hand = False
+        self.splitterMoved.connect(lambda *_: setattr(self, "moved_by_hand", True))
+
+    def fit_table(self) -> None:
+        if self.moved_by_hand:
+            return
+        table = self.table
+        columns = sum(max(table.sizeHintForColumn(c), table.horizontalHeader().sectionSizeHint(c))
+                      for c in range(table.columnCount()))
+        width = columns + 2 * table.frameWidth() + table.verticalScrollBar().sizeHint().width() + 4
+        total = sum(self.sizes()) or self.width()
+        self.setSizes([max(total - width, 0), width])
+
+
+class _CyclePage(QWidget):
+    """Temperature and potential through the whole cycle, with its stages and moments (purges, the atmosphere going
+    in), and the quote beside it."""
 
     def __init__(self, parent=None):
-        super().__init__(Qt.Vertical, parent)
+        super().__init__(parent)
         self.figure = Figure(figsize=(6, 3))
-        self.figure.subplots_adjust(left=0.085, right=0.90, top=0.93, bottom=0.16)
         self.canvas = FigureCanvasQTAgg(self.figure)
-        keep_margins(self.canvas, self.figure, 62, 62, 46, 28)
-        top = QWidget()
-        layout = QVBoxLayout(top)
+        plot = QWidget()
+        layout = QVBoxLayout(plot)
         layout.setContentsMargins(0, 0, 0, 0)
-        layout.addWidget(NavigationToolbar2QT(self.canvas, top))
-        layout.addWidget(self.canvas)
-        self.addWidget(top)
+        layout.addWidget(NavigationToolbar2QT(self.canvas, plot))
+        layout.addWidget(self.canvas, 1)
         self.axes = self.figure.add_subplot()
         self.potential_axes = self.axes.twinx()
-        bottom = QWidget()
-        table_layout = QVBoxLayout(bottom)
-        table_layout.setContentsMargins(0, 0, 0, 0)
+        self.stage_texts: list = []  # (text, span start [h], span end [h]) of each stage's name in the plot
+        self.marker_texts: list = []  # the moments' words, along the top of the plot
+        quote = QWidget()
+        quote_layout = QVBoxLayout(quote)
+        quote_layout.setContentsMargins(0, 0, 0, 0)
         self.table = QTableWidget(0, 3)
         self.table.setObjectName("quote_table")
         self.table.setHorizontalHeaderLabels(["Stage", "Hours", "Share"])
-        self.table.horizontalHeader().setSectionResizeMode(QHeaderView.Stretch)
-        self.table.verticalHeader().setVisible(False)
-        self.table.setEditTriggers(QTableWidget.NoEditTriggers)
-        table_layout.addWidget(self.table)
+        header = self.table.horizontalHeader()
+        header.setSectionResizeMode(QHeaderView.ResizeToContents)
+        header.setSectionResizeMode(0, QHeaderView.Stretch)
+        _compact(self.table)
+        quote_layout.addWidget(self.table, 1)
         self.total = QLabel()
         self.total.setObjectName("quote_total")
-        table_layout.addWidget(self.total)
-        self.addWidget(bottom)
-        self.setSizes([320, 220])
+        self.total.setWordWrap(True)
+        quote_layout.addWidget(self.total)
+        self.split = _Beside(plot, quote, self.table)
+        page_layout = QVBoxLayout(self)
+        page_layout.setContentsMargins(0, 0, 0, 0)
+        page_layout.addWidget(self.split)
+        keep_fitted(self.canvas, self.figure, then=self._place_texts)
 
     def show_outcome(self, outcome: Outcome, units: DisplayUnits) -> None:
         line = outcome.timeline()
@@ -192,25 +271,38 @@ class _CyclePage(QSplitter):
         ax.clear()
         pax.clear()
         hours = line.times / 3600.0
-        ax.plot(hours, [units.temperature(t) for t in line.temperatures], color=INK, lw=2.0, label="temperature")
+        shown = np.array([units.temperature(t) for t in line.temperatures])
+        ax.plot(hours, shown, color=INK, lw=2.0, label="temperature")
         pax.plot(hours, line.potentials, color=THRESHOLD, lw=1.6, ls="--", label=line.potential_name)
+        self.stage_texts, self.marker_texts = [], []
+        words = {"fontsize": 7, "clip_on": True, "in_layout": False}
         for i, (start, end, label) in enumerate(line.labels):
             if i % 2 == 0:
                 ax.axvspan(start / 3600.0, end / 3600.0, color="#eef2f6", lw=0, zorder=0)
-            if end - start > 0.04 * max(line.times[-1], 1.0):
-                ax.text((start + end) / 7200.0, 0.02, label.split(" ")[0], transform=ax.get_xaxis_transform(),
-                        ha="center", va="bottom", fontsize=7, color="#555", rotation=90)
+            text = ax.text((start + end) / 7200.0, 0.02, label.split(" ")[0], transform=ax.get_xaxis_transform(),
+                           va="bottom", color="#555", **words)
+            self.stage_texts.append((text, start / 3600.0, end / 3600.0))
+        for time, what in line.markers:
+            ax.axvline(time / 3600.0, color=MARKER, lw=1.2, ls=":")
+            self.marker_texts.append(ax.text(time / 3600.0, 0.97, what, transform=ax.get_xaxis_transform(), va="top",
+                                             color=MARKER, style="italic", **words,
+                                             bbox={"boxstyle": "square,pad=0.15", "fc": "white", "ec": "none",
+                                                   "alpha": 0.85}))
         ax.set_xlabel("time in the cycle [h]")
         ax.set_ylabel(f"temperature [{units.temperature_unit}]")
         pax.yaxis.set_label_position("right")
         pax.yaxis.tick_right()
         pax.set_ylabel(line.potential_name, color=THRESHOLD)
+        # headroom over both curves: the top of the plot is where the moments are named
+        ax.set_ylim(min(0.0, float(np.nanmin(shown))), float(np.nanmax(shown)) * 1.25)
         finite = np.isfinite(line.potentials)
-        pax.set_ylim(0, max(line.potential_floor, float(np.nanmax(line.potentials)) * 1.15) if finite.any()
+        pax.set_ylim(0, max(line.potential_floor, float(np.nanmax(line.potentials)) * 1.3) if finite.any()
                      else line.potential_floor)
         ax.set_xlim(0, max(hours[-1], 0.1))
         ax.grid(True, color="#dddddd", lw=0.6)
-        ax.set_title(f"The cycle: temperature (solid) and {line.potential_name.split(' [')[0]} (dashed)", fontsize=10)
+        ax.set_title(f"Temperature (solid) and {line.potential_name.split(' [')[0]} (dashed)", fontsize=10)
+        fit_margins(self.figure)
+        self._place_texts()
         self.canvas.draw_idle()
         quote = outcome.quote
         self.table.setRowCount(len(quote.lines))
@@ -223,32 +315,93 @@ class _CyclePage(QSplitter):
         money = f" {quote.currency}" if quote.currency else ""
         self.total.setText(f"<b>Whole cycle {quote.total_h:.2f} h</b> · {quote.cost_per_load:.2f}{money} per load · "
                            f"{quote.cost_per_part:.3f}{money} per part")
+        self.split.fit_table()
+
+    def save(self, path: str, dpi: int = 200) -> None:
+        self.figure.savefig(path, dpi=dpi)
+
+    def _place_texts(self) -> None:
+        """Name each stage where its name fits in its span (level if it can, else upright), and set the moments'
+        words along the top, in rows where they would overlap, each turned away from the plot's right edge."""
+        ax = self.axes
+        if not self.stage_texts and not self.marker_texts:
+            return
+        renderer = self.figure.canvas.get_renderer()
+        box = ax.get_window_extent(renderer)
+        x0, x1 = ax.get_xlim()
+        per_unit = box.width / max(x1 - x0, 1e-9)
+        for text, start, end in self.stage_texts:
+            room = (end - start) * per_unit
+            text.set(rotation=0, ha="center", visible=True)
+            if text.get_window_extent(renderer).width + 6 > room:
+                text.set(rotation=90)
+                extent = text.get_window_extent(renderer)
+                text.set_visible(extent.width * 1.3 <= room and extent.height <= 0.45 * box.height)
+        rows: list[list] = []
+        for text in self.marker_texts:
+            right = (text.get_position()[0] - x0) / max(x1 - x0, 1e-9) > 0.6
+            word = text.get_text().strip()
+            text.set(ha="right" if right else "left", text=f"{word} " if right else f" {word}")
+            for row, taken in enumerate(rows + [[]]):
+                text.set_y(0.97 - 0.1 * row)
+                extent = text.get_window_extent(renderer)
+                if not any(extent.overlaps(other) for other in taken):
+                    if row == len(rows):
+                        rows.append([])
+                    rows[row].append(extent)
+                    break
 
 
-class _TradeoffPage(QSplitter):
-    """The plan's soak at other temperatures (the plan otherwise unchanged, its own policy on the shop's stages):
-    furnace time against grain growth and distortion."""
+class _KeyedPlot(QWidget):
+    """A figure with its key under it (in Qt, see :class:`_Key`)."""
 
     def __init__(self, parent=None):
-        super().__init__(Qt.Vertical, parent)
+        super().__init__(parent)
         self.figure = Figure(figsize=(6, 3))
-        self.figure.subplots_adjust(left=0.09, right=0.97, top=0.9, bottom=0.16)
         self.canvas = FigureCanvasQTAgg(self.figure)
-        keep_margins(self.canvas, self.figure, 62, 20, 46, 28)
-        self.addWidget(self.canvas)
+        layout = QVBoxLayout(self)
+        layout.setContentsMargins(0, 0, 0, 0)
+        layout.addWidget(self.canvas, 1)
+        self.key = _Key()
+        layout.addWidget(self.key)
         self.axes = self.figure.add_subplot()
+        keep_fitted(self.canvas, self.figure)
+
+    def handles(self):
+        return [h for h in self.axes.get_lines() if not h.get_label().startswith("_")]
+
+    def finish(self) -> None:
+        """After drawing anew: the key, the margins, the canvas."""
+        self.key.show_handles(self.handles())
+        self.key.setVisible(bool(self.key.shown))
+        fit_margins(self.figure)
+        self.canvas.draw_idle()
+
+    def save(self, path: str, dpi: int = 200) -> None:
+        save_with_legend(self.figure, self.axes, self.handles(), path, dpi)
+
+
+class _TradeoffPage(QWidget):
+    """The plan's soak at other temperatures (the plan otherwise unchanged, its own policy on the shop's stages):
+    furnace time against grain growth and distortion; the plot, the table beside it and a note under both."""
+
+    def __init__(self, parent=None):
+        super().__init__(parent)
+        layout = QVBoxLayout(self)
+        layout.setContentsMargins(0, 0, 0, 0)
+        self.plot = _KeyedPlot()
+        self.figure, self.canvas, self.axes = self.plot.figure, self.plot.canvas, self.plot.axes
         self.table = QTableWidget(0, 2)
         self.table.setObjectName("tradeoff_table")
         self.table.setHorizontalHeaderLabels(["Temperature", "Soak for the aim depth"])
-        self.table.horizontalHeader().setSectionResizeMode(QHeaderView.Stretch)
-        self.table.verticalHeader().setVisible(False)
-        self.table.setEditTriggers(QTableWidget.NoEditTriggers)
-        self.addWidget(self.table)
+        self.table.horizontalHeader().setSectionResizeMode(QHeaderView.ResizeToContents)
+        self.table.horizontalHeader().setStretchLastSection(True)
+        _compact(self.table)
+        self.split = _Beside(self.plot, self.table, self.table)
+        layout.addWidget(self.split, 1)
         self.note = QLabel()
         self.note.setWordWrap(True)
-        self.note.setMinimumHeight(44)
-        self.addWidget(self.note)
-        self.setSizes([300, 200, 44])
+        layout.addWidget(self.note)
         self.pairs: list[tuple[float, float]] = []
 
     def show_outcome(self, outcome: Outcome, units: DisplayUnits) -> None:
@@ -267,23 +420,27 @@ class _TradeoffPage(QSplitter):
             ax.text(0.5, 0.5, note, transform=ax.transAxes, ha="center", va="center", wrap=True, fontsize=10, color="#555")
         else:
             ax.set_axis_on()
-            ax.plot([units.temperature(T) for T, _ in self.pairs], [t / 3600 for _, t in self.pairs], "o-", color=INK)
+            ax.plot([units.temperature(T) for T, _ in self.pairs], [t / 3600 for _, t in self.pairs], "o-", color=INK,
+                    label="soak for the aim depth")
             own = dict(self.pairs).get(values["temperature"])
             if own is not None:
                 ax.plot([units.temperature(values["temperature"])], [own / 3600], "o", color=THRESHOLD, ms=9,
                         label="this plan's temperature")
-                ax.legend(fontsize=8)
         ax.set_xlabel(f"temperature [{units.temperature_unit}]")
         ax.set_ylabel("soak [h]")
         ax.grid(True, color="#dddddd", lw=0.6)
         ax.set_title(f"This plan at other temperatures: the soak for {units.format_length(outcome.targets[1])}",
                      fontsize=10)
-        self.canvas.draw_idle()
+        self.plot.finish()
         self.table.setRowCount(len(self.pairs))
         for r, (T, t) in enumerate(self.pairs):
             self.table.setItem(r, 0, QTableWidgetItem(units.format_temperature(T)))
             self.table.setItem(r, 1, QTableWidgetItem(f"{format_duration(t)}  ({t / 3600:.2f} h)"))
+        self.split.fit_table()
         self.note.setText(note)
+
+    def save(self, path: str, dpi: int = 200) -> None:
+        self.plot.save(path, dpi)
 
 
 def _diameter(metres: float) -> str:
@@ -291,24 +448,21 @@ def _diameter(metres: float) -> str:
     return f"{metres * 1e3:.0f} mm ({metres / 0.0254:.2f} in)"
 
 
-class _HardenabilityPage(QSplitter):
+class _HardenabilityPage(QWidget):
     """The steel's hardenability: its Jominy curve (and the case's, at the surface carbon), the ideal critical
     diameter, and what the estimate rests on."""
 
     def __init__(self, parent=None):
-        super().__init__(Qt.Vertical, parent)
-        self.figure = Figure(figsize=(6, 3))
-        self.figure.subplots_adjust(left=0.09, right=0.97, top=0.9, bottom=0.16)
-        self.canvas = FigureCanvasQTAgg(self.figure)
-        keep_margins(self.canvas, self.figure, 62, 20, 46, 28)
-        self.addWidget(self.canvas)
-        self.axes = self.figure.add_subplot()
+        super().__init__(parent)
+        layout = QVBoxLayout(self)
+        layout.setContentsMargins(0, 0, 0, 0)
+        self.plot = _KeyedPlot()
+        self.figure, self.canvas, self.axes = self.plot.figure, self.plot.canvas, self.plot.axes
+        layout.addWidget(self.plot, 1)
         self.note = QLabel()
         self.note.setObjectName("hardenability_note")
         self.note.setWordWrap(True)
-        self.note.setMinimumHeight(44)
-        self.addWidget(self.note)
-        self.setSizes([400, 80])
+        layout.addWidget(self.note)
 
     def show_outcome(self, outcome: Outcome, units: DisplayUnits) -> None:
         facts = outcome.hardenability()
@@ -320,7 +474,7 @@ class _HardenabilityPage(QSplitter):
             ax.text(0.5, 0.5, facts["error"], transform=ax.transAxes, ha="center", va="center", wrap=True, fontsize=10,
                     color="#555")
             self.note.setText("")
-            self.canvas.draw_idle()
+            self.plot.finish()
             return
         ax.set_axis_on()
         distance = facts["curve_distances"] / 0.0254 * 16.0  # sixteenths of an inch, as Jominy curves are read
@@ -332,16 +486,18 @@ class _HardenabilityPage(QSplitter):
         ax.set_ylabel("hardness [HRC]")
         ax.set_xlim(0, 32)
         ax.grid(True, color="#dddddd", lw=0.6)
-        ax.legend(fontsize=8, loc="upper right")
         ideal = facts["ideal_diameter"]
         ax.set_title(f"Jominy end-quench curve of {steel.name}, estimated (D_I {_diameter(ideal)})", fontsize=10)
-        self.canvas.draw_idle()
+        self.plot.finish()
         case = ("" if facts["case_ideal_diameter"] is None else
                 f"; the case at {facts['case_carbon']:.2f} %C: D_I {_diameter(facts['case_ideal_diameter'])}")
         methods = facts["methods"]
         self.note.setText(f"Ideal critical diameter of the core {_diameter(ideal)} (grain size ASTM "
                           f"{facts['grain_size']:g}){case}. {methods[:1].upper() + methods[1:]}. "
-                          + " ".join(facts["warnings"]))
+                          + " ".join(w if w.endswith(".") else f"{w}." for w in facts["warnings"]))
+
+    def save(self, path: str, dpi: int = 200) -> None:
+        self.plot.save(path, dpi)
 
 
 class ProfilePlots(QTabWidget):
@@ -366,11 +522,7 @@ class ProfilePlots(QTabWidget):
         self.currentChanged.connect(self._page_shown)
 
     def save_current(self, path: str, dpi: int = 200) -> None:
-        page = self.pages[self.currentIndex()]
-        if isinstance(page, _PlotPage):
-            page.save(path, dpi)
-        else:
-            page.figure.savefig(path, dpi=dpi)
+        self.pages[self.currentIndex()].save(path, dpi)
 
     def show_outcome(self, outcome: Outcome, units: DisplayUnits, time: float | None = None) -> None:
         self.outcome, self.units, self.time = outcome, units, time
@@ -389,9 +541,11 @@ class ProfilePlots(QTabWidget):
         self._page_shown(self.currentIndex())
 
     def draw_all(self) -> None:
-        """Draw every page now (before exporting or printing)."""
+        """Draw every page now (before exporting or printing); a page already drawn for this result is not made
+        again, only rendered."""
         for index, page in enumerate(self.pages):
-            self._draw_page(index)
+            if self.outcome is not None and self._stale.get(index):
+                self._draw_page(index)
             page.canvas.draw()
 
     def _page_shown(self, index: int) -> None:

@@ -3,6 +3,8 @@ outcome's :meth:`~casedepth.outcome.Outcome.summary`, whatever the treatment."""
 
 from __future__ import annotations
 
+import re
+
 from PySide6.QtCore import Qt
 from PySide6.QtWidgets import QFrame, QGridLayout, QLabel, QScrollArea, QVBoxLayout
 
@@ -11,6 +13,13 @@ from ..units import DisplayUnits
 
 BANNER_STYLE = "QFrame#banner { background: #eef4f8; border: 1px solid #b8cfe0; border-radius: 6px; }"
 STALE_STYLE = "QFrame#banner { background: #f3f3f3; border: 1px dashed #999; border-radius: 6px; }"
+#: the space between a number and the word after it (its unit), which a wrapped line keeps together
+NUMBER_AND_UNIT = re.compile(r"(?<=\d) (?=[^\s\d(])")
+
+
+def unbroken(text: str) -> str:
+    """``text`` with each number held to its unit by a no-break space ("1112 mV" never splits over two lines)."""
+    return NUMBER_AND_UNIT.sub("\u00a0", text)
 
 
 class ResultPanel(QFrame):
@@ -34,6 +43,8 @@ class ResultPanel(QFrame):
         layout.addWidget(self.subline)
         self.grid = QGridLayout()
         self.grid.setHorizontalSpacing(18)
+        self.grid.setColumnStretch(1, 1)  # the values take the room, the names only what they need
+        self.grid.setColumnStretch(3, 1)
         self.facts: dict[str, QLabel] = {}
         self.fact_names: dict[str, QLabel] = {}
         layout.addLayout(self.grid)
@@ -70,7 +81,7 @@ class ResultPanel(QFrame):
         self.grid.addWidget(label, index // 2, (index % 2) * 2)
         self.grid.addWidget(text, index // 2, (index % 2) * 2 + 1)
         label.setText(name)
-        text.setText(value)
+        text.setText(unbroken(value))
         label.show()
         text.show()
 

@@ -13,7 +13,7 @@ import os
 from dataclasses import fields
 from pathlib import Path
 
-from PySide6.QtCore import QSettings, Qt, Signal
+from PySide6.QtCore import QSettings, Qt, QTimer, Signal
 from PySide6.QtGui import QAction, QActionGroup, QKeySequence
 from PySide6.QtWidgets import (QCheckBox, QDialog, QDialogButtonBox, QDoubleSpinBox, QFileDialog, QFormLayout, QFrame,
                                QHBoxLayout, QLabel, QLineEdit, QMainWindow, QMessageBox, QPlainTextEdit, QPushButton,
@@ -52,7 +52,13 @@ class ShopDialog(QDialog):
         form.addRow("Shop name", self.name)
         self.logo = QLineEdit(logo)
         self.logo.setPlaceholderText("path of a PNG logo for process sheets (optional)")
-        form.addRow("Logo file", self.logo)
+        self.logo_button = QPushButton("Choose…")
+        self.logo_button.setToolTip("Pick the logo's picture file (PNG or JPEG)")
+        self.logo_button.clicked.connect(self.choose_logo)
+        logo_line = QHBoxLayout()
+        logo_line.addWidget(self.logo, 1)
+        logo_line.addWidget(self.logo_button)
+        form.addRow("Logo file", logo_line)
         self.spins = {}
         self.shop = shop
         for item in fields(ShopDefaults):
@@ -66,6 +72,9 @@ class ShopDialog(QDialog):
             spin.setValue(float(getattr(shop, item.name)))
             form.addRow(item.metadata["label"], spin)
             self.spins[item.name] = spin
+        for spin in self.spins.values():  # whole degrees, as a furnace is set ("845 °C", not "845.00 °C")
+            if spin.suffix().strip() in ("°C", "°F"):
+                spin.setDecimals(0)
         self.currency = QLineEdit(shop.currency)
         self.currency.setPlaceholderText("e.g. EUR, USD (optional)")
         form.addRow("Currency", self.currency)
@@ -78,6 +87,13 @@ class ShopDialog(QDialog):
         self.currency.setMaxLength(20)
         self.name.setMaxLength(200)
         self.logo.setMaxLength(1000)
+
+    def choose_logo(self) -> None:
+        start = self.logo.text().strip() or str(Path.home())
+        path, _ = QFileDialog.getOpenFileName(self, "Logo for process sheets", start,
+                                              "Pictures (*.png *.jpg *.jpeg);;All files (*)")
+        if path:
+            self.logo.setText(path)
 
     def accept(self) -> None:
         """Close only on values the shop accepts; otherwise say which entry and its range."""
@@ -294,7 +310,7 @@ class MainWindow(QMainWindow):
         self.scroll.setMinimumWidth(self.form.minimumSizeHint().width() + self.scroll.verticalScrollBar().sizeHint().width() + 6)
 
     def _plan_changed(self, key, value) -> None:
-        self._fit_form()
+        QTimer.singleShot(0, self._fit_form)  # once the form has shown the change (it hears of it after the window)
         self._update_title()
         self._update_undo()
         self.offers.show_offers(self.plan.offers())
@@ -500,7 +516,7 @@ class MainWindow(QMainWindow):
 
     def edit_shop(self) -> None:
         """Edit the shop's times and rates for this plan, and optionally keep them for new plans."""
-        dialog = ShopDialog(self.plan.shop_defaults(), self, str(self.settings.value("shop_name", "")),
+        dialog = ShopDialog(ShopDefaults.from_dict(self.plan.shop), self, str(self.settings.value("shop_name", "")),
                             str(self.settings.value("shop_logo", "")))
         if dialog.exec() == QDialog.Accepted:
             self.settings.setValue("shop_name", dialog.name.text().strip())

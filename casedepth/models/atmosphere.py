@@ -15,11 +15,18 @@ plain iron in equilibrium with the gas) from the activity of carbon in austenite
 Controllers in service apply their own corrections (a CO factor or process factor set against shim
 stock or a dew point); the relation here is the ideal one, and a shop should trim it the same way.
 Temperatures in K, pressures in atm, millivolts in mV, carbon in wt %.
+
+A reading is read only where it means a carburizing gas (:func:`probe_window`): above 0 mV (0 mV is a
+gas as rich in oxygen as the air reference), below the reading of graphite saturation (a_C = 1: soot
+deposits and the gas cannot stay there) and at or above the reading of the least potential that
+carburizes — 0.10 %C, or the potential that holds the steel's core carbon where the steel is given.
+The probe relation takes only millivolts; dew point and CO2 readings are not converted here.
 """
 
 from __future__ import annotations
 
 import math
+from dataclasses import dataclass
 
 from ..constants import GAS_CONSTANT as R, ZERO_CELSIUS
 from ..errors import InputError
@@ -27,7 +34,9 @@ from ..errors import InputError
 AIR_OXYGEN = 0.209  # atm, the probe's reference
 #: CO in endothermic gas made from natural gas, about 20 vol % (common practice; 23–24 % from propane)
 ENDO_CO_FRACTION = 0.20
-PROBE_RANGE_MV = (900.0, 1300.0)  # readings of carburizing atmospheres
+#: the least carbon potential a probe reading is read for: leaner gas decarburizes every case-hardening steel
+#: (the leanest grade of the library holds 0.105 %C), and the activity relation is quoted from about 0.1 %C
+LEAST_CARBURIZING_POTENTIAL = 0.10  # wt % C
 TEMPERATURE_RANGE = (800.0 + ZERO_CELSIUS, 1100.0 + ZERO_CELSIUS)  # K, austenite with carburizing gas
 
 
@@ -158,24 +167,125 @@ def _check(T: float, CO: float) -> None:
         raise InputError("carrier_co", f"{CO * 100:g} % CO is outside 5–50 %")
 
 
-def carbon_potential_from_probe(E: float, T: float, CO: float = ENDO_CO_FRACTION) -> float:
+def carbon_activity_from_probe(E: float, T: float, CO: float) -> float:
+    r"""Carbon activity (graphite reference) of a gas from its probe voltage [mV], temperature [K] and CO
+    fraction [-], by the equilibrium C + ½ O2 = CO: :math:`a_C = p_{CO} / (K\,p_{O_2}^{1/2})`."""
+    return CO / (CO_formation_constant(T) * math.sqrt(oxygen_probe_pressure(E, T)))
+
+
+def probe_voltage_for_activity(activity: float, T: float, CO: float) -> float:
+    """The probe voltage [mV] of a gas of carbon activity ``activity`` [-] at T [K] and CO fraction [-];
+    inverse of :func:`carbon_activity_from_probe`."""
+    return probe_voltage((CO / (CO_formation_constant(T) * activity)) ** 2, T)
+
+
+@dataclass(frozen=True)
+class ProbeWindow:
+    """The readings that mean a carburizing gas at one temperature and CO content: from the least potential read
+    (``least``, at ``least_mv``) up to graphite saturation (``graphite``, at ``graphite_mv``, not included)."""
+
+    least: float  # wt % C
+    least_mv: float
+    graphite: float  # wt % C, the potential at a_C = 1
+    graphite_mv: float
+    T: float  # K
+    CO: float  # fraction
+
+    def where(self) -> str:
+        return f"at {self.T - ZERO_CELSIUS:.0f} °C with {self.CO * 100:g} % CO"
+
+    def text(self, potentials_first: bool = False) -> str:
+        mv, pct = (f"{self.least_mv:.0f}–{self.graphite_mv:.0f} mV", f"{self.least:.2f}–{self.graphite:.2f} %C")
+        return f"{pct} ({mv}) {self.where()}" if potentials_first else f"{mv} ({pct}) {self.where()}"
+
+
+def probe_window(T: float, CO: float = ENDO_CO_FRACTION, core_potential: float | None = None) -> ProbeWindow:
+    """The readings of a carburizing gas at T [K] and CO fraction [-]: from :data:`LEAST_CARBURIZING_POTENTIAL`
+    (or ``core_potential`` [wt % C], the potential that holds a steel's core carbon, if higher) to graphite.
+
+    Examples
+    --------
+    >>> window = probe_window(1198.15)
+    >>> round(window.least_mv), round(window.graphite_mv), round(window.graphite, 2)
+    (1014, 1166, 1.26)
+    """
+    _check(T, CO)
+    least = LEAST_CARBURIZING_POTENTIAL
+    if core_potential is not None:
+        if not (math.isfinite(core_potential) and 0.0 <= core_potential <= 2.0):
+            raise InputError("core_potential", f"{core_potential:g} %C is outside 0–2 %C")
+        least = max(least, core_potential)
+    return ProbeWindow(least, probe_voltage_for_activity(austenite_carbon_activity(least, T), T, CO),
+                       carbon_for_activity(1.0, T), probe_voltage_for_activity(1.0, T, CO), T, CO)
+
+
+def _below_window(window: ProbeWindow, core_potential: float | None) -> str:
+    """Why the floor of ``window`` is where it is, in words."""
+    if core_potential is not None and window.least > LEAST_CARBURIZING_POTENTIAL:
+        return f"the potential that holds the steel's core carbon ({window.least:.2f} %C, {window.least_mv:.0f} mV)"
+    return f"{window.least:.2f} %C ({window.least_mv:.0f} mV), below which every case-hardening steel loses carbon"
+
+
+def carbon_potential_from_probe(E: float, T: float, CO: float = ENDO_CO_FRACTION,
+                                core_potential: float | None = None) -> float:
     """Carbon potential [wt % C] of a carburizing gas from the probe voltage [mV] at T [K] and its CO
     fraction [-] (default 20 % CO, endothermic gas from natural gas).
+
+    A reading is refused (:class:`InputError` against ``"mv"``, naming the limit in mV and %C) unless it means
+    a carburizing gas, :func:`probe_window`: at or below 0 mV it is no furnace atmosphere (0 mV is air); at or
+    above graphite saturation soot deposits; below the least potential — 0.10 %C, or ``core_potential`` [wt % C],
+    the potential that holds the steel's core carbon (its core carbon over its alloy factor) — the gas
+    decarburizes.
 
     Examples
     --------
     >>> round(carbon_potential_from_probe(1150.0, 1198.15), 2)
     1.02
     """
-    _check(T, CO)
-    if not (math.isfinite(E) and PROBE_RANGE_MV[0] <= E <= PROBE_RANGE_MV[1]):
-        raise InputError("mv", f"{E:g} mV is outside {PROBE_RANGE_MV[0]:g}–{PROBE_RANGE_MV[1]:g} mV")
-    activity = CO / (CO_formation_constant(T) * math.sqrt(oxygen_probe_pressure(E, T)))
-    if activity >= 1.0:
-        raise InputError("mv", f"{E:g} mV at {T - ZERO_CELSIUS:.0f} °C with {CO * 100:g} % CO means a carbon activity of "
-                               f"{activity:.2f}, at or above graphite (soot would deposit): not a carburizing reading; "
-                               f"check the probe, the temperature and the CO content")
+    window = probe_window(T, CO, core_potential)
+    if not (math.isfinite(E) and E > 0.0):
+        raise InputError("mv", f"{E:g} mV is not a reading of a furnace atmosphere: an air-reference probe reads above "
+                               f"0 mV in any gas with less oxygen than air (Nernst); carburizing readings are "
+                               f"{window.text()}")
+    if E >= window.graphite_mv:  # compared in millivolts: the activity of a huge reading overflows
+        try:
+            activity = carbon_activity_from_probe(E, T, CO)
+        except (OverflowError, ZeroDivisionError):
+            activity = math.inf
+        meaning = f"a carbon activity of {activity:.2f}" if activity < 1e6 else "a carbon activity far above 1"
+        raise InputError("mv", f"{E:g} mV {window.where()} means {meaning}, at or above "
+                               f"graphite saturation ({window.graphite_mv:.0f} mV, {window.graphite:.2f} %C): soot "
+                               f"would deposit; check the probe, the temperature and the CO content; carburizing "
+                               f"readings are {window.text()}")
+    activity = carbon_activity_from_probe(E, T, CO)
+    if E < window.least_mv:
+        try:
+            meaning = f"{carbon_for_activity(activity, T):.3f} %C"
+        except InputError:  # leaner than the relation reaches
+            meaning = "next to no carbon"
+        raise InputError("mv", f"{E:g} mV {window.where()} means {meaning}, a decarburizing atmosphere: readings "
+                               f"start at {_below_window(window, core_potential)}; carburizing readings are "
+                               f"{window.text()}")
     return carbon_for_activity(activity, T)
+
+
+def check_carburizing_potential(carbon_potential: float, T: float, CO: float = ENDO_CO_FRACTION,
+                                core_potential: float | None = None) -> None:
+    """Refuse a carbon potential [wt % C] a probe would not read in a carburizing gas at T [K] and CO fraction
+    [-] (:func:`probe_window`): at or above graphite saturation, or below the least potential (0.10 %C or
+    ``core_potential``). Plans allow such potentials with a warning; a probe setting is refused."""
+    window = probe_window(T, CO, core_potential)
+    if not math.isfinite(carbon_potential):
+        raise InputError("carbon_potential", f"{carbon_potential:g} is not a number; carburizing potentials are "
+                                             f"{window.text(True)}")
+    if carbon_potential >= window.graphite:
+        raise InputError("carbon_potential", f"{carbon_potential:g} %C is at or above graphite saturation "
+                                             f"{window.where()} ({window.graphite:.2f} %C, {window.graphite_mv:.0f} mV): "
+                                             f"soot would deposit; carburizing potentials are {window.text(True)}")
+    if carbon_potential < window.least:
+        raise InputError("carbon_potential", f"{carbon_potential:g} %C {window.where()} is a decarburizing atmosphere: "
+                                             f"potentials start at {_below_window(window, core_potential)}; "
+                                             f"carburizing potentials are {window.text(True)}")
 
 
 def probe_voltage_for_potential(carbon_potential: float, T: float, CO: float = ENDO_CO_FRACTION) -> float:

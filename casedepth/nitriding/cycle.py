@@ -35,10 +35,19 @@ def nitriding_cycle(soaks: list[tuple[float, float]], temperature: float,
 
 def segments_timeline(segments: list[tuple[str, float, float, float | None]]):
     """Temperature [K] and K_N against time [s] through the cycle, for plots (as
-    :func:`casedepth.carburizing.cycle.timeline`): (times, temperatures, potentials, labels)."""
+    :func:`casedepth.carburizing.cycle.timeline`): (times, temperatures, potentials, labels).
+
+    K_N is NaN outside the nitriding stages. The labels hold the segments' (start, end, label) and the
+    moments to mark, (time, time, what): each purge with nitrogen, and ammonia going in, which
+    :class:`casedepth.outcome.Timeline` keeps as markers.
+    """
     times, temps, pots, labels = [0.0], [ROOM_TEMPERATURE], [math.nan], []
     now, t_now = 0.0, ROOM_TEMPERATURE
     for label, hours, t_end, kn in segments:
+        if label.lower().startswith("purge"):
+            labels.append((now, now, "nitrogen purge"))
+        elif kn is not None and not math.isfinite(pots[-1]):
+            labels.append((now, now, "ammonia in"))
         labels.append((now, now + hours * 3600.0, label))
         times += [now, now + hours * 3600.0]
         temps += [t_now, t_end]

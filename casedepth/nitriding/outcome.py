@@ -21,7 +21,7 @@ from ..numerics.geometry import Geometry
 from ..outcome import Curve, Fact, Level, Outcome, Panel, ProfileView, SheetContent, Summary, Timeline, quote_fact
 from ..parameters import drawing_window
 from ..shop.quote import Quote, ShopDefaults, quote_lines
-from ..units import DisplayUnits, both_lengths, format_duration
+from ..units import DisplayUnits, both_lengths, format_clock, format_duration
 from .cycle import nitriding_cycle, segments_timeline
 from .nitride import NitridingResult, nitride, nitriding_time
 from .schedule import TwoStageSchedule, compound_layer_advice, staged_layer_at, two_stage_for_depth
@@ -300,4 +300,33 @@ class NitridingOutcome(Outcome):
         rows = [[label, f"{hours:.2f}", units.format_temperature(t_end), "" if kn is None else f"{kn:.2f}",
                  "" if kn is None else f"{100 * dissociation_for_potential(kn):.0f}"]
                 for label, hours, t_end, kn in self.segments]
-        return SheetContent(lines, ["stage", "hours", "ends at", "K_N", "dissociation %"], rows)
+        shop = ShopDefaults.from_dict(self.values["shop"])
+        band_t = shop.temperature_tolerance_c * (1.8 if units.imperial else 1.0)
+        band_k = shop.kn_tolerance_pct / 100.0
+        setpoints = []
+        for label, hours, t_end, kn in self.segments:
+            held = kn is not None
+            temperature = (f"{units.format_temperature(t_end)} ±{band_t:.0f}" if held else
+                           f"to {units.format_temperature(t_end)}")
+            exhaust = ""
+            if held:
+                d_low, d_high = (100 * dissociation_for_potential(kn * f) for f in (1 + band_k, 1 - band_k))
+                exhaust = f"{d_low:.0f}–{d_high:.0f} %"
+            setpoints.append([label, format_clock(hours * 3600.0), temperature,
+                              f"K_N {kn:.2f} ±{100 * band_k:.0f} %" if held else "nitrogen" if "urge" in label else "",
+                              exhaust])
+        callout = [f"Nitrided hardness depth {units.format_length(low)}–{units.format_length(high)} at {s.limit_text} "
+                   f"(aim {units.format_length(self.targets[1])})",
+                   f"Compound layer {self.compound_window[0] * 1e6:g}–{self.compound_window[1] * 1e6:g} µm"]
+        inspection = ["Coupon: a piece of the same steel heat, hardened and tempered with the parts, in the load "
+                      "(common practice).",
+                      f"Nitrided hardness depth: HV 0.5 traverse on the coupon's section, read at {s.limit_text} "
+                      f"(DIN 50190-3 / ISO 18203); accept {units.format_length(low)}–{units.format_length(high)}.",
+                      f"Compound layer: metallographic section (nital), measured at 500×; accept "
+                      f"{self.compound_window[0] * 1e6:g}–{self.compound_window[1] * 1e6:g} µm.",
+                      "Surface hardness: HV 1 or HR15N on the coupon's surface, as the drawing states."]
+        return SheetContent(lines, ["stage", "hours", "ends at", "K_N", "dissociation %"], rows, callout,
+                            ["stage", "h:min", "temperature", "atmosphere", "dissociation"], setpoints, inspection,
+                            [f"Bands: temperature ±{band_t:.0f}{units.temperature_unit.replace('°', ' °')}, K_N "
+                             f"±{100 * band_k:.0f} % (the shop's, Edit → Shop times and rates). Ammonia goes in only "
+                             f"after the nitrogen purge; purge again before opening the retort."])

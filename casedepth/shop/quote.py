@@ -52,6 +52,11 @@ class ShopDefaults:
     nitriding_purge_h: float = _item(0.5, "Nitriding: nitrogen purge", "h", HOURS)
     nitriding_heat_up_h: float = _item(3.0, "Nitriding: heat-up", "h", HOURS)
     nitriding_cool_h: float = _item(4.0, "Nitriding: cool-down", "h", HOURS)
+    # the bands the floor holds the setpoints in (printed with them; the shop's own values, AMS 2750 furnace
+    # classes run from ±3 °C to ±28 °C; common practice, from memory)
+    temperature_tolerance_c: float = _item(8.0, "Temperature tolerance ±", "°C", (0.0, 50.0))
+    potential_tolerance_pct: float = _item(0.05, "Carbon potential tolerance ±", "%C", (0.0, 0.5))
+    kn_tolerance_pct: float = _item(10.0, "K_N tolerance ±", "%", (0.0, 100.0))
     furnace_rate_per_h: float = _item(95.0, "Furnace rate per hour", "", (0.0, 1e6))
     parts_per_load: int = _item(120, "Parts per load", "", (1, 1_000_000))
     currency: str = _item("", "Currency")
