@@ -323,6 +323,16 @@ class Hardened:
         return out
 
 
+def _drawing(low: float | None, high: float | None, hrc: float | None = None) -> str:
+    """`` (drawing 58–62 HRC)`` — with ``hrc`` also ``: in`` or ``: OUT`` — or nothing without a window."""
+    if low is None and high is None:
+        return ""
+    if hrc is None:
+        return f" (drawing {_window(low, high)})"
+    inside = (low is None or hrc >= low) and (high is None or hrc <= high)
+    return f" (drawing {_window(low, high)}: {'in' if inside else 'OUT'})"
+
+
 def _window(low: float | None, high: float | None) -> str:
     if high is None:
         return f"minimum {low:.0f} HRC"
@@ -498,13 +508,9 @@ class CarburizingOutcome(Outcome):
         if hardened is None:
             return []
         v = self.values
-
-        def window(low, high):
-            return "" if low is None and high is None else f" (drawing {_window(low, high)})"
-
         return [Fact("hardness", f"Surface / core hardness (±{HARDNESS_UNCERTAINTY_HRC:g} HRC)",
-                     f"{hardened.surface_hrc:.1f} HRC{window(v['surface_hrc_min'], v['surface_hrc_max'])} / "
-                     f"{hardened.core_hrc:.1f} HRC{window(v['core_hrc_min'], v['core_hrc_max'])}"),
+                     f"{hardened.surface_hrc:.1f} HRC{_drawing(v['surface_hrc_min'], v['surface_hrc_max'])} / "
+                     f"{hardened.core_hrc:.1f} HRC{_drawing(v['core_hrc_min'], v['core_hrc_max'])}"),
                 Fact("hardenability", "Retained austenite, D_I",
                      f"{100 * float(hardened.retained_austenite[0]):.0f} % at the surface; ideal diameter "
                      f"{hardened.ideal_diameter * 1e3:.0f} mm (core)")]
@@ -515,17 +521,11 @@ class CarburizingOutcome(Outcome):
         if hardened is None:
             return []
         v = self.values
-
-        def against(hrc, low, high):
-            if low is None and high is None:
-                return ""
-            ok = (low is None or hrc >= low) and (high is None or hrc <= high)
-            return f" (drawing {_window(low, high)}: {'in' if ok else 'OUT'})"
-
         return [f"  surface hardness      {hardened.surface_hrc:.1f} HRC ±{HARDNESS_UNCERTAINTY_HRC:g}"
-                f"{against(hardened.surface_hrc, v['surface_hrc_min'], v['surface_hrc_max'])}; retained austenite "
+                f"{_drawing(v['surface_hrc_min'], v['surface_hrc_max'], hardened.surface_hrc)}; retained austenite "
                 f"{100 * float(hardened.retained_austenite[0]):.0f} %",
-                f"  core hardness         {hardened.core_hrc:.1f} HRC{against(hardened.core_hrc, v['core_hrc_min'], v['core_hrc_max'])}"
+                f"  core hardness         {hardened.core_hrc:.1f} HRC"
+                f"{_drawing(v['core_hrc_min'], v['core_hrc_max'], hardened.core_hrc)}"
                 f" at {units.format_length(hardened.core_depth)}; ideal diameter D_I {hardened.ideal_diameter * 1e3:.0f} mm",
                 f"  quench and temper     {hardened.hardening.describe(units)}"]
 
@@ -535,14 +535,10 @@ class CarburizingOutcome(Outcome):
         if hardened is None:
             return []
         v = self.values
-
-        def against(low, high):
-            return "" if low is None and high is None else f" (drawing {_window(low, high)})"
-
         return [f"Hardness (±{HARDNESS_UNCERTAINTY_HRC:g} HRC): surface {hardened.surface_hrc:.1f} HRC"
-                f"{against(v['surface_hrc_min'], v['surface_hrc_max'])}, retained austenite "
+                f"{_drawing(v['surface_hrc_min'], v['surface_hrc_max'])}, retained austenite "
                 f"{100 * float(hardened.retained_austenite[0]):.0f} %; core {hardened.core_hrc:.1f} HRC"
-                f"{against(v['core_hrc_min'], v['core_hrc_max'])}; D_I {hardened.ideal_diameter * 1e3:.0f} mm",
+                f"{_drawing(v['core_hrc_min'], v['core_hrc_max'])}; D_I {hardened.ideal_diameter * 1e3:.0f} mm",
                 f"Quench and temper: {hardened.hardening.describe(units)}"]
 
     def timeline(self) -> Timeline:

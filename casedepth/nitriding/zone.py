@@ -20,6 +20,7 @@ Contents in wt %, lengths in m, times in s, hardness in HV.
 from __future__ import annotations
 
 import math
+from abc import ABC, abstractmethod
 from dataclasses import dataclass
 from typing import Callable
 
@@ -218,7 +219,7 @@ def _erfcinv(y: float) -> float:
 
 
 # -- the zone models ------------------------------------------------------------------------------------------------
-class Zone:
+class Zone(ABC):
     """What the nitriding results read from a diffusion-zone model (below the compound layer)."""
 
     label: str  # how the hardness curve is described on plots
@@ -230,13 +231,13 @@ class Zone:
         self.diffusivity = setup.diffusivity  # m²/s
         self.surface_nitrogen = setup.substrate_nitrogen  # dissolved at the top of the zone, wt %
 
+    @abstractmethod
     def depth_rate(self) -> float:
         """Depth below the layer at the hardness limit, per √time [m/√s] (0 if the limit is not reached)."""
-        raise NotImplementedError
 
+    @abstractmethod
     def profile(self, time: float, x: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
         """Nitrogen [wt %, dissolved + bound] and hardness [HV] at depths ``x`` [m] below the layer."""
-        raise NotImplementedError
 
 
 class SharpFrontZone(Zone):
