@@ -45,7 +45,7 @@ class Hardening:
         from ..models.quench import QUENCH_MEDIA
 
         def temp(T):
-            return units.format_temperature(T) if units is not None else f"{T - ZERO_CELSIUS:.0f} °C"
+            return _temperature(T, units)
 
         medium = QUENCH_MEDIA[self.medium].label if self.medium in QUENCH_MEDIA else self.medium
         temper = ("as quenched" if self.temper_temperature is None else
@@ -55,11 +55,16 @@ class Hardening:
     def short(self, units=None) -> str:
         """The quench and temper in a few words, for plot titles: ``oil at 60 °C, temper 170 °C/2 h``."""
         def temp(T):
-            return units.format_temperature(T) if units is not None else f"{T - ZERO_CELSIUS:.0f} °C"
+            return _temperature(T, units)
 
         temper = ("as quenched" if self.temper_temperature is None else
                   f"temper {temp(self.temper_temperature)}/{self.temper_time / 3600:g} h")
         return f"{self.medium} at {temp(self.quench_temperature)}, {temper}"
+
+
+def _temperature(T: float, units=None) -> str:
+    """A temperature [K] in the display units given, or in whole °C."""
+    return units.format_temperature(T) if units is not None else f"{T - ZERO_CELSIUS:.0f} °C"
 
 
 def _quench_body(geometry) -> tuple[str, float | None]:

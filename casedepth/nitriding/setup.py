@@ -18,7 +18,7 @@ import math
 from dataclasses import dataclass
 from functools import cached_property
 
-from ..constants import MOLAR_MASS, ZERO_CELSIUS
+from ..constants import ZERO_CELSIUS
 from ..errors import InputError
 from ..models import nitrides
 from ..models.iron_nitrogen import (DEFAULT_NITROGEN_DIFFUSIVITY, NITROGEN_DIFFUSIVITIES, Lehrer_boundaries,
@@ -29,8 +29,6 @@ from ..units import as_number
 from .layer import DEFAULT_LAYER_MODEL, LAYER_MODELS
 from .zone import DEFAULT_ZONE_MODEL, ZONE_MODELS, Precipitate, Zone, wagner_front_factor
 
-# nitride-forming elements: nitrogen atoms per metal atom in the nitride formed (CrN, AlN, VN, TiN, Mo2N)
-NITRIDE_FORMERS = {"Cr": 1.0, "Al": 1.0, "V": 1.0, "Ti": 1.0, "Mo": 0.5}
 TEMPERATURE_RANGE = (480.0 + ZERO_CELSIUS, 590.0 + ZERO_CELSIUS)  # K; gas nitriding of steels
 KN_RANGE = (0.05, 30.0)  # atm^-1/2
 # below this nitride-forming capacity [wt % N] a steel is treated as having none (erfc diffusion zone)
@@ -95,9 +93,9 @@ def dissociation_for_potential(K_N: float) -> float:
 
 
 def nitride_capacity(composition: dict[str, float]) -> float:
-    """Nitrogen [wt %] the nitride formers of a steel take up: CrN, AlN, VN, TiN, Mo2N (all of each)."""
-    return sum(float(composition.get(el, 0.0)) / MOLAR_MASS[el] * atoms * MOLAR_MASS["N"]
-               for el, atoms in NITRIDE_FORMERS.items())
+    """Nitrogen [wt %] the nitride formers of a steel take up: CrN, AlN, VN, TiN, Mo2N (all of each;
+    :func:`casedepth.models.nitrides.capacities` per former)."""
+    return sum(nitrides.capacities(composition).values())
 
 
 Wagner_front_factor = wagner_front_factor  # the name earlier releases exported

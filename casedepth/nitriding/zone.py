@@ -249,7 +249,7 @@ class SharpFrontZone(Zone):
         super().__init__(setup)
         D, c_s = self.diffusivity, self.surface_nitrogen
         self.capacity = setup.capacity
-        self.gamma = None if self.capacity < setup.min_capacity else wagner_front_factor(c_s, self.capacity)
+        self.gamma = setup.front_factor
         self.surface_hardness = setup.typical_surface
         from .layer import substrate_uptake_coefficient
 
