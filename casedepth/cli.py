@@ -15,7 +15,7 @@ import os
 import sys
 from contextlib import contextmanager
 
-from . import __version__
+from . import __version__, formats
 from .constants import ZERO_CELSIUS
 from .errors import InputError, SolverError
 from .files import FileWriteError, writable
@@ -67,10 +67,14 @@ def _document_outputs(parser, what: str) -> None:
     parser.add_argument("--units", default="metric", choices=["metric", "imperial"], help=f"units on the {what}")
 
 
-def _plan_command(commands, treatment) -> None:
-    """A treatment's planning command: every option of the parameter rows it uses, and the goal."""
+def _plan_command(commands, treatment, wanted: str | None) -> None:
+    """A treatment's planning command: every option of the parameter rows it uses, and the goal. Only the
+    command being run (``wanted``) gets its options: a command's options ask the tables for their choices,
+    and ``casedepth --help`` or another command need not load every treatment's models for that."""
     parser = commands.add_parser(treatment.command, help=treatment.description.split(":")[0],
                                  description=treatment.description)
+    if wanted != treatment.command:
+        return
     goal = parser.add_mutually_exclusive_group(required=True)
     groups = {}
     for row, option in options_for(treatment.key):
@@ -92,12 +96,14 @@ def _plan_command(commands, treatment) -> None:
     parser.set_defaults(handler=_plan, treatment=treatment.key)
 
 
-def _build_parser() -> argparse.ArgumentParser:
+def _build_parser(argv: list[str] | None = None) -> argparse.ArgumentParser:
+    """The parser; a treatment's planning command gets its options only if ``argv`` runs it (None: every one)."""
     parser = _Parser(prog="casedepth", description="Turn a case-depth callout into a furnace cycle.")
     parser.add_argument("--version", action="version", version=f"casedepth {__version__}")
     commands = parser.add_subparsers(dest="command", parser_class=_Parser)
+    named = None if argv is None else next((a for a in argv if not a.startswith("-")), "")
     for treatment in TREATMENTS.values():
-        _plan_command(commands, treatment)
+        _plan_command(commands, treatment, treatment.command if argv is None else named)
 
     ch = commands.add_parser("chart", help="print a case-depth chart (PDF, SVG or PNG)",
                              description="A case-depth chart: the depth against time at temperature for several "
@@ -408,8 +414,8 @@ def _probe(args) -> int:
         print(json.dumps({"temperature_c": round(T - ZERO_CELSIUS, 6), "carbon_potential_pct": potential, "probe_mv": mv,
                           "carrier_co_pct": co * 100.0}))
         return 0
-    print(f"{mv:.0f} mV  <->  carbon potential {potential:.3f} %C at {DisplayUnits('metric').format_temperature(T)}, "
-          f"{co * 100:g} % CO (ideal probe, air reference; trim with the controller's CO factor)")
+    print(f"{mv:.0f} mV  <->  carbon potential {formats.carbon(potential)} at {formats.temperature(T)}, "
+          f"{formats.percent(co * 100)} CO (ideal probe, air reference; trim with the controller's CO factor)")
     return 0
 
 
@@ -456,7 +462,7 @@ def main(argv: list[str] | None = None) -> int:
         from .gui.app import main as window_main
 
         return window_main(argv[1:])
-    parser = _build_parser()
+    parser = _build_parser(argv)
     args = None
     try:
         args = parser.parse_args(argv)

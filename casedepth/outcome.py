@@ -19,6 +19,7 @@ from typing import Any
 
 import numpy as np
 
+from . import formats
 from .safety import Caution
 from .shop.quote import Quote
 from .units import DisplayUnits, format_duration
@@ -240,6 +241,6 @@ class Offer:
 
 def quote_fact(quote: Quote) -> Fact:
     """The whole cycle and its cost, as a fact of the result."""
-    money = f" {quote.currency}" if quote.currency else ""
-    return Fact("cycle", "Whole cycle", f"{format_duration(quote.total_h * 3600)}; {quote.cost_per_load:.2f}{money} "
-                                        f"per load, {quote.cost_per_part:.3f}{money} per part")
+    return Fact("cycle", "Whole cycle", f"{format_duration(quote.total_h * 3600)}; "
+                                        f"{formats.money(quote.cost_per_load, quote.currency)} per load, "
+                                        f"{formats.piece_price(quote.cost_per_part, quote.currency)} per part")

@@ -20,6 +20,7 @@ from typing import Any, Callable, Mapping
 
 from .constants import ZERO_CELSIUS
 from .errors import InputError
+from .formats import KN_UNIT
 from .models import steels
 from .models.diffusivity import ARRHENIUS_D0, ARRHENIUS_Q, METHODS
 from .models.hardness import HARDNESS_RELATIONS
@@ -656,9 +657,9 @@ PARAMETERS: dict[str, Parameter] = {p.key: p for p in (
               help="carbon potential of the atmosphere (carbon of plain carbon steel in equilibrium with it)",
               options=(Option("--potential", "carbon potential of the atmosphere, wt %% C (e.g. 1.00)"),)),
     Parameter("kn", "Nitriding potential K_N", Quantity("number"), 3.0, "nitriding_potential", NITRIDING,
-              group="Furnace step", unit_label="atm^-½", range=(0.05, 30.0),
+              group="Furnace step", unit_label=KN_UNIT, range=(0.05, 30.0),
               help="K_N = p(NH3)/p(H2)^1.5",
-              options=(Option("--kn", "nitriding potential K_N, atm^-1/2 (e.g. 3)"),
+              options=(Option("--kn", f"nitriding potential K_N, {KN_UNIT} (e.g. 3)"),
                        Option("--dissociation", "ammonia dissociation of the exhaust, %% (e.g. 30)", _read_dissociation),
                        Option("--exhaust", "measured exhaust gas, volume %%: NH3=40,H2=45", _read_exhaust)), since=3),
     Parameter("compound_min", "Compound layer from", Quantity("thin length"), 5e-6, "compound_layer_min_um", NITRIDING,
@@ -672,7 +673,7 @@ PARAMETERS: dict[str, Parameter] = {p.key: p for p in (
               options=(Option("--two-stage", "on: a second, low-K_N stage brings the compound layer into its window"),), since=4),
     Parameter("kn_second", "Second-stage K_N", Quantity("number", optional=True, unset="just above α/γ′"), None,
               "second_nitriding_potential",
-              NITRIDING, group="Furnace step", unit_label="atm^-½", range=(0.05, 30.0),
+              NITRIDING, group="Furnace step", unit_label=KN_UNIT, range=(0.05, 30.0),
               applies=lambda v: bool(v.get("two_stage")), when="two stages (--two-stage on)",
               help="K_N of the second stage; at or above the α/γ′ boundary so the ferrite stays saturated "
                    "(not set: just above it)",

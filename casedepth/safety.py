@@ -10,6 +10,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from .constants import ZERO_CELSIUS
+from .units import both_temperatures
 
 #: Lowest furnace temperature at which a flammable atmosphere is admitted without a purge with
 #: inert gas, 760 °C / 1400 °F (NFPA 86 practice; edition-dependent).
@@ -71,7 +72,7 @@ def cautions(temperature: float | None = None, equilibrium_carbon: float | None 
     if temperature is not None and temperature < SAFE_ADMISSION_TEMPERATURE:
         pressing.append(Caution(
             "below-admission", "Below the safe admission temperature",
-            f"{temperature - ZERO_CELSIUS:.0f} °C is below about 760 °C (1400 °F): a flammable atmosphere must not be "
+            f"{both_temperatures(temperature)} is below about 760 °C (1400 °F): a flammable atmosphere must not be "
             "admitted or held; purge with inert gas and follow the furnace's low-temperature procedure.", True))
     if equilibrium_carbon is not None and saturation_carbon is not None and equilibrium_carbon > saturation_carbon:
         pressing.append(Caution(

@@ -14,43 +14,66 @@ contributor guide.
 
 from __future__ import annotations
 
+import importlib
 from dataclasses import dataclass
 from typing import Any, Callable, Mapping
 
-from . import safety
-from .carburizing import outcome as carburizing
-from .carburizing.setup import MAX_TEMPERATURE
+from . import formats, safety
 from .constants import ZERO_CELSIUS
 from .errors import InputError
 from .models.austenite import Andrews_1965_Ac3
-from .nitriding import outcome as nitriding
-from .nitriding.setup import TEMPERATURE_RANGE as NITRIDING_TEMPERATURES
 from .outcome import Outcome
 from .parameters import Option
 
 
+def _on_first_use(module: str, name: str) -> Callable:
+    """``module``'s function ``name``, imported when first called: a command that only prints (``--help``,
+    ``steels``) does not load a treatment's solver and the SciPy behind it."""
+
+    def call(*args, **kwargs):
+        return getattr(importlib.import_module(module, __package__), name)(*args, **kwargs)
+
+    call.__name__ = call.__qualname__ = name
+    call.__doc__ = f"{module.lstrip('.')}.{name}, imported when first called."
+    return call
+
+
+def _carburizing_temperatures(values) -> tuple[float, float]:
+    from .carburizing.setup import MAX_TEMPERATURE
+
+    return Andrews_1965_Ac3(values["composition"]), MAX_TEMPERATURE
+
+
+def _nitriding_temperatures(values) -> tuple[float, float]:
+    from .nitriding.setup import TEMPERATURE_RANGE
+
+    return TEMPERATURE_RANGE
+
+
 def _carburizing_chart(values, **kwargs):
+    from .carburizing.outcome import carburizing_setup
     from .report.documents import case_depth_chart
 
-    return case_depth_chart(carburizing.carburizing_setup({**values, "process": "single"}), **kwargs)
+    return case_depth_chart(carburizing_setup({**values, "process": "single"}), **kwargs)
 
 
 def _nitriding_chart(values, **kwargs):
+    from .nitriding.outcome import nitriding_setup
     from .report.documents import nitriding_chart
 
-    return nitriding_chart(nitriding.nitriding_setup(values), **kwargs)
+    return nitriding_chart(nitriding_setup(values), **kwargs)
 
 
 def _carburizing_steel(steel, units) -> str:
     from .models.surface import Gunnarson_alloy_factor
 
-    return (f"{steel.standard}. Core {steel.carbon:.3f} %C · alloy factor {Gunnarson_alloy_factor(steel.composition):.3f} "
-            f"· Ac3 ≈ {units.format_temperature(Andrews_1965_Ac3(steel.composition))} (Andrews 1965)"
+    return (f"{steel.standard}. Core {formats.carbon(steel.carbon)} · alloy factor "
+            f"{Gunnarson_alloy_factor(steel.composition):.3f} · Ac3 ≈ {units.format_temperature(Andrews_1965_Ac3(steel.composition))} (Andrews 1965)"
             + _ideal_diameter(steel))
 
 
 def _ideal_diameter(steel) -> str:
-    """`` · D_I 48 mm (1.90 in)`` (ASTM A255), or nothing for a steel beyond its factors."""
+    """`` · D_I 48 mm (1.90 in) by ASTM A255, …``, or nothing for a steel beyond its factors."""
     from .errors import InputError
     from .models.hardenability import ideal_critical_diameter
 
@@ -58,15 +81,15 @@ def _ideal_diameter(steel) -> str:
         ideal = float(ideal_critical_diameter(steel.composition, steel.grain_size))
     except InputError:
         return ""
-    return f" · D_I {ideal * 1e3:.0f} mm ({ideal / 0.0254:.2f} in; ASTM A255, grain size {steel.grain_size:g})"
+    return f" · D_I {formats.ideal_diameter(ideal)} by ASTM A255, grain size {steel.grain_size:g}"
 
 
 def _nitriding_steel(steel, units) -> str:
     from .nitriding.setup import nitride_capacity
 
-    typical = (f" · typical core {steel.core_hardness_hv:.0f} HV, nitrided {steel.nitrided_surface_hv:.0f} HV"
+    typical = (f" · typical core {formats.hv(steel.core_hardness_hv)}, nitrided {formats.hv(steel.nitrided_surface_hv)}"
                if steel.core_hardness_hv and steel.nitrided_surface_hv else "")
-    return (f"{steel.standard}. Nitride formers bind {nitride_capacity(steel.composition):.2f} wt % N{typical}"
+    return (f"{steel.standard}. Nitride formers bind {formats.nitrogen(nitride_capacity(steel.composition))}{typical}"
             + _ideal_diameter(steel))
 
 
@@ -124,8 +147,8 @@ TREATMENTS: dict[str, Treatment] = {t.key: t for t in (
         "Gas carburizing: the soak at temperature for a target effective case depth (--target, or the drawing's "
         "window), or the case a soak of given length gives (--time); boost and diffuse with --surface-target.",
         {"steel": "8620", "temperature": 925.0 + ZERO_CELSIUS, "case_min": 0.8e-3, "case_max": 1.2e-3},
-        lambda values: (Andrews_1965_Ac3(values["composition"]), MAX_TEMPERATURE),
-        carburizing.evaluate, carburizing.forward, "d_multiplier", "carbon_potential", 0.005, _one_soak_only,
+        _carburizing_temperatures,
+        _on_first_use(".carburizing.outcome", "evaluate"), _on_first_use(".carburizing.outcome", "forward"), "d_multiplier", "carbon_potential", 0.005, _one_soak_only,
         _carburizing_chart, 25.0, tuple(t + ZERO_CELSIUS for t in (880.0, 900.0, 925.0, 950.0, 980.0, 1000.0)),
         "Hotter is faster but coarsens grain (above about 980 °C for most carburizing grades) and distorts more; the "
         "furnace, fixtures and the steel's grain-size control set the limit (common practice).",
@@ -137,8 +160,8 @@ TREATMENTS: dict[str, Treatment] = {t.key: t for t in (
         "Gas nitriding: the nitriding time for a nitrided hardness depth (core + 50 HV), the compound layer it "
         "gives and the surface phase; the K_N (or a two-stage schedule) for a compound-layer window.",
         {"steel": "4140", "temperature": 520.0 + ZERO_CELSIUS, "case_min": 0.3e-3, "case_max": 0.5e-3},
-        lambda values: NITRIDING_TEMPERATURES,
-        nitriding.evaluate, nitriding.forward, "n_multiplier", "kn", 0.01, _one_stage_only,
+        _nitriding_temperatures,
+        _on_first_use(".nitriding.outcome", "evaluate"), _on_first_use(".nitriding.outcome", "forward"), "n_multiplier", "kn", 0.01, _one_stage_only,
         _nitriding_chart, 20.0, tuple(t + ZERO_CELSIUS for t in (490.0, 510.0, 520.0, 530.0, 550.0, 570.0)),
         "Hotter is faster but gives a thicker, more porous compound layer and a softer diffusion zone, and must stay "
         "below the steel's tempering temperature so the core keeps its hardness (common practice).",

@@ -270,10 +270,18 @@ class DisplayUnits:
 
     @property
     def length_decimals(self) -> int:
+        """Decimals a length is typed with (fields, spin boxes): 0.001 mm, 0.0001 in."""
         return 4 if self.imperial else 3
 
+    @property
+    def length_decimals_shown(self) -> int:
+        """Decimals a case depth is shown with: 0.01 mm, 0.001 in (common practice: a microhardness
+        traverse is read in steps of 0.05–0.1 mm)."""
+        return 3 if self.imperial else 2
+
     def format_length(self, metres: float) -> str:
-        return f"{self.length(metres):.{self.length_decimals}f} {self.length_unit}"
+        """The one format of a case depth: ``"1.38 mm"``, ``"0.054 in"``."""
+        return f"{self.length(metres):.{self.length_decimals_shown}f} {self.length_unit}"
 
     def format_temperature(self, kelvin: float) -> str:
         return f"{self.temperature(kelvin):.0f} {self.temperature_unit}"

@@ -43,7 +43,7 @@ def test_forward_json_fields_and_round_trip(capsys):
 def test_units_in_and_out(capsys):
     code, out, _ = run(capsys, "--target", "0.040in", "--at", "550HV", "--units", "imperial")
     assert code == 0
-    assert "0.0400 in at 550 HV" in out
+    assert "0.040 in at 550 HV" in out
     assert "°F" in out
 
 
@@ -142,7 +142,7 @@ def test_the_drawing_window_on_the_command_line(capsys):
     assert low < data["soak_time_h"] < high
     assert data["case_depth_mm"] == pytest.approx(1.1, rel=1e-5)
     code, text, _ = run(capsys, "--target", "0.035-0.050in", "--units", "imperial")
-    assert code == 0 and "drawing window" in text and "0.0350 in to 0.0500 in" in text
+    assert code == 0 and "drawing window" in text and "0.035 in to 0.050 in" in text
 
 
 @pytest.mark.parametrize("command", [

@@ -82,7 +82,7 @@ def test_custom_compositions():
     ({"beta": "1e-12"}, "beta", "cm/s"),
     ({"at": "0.15%C"}, "at", "core carbon"),
     ({"at": "40HRC", "hardness_relation": "tempered"}, "at", "core carbon"),
-    ({"at": "70HRC", "hardness_relation": "tempered"}, "at", "13.5–60.0 HRC"),
+    ({"at": "70HRC", "hardness_relation": "tempered"}, "at", "13.5–60 HRC"),
     ({"at": "20HRC"}, "at", "the core .* already reaches"),
     ({"at": "70HRC"}, "at", "above the .* HRC the case reaches"),
     ({"at": "1000HV"}, "at", "238–940 HV"),

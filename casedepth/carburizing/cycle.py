@@ -17,6 +17,7 @@ from dataclasses import dataclass, field, replace
 
 import numpy as np
 
+from .. import formats
 from ..constants import ROOM_TEMPERATURE, ZERO_CELSIUS
 from ..errors import InputError
 from ..models.austenite import Andrews_1965_Ac3, saturation_carbon
@@ -179,12 +180,14 @@ def check_recipe(setup: CarburizingSetup, stages: list[Stage]) -> list[str]:
                     raise InputError("stages", f"{where}: needs a carbon potential")
                 continue
             if not (math.isfinite(potential) and POTENTIAL_RANGE[0] <= potential <= POTENTIAL_RANGE[1]):
-                raise InputError("stages", f"{where}: {name} {potential:g} %C is outside {POTENTIAL_RANGE[0]:g}–{POTENTIAL_RANGE[1]:g} %C")
+                raise InputError("stages", f"{where}: {name} {formats.typed(potential, '%C')} is outside "
+                                 f"{formats.typed_range(*POTENTIAL_RANGE, '%C')}")
             T_here = T if name == "carbon potential" or previous_t is None else max(previous_t, ac3)
             saturation = saturation_carbon(T_here)
             if potential > saturation * (1 + 1e-9):
-                raise InputError("stages", f"{where}: {name} {potential:.2f} %C is above the carbon saturation of austenite at "
-                                 f"{both_temperatures(T_here)} ({saturation:.2f} %C): carbides and soot; lower it")
+                raise InputError("stages", f"{where}: {name} {formats.typed(potential, '%C')} is above the carbon "
+                                 f"saturation of austenite at {both_temperatures(T_here)} ({formats.carbon(saturation)}): "
+                                 f"carbides and soot; lower it")
         if stage.kind in ("drop",) and hottest is not None and T >= hottest:
             raise InputError("stages", f"{where}: a drop must end below the carburizing temperature ({both_temperatures(hottest)}), "
                              f"not at {both_temperatures(T)}")

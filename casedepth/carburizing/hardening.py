@@ -21,6 +21,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from .. import formats
 from ..constants import ROOM_TEMPERATURE, ZERO_CELSIUS
 from ..models.hardness import Quenched
 
@@ -64,7 +65,7 @@ class Hardening:
 
 def _temperature(T: float, units=None) -> str:
     """A temperature [K] in the display units given, or in whole °C."""
-    return units.format_temperature(T) if units is not None else f"{T - ZERO_CELSIUS:.0f} °C"
+    return formats.temperature(T) if units is None else formats.temperature(T, units)
 
 
 def _quench_body(geometry) -> tuple[str, float | None]:

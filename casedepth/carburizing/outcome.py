@@ -17,7 +17,7 @@ from typing import Any, Callable, Mapping
 
 import numpy as np
 
-from .. import safety
+from .. import formats, safety
 from ..constants import ZERO_CELSIUS
 from ..errors import InputError
 from ..models.atmosphere import ENDO_CO_FRACTION, probe_setpoints
@@ -303,22 +303,22 @@ class Hardened:
         ra = 100.0 * float(self.retained_austenite[0])
         low, high = values.get("surface_hrc_min"), values.get("surface_hrc_max")
         if low is not None and self.surface_hrc < low:
-            why = (f"retained austenite is about {ra:.0f} % there: a lower surface carbon (a diffuse stage), a colder "
-                   f"quench or a deep freeze would raise it" if ra >= 10.0 else
+            why = (f"retained austenite is about {formats.percent(ra)} there: a lower surface carbon (a diffuse stage), "
+                   f"a colder quench or a deep freeze would raise it" if ra >= 10.0 else
                    "the case does not fully harden there: a harsher quench or a richer steel would raise it"
                    if float(self.martensite[0]) < 0.9 else
                    "a lower temper or a higher surface carbon would raise it")
-            out.append(f"Surface hardness {self.surface_hrc:.1f} HRC is below the drawing's {_window(low, high)}: {why}.")
+            out.append(f"Surface hardness {formats.hrc(self.surface_hrc)} is below the drawing's {_window(low, high)}: {why}.")
         if high is not None and self.surface_hrc > high:
-            out.append(f"Surface hardness {self.surface_hrc:.1f} HRC is above the drawing's {_window(low, high)}: a "
+            out.append(f"Surface hardness {formats.hrc(self.surface_hrc)} is above the drawing's {_window(low, high)}: a "
                        f"higher temper or a lower surface carbon would lower it.")
         low, high = values.get("core_hrc_min"), values.get("core_hrc_max")
         if low is not None and self.core_hrc < low:
-            out.append(f"Core hardness {self.core_hrc:.1f} HRC is below the drawing's {_window(low, high)}: a richer "
-                       f"steel (ideal diameter now {self.ideal_diameter * 1e3:.0f} mm), a harsher quench or a higher "
-                       f"core carbon would raise it.")
+            out.append(f"Core hardness {formats.hrc(self.core_hrc)} is below the drawing's {_window(low, high)}: a "
+                       f"richer steel, a harsher quench or a higher core carbon would raise it. This steel's ideal diameter "
+                       f"is {formats.ideal_diameter(self.ideal_diameter)}.")
         if high is not None and self.core_hrc > high:
-            out.append(f"Core hardness {self.core_hrc:.1f} HRC is above the drawing's {_window(low, high)}: a milder "
+            out.append(f"Core hardness {formats.hrc(self.core_hrc)} is above the drawing's {_window(low, high)}: a milder "
                        f"quench or a leaner steel would lower it.")
         return out
 
@@ -335,8 +335,8 @@ def _drawing(low: float | None, high: float | None, hrc: float | None = None) ->
 
 def _window(low: float | None, high: float | None) -> str:
     if high is None:
-        return f"minimum {low:.0f} HRC"
-    return f"{low:.0f}–{high:.0f} HRC" if low is not None else f"maximum {high:.0f} HRC"
+        return f"minimum {formats.hrc(low)}"
+    return formats.hardness_range(low, high, "HRC") if low is not None else f"maximum {formats.hrc(high)}"
 
 
 @dataclass
@@ -467,7 +467,7 @@ class CarburizingOutcome(Outcome):
         counted = ("heat-up and drop counted" if self.counts_shop_stages else
                    "no heat-up or drop counted")
         if self.cycle_kind == "single":
-            return (f"at {units.format_temperature(s.temperature)}, carbon potential {s.carbon_potential:.2f} %C, "
+            return (f"at {units.format_temperature(s.temperature)}, carbon potential {formats.carbon(s.carbon_potential)}, "
                     f"for {units.format_length(aim)} {s.threshold.depth_name} at {s.threshold} "
                     f"({self.soak_time / 3600:.2f} h at temperature; {counted})")
         if self.cycle_kind == "boost-diffuse":
@@ -487,18 +487,18 @@ class CarburizingOutcome(Outcome):
             facts.append(Fact("window", "Drawing window", f"{units.format_length(low)} to {units.format_length(high)}"
                               + ("" if inside else "  — the case ends outside it")))
         facts += [
-            Fact("surface", "Surface carbon at the end", f"{self.surface_carbon:.3f} %C"
-                 + (f" (window {self.values['surface_min']:.2f}–{self.values['surface_max']:.2f})"
+            Fact("surface", "Surface carbon at the end", formats.carbon(self.surface_carbon)
+                 + (f" (window {formats.carbon_range(self.values['surface_min'], self.values['surface_max'])})"
                     if self.cycle_kind == "boost-diffuse" else "")),
             Fact("reached", "Case depth at the end", units.format_length(self.depth)),
-            Fact("threshold", "Threshold means", f"{s.threshold_carbon:.3f} %C" if s.threshold.kind != "carbon"
-                 else f"{s.threshold_carbon:.2f} %C (carbon threshold)"),
+            Fact("threshold", "Threshold means", formats.carbon(s.threshold_carbon) if s.threshold.kind != "carbon"
+                 else f"{formats.carbon(s.threshold_carbon)} (carbon threshold)"),
             Fact("equilibrium", "Surface carbon in equilibrium" if self.cycle_kind == "single" else "Richest gas, in equilibrium",
-                 f"{s.equilibrium_carbon:.3f} %C (alloy factor {s.alloy_factor:.3f})"),
-            Fact("saturation", "Saturation (Acm)", f"{s.saturation_carbon:.2f} %C"),
+                 f"{formats.carbon(s.equilibrium_carbon)} (alloy factor {s.alloy_factor:.3f})"),
+            Fact("saturation", "Saturation (Acm)", formats.carbon(s.saturation_carbon)),
             *self._hardness_facts(),
             Fact("probe", "Oxygen probe (ideal)", (", ".join(f"{label.lower()} {mv:.0f} mV" for label, mv in self.probe)
-                                                   or "—") + f"  ({100 * self.carrier_co:.0f} % CO carrier)"),
+                                                   or "—") + f"  ({formats.percent(100 * self.carrier_co)} CO carrier)"),
             quote_fact(self.quote),
         ]
         return Summary(self._headline(), self._how(units), facts)
@@ -508,12 +508,12 @@ class CarburizingOutcome(Outcome):
         if hardened is None:
             return []
         v = self.values
-        return [Fact("hardness", f"Surface / core hardness (±{HARDNESS_UNCERTAINTY_HRC:g} HRC)",
-                     f"{hardened.surface_hrc:.1f} HRC{_drawing(v['surface_hrc_min'], v['surface_hrc_max'])} / "
-                     f"{hardened.core_hrc:.1f} HRC{_drawing(v['core_hrc_min'], v['core_hrc_max'])}"),
+        return [Fact("hardness", f"Surface / core hardness (±{formats.hrc(HARDNESS_UNCERTAINTY_HRC)})",
+                     f"{formats.hrc(hardened.surface_hrc)}{_drawing(v['surface_hrc_min'], v['surface_hrc_max'])} / "
+                     f"{formats.hrc(hardened.core_hrc)}{_drawing(v['core_hrc_min'], v['core_hrc_max'])}"),
                 Fact("hardenability", "Retained austenite, D_I",
-                     f"{100 * float(hardened.retained_austenite[0]):.0f} % at the surface; ideal diameter "
-                     f"{hardened.ideal_diameter * 1e3:.0f} mm (core)")]
+                     f"{formats.percent(100 * float(hardened.retained_austenite[0]))} at the surface; ideal diameter of "
+                     f"the core {formats.ideal_diameter(hardened.ideal_diameter)}")]
 
     def _hardness_lines(self, units: DisplayUnits) -> list[str]:
         """The surface and core hardness against the drawing, retained austenite and D_I, for text and sheet."""
@@ -521,12 +521,13 @@ class CarburizingOutcome(Outcome):
         if hardened is None:
             return []
         v = self.values
-        return [f"  surface hardness      {hardened.surface_hrc:.1f} HRC ±{HARDNESS_UNCERTAINTY_HRC:g}"
+        return [f"  surface hardness      {formats.hrc(hardened.surface_hrc)} ±{HARDNESS_UNCERTAINTY_HRC:g}"
                 f"{_drawing(v['surface_hrc_min'], v['surface_hrc_max'], hardened.surface_hrc)}; retained austenite "
-                f"{100 * float(hardened.retained_austenite[0]):.0f} %",
-                f"  core hardness         {hardened.core_hrc:.1f} HRC"
+                f"{formats.percent(100 * float(hardened.retained_austenite[0]))}",
+                f"  core hardness         {formats.hrc(hardened.core_hrc)}"
                 f"{_drawing(v['core_hrc_min'], v['core_hrc_max'], hardened.core_hrc)}"
-                f" at {units.format_length(hardened.core_depth)}; ideal diameter D_I {hardened.ideal_diameter * 1e3:.0f} mm",
+                f" at {units.format_length(hardened.core_depth)}; ideal diameter D_I "
+                f"{formats.ideal_diameter(hardened.ideal_diameter)}",
                 f"  quench and temper     {hardened.hardening.describe(units)}"]
 
     def _hardness_sheet_lines(self, units: DisplayUnits) -> list[str]:
@@ -535,10 +536,10 @@ class CarburizingOutcome(Outcome):
         if hardened is None:
             return []
         v = self.values
-        return [f"Hardness (±{HARDNESS_UNCERTAINTY_HRC:g} HRC): surface {hardened.surface_hrc:.1f} HRC"
+        return [f"Hardness (±{formats.hrc(HARDNESS_UNCERTAINTY_HRC)}): surface {formats.hrc(hardened.surface_hrc)}"
                 f"{_drawing(v['surface_hrc_min'], v['surface_hrc_max'])}, retained austenite "
-                f"{100 * float(hardened.retained_austenite[0]):.0f} %; core {hardened.core_hrc:.1f} HRC"
-                f"{_drawing(v['core_hrc_min'], v['core_hrc_max'])}; D_I {hardened.ideal_diameter * 1e3:.0f} mm",
+                f"{formats.percent(100 * float(hardened.retained_austenite[0]))}; core {formats.hrc(hardened.core_hrc)}"
+                f"{_drawing(v['core_hrc_min'], v['core_hrc_max'])}; D_I {formats.ideal_diameter(hardened.ideal_diameter)}",
                 f"Quench and temper: {hardened.hardening.describe(units)}"]
 
     def timeline(self) -> Timeline:
@@ -565,16 +566,16 @@ class CarburizingOutcome(Outcome):
         top = max(s.saturation_carbon, s.equilibrium_carbon, float(end.carbon.max())) * 1.08
         main = Panel("carbon [wt %]", Curve(shown.depth, shown.carbon, "carbon"),
                      Curve(end.depth, end.carbon, final_label) if scrubbing else None,
-                     [Level(s.threshold_carbon, f"threshold {s.threshold_carbon:.2f} %C"
+                     [Level(s.threshold_carbon, f"threshold {formats.carbon(s.threshold_carbon)}"
                             + ("" if s.threshold.kind == "carbon" else f" ({s.threshold})"), "threshold"),
-                      Level(s.steel.carbon, f"core {s.steel.carbon:.2f} %C", "core"),
-                      Level(s.saturation_carbon, f"saturation (Acm) {s.saturation_carbon:.2f} %C", "limit")],
+                      Level(s.steel.carbon, f"core {formats.carbon(s.steel.carbon)}", "core"),
+                      Level(s.saturation_carbon, f"saturation (Acm) {formats.carbon(s.saturation_carbon)}", "limit")],
                      (0.0, top), "Carbon " + when)
         hardness = Panel("hardness [HV]", Curve(shown.depth, hv, "estimated from the quench and temper" if s.structure
                                                 else f"estimated: {relation.display}"),
                          Curve(end.depth, end_hv, final_label) if scrubbing else None,
-                         [Level(threshold_hv, f"threshold ≈ {threshold_hv:.0f} HV "
-                                              f"({ASTM_E140_hv_to_hrc(threshold_hv):.1f} HRC)", "threshold")],
+                         [Level(threshold_hv, f"threshold ≈ {formats.hv(threshold_hv)} "
+                                              f"({formats.hrc(ASTM_E140_hv_to_hrc(threshold_hv))})", "threshold")],
                          (min(float(end_hv.min()), threshold_hv) - 60, max(float(end_hv.max()), threshold_hv) + 60),
                          "Hardness " + when + ("; " + s.hardening.short() if s.structure else
                                                "; assumes a fully martensitic case"), hrc_axis=True)
@@ -589,7 +590,7 @@ class CarburizingOutcome(Outcome):
     def describe_end(self) -> str:
         s = self.setup
         relation = HARDNESS_RELATIONS[s.hardness_relation]
-        what = (f"soak {self.duration / 3600:.4f} h at {s.temperature - ZERO_CELSIUS:.0f} C" if self.cycle is None
+        what = (f"soak {self.duration / 3600:.4f} h at {formats.temperature(s.temperature)}" if self.cycle is None
                 else f"end of a {self.duration / 3600:.4f} h cycle")
         return f"{what}; hardness " + (s.hardening.describe() if s.structure else f"assumes {relation.assumptions}")
 
@@ -639,14 +640,15 @@ class CarburizingOutcome(Outcome):
         T = units.format_temperature(s.temperature)
         if self.cycle_kind == "single":
             lines = [f"Soak time: {format_duration(self.soak_time)} ({self.soak_time / 3600:.2f} h) at {T}, carbon "
-                     f"potential {s.carbon_potential:.2f} %C"]
+                     f"potential {formats.carbon(s.carbon_potential)}"]
             if high > low:
                 soak_low, _, soak_high = self.soak_window
                 lines.append(f"  drawing window        {units.format_length(low)} to {units.format_length(high)}: soak "
                              f"{format_duration(soak_low)} to {format_duration(soak_high)} (aim {units.format_length(aim)})")
         elif self.cycle_kind == "boost-diffuse":
-            lines = [f"Boost {format_duration(self.boost_time)} at carbon potential {self.values['boost_potential']:.2f} %C, "
-                     f"then diffuse {format_duration(self.diffuse_time)} at {self.values['diffuse_potential']:.2f} %C, at {T}",
+            lines = [f"Boost {format_duration(self.boost_time)} at carbon potential "
+                     f"{formats.carbon(self.values['boost_potential'])}, then diffuse {format_duration(self.diffuse_time)} "
+                     f"at {formats.carbon(self.values['diffuse_potential'])}, at {T}",
                      f"  time at temperature   {format_duration(self.boost_time + self.diffuse_time)}"]
         else:
             lines = [f"Stages as entered: the cycle runs {format_duration(self.quote.total_h * 3600)}"]
@@ -656,11 +658,12 @@ class CarburizingOutcome(Outcome):
                      + s.threshold_meaning())
         lines += s.describe_lines(self.surface_carbon)
         if self.cycle_kind == "boost-diffuse":
-            lines[-3] += f"; window {self.values['surface_min']:.2f}–{self.values['surface_max']:.2f} %C"
+            lines[-3] += f"; window {formats.carbon_range(self.values['surface_min'], self.values['surface_max'])}"
         lines += self._hardness_lines(units)
         if self.probe:
             lines.append("  oxygen probe          " + ", ".join(f"{label.lower()} {mv:.0f} mV" for label, mv in self.probe)
-                         + f" ({self.carrier_co * 100:g} % CO carrier; ideal probe, trim with the controller's CO factor)")
+                         + f" ({formats.percent(100 * self.carrier_co)} CO carrier; ideal probe, trim with the "
+                           f"controller's CO factor)")
         lines += ["Cycle quote:", self.quote.text()]
         lines += [f"Warning: {w}" for w in self.warnings]
         lines.append(safety.caution_line(self.cautions))
@@ -672,8 +675,8 @@ class CarburizingOutcome(Outcome):
         if self.cycle_kind == "single":
             soak_low, soak, soak_high = self.soak_window
             lines.append(f"Soak {format_duration(soak)} at {units.format_temperature(s.temperature)}, carbon potential "
-                         f"{s.carbon_potential:.2f} %C; window {units.format_length(low)}–{units.format_length(high)}: "
-                         f"{format_duration(soak_low)} to {format_duration(soak_high)}")
+                         f"{formats.carbon(s.carbon_potential)}; window {units.format_length(low)}–"
+                         f"{units.format_length(high)}: {format_duration(soak_low)} to {format_duration(soak_high)}")
         elif self.cycle_kind == "boost-diffuse":
             lines.append(f"Boost {format_duration(self.boost_time)}, then diffuse {format_duration(self.diffuse_time)} "
                          f"at {units.format_temperature(s.temperature)}")
@@ -682,24 +685,25 @@ class CarburizingOutcome(Outcome):
         if self.cycle_kind != "stages":
             lines.append("Shop stages " + describe_counted(self.planned.counted))
         lines.append(f"{s.threshold.depth_name.capitalize()} {units.format_length(self.depth)} at {s.threshold}; surface "
-                     f"carbon {self.surface_carbon:.3f} %C at the end; aim {units.format_length(aim)}")
+                     f"carbon {formats.carbon(self.surface_carbon)} at the end; aim {units.format_length(aim)}")
         lines += self._hardness_sheet_lines(units)
         lines.append(f"Models: {s.models_text()}; alloy factor "
                      + (f"{s.alloy_factor:.3f} (Gunnarson)" if s.alloy_factor_on else "off")
                      + (f"; {HARDNESS_RELATIONS[s.hardness_relation].display.lower()}" if s.threshold.is_hardness else ""))
         if self.probe:
-            lines.append(f"Oxygen probe (ideal, {self.carrier_co * 100:g} % CO carrier; trim with the controller's CO "
-                         f"factor): " + ", ".join(f"{label.lower()} {mv:.0f} mV" for label, mv in self.probe))
+            lines.append(f"Oxygen probe (ideal, {formats.percent(100 * self.carrier_co)} CO carrier; trim with the "
+                         f"controller's CO factor): " + ", ".join(f"{label.lower()} {mv:.0f} mV" for label, mv in self.probe))
         rows = [[stage.label, f"{stage.duration / 3600:.2f}",
                  "" if stage.temperature is None else units.format_temperature(stage.temperature),
-                 "" if stage.carbon_potential is None else f"{stage.carbon_potential:.2f}",
+                 "" if stage.carbon_potential is None else formats.carbon_value(stage.carbon_potential),
                  _probe_cell(stage, self.carrier_co)] for stage in self.stages]
         shop = shop_of(self.values)
         notes = [f"* The carburizing atmosphere goes in only with the furnace at or above "
                  f"{units.format_temperature(safety.SAFE_ADMISSION_TEMPERATURE)}, after the purge (NFPA 86 practice). "
                  f"Bands: temperature ±{shop.temperature_tolerance_c * (1.8 if units.imperial else 1.0):.0f}"
-                 f"{units.temperature_unit.replace('°', ' °')}, potential ±{shop.potential_tolerance_pct:.2f} %C "
-                 f"(the shop's, Edit → Shop times and rates); probe band for {self.carrier_co * 100:g} % CO carrier."]
+                 f"{units.temperature_unit.replace('°', ' °')}, potential ±{formats.carbon(shop.potential_tolerance_pct)} "
+                 f"(the shop's, Edit → Shop times and rates); probe band for {formats.percent(100 * self.carrier_co)} "
+                 f"CO carrier."]
         return SheetContent(lines, ["stage", "hours", "temperature", "potential %C", "probe mV"], rows,
                             self._callout(units), ["stage", "h:min", "temperature", "carbon potential",
                                                    "probe (ideal)"], self._setpoints(units), self._inspection(units),
@@ -711,7 +715,7 @@ class CarburizingOutcome(Outcome):
         out = [f"{s.threshold.depth_name.capitalize()} {units.format_length(low)}–{units.format_length(high)} at "
                f"{s.threshold} (aim {units.format_length(aim)})"]
         if self.cycle_kind == "boost-diffuse":
-            out.append(f"Surface carbon {v['surface_min']:.2f}–{v['surface_max']:.2f} %C")
+            out.append(f"Surface carbon {formats.carbon_range(v['surface_min'], v['surface_max'])}")
         hardness = []
         if v["surface_hrc_min"] is not None or v["surface_hrc_max"] is not None:
             hardness.append(f"surface hardness {_window(v['surface_hrc_min'], v['surface_hrc_max'])}")
@@ -730,7 +734,8 @@ class CarburizingOutcome(Outcome):
         for stage in self.stages:
             temperature = ("" if stage.temperature is None else
                            f"{units.format_temperature(stage.temperature)} ±{band_t:.0f}")
-            potential = "" if stage.carbon_potential is None else f"{stage.carbon_potential:.2f} ±{band_p:.2f} %C"
+            potential = ("" if stage.carbon_potential is None else
+                         f"{formats.carbon_value(stage.carbon_potential)} ±{formats.carbon(band_p)}")
             if potential and stage.kind == "heat-up":  # the atmosphere goes in hot, after the purge
                 potential += " *"
             probe = ""

@@ -18,6 +18,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from .. import formats
 from ..errors import InputError, NotReachableError
 from ..models.austenite import saturation_carbon
 from ..numerics.march import March
@@ -80,16 +81,20 @@ def plan_boost_diffuse(setup: CarburizingSetup, target_depth: float, surface_tar
     T = setup.temperature if temperature is None else temperature
     low, high = surface_window(surface_target)
     if not (0.05 <= low <= high <= 2.0):
-        raise InputError("surface_min", f"{low:g}–{high:g} %C is not a carbon window within 0.05–2 %C")
+        raise InputError("surface_min", f"{formats.typed_range(low, high, '%C')} is not a carbon window within "
+                         "0.05–2 %C")
     for name, potential in (("boost_potential", boost_potential), ("diffuse_potential", diffuse_potential)):
         if not (POTENTIAL_RANGE[0] <= potential <= POTENTIAL_RANGE[1]):
-            raise InputError(name, f"{potential:g} %C is outside {POTENTIAL_RANGE[0]:g}–{POTENTIAL_RANGE[1]:g} %C")
+            raise InputError(name, f"{formats.typed(potential, '%C')} is outside "
+                             f"{formats.typed_range(*POTENTIAL_RANGE, '%C')}")
     if boost_potential <= diffuse_potential:
-        raise InputError("boost_potential", f"{boost_potential:g} %C must be above the diffuse potential ({diffuse_potential:g} %C)")
+        raise InputError("boost_potential", f"{formats.typed(boost_potential, '%C')} must be above the diffuse "
+                         f"potential ({formats.typed(diffuse_potential, '%C')})")
     saturation = saturation_carbon(T)
     if boost_potential > saturation:
-        raise InputError("boost_potential", f"{boost_potential:.2f} %C is above the carbon saturation of austenite at "
-                         f"{both_temperatures(T)} ({saturation:.2f} %C): the boost would form carbides and soot; lower it")
+        raise InputError("boost_potential", f"{formats.typed(boost_potential, '%C')} is above the carbon saturation "
+                         f"of austenite at {both_temperatures(T)} ({formats.carbon(saturation)}): the boost would "
+                         f"form carbides and soot; lower it")
     check_recipe(setup, [*before, Stage("boost", 1.0, T, boost_potential), Stage("diffuse", 1.0, T, diffuse_potential), *after])
     af = setup.alloy_factor
     thr = setup.threshold_carbon
@@ -146,9 +151,9 @@ def plan_boost_diffuse(setup: CarburizingSetup, target_depth: float, surface_tar
     _, surface_high = finish(tb_max)
     lo, hi = max(low, surface_low), min(high, surface_high)
     if lo > hi:
-        raise NotReachableError("surface_min", f"{low:.2f}–{high:.2f} %C cannot be reached: with these potentials the "
-                                f"surface ends between {surface_low:.3f} %C (diffuse only) and {surface_high:.3f} %C "
-                                f"(boost only); change the diffuse or boost potential")
+        raise NotReachableError("surface_min", f"{formats.typed_range(low, high, '%C')} cannot be reached: with these "
+                                f"potentials the surface ends between {formats.carbon(surface_low)} (diffuse only) and "
+                                f"{formats.carbon(surface_high)} (boost only); change the diffuse or boost potential")
     aim = 0.5 * (lo + hi)
     if aim <= surface_low:
         tb = 0.0
@@ -212,7 +217,7 @@ def plan_single_soak(setup: CarburizingSetup, targets: list[float], before: tupl
     stages = [*before, Stage("soak", ts, T, setup.carbon_potential), *after]
     cycle = _joined_cycle(setup, stages, head, soaking, ts, uptake_at_start, state, tail)
     if 0.0 in times:
-        cycle.warnings.append(f"The heat-up and drop alone give more than {min(targets) * 1e3:g} mm at "
+        cycle.warnings.append(f"The heat-up and drop alone give more than {formats.length(min(targets))} at "
                               f"{setup.threshold}: that target needs no soak at all")
     return SoakPlan(times, cycle)
 

@@ -13,6 +13,7 @@ from functools import cached_property
 
 import numpy as np
 
+from .. import formats
 from ..constants import ZERO_CELSIUS
 from ..errors import InputError, NotReachableError
 from ..models.austenite import Andrews_1965_Ac3
@@ -22,6 +23,7 @@ from ..models.steels import Steel
 from ..models.surface import DEFAULT_BETA, Gunnarson_alloy_factor, equilibrium_surface_carbon, steel_saturation_carbon
 from ..numerics.geometry import Geometry
 from ..numerics.solver import Accuracy, CarbonSolver, SurfaceCondition
+from ..numerics.special import erfcx
 from ..units import Threshold, as_number, both_temperatures, finite_number, temperature_range
 from .hardening import DEFAULT_HARDNESS_DEPTH, Hardening, quenched_at
 
@@ -92,7 +94,8 @@ class CarburizingSetup:
                              f"allowed {temperature_range(ac3, MAX_TEMPERATURE)}")
         lo, hi = POTENTIAL_RANGE
         if not (math.isfinite(self.carbon_potential) and lo <= self.carbon_potential <= hi):
-            raise InputError("carbon_potential", f"{self.carbon_potential:g} %C is outside {lo:g}–{hi:g} %C")
+            raise InputError("carbon_potential", f"{formats.typed(self.carbon_potential, '%C')} is outside "
+                             f"{formats.typed_range(lo, hi, '%C')}")
         if not (math.isinf(self.beta) and self.beta > 0) and not (BETA_RANGE[0] <= self.beta <= BETA_RANGE[1]):
             raise InputError("beta", f"{self.beta * 100:g} cm/s is outside {BETA_RANGE[0] * 100:g}–"
                              f"{BETA_RANGE[1] * 100:g} cm/s (or inf for a surface held at equilibrium)")
@@ -101,15 +104,16 @@ class CarburizingSetup:
                              f"{', '.join(HARDNESS_RELATIONS)}")
         carbon = self.threshold_carbon
         if not carbon > self.steel.carbon + 0.01:
-            meaning = "is" if self.threshold.kind == "carbon" else f"means {carbon:.3f} %C,"
+            meaning = "is" if self.threshold.kind == "carbon" else f"means {formats.carbon(carbon)},"
             raise InputError("threshold_value", f"{self.threshold} {meaning} not above the core carbon "
-                             f"{self.steel.carbon:.3f} %C: the whole part would count as case; "
-                             f"choose a threshold above {self.steel.carbon + 0.01:.2f} %C")
+                             f"{formats.typed(self.steel.carbon, '%C')}: the whole part would count as case; "
+                             f"choose a threshold above {formats.typed(self.steel.carbon + 0.01, '%C')}")
         if carbon >= self.equilibrium_carbon:
-            meaning = "" if self.threshold.kind == "carbon" else f" ({carbon:.2f} %C)"
+            meaning = "" if self.threshold.kind == "carbon" else f" ({formats.carbon(carbon)})"
             raise NotReachableError("threshold_value", f"{self.threshold}{meaning} is not below the surface carbon the carbon "
-                             f"potential {self.carbon_potential:.2f} gives this steel ({self.equilibrium_carbon:.2f} %C): "
-                             f"no effective case can form; lower the threshold or raise the potential")
+                             f"potential {formats.typed(self.carbon_potential, '%C')} gives this steel "
+                             f"({formats.carbon(self.equilibrium_carbon)}): no effective case can form; lower the "
+                             f"threshold or raise the potential")
 
     # -- derived quantities ---------------------------------------------------------------
     @property
@@ -153,25 +157,27 @@ class CarburizingSetup:
     def warnings(self) -> list[str]:
         """Plain-language cautions about the furnace step (not errors: the result is still given)."""
         out = []
-        T_c = self.temperature - ZERO_CELSIUS
         sat = self.saturation_carbon
         if self.equilibrium_carbon > sat:
-            out.append(f"The atmosphere would bring the surface to {self.equilibrium_carbon:.2f} %C, above the "
-                       f"{sat:.2f} %C that this steel's austenite holds at {T_c:.0f} °C: expect carbides at the "
-                       f"surface and soot in the furnace. Lower the carbon potential or boost and diffuse.")
+            out.append(f"The atmosphere would bring the surface to {formats.carbon(self.equilibrium_carbon)}, above the "
+                       f"{formats.carbon(sat)} that this steel's austenite holds at {formats.temperature(self.temperature)}: "
+                       f"expect carbides at the surface and soot in the furnace. Lower the carbon potential or boost and "
+                       "diffuse.")
         if self.equilibrium_carbon <= self.steel.carbon:
-            out.append(f"The carbon potential ({self.carbon_potential:.2f} %C) is not above the core carbon "
-                       f"({self.steel.carbon:.2f} %C): this atmosphere decarburizes.")
+            out.append(f"The carbon potential ({formats.carbon(self.carbon_potential)}) is not above the core carbon "
+                       f"({formats.carbon(self.steel.carbon)}): this atmosphere decarburizes.")
         if self.temperature > GRAIN_GROWTH_TEMPERATURE:
-            out.append(f"{T_c:.0f} °C is above about 980 °C, where most carburizing grades coarsen their grain "
-                       f"unless made fine-grained (common practice); check the steel's grain-size control.")
+            out.append(f"{formats.temperature(self.temperature)} is above about 980 °C, where most carburizing grades "
+                       f"coarsen their grain unless made fine-grained (common practice); check the steel's grain-size "
+                       "control.")
         if self.threshold.is_hardness:
             rel = HARDNESS_RELATIONS[self.hardness_relation]
             if rel.structure:
-                out.append(f"{self.threshold} is read as {self.threshold_carbon:.2f} %C: the carbon whose case reaches "
-                           f"it with this steel, quench and temper at the aim depth ({self.hardness_depth * 1e3:.2f} mm).")
+                out.append(f"{self.threshold} is read as {formats.carbon(self.threshold_carbon)}: the carbon whose case "
+                           f"reaches it with this steel, quench and temper at the aim depth "
+                           f"({formats.length(self.hardness_depth)}).")
             else:
-                out.append(f"{self.threshold} is taken as {self.threshold_carbon:.2f} %C ({rel.display}; "
+                out.append(f"{self.threshold} is taken as {formats.carbon(self.threshold_carbon)} ({rel.display}; "
                            f"assumes {rel.assumptions}).")
             c = self.steel.composition
             if not rel.structure and sum(float(c.get(el, 0.0)) for el in ("Cr", "Ni", "Mo")) < 0.3 and float(c.get("Mn", 0.0)) < 1.0:
@@ -182,8 +188,8 @@ class CarburizingSetup:
 
     # -- in words ------------------------------------------------------------------------------------
     def threshold_meaning(self) -> str:
-        """`` (= 0.370 %C)`` for a threshold that is not a carbon content, else nothing."""
-        return f" (= {self.threshold_carbon:.3f} %C)" if self.threshold.kind != "carbon" else ""
+        """`` (= 0.37 %C)`` for a threshold that is not a carbon content, else nothing."""
+        return f" (= {formats.carbon(self.threshold_carbon)})" if self.threshold.kind != "carbon" else ""
 
     def models_text(self) -> str:
         """The models of the step, in one line."""
@@ -193,9 +199,9 @@ class CarburizingSetup:
 
     def describe_lines(self, surface: float) -> list[str]:
         """The surface carbon a case ended with [wt %], the steel and the models, as the command line prints them."""
-        return [f"  surface carbon        {surface:.3f} %C at the end (equilibrium {self.equilibrium_carbon:.3f} %C, "
-                f"saturation {self.saturation_carbon:.2f} %C)",
-                f"  steel                 {self.steel.name} ({self.steel.standard}), core {self.steel.carbon:.3f} %C, "
+        return [f"  surface carbon        {formats.carbon(surface)} at the end (equilibrium "
+                f"{formats.carbon(self.equilibrium_carbon)}, saturation {formats.carbon(self.saturation_carbon)})",
+                f"  steel                 {self.steel.name} ({self.steel.standard}), core {formats.carbon(self.steel.carbon)}, "
                 f"alloy factor {self.alloy_factor:.3f}" + ("" if self.alloy_factor_on else " (off)"),
                 f"  models                {self.models_text()}"]
 
@@ -224,8 +230,6 @@ class CarburizingSetup:
         Crank's (1975, §3.3) surface-evaporation solution for a flat surface with D taken at the
         threshold carbon; the solver then finds the real time.
         """
-        from scipy.special import erfcx  # imported on first use: it is slow to import
-
         D = float(self.diffusivity(self.threshold_carbon, self.temperature))
         c0, ceq = self.steel.carbon, self.equilibrium_carbon
         wanted = (self.threshold_carbon - c0) / (ceq - c0)
@@ -237,7 +241,7 @@ class CarburizingSetup:
             u = case_depth / (2.0 * math.sqrt(D * t))
             if math.isinf(h):
                 return math.erfc(u)
-            return math.erfc(u) - math.exp(-u * u) * float(erfcx(u + h * math.sqrt(D * t)))
+            return math.erfc(u) - math.exp(-u * u) * erfcx(u + h * math.sqrt(D * t))
 
         t = case_depth**2 / D
         for _ in range(60):  # bisection in log t: cheap and cannot fail
@@ -272,7 +276,7 @@ def case_warnings(setup: CarburizingSetup, depth: float, surface: float) -> list
         warnings.append("The threshold carbon reaches the centre of the section: the part is carburized through.")
     low, high = SURFACE_CARBON_PRACTICE
     if surface > high and setup.equilibrium_carbon <= setup.saturation_carbon:
-        warnings.append(f"The surface ends at {surface:.2f} %C, above the {low:.2f}–{high:.2f} %C usually specified for "
-                        f"case-hardened parts (common practice): a quenched case this rich holds retained austenite "
-                        f"and may form carbides; a diffuse stage at a lower potential brings it down.")
+        warnings.append(f"The surface ends at {formats.carbon(surface)}, above the {formats.carbon_range(low, high)} "
+                        f"usually specified for case-hardened parts (common practice): a quenched case this rich holds "
+                        f"retained austenite and may form carbides; a diffuse stage at a lower potential brings it down.")
     return warnings

@@ -14,7 +14,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .. import safety
+from .. import formats, safety
 from ..errors import InputError, NotReachableError
 from ..numerics.march import March
 from ..numerics.solver import History, Profile
@@ -78,13 +78,13 @@ class CarburizingResult:
         """What ``casedepth carburize --time`` prints (``units`` a :class:`~casedepth.units.DisplayUnits`)."""
         s = self.setup
         lines = [f"Soak of {format_duration(self.soak_time)} at {units.format_temperature(s.temperature)}, carbon "
-                 f"potential {s.carbon_potential:.2f} %C",
+                 f"potential {formats.carbon(s.carbon_potential)}",
                  f"  {s.threshold.depth_name:<21} {units.format_length(self.case_depth)} at {s.threshold}"
                  + s.threshold_meaning() + " at the end",
                  f"  shop stages           {describe_counted(self.counted)}",
                  *s.describe_lines(self.surface_carbon)]
         if self.carbon_at_depth is not None:
-            lines.append(f"  carbon at {units.format_length(self.probe_depth):<11} {self.carbon_at_depth:.3f} %C")
+            lines.append(f"  carbon at {units.format_length(self.probe_depth):<11} {formats.carbon(self.carbon_at_depth)}")
         lines.append(f"  diffusion length √(Dt) {units.format_length(self.diffusion_length)} (D at the threshold "
                      f"carbon; a length scale, not a depth where the carbon stops)")
         lines += [f"Warning: {w}" for w in self.warnings]
@@ -151,7 +151,7 @@ def soak_times_for_case_depths(setup: CarburizingSetup, targets: list[float],
                   setup.threshold_carbon)
     if not march.advance(SOAK_RANGE[1], setup.surface_condition, until=deepest):
         raise NotReachableError("target", f"{both_lengths(deepest)} is not reached within {SOAK_RANGE[1] / 3600:g} h "
-                                f"(reached {march.depth * 1e3:.3f} mm); raise the temperature or the carbon potential")
+                                f"(reached {both_lengths(march.depth)}); raise the temperature or the carbon potential")
     results = []
     for target in targets:
         time = march.time_to(target)

@@ -17,6 +17,7 @@ from PySide6.QtWidgets import (QCheckBox, QComboBox, QCompleter, QDoubleSpinBox,
                                QLineEdit, QPlainTextEdit, QSlider, QTableWidget, QTableWidgetItem, QToolButton,
                                QVBoxLayout, QWidget)
 
+from .. import formats
 from ..carburizing.cycle import STAGE_KINDS
 from ..constants import ZERO_CELSIUS
 from ..errors import InputError
@@ -439,8 +440,9 @@ class AimField(Field):
     def display(self, value, values):
         self.slider.setValue(int(round(value * 100)))
         low, high = values["case_min"], values["case_max"]
-        self.meaning.setText(f"{value * 100:.0f} % → {self.context.units.format_length(low + value * (high - low))}"
-                             if high >= low > 0 else f"{value * 100:.0f} %")
+        share = formats.percent(value * 100)
+        self.meaning.setText(f"{share} → {self.context.units.format_length(low + value * (high - low))}"
+                             if high >= low > 0 else share)
 
 
 class PotentialField(QuantityField):

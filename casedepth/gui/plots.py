@@ -20,10 +20,11 @@ from PySide6.QtCore import Qt
 from PySide6.QtWidgets import (QHeaderView, QLabel, QSplitter, QTableWidget, QTableWidgetItem, QTabWidget, QVBoxLayout,
                                QWidget)
 
+from .. import formats
 from ..errors import InputError
-from ..models.hardness import ASTM_E140_hrc_to_hv, ASTM_E140_hv_to_hrc
 from ..outcome import Outcome, Panel, ProfileView
 from ..plan import compare_temperatures
+from ..report.documents import draw_cycle_words, hrc_scale, place_cycle_words
 from ..treatments import TREATMENTS
 from ..units import DisplayUnits, format_duration
 
@@ -36,14 +37,6 @@ LIMIT = "#b5651d"
 LAYER = "#c9c9c9"
 LEVEL_STYLES = {"threshold": (THRESHOLD, "--", 1.2), "core": (CORE, ":", 1.0), "limit": (LIMIT, "-.", 1.0)}
 MARKER = "#2a7f62"  # the moments of a cycle: purges, the atmosphere going in
-
-
-def _hv_to_hrc(hv):
-    return ASTM_E140_hv_to_hrc(np.clip(hv, 238.0, 940.0))
-
-
-def _hrc_to_hv(hrc):
-    return ASTM_E140_hrc_to_hv(np.clip(hrc, 20.0, 68.0))
 
 
 def _swatch(handle) -> str:
@@ -138,7 +131,7 @@ class _PlotPage(QWidget):
         self.caption = ax.set_title("", loc="left", fontsize=9)
         if hrc_axis:
             ax.set_ylim(250.0, 900.0)  # HV the HRC scale spans, until a result sets the range (fitting measures it)
-            ax.secondary_yaxis("right", functions=(_hv_to_hrc, _hrc_to_hv)).set_ylabel("[HRC]")
+            hrc_scale(ax)
         self._fitted = None  # the texts and ranges the margins were fitted to
         keep_fitted(self.canvas, self.figure)
 
@@ -148,7 +141,7 @@ class _PlotPage(QWidget):
         self.band.set_x(low)
         self.band.set_width(high - low)
         self.aim.set_xdata([aim, aim])
-        self.aim.set_label(f"aim {aim:.{units.length_decimals}f} {units.length_unit}")
+        self.aim.set_label(f"aim {formats.length(view.targets[1], units)}")
         ax.set_xlim(0, units.length(view.reach))
         ax.set_xlabel(f"depth below the surface [{units.length_unit}]")
         ax.set_ylabel(panel.quantity)
@@ -274,20 +267,7 @@ class _CyclePage(QWidget):
         shown = np.array([units.temperature(t) for t in line.temperatures])
         ax.plot(hours, shown, color=INK, lw=2.0, label="temperature")
         pax.plot(hours, line.potentials, color=THRESHOLD, lw=1.6, ls="--", label=line.potential_name)
-        self.stage_texts, self.marker_texts = [], []
-        words = {"fontsize": 7, "clip_on": True, "in_layout": False}
-        for i, (start, end, label) in enumerate(line.labels):
-            if i % 2 == 0:
-                ax.axvspan(start / 3600.0, end / 3600.0, color="#eef2f6", lw=0, zorder=0)
-            text = ax.text((start + end) / 7200.0, 0.02, label.split(" ")[0], transform=ax.get_xaxis_transform(),
-                           va="bottom", color="#555", **words)
-            self.stage_texts.append((text, start / 3600.0, end / 3600.0))
-        for time, what in line.markers:
-            ax.axvline(time / 3600.0, color=MARKER, lw=1.2, ls=":")
-            self.marker_texts.append(ax.text(time / 3600.0, 0.97, what, transform=ax.get_xaxis_transform(), va="top",
-                                             color=MARKER, style="italic", **words,
-                                             bbox={"boxstyle": "square,pad=0.15", "fc": "white", "ec": "none",
-                                                   "alpha": 0.85}))
+        self.stage_texts, self.marker_texts = draw_cycle_words(ax, line, MARKER)
         ax.set_xlabel("time in the cycle [h]")
         ax.set_ylabel(f"temperature [{units.temperature_unit}]")
         pax.yaxis.set_label_position("right")
@@ -307,49 +287,25 @@ class _CyclePage(QWidget):
         quote = outcome.quote
         self.table.setRowCount(len(quote.lines))
         for r, (label, h) in enumerate(quote.lines):
-            for c, text in enumerate((label, f"{h:.2f}", f"{100 * h / quote.total_h:.0f} %" if quote.total_h else "")):
+            for c, text in enumerate((label, f"{h:.2f}", formats.percent(100 * h / quote.total_h) if quote.total_h
+                                      else "")):
                 item = QTableWidgetItem(text)
                 if c:
                     item.setTextAlignment(Qt.AlignRight | Qt.AlignVCenter)
                 self.table.setItem(r, c, item)
-        money = f" {quote.currency}" if quote.currency else ""
-        self.total.setText(f"<b>Whole cycle {quote.total_h:.2f} h</b> · {quote.cost_per_load:.2f}{money} per load · "
-                           f"{quote.cost_per_part:.3f}{money} per part")
+        self.total.setText(f"<b>Whole cycle {format_duration(quote.total_h * 3600)}</b> · "
+                           f"{formats.money(quote.cost_per_load, quote.currency)} per load · "
+                           f"{formats.piece_price(quote.cost_per_part, quote.currency)} per part")
         self.split.fit_table()
 
     def save(self, path: str, dpi: int = 200) -> None:
         self.figure.savefig(path, dpi=dpi)
 
     def _place_texts(self) -> None:
-        """Name each stage where its name fits in its span (level if it can, else upright), and set the moments'
-        words along the top, in rows where they would overlap, each turned away from the plot's right edge."""
-        ax = self.axes
-        if not self.stage_texts and not self.marker_texts:
-            return
-        renderer = self.figure.canvas.get_renderer()
-        box = ax.get_window_extent(renderer)
-        x0, x1 = ax.get_xlim()
-        per_unit = box.width / max(x1 - x0, 1e-9)
-        for text, start, end in self.stage_texts:
-            room = (end - start) * per_unit
-            text.set(rotation=0, ha="center", visible=True)
-            if text.get_window_extent(renderer).width + 6 > room:
-                text.set(rotation=90)
-                extent = text.get_window_extent(renderer)
-                text.set_visible(extent.width * 1.3 <= room and extent.height <= 0.45 * box.height)
-        rows: list[list] = []
-        for text in self.marker_texts:
-            right = (text.get_position()[0] - x0) / max(x1 - x0, 1e-9) > 0.6
-            word = text.get_text().strip()
-            text.set(ha="right" if right else "left", text=f"{word} " if right else f" {word}")
-            for row, taken in enumerate(rows + [[]]):
-                text.set_y(0.97 - 0.1 * row)
-                extent = text.get_window_extent(renderer)
-                if not any(extent.overlaps(other) for other in taken):
-                    if row == len(rows):
-                        rows.append([])
-                    rows[row].append(extent)
-                    break
+        """Set the stages' names and the moments' words where they are clear of the curves and of each other, on
+        the plot as large as it is now (:func:`~casedepth.report.documents.place_cycle_words`)."""
+        place_cycle_words(self.axes, self.stage_texts, self.marker_texts,
+                          [*self.axes.get_lines(), *self.potential_axes.get_lines()])
 
 
 class _KeyedPlot(QWidget):
@@ -429,23 +385,18 @@ class _TradeoffPage(QWidget):
         ax.set_xlabel(f"temperature [{units.temperature_unit}]")
         ax.set_ylabel("soak [h]")
         ax.grid(True, color="#dddddd", lw=0.6)
-        ax.set_title(f"This plan at other temperatures: the soak for {units.format_length(outcome.targets[1])}",
+        ax.set_title(f"This plan at other temperatures: the soak for {formats.length(outcome.targets[1], units)}",
                      fontsize=10)
         self.plot.finish()
         self.table.setRowCount(len(self.pairs))
         for r, (T, t) in enumerate(self.pairs):
-            self.table.setItem(r, 0, QTableWidgetItem(units.format_temperature(T)))
+            self.table.setItem(r, 0, QTableWidgetItem(formats.temperature(T, units)))
             self.table.setItem(r, 1, QTableWidgetItem(f"{format_duration(t)}  ({t / 3600:.2f} h)"))
         self.split.fit_table()
         self.note.setText(note)
 
     def save(self, path: str, dpi: int = 200) -> None:
         self.plot.save(path, dpi)
-
-
-def _diameter(metres: float) -> str:
-    """An ideal critical diameter as the trade quotes it: ``48 mm (1.90 in)``."""
-    return f"{metres * 1e3:.0f} mm ({metres / 0.0254:.2f} in)"
 
 
 class _HardenabilityPage(QWidget):
@@ -478,21 +429,23 @@ class _HardenabilityPage(QWidget):
             return
         ax.set_axis_on()
         distance = facts["curve_distances"] / 0.0254 * 16.0  # sixteenths of an inch, as Jominy curves are read
-        ax.plot(distance, facts["curve_hrc"], color=INK, lw=2, label=f"core, {steel.carbon:.2f} %C")
+        ax.plot(distance, facts["curve_hrc"], color=INK, lw=2, label=f"core, {formats.carbon(steel.carbon)}")
         if facts["case_curve_hrc"] is not None:
             ax.plot(distance, facts["case_curve_hrc"], color=THRESHOLD, lw=2, ls="--",
-                    label=f"case at the surface carbon, {facts['case_carbon']:.2f} %C")
+                    label=f"case at the surface carbon, {formats.carbon(facts['case_carbon'])}")
         ax.set_xlabel("distance from the quenched end [1/16 in]")
         ax.set_ylabel("hardness [HRC]")
         ax.set_xlim(0, 32)
         ax.grid(True, color="#dddddd", lw=0.6)
         ideal = facts["ideal_diameter"]
-        ax.set_title(f"Jominy end-quench curve of {steel.name}, estimated (D_I {_diameter(ideal)})", fontsize=10)
+        ax.set_title(f"Jominy end-quench curve of {steel.name}, estimated (D_I {formats.ideal_diameter(ideal)})",
+                     fontsize=10)
         self.plot.finish()
         case = ("" if facts["case_ideal_diameter"] is None else
-                f"; the case at {facts['case_carbon']:.2f} %C: D_I {_diameter(facts['case_ideal_diameter'])}")
+                f"; the case at {formats.carbon(facts['case_carbon'])}: D_I "
+                f"{formats.ideal_diameter(facts['case_ideal_diameter'])}")
         methods = facts["methods"]
-        self.note.setText(f"Ideal critical diameter of the core {_diameter(ideal)} (grain size ASTM "
+        self.note.setText(f"Ideal critical diameter of the core {formats.ideal_diameter(ideal)} (grain size ASTM "
                           f"{facts['grain_size']:g}){case}. {methods[:1].upper() + methods[1:]}. "
                           + " ".join(w if w.endswith(".") else f"{w}." for w in facts["warnings"]))
 

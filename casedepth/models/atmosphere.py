@@ -28,8 +28,10 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
+from .. import formats
 from ..constants import GAS_CONSTANT as R, ZERO_CELSIUS
 from ..errors import InputError
+from ..units import temperature_range
 
 AIR_OXYGEN = 0.209  # atm, the probe's reference
 #: CO in endothermic gas made from natural gas, about 20 vol % (common practice; 23–24 % from propane)
@@ -155,14 +157,14 @@ def carbon_for_activity(activity: float, T: float) -> float:
     f_low, f_high = miss(low), miss(high)
     if not (f_low <= 0.0 <= f_high):
         raise InputError("activity", f"a carbon activity of {activity:.3g} means a carbon content outside "
-                                     f"{low:g}–{high:g} wt % at {T - ZERO_CELSIUS:.0f} °C")
+                                     f"{low:g}–{high:g} wt % at {formats.temperature(T)}")
     return illinois(miss, low, f_low, high, f_high, 1e-13, 1e-13)
 
 
 def _check(T: float, CO: float) -> None:
     lo, hi = TEMPERATURE_RANGE
     if not (math.isfinite(T) and lo <= T <= hi):
-        raise InputError("temperature", f"{T - ZERO_CELSIUS:.0f} °C is outside {lo - ZERO_CELSIUS:.0f}–{hi - ZERO_CELSIUS:.0f} °C")
+        raise InputError("temperature", f"{formats.typed(T - ZERO_CELSIUS, '°C')} is outside {temperature_range(lo, hi)}")
     if not (math.isfinite(CO) and 0.05 <= CO <= 0.5):
         raise InputError("carrier_co", f"{CO * 100:g} % CO is outside 5–50 %")
 
@@ -192,10 +194,10 @@ class ProbeWindow:
     CO: float  # fraction
 
     def where(self) -> str:
-        return f"at {self.T - ZERO_CELSIUS:.0f} °C with {self.CO * 100:g} % CO"
+        return f"at {formats.temperature(self.T)} with {formats.percent(self.CO * 100)} CO"
 
     def text(self, potentials_first: bool = False) -> str:
-        mv, pct = (f"{self.least_mv:.0f}–{self.graphite_mv:.0f} mV", f"{self.least:.2f}–{self.graphite:.2f} %C")
+        mv, pct = f"{self.least_mv:.0f}–{self.graphite_mv:.0f} mV", formats.carbon_range(self.least, self.graphite)
         return f"{pct} ({mv}) {self.where()}" if potentials_first else f"{mv} ({pct}) {self.where()}"
 
 
@@ -213,7 +215,7 @@ def probe_window(T: float, CO: float = ENDO_CO_FRACTION, core_potential: float |
     least = LEAST_CARBURIZING_POTENTIAL
     if core_potential is not None:
         if not (math.isfinite(core_potential) and 0.0 <= core_potential <= 2.0):
-            raise InputError("core_potential", f"{core_potential:g} %C is outside 0–2 %C")
+            raise InputError("core_potential", f"{formats.typed(core_potential, '%C')} is outside 0–2 %C")
         least = max(least, core_potential)
     return ProbeWindow(least, probe_voltage_for_activity(austenite_carbon_activity(least, T), T, CO),
                        carbon_for_activity(1.0, T), probe_voltage_for_activity(1.0, T, CO), T, CO)
@@ -222,8 +224,8 @@ def probe_window(T: float, CO: float = ENDO_CO_FRACTION, core_potential: float |
 def _below_window(window: ProbeWindow, core_potential: float | None) -> str:
     """Why the floor of ``window`` is where it is, in words."""
     if core_potential is not None and window.least > LEAST_CARBURIZING_POTENTIAL:
-        return f"the potential that holds the steel's core carbon ({window.least:.2f} %C, {window.least_mv:.0f} mV)"
-    return f"{window.least:.2f} %C ({window.least_mv:.0f} mV), below which every case-hardening steel loses carbon"
+        return f"the potential that holds the steel's core carbon ({formats.carbon(window.least)}, {window.least_mv:.0f} mV)"
+    return f"{formats.carbon(window.least)} ({window.least_mv:.0f} mV), below which every case-hardening steel loses carbon"
 
 
 def carbon_potential_from_probe(E: float, T: float, CO: float = ENDO_CO_FRACTION,
@@ -254,13 +256,13 @@ def carbon_potential_from_probe(E: float, T: float, CO: float = ENDO_CO_FRACTION
             activity = math.inf
         meaning = f"a carbon activity of {activity:.2f}" if activity < 1e6 else "a carbon activity far above 1"
         raise InputError("mv", f"{E:g} mV {window.where()} means {meaning}, at or above "
-                               f"graphite saturation ({window.graphite_mv:.0f} mV, {window.graphite:.2f} %C): soot "
-                               f"would deposit; check the probe, the temperature and the CO content; carburizing "
+                               f"graphite saturation ({window.graphite_mv:.0f} mV, {formats.carbon(window.graphite)}): "
+                               f"soot would deposit; check the probe, the temperature and the CO content; carburizing "
                                f"readings are {window.text()}")
     activity = carbon_activity_from_probe(E, T, CO)
     if E < window.least_mv:
         try:
-            meaning = f"{carbon_for_activity(activity, T):.3f} %C"
+            meaning = formats.carbon(carbon_for_activity(activity, T))
         except InputError:  # leaner than the relation reaches
             meaning = "next to no carbon"
         raise InputError("mv", f"{E:g} mV {window.where()} means {meaning}, a decarburizing atmosphere: readings "
@@ -279,12 +281,13 @@ def check_carburizing_potential(carbon_potential: float, T: float, CO: float = E
         raise InputError("carbon_potential", f"{carbon_potential:g} is not a number; carburizing potentials are "
                                              f"{window.text(True)}")
     if carbon_potential >= window.graphite:
-        raise InputError("carbon_potential", f"{carbon_potential:g} %C is at or above graphite saturation "
-                                             f"{window.where()} ({window.graphite:.2f} %C, {window.graphite_mv:.0f} mV): "
+        raise InputError("carbon_potential", f"{formats.typed(carbon_potential, '%C')} is at or above graphite "
+                                             f"saturation {window.where()} ({formats.carbon(window.graphite)}, "
+                                             f"{window.graphite_mv:.0f} mV): "
                                              f"soot would deposit; carburizing potentials are {window.text(True)}")
     if carbon_potential < window.least:
-        raise InputError("carbon_potential", f"{carbon_potential:g} %C {window.where()} is a decarburizing atmosphere: "
-                                             f"potentials start at {_below_window(window, core_potential)}; "
+        raise InputError("carbon_potential", f"{formats.typed(carbon_potential, '%C')} {window.where()} is a "
+                                             f"decarburizing atmosphere: potentials start at {_below_window(window, core_potential)}; "
                                              f"carburizing potentials are {window.text(True)}")
 
 
@@ -298,7 +301,7 @@ def probe_voltage_for_potential(carbon_potential: float, T: float, CO: float = E
     """
     _check(T, CO)
     if not (math.isfinite(carbon_potential) and 0.05 <= carbon_potential <= 2.0):
-        raise InputError("carbon_potential", f"{carbon_potential:g} %C is outside 0.05–2 %C")
+        raise InputError("carbon_potential", f"{formats.typed(carbon_potential, '%C')} is outside 0.05–2 %C")
     activity = austenite_carbon_activity(carbon_potential, T)
     pO2 = (CO / (CO_formation_constant(T) * activity)) ** 2
     return probe_voltage(pO2, T)

@@ -222,6 +222,17 @@ class Diffusivity:
             return (self.multiplier * 0.47e-4) * np.exp((-1.6 + 6600.0 / (GAS_CONSTANT_CAL * T)) * carbon - 37000.0 / (GAS_CONSTANT_CAL * T))
         return self.multiplier * self._function(carbon, T)
 
+    def exponential_form(self, T: float) -> tuple[float, float] | None:
+        """``(A, s)`` with D = A·exp(s·C) [m²/s, per wt %] at temperature ``T`` [K] where the model has that
+        form (Tibbetts 1980; a constant Arrhenius D with s = 0), else None. The solver's lean path
+        evaluates D and dD/dC = s·D from it with one exponential."""
+        if self.method == "tibbetts":
+            return (self.multiplier * 0.47e-4 * math.exp(-37000.0 / (GAS_CONSTANT_CAL * T)),
+                    -1.6 + 6600.0 / (GAS_CONSTANT_CAL * T))
+        if self.method == "arrhenius":
+            return float(self.multiplier * self._function(0.0, T)), 0.0
+        return None
+
     def with_derivative(self, carbon: np.ndarray, T: float, step: float = 1e-5):
         """D and dD/dC [m²/s per wt %] (used for Newton's Jacobian only).
 

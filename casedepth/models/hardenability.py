@@ -25,7 +25,11 @@ from typing import Callable
 
 import numpy as np
 
+from .. import formats
 from ..errors import InputError
+from ..numerics.roots import illinois
+from ..numerics.special import bessel_j, bessel_zeros
+from ..units import length_range
 from .hardness import JUST_PLATEAU_CARBON, Just_1968_martensite_hrc
 from .steels import validate_composition
 
@@ -698,8 +702,8 @@ def _distances(distances) -> np.ndarray:
     except (TypeError, ValueError):
         raise InputError("distances", f"{distances!r} is not a distance or a list of distances in metres") from None
     if d.size == 0 or np.any(np.isnan(d)) or np.any((d < 0.0) | (d > JOMINY_LONGEST)):
-        raise InputError("distances", f"Jominy distances must lie within 0–{JOMINY_LONGEST * 1e3:g} mm "
-                         f"(0–{JOMINY_LONGEST / INCH:g} in) of the quenched end")
+        raise InputError("distances", f"Jominy distances must lie within {length_range(0.0, JOMINY_LONGEST)} of the "
+                         f"quenched end")
     return d
 
 
@@ -781,33 +785,34 @@ def jominy_curve(composition: dict[str, float], distances, carbon=None):
 _TERMS = 10  # series terms; at the half-temperature time (Fourier number ≥ 0.2) the 10th is < 1e-100
 
 
+def _root(f, a: float, b: float, xtol: float) -> float:
+    """A root of ``f`` bracketed by ``a`` and ``b`` to ``xtol`` (regula falsi, Illinois: numerics.roots)."""
+    return illinois(f, a, f(a), b, f(b), xtol, 0.0)
+
+
 def _cylinder_eigenvalues(biot: float) -> np.ndarray:
     """Roots of λ J1(λ) = Bi J0(λ), one in each interval (n-th zero of J1, n-th zero of J0)."""
-    from scipy.special import j0, j1, jn_zeros  # imported on first use: scipy is slow to import
-
-    upper = jn_zeros(0, _TERMS)
+    upper = bessel_zeros(0, _TERMS)
     if math.isinf(biot):
         return upper
-    low = np.concatenate(([0.0], jn_zeros(1, _TERMS - 1)))
+    low = np.concatenate(([0.0], bessel_zeros(1, _TERMS - 1)))
     high = upper.copy()
-    sign_low = np.sign(low * j1(low) - biot * j0(low))
+    sign_low = np.sign(low * bessel_j(1, low) - biot * bessel_j(0, low))
     for _ in range(60):
         mid = 0.5 * (low + high)
-        same = np.sign(mid * j1(mid) - biot * j0(mid)) == sign_low
+        same = np.sign(mid * bessel_j(1, mid) - biot * bessel_j(0, mid)) == sign_low
         low, high = np.where(same, mid, low), np.where(same, high, mid)
     return 0.5 * (low + high)
 
 
 def _centre_half_time_fourier(biot: float) -> float:
     """Fourier number α t / R² at which the centre of a long cylinder has cooled half way."""
-    from scipy.optimize import brentq
-    from scipy.special import j0, j1
-
     lam = _cylinder_eigenvalues(biot)
+    j0, j1 = bessel_j(0, lam), bessel_j(1, lam)
     if math.isinf(biot):
-        coef = 2.0 / (lam * j1(lam))
+        coef = 2.0 / (lam * j1)
     else:
-        coef = 2.0 * j1(lam) / (lam * (j0(lam) ** 2 + j1(lam) ** 2))
+        coef = 2.0 * j1 / (lam * (j0**2 + j1**2))
 
     def excess(fourier):
         return float(np.sum(coef * np.exp(-lam**2 * fourier))) - 0.5
@@ -815,7 +820,7 @@ def _centre_half_time_fourier(biot: float) -> float:
     high = 0.25 + 1.0 / biot
     while excess(high) > 0.0:
         high *= 2.0
-    return brentq(excess, 0.1, high, xtol=1e-14, rtol=1e-12)
+    return _root(excess, 0.1, high, 1e-14)
 
 
 @cache
@@ -926,12 +931,10 @@ def critical_diameter(ideal_diameter: float, severity_per_inch: float) -> float:
        and some quantitative data." In Hardenability of Alloy Steels. Cleveland: American Society
        for Metals, 1939 (from memory).
     """
-    from scipy.optimize import brentq
-
     di = _as_float(ideal_diameter, "ideal_diameter")
     if not (IDEAL_DIAMETER_RANGE[0] <= di <= IDEAL_DIAMETER_RANGE[1]):
-        raise InputError("ideal_diameter", f"{di * 1e3:g} mm is outside {IDEAL_DIAMETER_RANGE[0] * 1e3:g}–"
-                         f"{IDEAL_DIAMETER_RANGE[1] * 1e3:g} mm")
+        raise InputError("ideal_diameter", f"{formats.typed(di * 1e3, 'mm')} is outside "
+                         f"{length_range(*IDEAL_DIAMETER_RANGE)}")
     h = _severity(severity_per_inch) / INCH
     if math.isinf(h):
         return di
@@ -940,7 +943,7 @@ def critical_diameter(ideal_diameter: float, severity_per_inch: float) -> float:
     def excess(d):
         return d * math.sqrt(_centre_half_time_fourier(h * d) / fo_ideal) - di
 
-    return brentq(excess, di * 1e-9, di, xtol=di * 1e-10, rtol=1e-10)
+    return _root(excess, di * 1e-9, di, di * 1e-12)
 
 
 def hardens_through(diameter: float, ideal_diameter: float, severity_per_inch: float) -> bool:
@@ -967,7 +970,8 @@ def hardens_through(diameter: float, ideal_diameter: float, severity_per_inch: f
     """
     d = _as_float(diameter, "diameter")
     if not (0.0 < d <= IDEAL_DIAMETER_RANGE[1]):
-        raise InputError("diameter", f"{d * 1e3:g} mm is outside 0–{IDEAL_DIAMETER_RANGE[1] * 1e3:g} mm")
+        raise InputError("diameter", f"{formats.typed(d * 1e3, 'mm')} is outside "
+                         f"{length_range(0.0, IDEAL_DIAMETER_RANGE[1])}")
     return d <= critical_diameter(ideal_diameter, severity_per_inch)
 
 

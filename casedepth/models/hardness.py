@@ -14,6 +14,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from .. import formats
 from ..errors import InputError
 from ..units import Threshold
 
@@ -49,7 +50,8 @@ def ASTM_E140_hrc_to_hv(hrc):
     """
     hrc_arr = np.asarray(hrc, dtype=float)
     if np.any((hrc_arr < HRC_RANGE[0]) | (hrc_arr > HRC_RANGE[1])):
-        raise InputError("hardness", f"{hrc} HRC is outside the conversion table, {HRC_RANGE[0]:g}–{HRC_RANGE[1]:g} HRC")
+        raise InputError("hardness", f"{hrc} HRC is outside the conversion table, "
+                         f"{formats.typed_range(*HRC_RANGE, 'HRC')}")
     out = np.interp(hrc_arr, _HRC, _HV)
     return float(out) if np.ndim(out) == 0 else out
 
@@ -68,7 +70,8 @@ def ASTM_E140_hv_to_hrc(hv):
     """
     hv_arr = np.asarray(hv, dtype=float)
     if np.any((hv_arr < HV_RANGE[0]) | (hv_arr > HV_RANGE[1])):
-        raise InputError("hardness", f"{hv} HV is outside the conversion table, {HV_RANGE[0]:g}–{HV_RANGE[1]:g} HV")
+        raise InputError("hardness", f"{hv} HV is outside the conversion table, "
+                         f"{formats.typed_range(*HV_RANGE, 'HV')}")
     out = np.interp(hv_arr, _HV, _HRC)
     return float(out) if np.ndim(out) == 0 else out
 
@@ -187,8 +190,8 @@ class HardnessRelation:
             top = self.hrc(JUST_PLATEAU_CARBON)
             bottom = self.hrc(0.0)
             if not (bottom < hrc < top):
-                raise InputError("threshold_value", f"{hrc:.1f} HRC is outside what the case can have under "
-                                 f"'{self.display}', {bottom:.1f}–{top:.1f} HRC")
+                raise InputError("threshold_value", f"{formats.typed(hrc, 'HRC')} is outside what the case can have "
+                                 f"under '{self.display}', {formats.hardness_range(bottom, top, 'HRC')}")
             return ((hrc - 20.0 + self.offset_hrc) / 60.0) ** 2
         from ..numerics.roots import illinois
 
@@ -197,12 +200,13 @@ class HardnessRelation:
         curve = np.asarray(self.hrc(grid, quenched), dtype=float)
         peak = int(np.argmax(curve))
         if curve[0] >= hrc:
-            raise InputError("threshold_value", f"{hrc:.1f} HRC: the core ({core:.2f} %C) already reaches "
-                             f"{curve[0]:.1f} HRC with this quench, so the whole section would count as case; "
-                             f"choose a higher threshold or a milder quench")
+            raise InputError("threshold_value", f"{formats.typed(hrc, 'HRC')}: the core ({formats.carbon(core)}) "
+                             f"already reaches {formats.hrc(curve[0])} with this quench, so the whole section would "
+                             f"count as case; choose a higher threshold or a milder quench")
         if curve[peak] <= hrc:
-            raise InputError("threshold_value", f"{hrc:.1f} HRC is above the {curve[peak]:.1f} HRC the case "
-                             f"reaches with this steel, quench and temper (at {grid[peak]:.2f} %C); lower the "
+            raise InputError("threshold_value", f"{formats.typed(hrc, 'HRC')} is above the "
+                             f"{formats.hrc(curve[peak])} the case reaches with this steel, quench and temper "
+                             f"(at {formats.carbon(grid[peak])}); lower the "
                              f"threshold, or choose a richer steel or a harsher quench")
         i = int(np.argmax(curve[:peak + 1] >= hrc))
 
@@ -257,8 +261,8 @@ def threshold_carbon(threshold: Threshold, relation: str = "tempered", quenched:
         if threshold.kind == "HRC" or rel.structure:
             raise
         low, high = (float(ASTM_E140_hrc_to_hv(x)) for x in (rel.hrc(0.0), rel.hrc(JUST_PLATEAU_CARBON)))
-        raise InputError("threshold_value", f"{threshold} ({hrc:.1f} HRC) is outside what the case can have under "
-                         f"'{rel.display}', {low:.0f}–{high:.0f} HV") from None
+        raise InputError("threshold_value", f"{threshold} ({formats.typed(hrc, 'HRC')}) is outside what the case can "
+                         f"have under '{rel.display}', {formats.hardness_range(low, high, 'HV')}") from None
 
 
 __all__ = [

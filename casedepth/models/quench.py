@@ -39,7 +39,8 @@ import numpy as np
 from ..constants import ZERO_CELSIUS
 from ..errors import InputError, SolverError
 from ..numerics.geometry import MAX_SIZE, Geometry
-from ..units import both_temperatures, temperature_range
+from ..numerics.special import bessel_j, bessel_zeros, erfc, erfcx
+from ..units import both_temperatures, length_range, temperature_range
 
 INCH = 0.0254  # m
 
@@ -259,8 +260,6 @@ def Carslaw_Jaeger_eigenvalues(shape: str, Bi: float, terms: int) -> np.ndarray:
     .. [1] Carslaw, H. S., and J. C. Jaeger. Conduction of Heat in Solids. 2nd ed. Oxford: Clarendon
        Press, 1959, §3.11 (slab), §7.7 (cylinder), §9.6 (sphere) (section numbers from memory).
     """
-    from scipy.special import j0, j1
-
     n = np.arange(terms, dtype=float)
     if shape == "plate":
         lo, hi = n * math.pi, (n + 0.5) * math.pi
@@ -278,7 +277,7 @@ def Carslaw_Jaeger_eigenvalues(shape: str, Bi: float, terms: int) -> np.ndarray:
         lo, hi = _bessel_zeros(terms)
 
         def f(lam):
-            a, b = j0(lam), j1(lam)
+            a, b = bessel_j(0, lam), bessel_j(1, lam)
             return lam * b - Bi * a, lam * a + Bi * b
     else:
         raise InputError("shape", f"no eigenvalues for {shape!r}; choose one of {', '.join(QUENCH_SHAPES)}")
@@ -305,34 +304,28 @@ _ZEROS: dict[int, tuple[np.ndarray, np.ndarray]] = {}
 def _bessel_zeros(terms: int) -> tuple[np.ndarray, np.ndarray]:
     """Brackets of the cylinder's roots: (0, j0,1), (j1,1, j0,2), … (zeros of J1 and J0 interlace)."""
     if terms not in _ZEROS:
-        from scipy.special import jn_zeros
-
-        _ZEROS[terms] = (np.concatenate(([0.0], jn_zeros(1, terms - 1))), jn_zeros(0, terms))
+        _ZEROS[terms] = (np.concatenate(([0.0], bessel_zeros(1, terms - 1))), bessel_zeros(0, terms))
     return _ZEROS[terms]
 
 
 def _coefficients(shape: str, lam: np.ndarray, Bi: float) -> np.ndarray:
     """Series coefficients C_n of a uniform initial temperature (Carslaw & Jaeger, as cited above)."""
-    from scipy.special import j0, j1
-
     if shape == "plate":
         return 2.0 * np.sin(lam) / (lam + np.sin(lam) * np.cos(lam))
     if shape == "sphere":
         return 2.0 * (np.sin(lam) - lam * np.cos(lam)) / (lam - np.sin(lam) * np.cos(lam))
-    a, b = j0(lam), j1(lam)
+    a, b = bessel_j(0, lam), bessel_j(1, lam)
     return 2.0 * b / (lam * (a * a + b * b))
 
 
 def _modes(shape: str, lam: np.ndarray, rho: np.ndarray) -> np.ndarray:
     """Eigenfunctions X(λ ρ) at ρ = r/L (1 at the surface, 0 at the centre); depth × term."""
-    from scipy.special import j0
-
     arg = np.multiply.outer(rho, lam)
     if shape == "plate":
         return np.cos(arg)
     if shape == "sphere":
         return np.sinc(arg / math.pi)
-    return j0(arg)
+    return bessel_j(0, arg)
 
 
 def short_time_quench(x, Fo, Bi: float, weight: int):
@@ -383,7 +376,6 @@ def short_time_quench(x, Fo, Bi: float, weight: int):
     .. [2] Abramowitz, M., and I. A. Stegun. Handbook of Mathematical Functions. NBS Applied Mathematics
        Series 55. Washington: US Government Printing Office, 1964, eq. 9.7.1.
     """
-    from scipy.special import erfc, erfcx
 
     x, Fo = np.broadcast_arrays(np.asarray(x, dtype=float), np.asarray(Fo, dtype=float))
     root = np.sqrt(Fo)
@@ -471,7 +463,7 @@ def _depths(depths, half: float) -> np.ndarray:
         raise InputError("depths", "depths must be numbers, [m]") from None
     deepest = half if math.isfinite(half) else MAX_SIZE
     if not np.all(np.isfinite(x)) or np.any((x < 0.0) | (x > deepest)):
-        raise InputError("depths", f"depths must lie from the surface to the centre, 0–{deepest * 1e3:g} mm")
+        raise InputError("depths", f"depths must lie from the surface to the centre, {length_range(0.0, deepest)}")
     return x
 
 

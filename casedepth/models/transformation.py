@@ -28,6 +28,7 @@ from typing import Callable
 
 import numpy as np
 
+from .. import formats
 from ..constants import ZERO_CELSIUS
 from ..errors import InputError
 from .hardness import (
@@ -861,8 +862,8 @@ def hardness_profile(composition, carbon, cooling_rate_700, quench_temperature, 
         t_t = float(_array(temper_temperature, "temper_temperature", *TEMPER_TEMPERATURE_RANGE, "K"))
         p = Hollomon_Jaffe_1945_parameter(t_t, temper_time)
         if p > TEMPER_PARAMETER_MAX:
-            raise InputError("temper_time", f"{temper_time / _HOUR:g} h at {t_t - ZERO_CELSIUS:g} °C tempers "
-                             f"beyond 2 h at 250 °C (Hollomon–Jaffe P ≤ {TEMPER_PARAMETER_MAX:.0f}), "
+            raise InputError("temper_time", f"{temper_time / _HOUR:g} h at {formats.typed(t_t - ZERO_CELSIUS, '°C')} "
+                             f"tempers beyond 2 h at 250 °C (Hollomon–Jaffe P ≤ {TEMPER_PARAMETER_MAX:.0f}), "
                              "where the model stops")
         drop = case_temper_softening_hrc(p)
         on_scale = hv_m >= HV_RANGE[0]  # martensite below 20 HRC (almost carbon-free) is left as it is

@@ -36,6 +36,7 @@ from dataclasses import dataclass
 from functools import lru_cache
 from typing import Callable
 
+from .. import formats
 from ..constants import GAS_CONSTANT as R, ZERO_CELSIUS
 from ..errors import InputError, SolverError
 from ..numerics.budget import check
@@ -153,14 +154,15 @@ class CompoundLayer:
         return "gamma'" if self.gamma_prime > 0.0 else "alpha"
 
     def describe(self) -> str:
-        """The layer in words, e.g. ``8.5 µm (ε 5.3 over γ′ 3.2 µm)``."""
+        """The layer in words, e.g. ``8.5 µm (ε 5.3 µm over γ′ 3.2 µm)``."""
         if self.thickness < 0.05e-6:
             return "none"
         if not self.split:
-            return f"{self.thickness * 1e6:.1f} µm"
+            return formats.thin_length(self.thickness)
         if self.epsilon < 0.05e-6:
-            return f"{self.thickness * 1e6:.1f} µm (γ′ only)"
-        return f"{self.thickness * 1e6:.1f} µm (ε {self.epsilon * 1e6:.1f} over γ′ {self.gamma_prime * 1e6:.1f} µm)"
+            return f"{formats.thin_length(self.thickness)} (γ′ only)"
+        return (f"{formats.thin_length(self.thickness)} (ε {formats.thin_length(self.epsilon)} over γ′ "
+                f"{formats.thin_length(self.gamma_prime)})")
 
 
 def _layer_parameters(T: float) -> tuple[float, float, float, float, float]:

@@ -13,7 +13,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .. import safety
+from .. import formats, safety
 from ..constants import ZERO_CELSIUS
 from ..errors import InputError, NotReachableError
 from ..units import as_number, both_lengths, length_range
@@ -72,8 +72,8 @@ class NitridingResult:
 
         s = self.setup
         lines = [f"Nitriding for {format_duration(self.time)} at {units.format_temperature(s.temperature)}, K_N "
-                 f"{s.nitriding_potential:.2f} atm^-1/2 ({100 * dissociation_for_potential(s.nitriding_potential):.0f} % "
-                 f"dissociation)",
+                 f"{formats.kn(s.nitriding_potential)} "
+                 f"({formats.percent(100 * dissociation_for_potential(s.nitriding_potential))} dissociation)",
                  f"  nitrided hardness depth {units.format_length(self.nitrided_depth)} ({s.limit_text}); {s.uncertainty}",
                  f"  compound layer          {self.layer.describe()}; surface phase {PHASE_NAMES[self.layer.surface_phase]}"]
         lines += [f"Warning: {w}" for w in self.warnings]
@@ -129,5 +129,5 @@ def nitriding_time(setup: NitridingSetup, target_depth: float) -> NitridingResul
     time = (target_depth / rate) ** 2 if rate > 0.0 else math.inf
     if time > SOAK_RANGE[1] * (1 + 1e-9):
         raise NotReachableError("target", f"{both_lengths(target_depth)} is not reached within 500 h at "
-                                f"{setup.temperature - ZERO_CELSIUS:.0f} °C")
+                                f"{formats.temperature(setup.temperature)}")
     return nitride(setup, max(time, SOAK_RANGE[0]))

@@ -12,7 +12,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field, replace
 from typing import Any, Mapping
 
-from .. import safety
+from .. import formats, safety
 from ..constants import ZERO_CELSIUS
 from ..errors import InputError
 from ..models.iron_nitrogen import PHASE_NAMES
@@ -66,7 +66,8 @@ def evaluate(values: Mapping[str, Any]) -> "NitridingOutcome":
         raise (error.renamed("case_max") if error.field == "target" else error) from None
     window = (values["compound_min"], values["compound_max"])
     if window[1] < window[0]:
-        raise InputError("compound_max", f"{window[1] * 1e6:g} µm is below the window's start ({window[0] * 1e6:g} µm)")
+        raise InputError("compound_max", f"{formats.typed(window[1] * 1e6, 'µm')} is below the window's start "
+                         f"({formats.typed(window[0] * 1e6, 'µm')})")
     warnings = list(results[1].warnings) + _curvature_warnings(values, high)
     try:
         # with two stages ticked, the plan's own schedule replaces the advice's
@@ -82,9 +83,9 @@ def evaluate(values: Mapping[str, Any]) -> "NitridingOutcome":
         except InputError as error:
             raise (error.renamed("case_max") if error.field == "target" else error) from None
         results[1] = staged
-        warnings.append(f"Two stages: {schedule.first_time / 3600:.1f} h at K_N {schedule.first_kn:.2f}, then "
-                        f"{schedule.second_time / 3600:.1f} h at K_N {schedule.second_kn:.2f}; the drawing window's "
-                        f"end times are for one stage at K_N {setup.nitriding_potential:.2f}.")
+        warnings.append(f"Two stages: {schedule.first_time / 3600:.1f} h at K_N {formats.kn(schedule.first_kn)}, then "
+                        f"{schedule.second_time / 3600:.1f} h at K_N {formats.kn(schedule.second_kn)}; the drawing "
+                        f"window's end times are for one stage at K_N {formats.kn(setup.nitriding_potential)}.")
     elif advice is not None and advice.message:
         warnings.append(advice.message)
     soaks = [(results[1].time, setup.nitriding_potential)] if schedule is None else schedule.stages
@@ -122,7 +123,7 @@ class NitridingOutcome(Outcome):
     quote: Quote | None = None  # the whole cycle: load, purges, heat-up, nitriding, cool-down
     segments: list = field(default_factory=list)  # (label, hours, end temperature [K], K_N or None)
     treatment: str = "nitriding"
-    potential_name = "nitriding potential K_N [atm^-½]"
+    potential_name = f"nitriding potential K_N [{formats.KN_UNIT}]"
     profile_name = "Nitrogen profile"
 
     @property
@@ -157,28 +158,29 @@ class NitridingOutcome(Outcome):
         setup, aim, two = self.setup, self.aim, self.schedule
         T = units.format_temperature(setup.temperature)
         if two is None:
-            how = (f"at {T}, K_N {setup.nitriding_potential:.2f} atm^-½ "
-                   f"({100 * dissociation_for_potential(setup.nitriding_potential):.0f} % dissociation)")
+            how = (f"at {T}, K_N {formats.kn(setup.nitriding_potential)} "
+                   f"({formats.percent(100 * dissociation_for_potential(setup.nitriding_potential))} dissociation)")
         else:
-            how = (f"at {T} in two stages: {format_duration(two.first_time)} at K_N {two.first_kn:.2f}, then "
-                   f"{format_duration(two.second_time)} at K_N {two.second_kn:.2f} "
-                   f"({100 * dissociation_for_potential(two.second_kn):.0f} % dissociation)")
+            how = (f"at {T} in two stages: {format_duration(two.first_time)} at K_N {formats.kn(two.first_kn)}, then "
+                   f"{format_duration(two.second_time)} at K_N {formats.kn(two.second_kn)} "
+                   f"({formats.percent(100 * dissociation_for_potential(two.second_kn))} dissociation)")
         gases = []
         for kn in self._potentials():
             d = dissociation_for_potential(kn)
-            gases.append(f"NH3 {100 * (1 - d):.0f} %, H2 {75 * d:.0f} %, N2 {25 * d:.0f} %")
+            gases.append(f"NH3 {formats.percent(100 * (1 - d))}, H2 {formats.percent(75 * d)}, "
+                         f"N2 {formats.percent(25 * d)}")
         facts = [
             Fact("window", "Drawing window", f"{units.format_length(self.low.nitrided_depth)} in "
                  f"{format_duration(self.low.time)}  to  {units.format_length(self.high.nitrided_depth)} in "
                  f"{format_duration(self.high.time)}"),
-            Fact("surface", "Compound layer", f"{aim.layer.describe()}; window {self.compound_window[0] * 1e6:g}–"
-                                              f"{self.compound_window[1] * 1e6:g} µm"),
+            Fact("surface", "Compound layer", f"{aim.layer.describe()}; window "
+                                              f"{formats.thin_range(*self.compound_window)}"),
             Fact("reached", "Surface phase at the end", PHASE_NAMES[aim.layer.surface_phase]),
             Fact("threshold", "K_N for the layer window",
-                 "—" if self.kn_for_window is None else f"{self.kn_for_window:.2f} atm^-½"),
-            Fact("equilibrium", "Hardness", f"core {setup.core:.0f} HV, under the layer {setup.surface:.0f} HV"),
+                 "—" if self.kn_for_window is None else formats.kn(self.kn_for_window)),
+            Fact("equilibrium", "Hardness", f"core {formats.hv(setup.core)}, under the layer {formats.hv(setup.surface)}"),
             Fact("uncertainty", "How sure", setup.uncertainty),
-            Fact("saturation", "Nitride formers", f"bind {setup.capacity:.2f} wt % N"),
+            Fact("saturation", "Nitride formers", f"bind {formats.nitrogen(setup.capacity)}"),
             Fact("probe", "Exhaust (ammonia feed)", "  then  ".join(gases)),
             quote_fact(self.quote),
         ]
@@ -200,12 +202,13 @@ class NitridingOutcome(Outcome):
         main = Panel("nitrogen [wt %]", Curve(shown.depth, shown.nitrogen,
                                               "nitrogen in the diffusion zone (dissolved, in nitrides and in excess)"),
                      Curve(final.depth, final.nitrogen, "at the end of nitriding") if scrubbing else None,
-                     [Level(setup.capacity, f"stoichiometric nitrides of all formers, {setup.capacity:.2f} %", "limit")],
+                     [Level(setup.capacity, f"stoichiometric nitrides of all formers, {formats.nitrogen(setup.capacity)}",
+                            "limit")],
                      (0.0, max(float(final.nitrogen.max()), setup.capacity, 0.05) * 1.25), "Nitrogen " + when, band)
         zone = setup.zone
         sharp = isinstance(zone, SharpFrontZone)
-        limit = (f"core + 50 HV = {setup.hardness_limit:.0f} HV" if setup.hardness_limit_hv is None
-                 else f"limit {setup.hardness_limit:.0f} HV")
+        limit = (f"core + 50 HV = {formats.hv(setup.hardness_limit)}" if setup.hardness_limit_hv is None
+                 else f"limit {formats.hv(setup.hardness_limit)}")
         hardness = Panel("hardness [HV]", Curve(shown.depth, shown.hardness, zone.label),
                          Curve(final.depth, final.hardness, "at the end of nitriding") if scrubbing else None,
                          [Level(setup.hardness_limit, limit, "threshold")],
@@ -218,9 +221,9 @@ class NitridingOutcome(Outcome):
 
     def describe_end(self) -> str:
         aim = self.aim
-        return (f"nitrided {aim.time / 3600:.4f} h at {aim.setup.temperature - ZERO_CELSIUS:.0f} C, K_N "
-                f"{aim.setup.nitriding_potential:.3g}; compound layer {aim.compound_layer * 1e6:.2f} um "
-                f"(epsilon {aim.layer.epsilon * 1e6:.2f} um); hardness from the {aim.setup.zone_model} zone model")
+        return (f"nitrided {aim.time / 3600:.4f} h at {formats.temperature(aim.setup.temperature)}, K_N "
+                f"{formats.kn(aim.setup.nitriding_potential)}; compound layer {formats.thin_length(aim.compound_layer)} "
+                f"(epsilon {formats.thin_length(aim.layer.epsilon)}); hardness from the {aim.setup.zone_model} zone model")
 
     def to_dict(self) -> dict:
         setup, aim = self.setup, self.aim
@@ -258,24 +261,25 @@ class NitridingOutcome(Outcome):
         setup, aim, (low, _, high) = self.setup, self.aim, self.targets
         kn = setup.nitriding_potential
         lines = [f"Nitriding time: {format_duration(aim.time)} ({aim.time / 3600:.1f} h) at "
-                 f"{units.format_temperature(setup.temperature)}, K_N {kn:.2f} atm^-1/2 "
-                 f"({100 * dissociation_for_potential(kn):.0f} % dissociation)"]
+                 f"{units.format_temperature(setup.temperature)}, K_N {formats.kn(kn)} "
+                 f"({formats.percent(100 * dissociation_for_potential(kn))} dissociation)"]
         if self.schedule is not None:
             two = self.schedule
-            lines.append(f"  in two stages          {format_duration(two.first_time)} at K_N {two.first_kn:.2f}, then "
-                         f"{format_duration(two.second_time)} at K_N {two.second_kn:.2f}")
+            lines.append(f"  in two stages          {format_duration(two.first_time)} at K_N {formats.kn(two.first_kn)}, "
+                         f"then {format_duration(two.second_time)} at K_N {formats.kn(two.second_kn)}")
         if high > low:
             lines.append(f"  drawing window          {units.format_length(low)} to {units.format_length(high)}: "
                          f"{format_duration(self.low.time)} to {format_duration(self.high.time)} (one stage)")
         lines += [f"  nitrided hardness depth {units.format_length(aim.nitrided_depth)} ({setup.limit_text}); "
                   f"{setup.uncertainty}",
                   f"  compound layer          {aim.layer.describe()}; surface phase {PHASE_NAMES[aim.layer.surface_phase]}",
-                  f"  layer window            {self.compound_window[0] * 1e6:g}–{self.compound_window[1] * 1e6:g} µm"
+                  f"  layer window            {formats.thin_range(*self.compound_window)}"
                   + ("" if self.kn_for_window is None else
-                     f": K_N {self.kn_for_window:.2f} ({100 * dissociation_for_potential(self.kn_for_window):.0f} % "
-                     f"dissociation) centres it in one stage"),
+                     f": K_N {formats.kn(self.kn_for_window)} "
+                     f"({formats.percent(100 * dissociation_for_potential(self.kn_for_window))} dissociation) centres it "
+                     f"in one stage"),
                   f"  steel                   {setup.steel.name} ({setup.steel.standard}); nitride formers bind "
-                  f"{setup.capacity:.2f} wt % N",
+                  f"{formats.nitrogen(setup.capacity)}",
                   f"  models                  {setup.models_text()}",
                   "Cycle quote:", self.quote.text()]
         lines += [f"Warning: {w}" for w in self.warnings]
@@ -285,20 +289,21 @@ class NitridingOutcome(Outcome):
     def sheet(self, units: DisplayUnits) -> SheetContent:
         s, a, (low, _, high) = self.setup, self.aim, self.targets
         lines = [f"Nitride {format_duration(a.time)} at {units.format_temperature(s.temperature)}, K_N "
-                 f"{s.nitriding_potential:.2f} atm^-1/2 ({100 * dissociation_for_potential(s.nitriding_potential):.0f} % "
-                 f"dissociation); window {units.format_length(low)}–{units.format_length(high)}: "
+                 f"{formats.kn(s.nitriding_potential)} "
+                 f"({formats.percent(100 * dissociation_for_potential(s.nitriding_potential))} dissociation); window "
+                 f"{units.format_length(low)}–{units.format_length(high)}: "
                  f"{format_duration(self.low.time)} to {format_duration(self.high.time)}",
                  f"Nitrided hardness depth {units.format_length(a.nitrided_depth)} ({s.limit_text}); "
                  f"compound layer {a.layer.describe()}",
                  f"How sure: {s.uncertainty}"]
         if self.schedule is not None:
             two = self.schedule
-            lines.append(f"In two stages: {format_duration(two.first_time)} at K_N {two.first_kn:.2f}, then "
-                         f"{format_duration(two.second_time)} at K_N {two.second_kn:.2f} "
-                         f"({100 * dissociation_for_potential(two.second_kn):.0f} % dissociation)")
+            lines.append(f"In two stages: {format_duration(two.first_time)} at K_N {formats.kn(two.first_kn)}, then "
+                         f"{format_duration(two.second_time)} at K_N {formats.kn(two.second_kn)} "
+                         f"({formats.percent(100 * dissociation_for_potential(two.second_kn))} dissociation)")
         lines.append(f"Models: {s.models_text()}")
-        rows = [[label, f"{hours:.2f}", units.format_temperature(t_end), "" if kn is None else f"{kn:.2f}",
-                 "" if kn is None else f"{100 * dissociation_for_potential(kn):.0f}"]
+        rows = [[label, f"{hours:.2f}", units.format_temperature(t_end), "" if kn is None else formats.kn_value(kn),
+                 "" if kn is None else formats.percent_value(100 * dissociation_for_potential(kn))]
                 for label, hours, t_end, kn in self.segments]
         shop = ShopDefaults.from_dict(self.values["shop"])
         band_t = shop.temperature_tolerance_c * (1.8 if units.imperial else 1.0)
@@ -311,22 +316,23 @@ class NitridingOutcome(Outcome):
             exhaust = ""
             if held:
                 d_low, d_high = (100 * dissociation_for_potential(kn * f) for f in (1 + band_k, 1 - band_k))
-                exhaust = f"{d_low:.0f}–{d_high:.0f} %"
+                exhaust = f"{formats.percent_value(d_low)}–{formats.percent(d_high)}"
             setpoints.append([label, format_clock(hours * 3600.0), temperature,
-                              f"K_N {kn:.2f} ±{100 * band_k:.0f} %" if held else "nitrogen" if "urge" in label else "",
+                              f"K_N {formats.kn(kn)} ±{formats.percent(100 * band_k)}" if held else
+                              "nitrogen" if "urge" in label else "",
                               exhaust])
         callout = [f"Nitrided hardness depth {units.format_length(low)}–{units.format_length(high)} at {s.limit_text} "
                    f"(aim {units.format_length(self.targets[1])})",
-                   f"Compound layer {self.compound_window[0] * 1e6:g}–{self.compound_window[1] * 1e6:g} µm"]
+                   f"Compound layer {formats.thin_range(*self.compound_window)}"]
         inspection = ["Coupon: a piece of the same steel heat, hardened and tempered with the parts, in the load "
                       "(common practice).",
                       f"Nitrided hardness depth: HV 0.5 traverse on the coupon's section, read at {s.limit_text} "
                       f"(DIN 50190-3 / ISO 18203); accept {units.format_length(low)}–{units.format_length(high)}.",
                       f"Compound layer: metallographic section (nital), measured at 500×; accept "
-                      f"{self.compound_window[0] * 1e6:g}–{self.compound_window[1] * 1e6:g} µm.",
+                      f"{formats.thin_range(*self.compound_window)}.",
                       "Surface hardness: HV 1 or HR15N on the coupon's surface, as the drawing states."]
         return SheetContent(lines, ["stage", "hours", "ends at", "K_N", "dissociation %"], rows, callout,
                             ["stage", "h:min", "temperature", "atmosphere", "dissociation"], setpoints, inspection,
                             [f"Bands: temperature ±{band_t:.0f}{units.temperature_unit.replace('°', ' °')}, K_N "
-                             f"±{100 * band_k:.0f} % (the shop's, Edit → Shop times and rates). Ammonia goes in only "
-                             f"after the nitrogen purge; purge again before opening the retort."])
+                             f"±{formats.percent(100 * band_k)} (the shop's, Edit → Shop times and rates). Ammonia goes "
+                             f"in only after the nitrogen purge; purge again before opening the retort."])

@@ -13,6 +13,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
+from .. import formats
 from ..errors import InputError, NotReachableError
 from ..models.iron_nitrogen import Lehrer_boundaries
 from ..numerics.roots import illinois
@@ -27,7 +28,8 @@ SECOND_STAGE_ABOVE_BOUNDARY = 1.05
 def _check_window(window: tuple[float, float]) -> tuple[float, float]:
     low, high = window
     if not (0.0 <= low <= high <= 100e-6):
-        raise InputError("compound_min", f"{low * 1e6:g}–{high * 1e6:g} µm is not a window within 0–100 µm")
+        raise InputError("compound_min", f"{formats.typed_range(low * 1e6, high * 1e6, 'µm')} is not a window within "
+                         "0–100 µm")
     return low, high
 
 
@@ -51,8 +53,9 @@ def potential_for_compound_layer(setup: NitridingSetup, time: float, window: tup
     lo, hi = math.log(max(alpha_gamma, KN_RANGE[0])), math.log(KN_RANGE[1])
     f_lo, f_hi = miss(lo), miss(hi)
     if f_hi < 0 or f_lo > 0:
-        raise NotReachableError("compound_max", f"a {aim * 1e6:.1f} µm layer in {time / 3600:.1f} h needs a K_N "
-                                f"outside {KN_RANGE[0]:g}–{KN_RANGE[1]:g}; change the time or the temperature")
+        raise NotReachableError("compound_max", f"a {formats.thin_length(aim)} layer in {time / 3600:.1f} h "
+                                f"needs a K_N outside {formats.typed_range(*KN_RANGE, formats.KN_UNIT)}; change the time "
+                                "or the temperature")
     return math.exp(illinois(miss, lo, f_lo, hi, f_hi, 1e-12, 1e-6 * aim))
 
 
@@ -83,8 +86,9 @@ def second_stage_potential(setup: NitridingSetup, second_kn: float | None) -> fl
     k1 = setup.nitriding_potential
     k2 = SECOND_STAGE_ABOVE_BOUNDARY * alpha_gamma if second_kn is None else second_kn
     if not (alpha_gamma <= k2 < k1):
-        raise InputError("kn_second", f"{k2:.3g} must lie between the α/γ′ boundary ({alpha_gamma:.3g}) and "
-                         f"the first stage's K_N ({k1:.3g})")
+        raise InputError("kn_second", f"{formats.typed(k2, formats.KN_UNIT)} must lie between the α/γ′ boundary "
+                         f"({formats.kn(alpha_gamma)}) and the first stage's K_N "
+                         f"({formats.typed(k1, formats.KN_UNIT)})")
     return k2
 
 
@@ -128,11 +132,13 @@ def two_stage_schedule(setup: NitridingSetup, total_time: float, window: tuple[f
     reach_low, reach_high = max(low, thinnest), min(high, thickest)
     if reach_low > reach_high:
         if thickest < low:
-            raise NotReachableError("compound_min", f"even {total_time / 3600:.1f} h at K_N {k1:.3g} gives only "
-                                    f"{thickest * 1e6:.1f} µm, under the window's {low * 1e6:g} µm; raise K_N")
+            raise NotReachableError("compound_min", f"even {total_time / 3600:.1f} h at K_N "
+                                    f"{formats.typed(k1, formats.KN_UNIT)} gives only {formats.thin_length(thickest)}, "
+                                    f"under the window's {formats.typed(low * 1e6, 'µm')}; raise K_N")
         raise NotReachableError("kn_second" if second_kn is not None else "compound_max",
-                                f"the second stage at K_N {k2:.3g} leaves at least {thinnest * 1e6:.1f} µm, over "
-                                f"the window's {high * 1e6:g} µm; lower the second K_N or widen the window")
+                                f"the second stage at K_N {formats.typed(k2, formats.KN_UNIT)} leaves at least "
+                                f"{formats.thin_length(thinnest)}, over the window's {formats.typed(high * 1e6, 'µm')}; "
+                                f"lower the second K_N or widen the window")
     aim = 0.5 * (reach_low + reach_high)
     return split(aim, shortest, thinnest - aim, total_time, thickest - aim)
 
@@ -161,11 +167,11 @@ def compound_layer_advice(setup: NitridingSetup, result: NitridingResult, window
         two = two_stage_schedule(setup, result.time, window, second_kn) if with_schedule else None
     except InputError:
         two = None
-    message = (f"The compound layer ({layer * 1e6:.1f} µm) is outside {window[0] * 1e6:g}–{window[1] * 1e6:g} µm at "
-               f"K_N {setup.nitriding_potential:.2f}; K_N {kn:.2f} would put it in the middle")
+    message = (f"The compound layer ({formats.thin_length(layer)}) is outside {formats.thin_range(*window)} at "
+               f"K_N {formats.kn(setup.nitriding_potential)}; K_N {formats.kn(kn)} would put it in the middle")
     if two is not None:
-        message += (f"; or nitride {two.first_time / 3600:.1f} h at K_N {two.first_kn:.2f}, then "
-                    f"{two.second_time / 3600:.1f} h at K_N {two.second_kn:.2f} (layer {two.layer.describe()})")
+        message += (f"; or nitride {two.first_time / 3600:.1f} h at K_N {formats.kn(two.first_kn)}, then "
+                    f"{two.second_time / 3600:.1f} h at K_N {formats.kn(two.second_kn)} (layer {two.layer.describe()})")
     return LayerAdvice(kn, two, message + ".")
 
 

@@ -18,6 +18,7 @@ import math
 from dataclasses import dataclass
 from functools import cached_property
 
+from .. import formats
 from ..constants import ZERO_CELSIUS
 from ..errors import InputError
 from ..models import nitrides
@@ -25,7 +26,7 @@ from ..models.iron_nitrogen import (DEFAULT_NITROGEN_DIFFUSIVITY, NITROGEN_DIFFU
                                     nitrogen_saturation_ferrite, surface_phase)
 from ..models.steels import Steel, nitriding_constants
 from ..numerics.roots import illinois
-from ..units import as_number
+from ..units import as_number, temperature_range
 from .layer import DEFAULT_LAYER_MODEL, LAYER_MODELS
 from .zone import DEFAULT_ZONE_MODEL, ZONE_MODELS, Precipitate, Zone, wagner_front_factor
 
@@ -104,7 +105,8 @@ Wagner_front_factor = wagner_front_factor  # the name earlier releases exported
 def _check_kn(K_N: float) -> None:
     K_N = as_number(K_N, "kn")
     if not (math.isfinite(K_N) and KN_RANGE[0] <= K_N <= KN_RANGE[1]):
-        raise InputError("kn", f"K_N = {K_N:g} atm^-1/2 is outside {KN_RANGE[0]:g}–{KN_RANGE[1]:g}")
+        raise InputError("kn", f"K_N = {formats.typed(K_N, formats.KN_UNIT)} is outside "
+                         f"{formats.typed_range(*KN_RANGE, formats.KN_UNIT)}")
 
 
 @dataclass(frozen=True)
@@ -130,9 +132,9 @@ class NitridingSetup:
         T = as_number(self.temperature, "temperature")
         lo, hi = TEMPERATURE_RANGE
         if not (math.isfinite(T) and lo <= T <= hi):
-            raise InputError("temperature", f"{T - ZERO_CELSIUS:.0f} °C is outside the gas-nitriding range "
-                             f"{lo - ZERO_CELSIUS:.0f}–{hi - ZERO_CELSIUS:.0f} °C (below the tempering temperature, "
-                             f"below the eutectoid of Fe–N at 590 °C)")
+            raise InputError("temperature", f"{formats.typed(T - ZERO_CELSIUS, '°C')} is outside the gas-nitriding "
+                             f"range, {temperature_range(lo, hi)}: below the tempering temperature, below the "
+                             f"eutectoid of Fe–N at 590 °C")
         _check_kn(self.nitriding_potential)
         if self.zone_model not in ZONE_MODELS:
             raise InputError("zone_model", f"unknown model {self.zone_model!r}; choose one of {', '.join(ZONE_MODELS)}")
@@ -143,18 +145,19 @@ class NitridingSetup:
                 continue
             value = as_number(value, name)
             if not (math.isfinite(value) and 100.0 <= value <= 1400.0):
-                raise InputError(name, f"{value:g} HV is outside 100–1400 HV")
+                raise InputError(name, f"{formats.typed(value, 'HV')} is outside 100–1400 HV")
         limit = self.hardness_limit
         if self.hardness_limit_hv is not None:
             value = as_number(self.hardness_limit_hv, "nitrided_limit")
             if not (math.isfinite(value) and 100.0 <= value <= 1400.0):
-                raise InputError("nitrided_limit", f"{value:g} HV is outside 100–1400 HV")
+                raise InputError("nitrided_limit", f"{formats.typed(value, 'HV')} is outside 100–1400 HV")
             if value <= self.core:
-                raise InputError("nitrided_limit", f"{value:g} HV must exceed the core hardness ({self.core:g} HV)")
+                raise InputError("nitrided_limit", f"{formats.typed(value, 'HV')} must exceed the core hardness "
+                                 f"({formats.typed(self.core, 'HV')})")
         surface = self.typical_surface if sharp else self.surface_hardness
         if surface is not None and surface <= limit:
-            raise InputError("surface_hardness", f"{surface:g} HV must exceed the hardness limit ({limit:g} HV) for a "
-                             f"nitrided hardness depth to exist")
+            raise InputError("surface_hardness", f"{formats.typed(surface, 'HV')} must exceed the hardness limit "
+                             f"({formats.typed(limit, 'HV')}) for a nitrided hardness depth to exist")
         if not (math.isfinite(as_number(self.diffusivity_multiplier, "n_multiplier")) and 0.1 <= self.diffusivity_multiplier <= 10.0):
             raise InputError("n_multiplier", f"{self.diffusivity_multiplier:g} is outside 0.1–10")
         if self.layer_model not in LAYER_MODELS:
@@ -176,8 +179,8 @@ class NitridingSetup:
     def limit_text(self) -> str:
         """The hardness limit in words: ``core 300 HV + 50 HV`` or ``400 HV``."""
         if self.hardness_limit_hv is None:
-            return f"core {self.core:.0f} HV + 50 HV"
-        return f"{self.hardness_limit:.0f} HV"
+            return f"core {formats.hv(self.core)} + 50 HV"
+        return formats.hv(self.hardness_limit)
 
     @property
     def typical_surface(self) -> float:

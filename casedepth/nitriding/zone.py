@@ -26,6 +26,7 @@ from typing import Callable
 
 import numpy as np
 
+from .. import formats
 from ..errors import NotReachableError
 from ..numerics.roots import illinois
 
@@ -361,4 +362,4 @@ def check_reached(zone: Zone, setup, what: str = "target") -> None:
     """Refuse a step whose zone never reaches the hardness limit (naming the parameter at fault)."""
     if zone.depth_rate() <= 0.0:
         raise NotReachableError(what, f"the diffusion zone of {setup.steel.name} at these settings reaches only "
-                                f"{zone.surface_hardness:.0f} HV, not the limit of {setup.hardness_limit:.0f} HV")
+                                f"{formats.hv(zone.surface_hardness)}, not the limit of {formats.hv(setup.hardness_limit)}")

@@ -23,6 +23,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from .. import formats
 from ..errors import InputError
 from ..units import both_lengths, length_range
 
@@ -95,8 +96,9 @@ class Geometry:
 
     def describe(self) -> str:
         if self.shape == "plate":
-            return "flat surface, thick section" if self.size is None else f"plate {self.size * 1e3:g} mm thick, both faces"
-        return f"{self.shape}, diameter {self.size * 1e3:g} mm"
+            return ("flat surface, thick section" if self.size is None else
+                    f"plate {formats.typed(self.size * 1e3, 'mm')} thick, both faces")
+        return f"{self.shape}, diameter {formats.typed(self.size * 1e3, 'mm')}"
 
 
 def graded_nodes(depth: float, cells: int, stretch: float, section: float = math.inf) -> np.ndarray:

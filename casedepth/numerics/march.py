@@ -10,12 +10,12 @@ re-taking that step with the shorter length, so every answer is as accurate as t
 from __future__ import annotations
 
 import math
-from typing import Callable
+from collections.abc import Callable
 
 import numpy as np
 
 from .roots import illinois
-from .solver import CarbonSolver, History, Profile, SurfaceCondition
+from .solver import CarbonSolver, History, Profile, SurfaceCondition, threshold_depth
 
 
 def land_on(depth_after: Callable[[float], float], target: float, step: float, depth_start: float,
@@ -32,50 +32,93 @@ def land_on(depth_after: Callable[[float], float], target: float, step: float, d
 
 
 class March:
-    """The solver ``solver`` marched on from its present state, with the depth where the carbon falls to
-    ``threshold`` [wt %] recorded after every step.
+    """The solver ``solver`` marched on from its present state, asked afterwards when the depth where the
+    carbon falls to ``threshold`` [wt %] reached a value.
 
-    Times are the solver's own [s] (the march starts at ``start_time``); depths in m.
+    Times are the solver's own [s] (the march starts at ``start_time``); depths in m. The depth after a
+    step is worked out only when asked (:attr:`depths`, :meth:`time_to`); while marching ``until`` a
+    depth, one comparison per step tells that the depth is still short of it (see :meth:`advance`).
     """
 
     def __init__(self, solver: CarbonSolver, threshold: float):
         self.solver = solver
         self.threshold = float(threshold)
         self.first = len(solver.history_time) - 1  # history index of the state the march starts from
-        self.depths = [solver.threshold_depth(self.threshold)]  # after every step since the start
+        self._depths: dict[int, float] = {}  # depth after step k of the march (0: the start), when asked
+        self._last_retake: Profile | None = None  # the last step re-taken by time_to, for profile_at
 
     @property
     def start_time(self) -> float:
         return self.solver.history_time[self.first]
 
     @property
+    def steps(self) -> int:
+        """Steps taken so far."""
+        return len(self.solver.history_time) - 1 - self.first
+
+    def depth_after(self, k: int) -> float:
+        """The threshold depth after step ``k`` of the march (0: where it started), [m]."""
+        if k not in self._depths:
+            solver = self.solver
+            self._depths[k] = threshold_depth(solver.nodes, solver.snapshot(self.first + k), self.threshold,
+                                              solver.geometry.half_section)
+        return self._depths[k]
+
+    @property
+    def depths(self) -> list[float]:
+        """The threshold depth after every step since the start, [m]."""
+        return [self.depth_after(k) for k in range(self.steps + 1)]
+
+    @property
     def depth(self) -> float:
         """The threshold depth now, [m]."""
-        return self.depths[-1]
+        return self.depth_after(self.steps)
 
     def advance(self, duration: float, condition: SurfaceCondition | Callable[[float], SurfaceCondition],
                 until: float = math.inf, max_step: float = math.inf) -> bool:
         """March ``duration`` [s] under ``condition`` (see :meth:`CarbonSolver.advance`), stopping early once
-        the depth reaches ``until`` [m]; True if it did. Only the march's own steps may move the solver."""
+        the depth reaches ``until`` [m]; True if it did. Only the march's own steps may move the solver.
 
-        def record(s: CarbonSolver) -> bool:
-            self.depths.append(s.threshold_depth(self.threshold))
-            return self.depths[-1] >= until
+        The depth is where the carbon *first* falls below the threshold going inward, so while the last
+        node above ``until`` is below the threshold the depth is short of ``until`` whatever the rest of
+        the profile: that one comparison saves working out the depth after most steps."""
+        if not math.isfinite(until):
+            self.solver.advance(duration, condition, None, max_step)
+            return False
+        threshold = self.threshold
 
-        self.solver.advance(duration, condition, record, max_step)
-        return self.depths[-1] >= until
+        def reached(s: CarbonSolver) -> bool:
+            shallower = int(np.searchsorted(s.nodes, until)) - 1  # the last node above ``until``
+            if shallower >= 0 and s.carbon[shallower] < threshold:
+                return False
+            return self.depth_after(self.steps) >= until
+
+        if self.depth >= until:
+            return True
+        self.solver.advance(duration, condition, reached, max_step)
+        return self.depth >= until
 
     def time_to(self, depth: float) -> float:
         """The time [s] at which the threshold depth reached ``depth`` [m] (the start time if it was there
         already). ``depth`` must not exceed :attr:`depth`."""
-        k = int(np.searchsorted(self.depths, depth, side="left"))
-        if k == 0:
+        # the first step after which the depth is at least ``depth``, by bisection: the case grows through a
+        # march, so only a few of the steps' depths need working out
+        low, high = 0, self.steps
+        if self.depth_after(0) >= depth:
             return self.start_time
+        while high - low > 1:
+            mid = (low + high) // 2
+            low, high = (low, mid) if self.depth_after(mid) >= depth else (mid, high)
+        k = high
         index = self.first + k
         solver = self.solver
         t0 = solver.history_time[index - 1]
-        tau = land_on(lambda tau: solver.retake(index, tau).depth_at(self.threshold), depth,
-                      solver.history_time[index] - t0, self.depths[k - 1], self.depths[k])
+
+        def retaken(tau: float) -> float:
+            self._last_retake = solver.retake(index, tau)
+            return self._last_retake.depth_at(self.threshold)
+
+        tau = land_on(retaken, depth, solver.history_time[index] - t0, self.depth_after(k - 1), self.depth_after(k))
         return t0 + tau
 
     def _index(self, time: float) -> int:
@@ -88,6 +131,9 @@ class March:
         if k < len(solver.history_time) and solver.history_time[k] == time:
             return Profile(solver.nodes, solver.snapshot(k), float(time), solver.geometry.half_section)
         k = self._index(time)
+        last = self._last_retake
+        if last is not None and last.time == time and len(last.carbon) == len(solver.nodes):
+            return last  # the step time_to re-took last, landing on this time
         return solver.retake(k, time - solver.history_time[k - 1])
 
     def history(self, time: float, profile: Profile | None = None) -> History:

@@ -10,6 +10,7 @@ from __future__ import annotations
 import math  # noqa: F401 (the example below uses it)
 from typing import Any, Callable
 
+from .. import formats
 from ..errors import SolverError
 from .budget import check
 
@@ -86,4 +87,5 @@ def secant_on_squares(trial: Callable[[float], tuple[float, float, Any]], goal: 
         slope = 1.0 if previous is None or previous[0] == used else (final**2 - previous[1]) / (used - previous[0])
         previous = (used, final**2)
         x = min(max(used + (goal**2 - final**2) / max(slope, 0.1), floor), ceiling)
-    raise SolverError(f"the stop for a final depth of {goal * 1e3:g} mm did not converge in {tries} trials")
+    raise SolverError(f"the stop for a final depth of {formats.typed(goal * 1e3, 'mm')} did not converge in {tries} "
+                      "trials")

@@ -8,23 +8,28 @@ the numbers printed on them, so tests and callers can check the paper against th
 from __future__ import annotations
 
 import datetime as _dt
+import functools
+import itertools
 import math
 import os
-from dataclasses import dataclass, field, replace
+from dataclasses import astuple, dataclass, field, replace
 from pathlib import Path
 
 import numpy as np
+from matplotlib import path as mpath
 from matplotlib.backends.backend_agg import FigureCanvasAgg
 from matplotlib.backends.backend_pdf import PdfPages
 from matplotlib.figure import Figure
+from matplotlib.font_manager import FontProperties
+from matplotlib.lines import Line2D
 from matplotlib.patches import Rectangle
 
-from .. import __version__, safety
+from .. import __version__, formats, safety
 from ..carburizing.setup import CarburizingSetup
 from ..carburizing.soak import carburize, soak_times_for_case_depths
 from ..errors import InputError, NotReachableError
 from ..files import atomic_write
-from ..models.hardness import HARDNESS_RELATIONS
+from ..models.hardness import ASTM_E140_hrc_to_hv, ASTM_E140_hv_to_hrc, HARDNESS_RELATIONS
 from ..nitriding.nitride import nitride, nitriding_time
 from ..nitriding.setup import NitridingSetup, dissociation_for_potential
 from ..outcome import Outcome
@@ -38,7 +43,9 @@ NITRIDED_METRIC_DEPTHS = (0.1, 0.2, 0.3, 0.4, 0.5, 0.6, 0.8)  # mm
 NITRIDED_IMPERIAL_DEPTHS = (0.004, 0.008, 0.012, 0.016, 0.020, 0.024, 0.030)  # in
 INK = "#1d3557"
 COLOURS = ("#1d3557", "#d1495b", "#2a9d8f", "#e9a03b", "#6c4f9c", "#6c757d")
-STAGES_PER_PAGE = 22
+SMALLEST = 7.0  # pt: no text on the printed papers is smaller, so each reads on paper
+MEASURE_DPI = 2400  # texts are measured at this resolution, where they are as wide as in the PDF to 0.5 %
+SPARE = 0.95  # the share of its place a text may fill: a raster (PNG, a print at 200 dpi) hints it up to 5 % wider
 
 
 @dataclass
@@ -83,10 +90,15 @@ def _axis_hours(hours: float | None, times: list[list[float]], choices: tuple[fl
     return next((h for h in choices if h >= longest), choices[-1])
 
 
-def _page(paper: str) -> Figure:
+def _paper_size(paper: str) -> tuple[float, float]:
+    """Width and height of ``paper`` [in], portrait."""
     if paper not in PAPER:
         raise InputError("paper", f"unknown paper {paper!r}; use a4 or letter")
-    return Figure(figsize=PAPER[paper])
+    return PAPER[paper]
+
+
+def _page(paper: str) -> Figure:
+    return Figure(figsize=_paper_size(paper))
 
 
 def _fitted(fig: Figure, x: float, y: float, text: str, width: float, **style):
@@ -94,14 +106,11 @@ def _fitted(fig: Figure, x: float, y: float, text: str, width: float, **style):
     as typed (no "$…$" read as mathematics), and a text too long for its place is cut with an ellipsis, measured
     in the font it is printed in, so it never runs into its neighbours or off the page."""
     artist = fig.text(x, y, text, parse_math=False, **style)
-    if not isinstance(fig.canvas, FigureCanvasAgg):
-        FigureCanvasAgg(fig)
-    renderer = fig.canvas.get_renderer()
-    limit = width * fig.bbox.width
+    font = artist.get_fontproperties()
+    limit = SPARE * width * fig.get_figwidth()
 
     def fits(candidate: str) -> bool:
-        artist.set_text(candidate)
-        return artist.get_window_extent(renderer).width <= limit
+        return _width(candidate, font.get_size_in_points(), font.get_style(), font.get_weight()) <= limit
 
     if fits(text):
         return artist
@@ -117,8 +126,9 @@ def _fitted(fig: Figure, x: float, y: float, text: str, width: float, **style):
 
 
 def _footer(fig: Figure, text: str, number: int, total: int) -> None:
-    _fitted(fig, 0.06, 0.025, text, 0.76, fontsize=6.5, color="#555")
-    fig.text(0.94, 0.025, f"page {number} of {total}", fontsize=6.5, color="#555", ha="right")
+    """The line at the foot of a page, with the page's number of how many (``page 1/2``)."""
+    _fitted(fig, 0.06, 0.025, text, 0.8, fontsize=SMALLEST, color="#555")
+    fig.text(0.94, 0.025, f"page {number}/{total}", fontsize=SMALLEST, color="#555", ha="right")
 
 
 def _table(ax, rows: list[list[str]], header: list[str], widths: list[float] | None = None, size: float = 8,
@@ -153,8 +163,8 @@ def case_depth_chart(setup: CarburizingSetup, temperatures: list[float] | None =
     u = DisplayUnits(units)
     variants = ([replace(setup, temperature=T) for T in temperatures] if temperatures
                 else [replace(setup, carbon_potential=p) for p in potentials])
-    labels = ([u.format_temperature(T) for T in temperatures] if temperatures
-              else [f"{p:.2f} %C" for p in potentials])
+    labels = ([formats.temperature(T, u) for T in temperatures] if temperatures
+              else [formats.carbon(p) for p in potentials])
     depths = [d * 1e-3 for d in METRIC_DEPTHS] if not u.imperial else [d * 0.0254 for d in IMPERIAL_DEPTHS]
     values: dict = {"depths": depths, "labels": labels, "soak_times": []}
     for variant in variants:
@@ -172,7 +182,7 @@ def case_depth_chart(setup: CarburizingSetup, temperatures: list[float] | None =
     top = _chart_heading(fig, f"Case-depth chart — {setup.steel.name}", _case_chart_lines(setup, temperatures, u),
                          date, shop, customer, logo) - 0.025
     ax = fig.add_axes([0.1, 0.50, 0.85, top - 0.50])
-    rows = [[u.format_length(d)] for d in depths]
+    rows = [[formats.length(d, u)] for d in depths]
     beyond = False
     for k, (variant, label) in enumerate(zip(variants, labels)):
         curve = carburize(variant, hours * 3600.0)
@@ -199,14 +209,14 @@ def case_depth_chart(setup: CarburizingSetup, temperatures: list[float] | None =
 def _case_chart_lines(setup: CarburizingSetup, temperatures, u: DisplayUnits) -> list[str]:
     """The case-depth chart's lines of settings and models."""
     steel = setup.steel
-    what = (f"carbon potential {setup.carbon_potential:.2f} %C" if temperatures
-            else f"temperature {u.format_temperature(setup.temperature)}")
+    what = (f"carbon potential {formats.carbon(setup.carbon_potential)}" if temperatures
+            else f"temperature {formats.temperature(setup.temperature, u)}")
     beta = "surface held at equilibrium" if math.isinf(setup.beta) else f"β = {setup.beta * 100:.3g} cm/s"
     relation = HARDNESS_RELATIONS[setup.hardness_relation]
     return [
-        f"{steel.standard}; core {steel.carbon:.3f} %C; {what}; threshold {setup.threshold}"
-        + ("" if setup.threshold.kind == "carbon" else f" (= {setup.threshold_carbon:.3f} %C"
-           + ((f", read from the quench: {setup.hardening.describe(u)}, at {u.format_length(setup.hardness_depth)})"
+        f"{steel.standard}; core {formats.carbon(steel.carbon)}; {what}; threshold {setup.threshold}"
+        + ("" if setup.threshold.kind == "carbon" else f" (= {formats.carbon(setup.threshold_carbon)}"
+           + ((f", read from the quench: {setup.hardening.describe(u)}, at {formats.length(setup.hardness_depth, u)})"
                if relation.structure else f", {relation.display})") if setup.threshold.is_hardness else ")")),
         f"Models: D {setup.diffusivity.display}; {beta}; alloy factor "
         + (f"{setup.alloy_factor:.3f} (Gunnarson)" if setup.alloy_factor_on else "off")
@@ -226,12 +236,12 @@ def nitriding_chart(setup: NitridingSetup, temperatures: list[float] | None = No
     if bool(temperatures) == bool(potentials):
         raise InputError("temperatures", "give several temperatures or several nitriding potentials (not both)")
     if hours is not None and not (1.0 <= hours <= 500.0):
-        raise InputError("hours", f"{hours:g} h is outside 1–500 h")
+        raise InputError("hours", f"{formats.typed(hours, 'h')} is outside 1–500 h")
     u = DisplayUnits(units)
     variants = ([replace(setup, temperature=T) for T in temperatures] if temperatures
                 else [replace(setup, nitriding_potential=k) for k in potentials])
-    labels = ([u.format_temperature(T) for T in temperatures] if temperatures
-              else [f"K_N {k:.2f}" for k in potentials])
+    labels = ([formats.temperature(T, u) for T in temperatures] if temperatures
+              else [f"K_N {formats.kn(k)}" for k in potentials])
     depths = ([d * 1e-3 for d in NITRIDED_METRIC_DEPTHS] if not u.imperial
               else [d * 0.0254 for d in NITRIDED_IMPERIAL_DEPTHS])
     values: dict = {"depths": depths, "labels": labels, "times": [], "compound_layers": []}
@@ -254,7 +264,7 @@ def nitriding_chart(setup: NitridingSetup, temperatures: list[float] | None = No
                          date, shop, customer, logo) - 0.025
     ax = fig.add_axes([0.1, 0.555, 0.85, top - 0.555])
     layer_ax = fig.add_axes([0.1, 0.425, 0.85, 0.10], sharex=ax)
-    rows = [[u.format_length(d)] for d in depths]
+    rows = [[formats.length(d, u)] for d in depths]
     beyond = False
     clock = np.linspace(0.0, hours, 121)[1:] * 3600.0
     for k, (variant, label) in enumerate(zip(variants, labels)):
@@ -265,7 +275,7 @@ def nitriding_chart(setup: NitridingSetup, temperatures: list[float] | None = No
         for t, layer, row in zip(values["times"][k], values["compound_layers"][k], rows):
             mark = " †" if t > hours * 3600.0 else ""
             beyond = beyond or bool(mark)
-            row.append("—" if math.isnan(t) else f"{format_duration(t)}  ({layer * 1e6:.0f} µm){mark}")
+            row.append("—" if math.isnan(t) else f"{format_duration(t)}  ({formats.thin_length(layer)}){mark}")
     ax.set_xlim(0, hours)
     ax.set_ylim(0, None)
     ax.set_ylabel(f"nitrided hardness depth [{u.length_unit}]")
@@ -288,109 +298,490 @@ def nitriding_chart(setup: NitridingSetup, temperatures: list[float] | None = No
 def _nitriding_chart_lines(setup: NitridingSetup, temperatures, u: DisplayUnits) -> list[str]:
     """The nitriding chart's lines of settings and models."""
     steel = setup.steel
-    what = (f"K_N {setup.nitriding_potential:.2f} atm^-1/2 "
-            f"({100 * dissociation_for_potential(setup.nitriding_potential):.0f} % dissociation)" if temperatures
-            else f"temperature {u.format_temperature(setup.temperature)}")
+    what = (f"K_N {formats.kn(setup.nitriding_potential)} "
+            f"({formats.percent(100 * dissociation_for_potential(setup.nitriding_potential))} dissociation)"
+            if temperatures
+            else f"temperature {formats.temperature(setup.temperature, u)}")
     calibrated = "" if setup.diffusivity_multiplier == 1.0 else f"; D_N × {setup.diffusivity_multiplier:g} (shop calibration)"
     return [
-        f"{steel.standard}; {what}; nitrided hardness depth at {setup.limit_text} (under the layer "
-        f"{setup.surface:.0f} HV at {u.format_temperature(setup.temperature)}); nitride formers bind "
-        f"{setup.capacity:.2f} wt % N",
-        f"Models: {setup.models_text()}{calibrated}. Uncertainty: {setup.uncertainty}; compound layer ±50 %. "
-        f"Time at temperature only: heat-up, purge and cool-down are not included.",
+        (f"{steel.standard}; {what}; nitrided hardness depth at {setup.limit_text} (under the layer "
+         f"{formats.hv(setup.surface)} at {formats.temperature(setup.temperature, u)}); nitride formers bind "
+         f"{formats.nitrogen(setup.capacity)}"),
+        (f"Models: {setup.models_text()}{calibrated}. Uncertainty: {setup.uncertainty}; compound layer ±50 %. "
+         f"Time at temperature only: heat-up, purge and cool-down are not included."),
     ]
 
 
+# -- the cycle plot's words: the window's cycle page and the floor's sheet name stages and moments alike -----------
+def draw_cycle_words(ax, line, colour: str = "#2a7f62", size: float = 7.0) -> tuple[list, list]:
+    """Shade every other stage of the cycle ``line`` (a :class:`~casedepth.outcome.Timeline`) in ``ax`` and write
+    each stage's first word and each moment (a purge, the atmosphere going in) with its dotted line; returns the
+    stages' names as (text, start [h], end [h]) and the moments' words, to be placed by :func:`place_cycle_words`
+    once the axes have their size."""
+    stages, moments = [], []
+    words = {"fontsize": size, "clip_on": True, "in_layout": False, "parse_math": False}
+    for i, (start, end, label) in enumerate(line.labels):
+        if i % 2 == 0:
+            ax.axvspan(start / 3600.0, end / 3600.0, color="#eef2f6", lw=0, zorder=0)
+        text = ax.text((start + end) / 7200.0, 0.0, label.split(" ")[0], transform=ax.get_xaxis_transform(),
+                       ha="center", va="bottom", color="#555", **words)
+        stages.append((text, start / 3600.0, end / 3600.0))
+    for time, what in line.markers:
+        ax.axvline(time / 3600.0, color=colour, lw=1.2, ls=":")
+        moments.append(ax.text(time / 3600.0, 0.97, what, transform=ax.get_xaxis_transform(), va="top", color=colour,
+                               style="italic", bbox={"boxstyle": "square,pad=0.15", "fc": "white", "ec": "none",
+                                                     "alpha": 0.85}, **words))
+    return stages, moments
+
+
+def place_cycle_words(ax, stages: list, moments: list, curves: list, gap: float = 2.0) -> None:
+    """Place the words of :func:`draw_cycle_words` where they are clear, measured in display units on the axes as
+    drawn now: each moment along the top, in the first row where it crosses no curve and no other word (after its
+    line, or before it near the right edge or where after it is not clear; on its white ground it may cover the
+    moments' dotted lines); each stage's name level if it fits in its span, else upright, at the lowest place in
+    its span where it keeps ``gap`` points from every curve in ``curves`` (the temperature, the potential, the
+    moments' lines) and from the other words. Words with no such place are left out (the stage table names the
+    stage; the dotted line still marks the moment)."""
+    if not stages and not moments:
+        return
+    for axes in {ax, *(curve.axes for curve in curves)}:  # limits still to be autoscaled are set now
+        axes.get_xlim(), axes.get_ylim()
+    x0, x1 = ax.get_xlim()
+    renderer = ax.figure.canvas.get_renderer()
+    frame = ax.get_window_extent(renderer)
+    pad = renderer.points_to_pixels(gap)
+    # (a moment's dotted line: the same time all the way up)
+    paths = [(len(set(curve.get_xdata())) == 1, path) for curve in curves if curve.get_visible()
+             for path in _drawn_runs(curve)]
+    taken: list = []
+
+    def clear(box, over_dotted_lines: bool = False) -> bool:
+        padded = box.padded(pad)
+        return (frame.x0 <= padded.x0 and padded.x1 <= frame.x1 and frame.y0 <= padded.y0 and padded.y1 <= frame.y1
+                and not any(padded.overlaps(o) for o in taken)
+                and not any(path.intersects_bbox(padded, filled=False) for dotted, path in paths
+                            if not (dotted and over_dotted_lines)))
+
+    rows = [0.97 - 0.1 * row for row in range(5)]
+    for text in moments:
+        time = text.get_position()[0]
+        word = text.get_text().strip()
+        sides = ("right", "left") if (time - x0) / max(x1 - x0, 1e-9) > 0.6 else ("left", "right")
+        text.set_visible(True)  # (an invisible text measures as nothing)
+        for side, y in itertools.product(sides, rows):
+            text.set(ha=side, text=f"{word} " if side == "right" else f" {word}")
+            if clear(_at(text, y, renderer), over_dotted_lines=True):
+                taken.append(text.get_window_extent(renderer))
+                break
+        else:
+            text.set_visible(False)
+    to_display = ax.transData.transform
+    for text, start, end in stages:
+        left, right = to_display([(start, 0.0), (end, 0.0)])[:, 0]
+        text.set_visible(True)  # (an invisible text measures as nothing)
+        text.set_visible(any(_lift(text, rotation, right - left, frame, clear, pad, renderer) for rotation in (0, 90)))
+        if text.get_visible():
+            taken.append(text.get_window_extent(renderer))
+
+
+def _lift(text, rotation: float, room: float, frame, clear, pad: float, renderer) -> bool:
+    """Turn a stage's name by ``rotation`` and set it at the lowest place where ``clear`` holds; False if it is
+    wider than its span (``room`` pixels) or no place is clear."""
+    text.set(rotation=rotation, y=0.0)
+    box = text.get_window_extent(renderer)
+    if box.width + 2 * pad > room or box.height > 0.45 * frame.height:
+        return False
+    lift = pad
+    while frame.y0 + lift + box.height + pad <= frame.y1:
+        if clear(box.translated(0.0, frame.y0 + lift - box.y0)):
+            text.set_y(lift / frame.height)
+            return True
+        lift += max(pad, 1.0)
+    return False
+
+
+def _drawn_runs(curve) -> list[mpath.Path]:
+    """The runs of a line as drawn, in display units: split where it has no value (NaN), as the line is."""
+    xy = curve.get_transform().transform(curve.get_xydata())
+    finite = np.isfinite(xy).all(axis=1)
+    runs = np.split(np.arange(len(xy)), np.flatnonzero(~finite))
+    return [mpath.Path(xy[run[finite[run]]]) for run in runs if finite[run].sum() > 1]
+
+
+def _at(text, y: float, renderer):
+    """Move ``text`` to ``y`` (axes fraction) and return where it is drawn now."""
+    text.set_y(y)
+    return text.get_window_extent(renderer)
+
+
 # -- process sheet (for the floor) and quote sheet (for the office) ----------------------------------------
+SHEET_MARGIN = 0.5  # in, left and right of every block
+SHEET_TOP = 0.3  # in, above the title block
+SHEET_FOOT = 0.5  # in, under the last block: the footer is in it
+HEADING = 9.5  # pt
+PITCH = 1.2  # line spacing, in font sizes
+
+
+@dataclass(frozen=True)
+class _Spacing:
+    """How roomy a process sheet is laid out [in]: between :data:`TIGHT` and :data:`ROOMY`, the roomiest that puts
+    the whole sheet on one page (see :func:`_one_page`); :data:`ROOMY` on a sheet of several pages."""
+
+    gap: float  # between blocks
+    plots: float  # the row of plots, titles and axis labels included
+    row: float  # a setpoint row: room to write a reading by hand
+
+    def towards(self, other: _Spacing, share: float) -> _Spacing:
+        """``share`` of the way from this spacing to ``other``."""
+        return _Spacing(*(a + (b - a) * share for a, b in zip(astuple(self), astuple(other))))
+
+
+TIGHT = _Spacing(0.07, 1.6, 0.19)
+ROOMY = _Spacing(0.14, 2.0, 0.23)
+
+
+@functools.cache
+def _measure():
+    """A renderer to measure text with, fine enough that the glyphs are measured as the PDF draws them (at a
+    screen's resolution, hinting makes them up to a tenth wider or narrower)."""
+    return FigureCanvasAgg(Figure(dpi=MEASURE_DPI)).get_renderer()
+
+
+@functools.lru_cache(maxsize=8192)
+def _width(text: str, size: float, style: str = "normal", weight: str | int = "normal") -> float:
+    """How wide ``text`` prints at ``size`` points [in]."""
+    font = FontProperties(size=size, style=style, weight=weight)
+    return _measure().get_text_width_height_descent(text, font, ismath=False)[0] / MEASURE_DPI
+
+
+@functools.lru_cache(maxsize=1024)
+def _wrap(text: str, size: float, width: float, indent: float = 0.0, style: str = "normal") -> tuple[str, ...]:
+    """``text`` in lines that print no wider than ``width`` [in] (the second and later ``indent`` narrower),
+    measured in the font they are printed in (a word at a time, with :data:`SPARE` to spare); a word longer than a
+    line is cut where the line ends."""
+    space = _width(" ", size, style)
+    lines: list[str] = []
+    line, used = "", 0.0
+    for word in text.split():
+        room = SPARE * (width - (indent if lines else 0.0))
+        wide = _width(word, size, style)
+        if line and used + space + wide <= room:
+            line, used = f"{line} {word}", used + space + wide
+            continue
+        if line:
+            lines.append(line)
+            room = SPARE * (width - indent)
+        while wide > room:  # no space to break at: cut where the line ends
+            low, high = 1, len(word)  # the longest start of the word that fits (at least a letter)
+            while low < high:
+                middle = (low + high + 1) // 2
+                low, high = (middle, high) if _width(word[:middle], size, style) <= room else (low, middle - 1)
+            lines.append(word[:low])
+            word = word[low:]
+            wide = _width(word, size, style)
+        line, used = word, wide
+    return tuple(lines + [line] if line else lines)
+
+
+class _Paper:
+    """A page of a sheet, measured in inches from its top left corner."""
+
+    def __init__(self, fig: Figure):
+        self.fig = fig
+        self.width, self.height = fig.get_size_inches()
+
+    def box(self, x: float, top: float, width: float, height: float) -> list[float]:
+        """A box on the page as figure fractions (left, bottom, width, height)."""
+        return [x / self.width, 1.0 - (top + height) / self.height, width / self.width, height / self.height]
+
+    def text(self, x: float, top: float, text: str, size: float, **style):
+        """``text`` with its top at ``top``, printed as typed (no "$…$" read as mathematics)."""
+        style = {"va": "top", **style}
+        return self.fig.text(x / self.width, 1.0 - top / self.height, text, fontsize=size, parse_math=False, **style)
+
+    def fitted(self, x: float, top: float, text: str, width: float, size: float, **style):
+        """``text`` cut with an ellipsis where ``width`` [in] ends (see :func:`_fitted`)."""
+        style = {"va": "top", **style}
+        return _fitted(self.fig, x / self.width, 1.0 - top / self.height, text, width / self.width, fontsize=size,
+                       **style)
+
+    def frame(self, x: float, top: float, width: float, height: float, **style) -> None:
+        left, bottom, w, h = self.box(x, top, width, height)
+        self.fig.patches.append(Rectangle((left, bottom), w, h, transform=self.fig.transFigure, fill=False, **style))
+
+    def axes(self, x: float, top: float, width: float, height: float):
+        return self.fig.add_axes(self.box(x, top, width, height))
+
+
+@dataclass
+class _Text:
+    """A heading and its paragraphs, each wrapped to the width it is printed in, its later lines indented (a
+    bullet's under its first word); the ``closing`` paragraphs in italic. Kept together on a page."""
+
+    heading: str
+    paragraphs: list[str]
+    size: float = 8.0
+    colour: str = INK
+    closing: tuple[str, ...] = ()
+
+    def _lines(self, width: float) -> list[tuple[float, float, str, str]]:
+        """(x offset [in], y offset [in], text, style) of every line, under the heading if there is one."""
+        rows, y = [], HEADING * PITCH / 72.0 if self.heading else 0.0
+        pitch, space = self.size * PITCH / 72.0, self.size * 0.15 / 72.0
+        for paragraph, style in [(p, "normal") for p in self.paragraphs] + [(p, "italic") for p in self.closing]:
+            indent = _width("• " if paragraph.startswith("• ") else "    ", self.size)
+            for i, line in enumerate(_wrap(paragraph, self.size, width, indent, style)):
+                rows.append((indent if i else 0.0, y, line, style))
+                y += pitch
+            y += space
+        return rows
+
+    def height(self, width: float, spacing: _Spacing) -> float:
+        rows = self._lines(width)
+        return (rows[-1][1] if rows else 0.0) + self.size * PITCH / 72.0
+
+    def draw(self, paper: _Paper, x: float, top: float, width: float, spacing: _Spacing) -> None:
+        if self.heading:
+            paper.fitted(x, top, self.heading, width, HEADING, weight="bold", color=self.colour)
+        for dx, dy, line, style in self._lines(width):
+            paper.text(x + dx, top + dy, line, self.size, style=style)
+
+
+@dataclass
+class _Columns:
+    """Blocks side by side, each its ``shares`` of the width."""
+
+    blocks: list
+    shares: tuple[float, ...]
+    between: float = 0.25  # in
+
+    def _widths(self, width: float) -> list[float]:
+        return [(width - self.between * (len(self.blocks) - 1)) * share for share in self.shares]
+
+    def height(self, width: float, spacing: _Spacing) -> float:
+        return max(block.height(w, spacing) for block, w in zip(self.blocks, self._widths(width)))
+
+    def draw(self, paper: _Paper, x: float, top: float, width: float, spacing: _Spacing) -> None:
+        for block, w in zip(self.blocks, self._widths(width)):
+            block.draw(paper, x, top, w, spacing)
+            x += w + self.between
+
+
+@dataclass
+class _Job:
+    """The job on the floor: furnace, load number, quantity, fixture (blanks to fill in where the plan has none),
+    each in at most ``most`` lines (what is longer is cut with an ellipsis)."""
+
+    items: list[tuple[str, str]]
+    size: float = 8.0
+    most: int = 2
+
+    def _lines(self, width: float) -> list[tuple[float, str]]:
+        """(x offset [in], text) of each line."""
+        rows = []
+        indent = _width("    ", self.size)
+        for label, text in self.items:
+            lines = _wrap(f"{label}: {text}", self.size, width, indent)
+            if len(lines) > self.most:
+                lines = (*lines[:self.most - 1], " ".join(lines[self.most - 1:]))
+            rows += [(indent if i else 0.0, line) for i, line in enumerate(lines)]
+        return rows
+
+    def height(self, width: float, spacing: _Spacing) -> float:
+        return (HEADING + self.size * len(self._lines(width))) * PITCH / 72.0
+
+    def draw(self, paper: _Paper, x: float, top: float, width: float, spacing: _Spacing) -> None:
+        paper.text(x, top, "Job", HEADING, weight="bold", color=INK)
+        for i, (dx, line) in enumerate(self._lines(width)):
+            paper.fitted(x + dx, top + (HEADING + i * self.size) * PITCH / 72.0, line, width - dx, self.size)
+
+
+@dataclass
+class _Plots:
+    """The row of plots: the profile and the hardness at the end of the cycle, and the cycle."""
+
+    outcome: Outcome
+    units: DisplayUnits
+
+    def height(self, width: float, spacing: _Spacing) -> float:
+        return spacing.plots
+
+    def draw(self, paper: _Paper, x: float, top: float, width: float, spacing: _Spacing) -> None:
+        above, below, side = 0.22, 0.40, 0.50  # in: title; tick labels and axis label; tick labels and axis label
+        plot = spacing.plots - above - below
+        slots = (0.26 * width, 0.26 * width, 0.48 * width)
+        profile = paper.axes(x + side, top + above, slots[0] - side - 0.12, plot)
+        # the hardness plot leaves room on its right for its Rockwell C scale (hrc_scale)
+        hardness = paper.axes(x + slots[0] + side, top + above, slots[1] - side - 0.42, plot)
+        cycle = paper.axes(x + slots[0] + slots[1] + side, top + above, slots[2] - 2 * side, plot)
+        _profiles(profile, hardness, self.outcome, self.units, plot)
+        _timeline(cycle, self.outcome, self.units, plot)
+
+
+@dataclass
+class _Setpoints:
+    """The setpoints (a row per stage, with the shop's bands and columns for the operator's readings) under their
+    heading, and the table's notes; rows that do not fit on a page go on to the next, under the header again."""
+
+    header: list[str]
+    rows: list[list[str]]
+    notes: list[str]
+    continued: bool = False
+    size: float = 7.5
+
+    def _notes(self) -> _Text:
+        return _Text("", self.notes, 7.5)
+
+    def height(self, width: float, spacing: _Spacing) -> float:
+        notes = self._notes().height(width, spacing) + 0.06 if self.notes else 0.0
+        return HEADING * PITCH / 72.0 + spacing.row * (len(self.rows) + 1) + notes
+
+    def split(self, room: float, width: float, spacing: _Spacing):
+        """The rows that fit in ``room`` [in] (at least two, or none) and the rest (at least one, with the notes)."""
+        fits = min(int((room - HEADING * PITCH / 72.0) / spacing.row + 1e-6) - 1, len(self.rows) - 1)
+        if fits < 2:
+            return None, self
+        return (_Setpoints(self.header, self.rows[:fits], [], self.continued, self.size),
+                _Setpoints(self.header, self.rows[fits:], self.notes, True, self.size))
+
+    def _widths(self, width: float) -> list[float]:
+        """Each column's share of ``width`` [in]: as wide as its widest cell (a cell's text starts a tenth of the
+        column in); the columns left blank for the operator share equally what the others leave."""
+        cells = [[_width(head, self.size, weight="bold")] + [_width(row[c], self.size) for row in self.rows]
+                 for c, head in enumerate(self.header)]
+        need = [max(column) / SPARE / 0.9 + 0.03 for column in cells]
+        blank = [c for c in range(len(self.header)) if not any(row[c] for row in self.rows)]
+        spare = width - sum(need)
+        if blank and spare > 0:
+            each = (sum(need[c] for c in blank) + spare) / len(blank)
+            need = [each if c in blank else w for c, w in enumerate(need)]
+        return [w / sum(need) for w in need]
+
+    def draw(self, paper: _Paper, x: float, top: float, width: float, spacing: _Spacing) -> None:
+        heading = ("Setpoints (continued)" if self.continued else
+                   "Setpoints: hold each within its band (the shop's); write the readings as the load runs")
+        paper.fitted(x, top, heading, width, HEADING, weight="bold", color=INK)
+        top += HEADING * PITCH / 72.0
+        height = spacing.row * (len(self.rows) + 1)
+        _table(paper.axes(x, top, width, height), self.rows, self.header, self._widths(width), size=self.size,
+               fill=True)
+        if self.notes:
+            self._notes().draw(paper, x, top + height + 0.06, width, spacing)
+
+
+class _Signatures:
+    """Boxes for who prepared and who approved the sheet, with dates, and the operator who ran the load."""
+
+    tall = 0.46  # in: room for a signature
+
+    def height(self, width: float, spacing: _Spacing) -> float:
+        return self.tall
+
+    def draw(self, paper: _Paper, x: float, top: float, width: float, spacing: _Spacing) -> None:
+        box = (width - 2 * 0.2) / 3
+        for i, label in enumerate(("Prepared", "Approved", "Load run by (operator)")):
+            left = x + i * (box + 0.2)
+            paper.frame(left, top, box, self.tall, edgecolor="#888888", lw=0.8)
+            paper.text(left + 0.05, top + 0.04, label, 7.5, color="#555")
+            paper.text(left + 0.05, top + self.tall - 0.04, "name, date", SMALLEST, color="#999", va="bottom")
+
+
+def _one_page(blocks: list, width: float, room: float) -> _Spacing | None:
+    """The roomiest spacing between :data:`TIGHT` and :data:`ROOMY` that puts ``blocks`` in ``room`` [in], or
+    None if even the tightest does not (the height of the blocks grows in proportion from one to the other)."""
+    def height(spacing: _Spacing) -> float:
+        return sum(block.height(width, spacing) for block in blocks) + spacing.gap * (len(blocks) - 1)
+
+    tight, roomy = height(TIGHT), height(ROOMY)
+    if tight > room:
+        return None
+    return TIGHT.towards(ROOMY, min(1.0, (room - tight) / max(roomy - tight, 1e-9)))
+
+
+def _flow(blocks: list, width: float, room: tuple[float, float], spacing: _Spacing) -> list[list[tuple]]:
+    """Blocks on pages, top to bottom: (block, offset under the page's heading [in]) for each page; ``room`` is
+    the height under the heading of the first page and of the later ones. A block that does not fit in what is
+    left of a page starts the next, a table its rows that do not fit."""
+    pages: list[list[tuple]] = [[]]
+    used, waiting = 0.0, list(blocks)
+    while waiting:
+        block = waiting.pop(0)
+        left = room[len(pages) > 1] - used
+        need = block.height(width, spacing)
+        first, rest = None, block
+        if need > left + 1e-6 and hasattr(block, "split"):  # (a layout that fills the page exactly fits)
+            first, rest = block.split(left, width, spacing)
+        if need <= left + 1e-6 or first is None and not pages[-1]:
+            pages[-1].append((block, used))  # it fits, or it is taller than a page and has one of its own
+            used += need + spacing.gap
+            continue
+        if first is not None:
+            pages[-1].append((first, used))
+        pages.append([])
+        used = 0.0
+        waiting.insert(0, rest)
+    return pages
+
+
 def process_sheet(plan, outcome: Outcome, paper: str = "a4", units: str = "metric", shop: str = "",
                   logo: str | None = None, revision: str = "A", date: _dt.date | None = None) -> Document:
-    """The process sheet of a plan and its outcome (from :func:`casedepth.plan.evaluate`), for the floor: the
-    job, the drawing's callout, the result, the profiles, warnings and cautions on the first page; the cycle,
-    every setpoint with its tolerance and a column for the operator's readings, the inspection and the
-    signatures on the next. Times in h:min; no money (that is the quote sheet's)."""
+    """The process sheet of a plan and its outcome (from :func:`casedepth.plan.evaluate`), for the floor, on one
+    page where it fits: the job, the drawing's callout, the steel, the result, the profiles and the cycle, every
+    setpoint with its tolerance and columns for the operator's readings, the inspection, warnings, cautions and the
+    signatures. A cycle of many stages flows onto further pages, each headed with the job and numbered. Times in
+    h:min; no money (that is the quote sheet's)."""
     u = DisplayUnits(units)
+    date = date or _dt.date.today()
+    blocks = _sheet_blocks(plan, outcome, u)
+    size = _paper_size(paper)
+    width = size[0] - 2 * SHEET_MARGIN
+    room = (size[1] - SHEET_TOP - _TITLE_HEIGHT - 0.12 - SHEET_FOOT, size[1] - SHEET_TOP - _CONTINUED - SHEET_FOOT)
+    spacing = _one_page(blocks, width, room[0]) or ROOMY
+    pages = _flow(blocks, width, room, spacing)
+    figures = []
+    for number, placed in enumerate(pages, 1):
+        page = _Paper(_page(paper))
+        figures.append(page.fig)
+        if number == 1:
+            top = _title_block(page, plan, shop, logo, revision, date) + 0.12
+        else:
+            top = _continued_heading(page, plan, revision, date)
+        for block, offset in placed:
+            block.draw(page, SHEET_MARGIN, top + offset, width, spacing)
+    footer = f"{plan.title}, revision {revision} — estimates; local codes and licensed practice govern"
+    for number, fig in enumerate(figures, 1):
+        _footer(fig, footer, number, len(figures))
+    return Document(figures, plan.title)
+
+
+def _sheet_blocks(plan, outcome: Outcome, u: DisplayUnits) -> list:
+    """What a process sheet carries, in the order it is printed."""
     content = outcome.sheet(u)
-    pages: list[Figure] = []
-    first = _page(paper)
-    pages.append(first)
-    _title_block(first, plan, shop, logo, revision, date or _dt.date.today())
-    y = _job_line(first, plan, outcome, 0.835)
-    if content.callout:
-        first.text(0.06, y, "Drawing callout", fontsize=10, weight="bold", color=INK)
-        y -= 0.02
-        for line in content.callout:
-            y = _wrapped(first, 0.06, y, line, 8.5, 120) - 0.016
-        y -= 0.008
     steel = outcome.setup.steel
     composition = "  ".join(f"{el} {val:g}" for el, val in steel.composition.items())
-    first.text(0.06, y, "Steel", fontsize=10, weight="bold", color=INK)
-    _fitted(first, 0.06, y - 0.02, f"{steel.name} — {steel.standard}; composition, wt %: {composition}", 0.88,
-            fontsize=8)
-    y -= 0.055
-    first.text(0.06, y, "Result", fontsize=10, weight="bold", color=INK)
-    y -= 0.02
-    for line in content.lines:
-        y = _wrapped(first, 0.06, y, line, 8, 118) - 0.017
-    quote = outcome.quote
-    if quote is not None:
-        y = _wrapped(first, 0.06, y, f"Whole cycle {format_clock(quote.total_h * 3600)} h:min (stages on the next "
-                                     f"page)", 8, 128) - 0.017
-    # the profiles fill what the lines above leave over the warnings (which start at 0.32)
-    height = min(0.22, max(0.13, y - 0.035 - 0.38))
-    top = min(0.60, y - 0.035)
-    profile_ax = first.add_axes([0.10, top - height, 0.38, height])
-    hardness_ax = first.add_axes([0.58, top - height, 0.36, height])
-    _profiles(profile_ax, hardness_ax, outcome, u)
-    warnings = list(outcome.warnings)
-    y = 0.32
-    if warnings:
-        first.text(0.06, y, "Warnings", fontsize=10, weight="bold", color="#8a5a00")
-        for w in warnings:
-            y -= 0.018
-            y = _wrapped(first, 0.06, y, f"• {w}", 8, 120)
-        y -= 0.02
-    first.text(0.06, y, "Safety", fontsize=10, weight="bold", color="#b00020")
-    for c in outcome.cautions:
-        y -= 0.018
-        y = _wrapped(first, 0.06, y, f"• {c.title}. {c.text}", 7.5, 125)
-    y -= 0.02
-    _wrapped(first, 0.06, y, safety.DEFERENCE, 7.5, 125, style="italic")
-    header = [*content.setpoint_header, "actual", "initials"] if content.setpoints else content.header
-    rows = [[*row, "", ""] for row in content.setpoints] if content.setpoints else content.rows
-    widths = ([0.25, 0.07, 0.12, 0.18, 0.14, 0.09, 0.10] if content.setpoints else [0.34, 0.12, 0.20, 0.17, 0.17])
-    chunks = [rows[i:i + STAGES_PER_PAGE] for i in range(0, len(rows), STAGES_PER_PAGE)] or [[]]
-    for index, chunk in enumerate(chunks):
-        page = _page(paper)
-        pages.append(page)
-        continued = f" (continued, {index + 1} of {len(chunks)})" if len(chunks) > 1 else ""
-        _fitted(page, 0.06, 0.95, f"{plan.title} — cycle and setpoints{continued}", 0.88, fontsize=12, weight="bold",
-                color=INK)
-        last = index == len(chunks) - 1
-        if index == 0:
-            ax = page.add_axes([0.10, 0.70, 0.78, 0.20])
-            _timeline(ax, outcome, u)
-        table_top = 0.62 if index == 0 else 0.90
-        table_height = min(0.022 * (len(chunk) + 1), table_top - 0.30)
-        table_ax = page.add_axes([0.06, table_top - table_height, 0.88, table_height])
-        _table(table_ax, chunk, header, widths, size=7.5, fill=True)
-        page.text(0.06, table_top + 0.012, "Setpoints: hold each within its band (the shop's tolerances); write the "
-                                           "readings as the load runs", fontsize=8.5, weight="bold", color=INK)
-        if last:
-            y = table_top - table_height - 0.025
-            if content.setpoint_notes:
-                for note in content.setpoint_notes:
-                    y = _wrapped(page, 0.06, y, note, 7.5, 125) - 0.015
-            y -= 0.02
-            if content.inspection:
-                page.text(0.06, y, "Inspection", fontsize=10, weight="bold", color=INK)
-                y -= 0.02
-                for line in content.inspection:
-                    y = _wrapped(page, 0.06, y, f"• {line}", 8, 120) - 0.016
-            _signatures(page, max(y - 0.03, 0.07))
-    footer = f"{plan.title} — revision {revision} — casedepth {__version__} — estimates; local codes and licensed practice govern"
-    for number, page in enumerate(pages, 1):
-        _footer(page, footer, number, len(pages))
-    return Document(pages, plan.title)
+    lines = list(content.lines)
+    if outcome.quote is not None:
+        lines.append(f"Whole cycle {format_clock(outcome.quote.total_h * 3600)} h:min (every stage in the setpoints)")
+    if content.setpoints:
+        header, rows = [*content.setpoint_header, "actual", "initials"], [[*r, "", ""] for r in content.setpoints]
+    else:
+        header, rows = content.header, content.rows
+    top = [_Text("Steel", [f"{steel.name} — {steel.standard}", f"composition, wt %: {composition}"]),
+           _Job(_job_items(plan, outcome))]
+    if content.callout:
+        top.insert(0, _Text("Drawing callout", content.callout, 8.5))
+    blocks = [_Columns(top, (0.40, 0.30, 0.30) if content.callout else (0.55, 0.45)),
+              _Text("Result", lines),
+              _Plots(outcome, u),
+              _Setpoints(header, rows, list(content.setpoint_notes))]
+    if content.inspection:
+        blocks.append(_Text("Inspection", [f"• {line}" for line in content.inspection]))
+    if outcome.warnings:
+        blocks.append(_Text("Warnings", [f"• {w}" for w in outcome.warnings], colour="#8a5a00"))
+    blocks += [_Text("Safety", [f"• {c.title}. {c.text}" for c in outcome.cautions], 7.5, "#b00020",
+                     (safety.DEFERENCE,)),
+               _Signatures()]
+    return blocks
 
 
 def quote_sheet(plan, outcome: Outcome, paper: str = "a4", units: str = "metric", shop: str = "",
@@ -398,9 +789,10 @@ def quote_sheet(plan, outcome: Outcome, paper: str = "a4", units: str = "metric"
     """The quote for the office: every stage's time, the whole cycle, the furnace rate, the cost per load and per
     part (with the shop's currency), on one page."""
     quote = outcome.quote
-    page = _page(paper)
-    _title_block(page, plan, shop or "Quote", logo, revision, date or _dt.date.today())
-    money = f" {quote.currency}" if quote.currency else ""
+    sheet = _Paper(_page(paper))
+    _title_block(sheet, plan, shop or "Quote", logo, revision, date or _dt.date.today())
+    page = sheet.fig
+    currency = quote.currency
     shop_values = outcome.values.get("shop", {})
     rate = shop_values.get("furnace_rate_per_h")
     parts = plan.values().get("quantity") or shop_values.get("parts_per_load")
@@ -409,62 +801,37 @@ def quote_sheet(plan, outcome: Outcome, paper: str = "a4", units: str = "metric"
     defaults = ShopDefaults.from_dict(shop_values)
     rate = defaults.furnace_rate_per_h if rate is None else rate
     parts = defaults.parts_per_load if parts is None else parts
-    rows = [[label, f"{hours:.2f}", format_clock(hours * 3600), f"{hours * rate:.2f}{money}"]
+    rows = [[label, f"{hours:.2f}", format_clock(hours * 3600), formats.money(hours * rate, currency)]
             for label, hours in quote.lines]
     rows.append(["Whole cycle", f"{quote.total_h:.2f}", format_clock(quote.total_h * 3600),
-                 f"{quote.cost_per_load:.2f}{money}"])
+                 formats.money(quote.cost_per_load, currency)])
     page.text(0.06, 0.82, "Cycle and cost", fontsize=10, weight="bold", color=INK)
     height = min(0.024 * (len(rows) + 1), 0.55)
     _table(page.add_axes([0.06, 0.80 - height, 0.88, height]), rows, ["stage", "hours", "h:min", "cost"],
            [0.46, 0.16, 0.16, 0.22], size=8, fill=True)
     y = 0.80 - height - 0.04
-    for line in (f"Furnace rate {rate:.2f}{money} per hour; {parts:.0f} parts per load.",
-                 f"Cost per load {quote.cost_per_load:.2f}{money}; per part {quote.cost_per_part:.3f}{money}.",
-                 f"Treatment: {outcome.summary(DisplayUnits(units)).headline.lower()} "
-                 f"{outcome.summary(DisplayUnits(units)).subline}."):
+    summary = outcome.summary(DisplayUnits(units))
+    for line in (f"Furnace rate {formats.money(rate, currency)} per hour; {parts:.0f} parts per load.",
+                 (f"Cost per load {formats.money(quote.cost_per_load, currency)}; per part "
+                  f"{formats.piece_price(quote.cost_per_part, currency)}."),
+                 f"Treatment: {summary.headline.lower()} {summary.subline}."):
         y = _wrapped(page, 0.06, y, line, 9, 110) - 0.02
     _footer(page, f"{plan.title} — quote — casedepth {__version__} — estimates from the shop's standard times and rate",
             1, 1)
     return Document([page], f"Quote {plan.title}")
 
 
-def _job_line(fig: Figure, plan, outcome: Outcome, y: float) -> float:
-    """The job on the floor under the title block: furnace, load number, quantity, fixture (blanks to fill in
-    where the plan has none); returns where the next block starts."""
+def _job_items(plan, outcome: Outcome) -> list[tuple[str, str]]:
+    """Furnace, load number, quantity and fixture of the job (a blank to fill in where the plan has none)."""
     values = plan.values()
-    shop_values = outcome.values.get("shop", {})
-    quantity = values.get("quantity") or shop_values.get("parts_per_load")
+    quantity = values.get("quantity") or outcome.values.get("shop", {}).get("parts_per_load")
     if quantity is None:
         from ..shop.quote import ShopDefaults
 
         quantity = ShopDefaults().parts_per_load
     blank = "________"
-    items = [("Furnace", values.get("furnace") or blank), ("Load no.", values.get("load_number") or blank),
-             ("Quantity", f"{quantity:.0f}"), ("Fixture", values.get("fixture") or blank)]
-    x = 0.06
-    for (label, text), width in zip(items, (0.20, 0.16, 0.12, 0.40)):
-        _fitted(fig, x, y, f"{label}: {text}", width - 0.01, fontsize=8.5)
-        x += width
-    return y - 0.04
-
-
-def _signatures(fig: Figure, y: float) -> None:
-    """Boxes for who prepared and who approved the sheet, with dates, and the operator who ran the load."""
-    for i, label in enumerate(("Prepared", "Approved", "Load run by (operator)")):
-        x = 0.06 + i * 0.30
-        fig.patches.append(Rectangle((x, y - 0.045), 0.27, 0.05, transform=fig.transFigure, fill=False,
-                                     edgecolor="#888888", lw=0.8))
-        fig.text(x + 0.005, y - 0.008, label, fontsize=7.5, color="#555")
-        fig.text(x + 0.005, y - 0.04, "name, date", fontsize=6.5, color="#999")
-
-
-def _quote_line(quote) -> list[str]:
-    if quote is None:
-        return []
-    money = f" {quote.currency}" if quote.currency else ""
-    parts = ", ".join(f"{label} {hours:.2f} h" for label, hours in quote.lines)
-    return [f"Whole cycle {quote.total_h:.2f} h ({format_duration(quote.total_h * 3600)}): {parts}; cost "
-            f"{quote.cost_per_load:.2f}{money} per load, {quote.cost_per_part:.3f}{money} per part"]
+    return [("Furnace", values.get("furnace") or blank), ("Load no.", values.get("load_number") or blank),
+            ("Quantity", f"{quantity:.0f}"), ("Fixture", values.get("fixture") or blank)]
 
 
 def _logo(fig: Figure, logo: str | None, box: list[float]) -> bool:
@@ -484,63 +851,119 @@ def _logo(fig: Figure, logo: str | None, box: list[float]) -> bool:
     return True
 
 
-def _title_block(fig: Figure, plan, shop: str, logo: str | None, revision: str, date: _dt.date) -> None:
-    fig.patches.append(Rectangle((0.05, 0.86), 0.90, 0.11, transform=fig.transFigure, fill=False, edgecolor=INK, lw=1.2))
-    left = 0.17 if _logo(fig, logo, [0.065, 0.87, 0.09, 0.09]) else 0.07
+_TITLE_HEIGHT = 0.9  # in: the title block of a sheet's first page
+_CONTINUED = 0.62  # in: the heading of a later page, and the gap under it
+
+
+def _title_block(page: _Paper, plan, shop: str, logo: str | None, revision: str, date: _dt.date) -> float:
+    """The title block of a sheet's first page (shop, title, part, notes; revision, date, treatment); returns where
+    it ends [in from the top]."""
+    top, right = SHEET_TOP, page.width - SHEET_MARGIN
+    page.frame(SHEET_MARGIN - 0.1, top, page.width - 2 * SHEET_MARGIN + 0.2, _TITLE_HEIGHT, edgecolor=INK, lw=1.2)
+    drawn = _logo(page.fig, logo, page.box(SHEET_MARGIN, top + 0.1, 0.8, 0.8))
+    left = SHEET_MARGIN + (0.95 if drawn else 0.05)
     # what people type is printed as typed, each in its own place: the left column up to the right one's
-    words = 0.72 - left
-    _fitted(fig, left, 0.945, shop or "Process sheet", words, fontsize=9, color="#555")
-    _fitted(fig, left, 0.915, plan.title, words, fontsize=14, weight="bold", color=INK)
-    _fitted(fig, left, 0.89, f"Part: {plan.part or '—'}", words, fontsize=9)
-    _fitted(fig, 0.93, 0.945, f"Revision {revision}", 0.19, fontsize=9, ha="right")
-    fig.text(0.93, 0.925, f"Date {date.isoformat()}", fontsize=9, ha="right")
-    fig.text(0.93, 0.905, TREATMENTS[plan.treatment].label, fontsize=9, ha="right")
+    words = right - 1.3 - left
+    page.fitted(left, top + 0.12, shop or "Process sheet", words, 9, color="#555")
+    page.fitted(left, top + 0.32, plan.title, words, 14, weight="bold", color=INK)
+    page.fitted(left, top + 0.54, f"Part: {plan.part or '—'}", words, 9)
+    page.fitted(right - 0.05, top + 0.12, f"Revision {revision}", 1.2, 9, ha="right")
+    page.text(right - 0.05, top + 0.32, f"Date {date.isoformat()}", 9, ha="right")
+    page.text(right - 0.05, top + 0.52, TREATMENTS[plan.treatment].label, 9, ha="right")
+    page.text(right - 0.05, top + 0.72, f"casedepth {__version__}", 7.5, ha="right", color="#555")
     if plan.notes.strip():
-        _fitted(fig, left, 0.868, plan.notes.strip().splitlines()[0], 0.93 - left, fontsize=7.5, style="italic",
-                color="#333")
+        page.fitted(left, top + 0.72, plan.notes.strip().splitlines()[0], words, 7.5, style="italic", color="#333")
+    return top + _TITLE_HEIGHT
 
 
-def _profiles(ax, hax, outcome: Outcome, u: DisplayUnits) -> None:
-    """The two profile plots of the process sheet: what the window shows at the end of the cycle."""
+def _continued_heading(page: _Paper, plan, revision: str, date: _dt.date) -> float:
+    """The heading of a later page: the job again (title, part, load, furnace, revision, date), so a page that
+    comes loose still says which load it belongs to; returns where the page's blocks start [in from the top]."""
+    width = page.width - 2 * SHEET_MARGIN
+    values = plan.values()
+    page.fitted(SHEET_MARGIN, SHEET_TOP, f"{plan.title} (continued)", width, 12, weight="bold", color=INK)
+    job = [f"Part: {plan.part or '—'}", f"Load no.: {values.get('load_number') or '________'}",
+           f"Furnace: {values.get('furnace') or '________'}", f"Revision {revision}", f"Date {date.isoformat()}"]
+    page.fitted(SHEET_MARGIN, SHEET_TOP + 0.26, "   ·   ".join(job), width, 8.5)
+    line = page.box(SHEET_MARGIN, SHEET_TOP + 0.47, width, 0.0)
+    page.fig.add_artist(Line2D([line[0], line[0] + line[2]], [line[1], line[1]], transform=page.fig.transFigure,
+                               color=INK, lw=0.8))
+    return SHEET_TOP + _CONTINUED
+
+
+def _hv_to_hrc(hv):
+    return ASTM_E140_hv_to_hrc(np.clip(hv, 238.0, 940.0))
+
+
+def _hrc_to_hv(hrc):
+    return ASTM_E140_hrc_to_hv(np.clip(hrc, 20.0, 68.0))
+
+
+def hrc_scale(axis, size: float | None = None):
+    """A Rockwell C scale on the right of a hardness plot in HV, by the conversion of ASTM E140 where it is
+    tabulated (20–68 HRC; held at its ends beyond); the window's hardness page and the sheet both draw it."""
+    scale = axis.secondary_yaxis("right", functions=(_hv_to_hrc, _hrc_to_hv))
+    scale.set_ylabel("[HRC]", fontsize=size)
+    if size is not None:
+        scale.tick_params(labelsize=SMALLEST)
+    return scale
+
+
+def _profiles(ax, hax, outcome: Outcome, u: DisplayUnits, height: float) -> None:
+    """The two profile plots of the process sheet (``height`` [in] of the plots): what the window shows at the end
+    of the cycle."""
     view = outcome.view()
     low, aim, high = view.targets
     for axis, panel in ((ax, view.main), (hax, view.hardness)):
         axis.axvspan(u.length(low), u.length(high), color="#7fb685", alpha=0.25, lw=0)
         axis.axvline(u.length(aim), color="#7fb685", lw=1)
         axis.grid(True, color="#dddddd", lw=0.5)
-        axis.tick_params(labelsize=7)
-        axis.set_xlabel(f"depth [{u.length_unit}]", fontsize=8)
-        axis.plot(u.length(panel.curve.depth), panel.curve.values, color=INK, lw=1.6)
+        axis.tick_params(labelsize=SMALLEST)
+        axis.set_xlabel(f"depth [{u.length_unit}]", fontsize=7.5)
+        axis.plot(u.length(panel.curve.depth), panel.curve.values, color=INK, lw=1.4)
         for level in panel.levels:
             if level.style == "threshold":
                 axis.axhline(level.value, color="#d1495b", ls="--", lw=1)
         if panel.band is not None:
             axis.axvspan(0.0, u.length(panel.band[0]), color="#c9c9c9", alpha=0.8, lw=0)
-        axis.set_ylabel(panel.quantity, fontsize=8)
+        axis.set_ylabel(_axis_label(panel.quantity, 7.5, height), fontsize=7.5)
         axis.set_xlim(0, u.length(view.reach))
-    ax.set_title("Profile at the end", fontsize=9)
-    hax.set_title("Estimated hardness", fontsize=9)
+    if "HV" in view.hardness.quantity:
+        hrc_scale(hax, 7.5)
+    ax.set_title("Profile at the end", fontsize=8)
+    hax.set_title("Estimated hardness", fontsize=8)
 
 
-def _timeline(ax, outcome: Outcome, u: DisplayUnits) -> None:
+def _axis_label(text: str, size: float, room: float) -> str:
+    """An axis label in lines that fit beside an axis ``room`` [in] long."""
+    return "\n".join(_wrap(text, size, room))
+
+
+def _timeline(ax, outcome: Outcome, u: DisplayUnits, height: float) -> None:
+    """The cycle on the sheet (``height`` [in] of the plot): temperature and potential, the stages and moments
+    named as the window names them (:func:`draw_cycle_words`)."""
     line = outcome.timeline()
-    times, temps, pots = line.times, line.temperatures, line.potentials
-    ax.plot(times / 3600, [u.temperature(t) for t in temps], color=INK, lw=1.8)
-    ax.set_ylabel(f"temperature [{u.temperature_unit}]", fontsize=8)
-    ax.set_xlabel("time in the cycle [h]", fontsize=8)
+    hours = line.times / 3600
+    shown = np.array([u.temperature(t) for t in line.temperatures])
+    ax.plot(hours, shown, color=INK, lw=1.4)
+    ax.set_ylabel(_axis_label(f"temperature [{u.temperature_unit}]", 7.5, height), fontsize=7.5)
+    ax.set_xlabel("time in the cycle [h]", fontsize=7.5)
     ax.grid(True, color="#dddddd", lw=0.5)
-    ax.tick_params(labelsize=7)
+    ax.tick_params(labelsize=SMALLEST)
+    # headroom over the curves: the top of the plot is where the moments are named
+    ax.set_ylim(min(0.0, float(np.nanmin(shown))), float(np.nanmax(shown)) * 1.3)
     pax = ax.twinx()
-    pax.plot(times / 3600, pots, color="#d1495b", ls="--", lw=1.4)
-    pax.set_ylabel(line.potential_name, fontsize=8, color="#d1495b")
-    pax.tick_params(labelsize=7)
-    if np.isfinite(pots).any():
-        pax.set_ylim(0, max(line.potential_floor, np.nanmax(pots) * 1.15))
-    for time, text in getattr(line, "markers", ()):  # where the purge ends and the atmosphere goes in
-        ax.axvline(time / 3600, color="#888888", ls=":", lw=0.9)
-        ax.text(time / 3600, 0.97, f" {text}", transform=ax.get_xaxis_transform(), fontsize=6.5, color="#555",
-                va="top", ha="left")
-    ax.set_title(f"Temperature (solid) and {line.potential_name.split(' [')[0]} (dashed)", fontsize=9)
+    pax.plot(hours, line.potentials, color="#d1495b", ls="--", lw=1.2)
+    ax.set_xlim(0, max(hours[-1], 0.1))
+    pax.set_ylabel(_axis_label(line.potential_name, 7.5, height), fontsize=7.5, color="#d1495b")
+    pax.tick_params(labelsize=SMALLEST)
+    finite = np.isfinite(line.potentials)
+    pax.set_ylim(0, max(line.potential_floor, float(np.nanmax(line.potentials)) * 1.3) if finite.any()
+                 else line.potential_floor)
+    ax.set_title("The cycle: temperature solid, potential dashed", fontsize=8)
+    stages, moments = draw_cycle_words(ax, line, colour="#555", size=SMALLEST)
+    FigureCanvasAgg(ax.figure)  # the words are placed as the page will draw them
+    place_cycle_words(ax, stages, moments, [*ax.get_lines(), *pax.get_lines()])
 
 
 def _wrapped(fig: Figure, x: float, y: float, text: str, size: float, width: int, style: str = "normal") -> float:

@@ -19,12 +19,13 @@ import re
 from dataclasses import dataclass, field as _field, replace
 from typing import Sequence
 
+from .. import formats
 from ..errors import InputError, NotReachableError
 from ..numerics.roots import illinois
 from ..parameters import PARAMETERS
 from ..plan import Plan, evaluate
 from ..treatments import treatment_of
-from ..units import both_lengths, parse_length, parse_number
+from ..units import DisplayUnits, both_lengths, parse_length, parse_number
 
 MULTIPLIER_RANGE = PARAMETERS["d_multiplier"].range
 SOAK_RANGE = (60.0, 200 * 3600.0)  # s
@@ -41,8 +42,8 @@ _EDGE = 1e-3
 
 
 def _depth(metres: float) -> str:
-    """A computed depth for sentences, to the micrometre: ``0.407 mm (0.0160 in)``."""
-    return f"{metres * 1e3:.3f} mm ({metres / 0.0254:.4f} in)"
+    """A computed depth for sentences, in both systems: ``0.41 mm (0.016 in)``."""
+    return f"{formats.length(metres)} ({formats.length(metres, DisplayUnits('imperial'))})"
 
 
 @dataclass
@@ -116,18 +117,18 @@ class TraverseCalibration:
 
     def describe(self) -> str:
         text = (f"Multiplier {self.multiplier:.3f} fits the hardness traverse ({len(self.readings)} readings after "
-                f"{self.soak_time / 3600:g} h): RMS misfit {self.rms_after:.1f} HV, against {self.rms_before:.1f} HV "
-                f"with the present multiplier {self.present:.3f}. ")
+                f"{self.soak_time / 3600:g} h): RMS misfit {formats.hv(self.rms_after)}, against "
+                f"{formats.hv(self.rms_before)} with the present multiplier {self.present:.3f}. ")
         if self.traverse_depth is None:
-            text += (f"The readings do not fall through {self.hardness_limit:.0f} HV, so they give no nitrided depth "
-                     f"of their own; ")
+            text += (f"The readings do not fall through {formats.hv(self.hardness_limit)}, so they give no nitrided "
+                     f"depth of their own; ")
         else:
-            text += (f"Nitrided depth read off the traverse at {self.hardness_limit:.0f} HV: "
+            text += (f"Nitrided depth read off the traverse at {formats.hv(self.hardness_limit)}: "
                      f"{_depth(self.traverse_depth)}; ")
         text += f"the model now gives {_depth(self.model_depth)} (it gave {_depth(self.predicted_depth)})."
         if self.rms_after > HARDNESS_UNCERTAINTY_HV:
-            text += (f" The misfit is above the model's ±{HARDNESS_UNCERTAINTY_HV:.0f} HV: check the plan's core and "
-                     f"surface hardness, the soak and the readings' depths.")
+            text += (f" The misfit is above the model's ±{formats.hv(HARDNESS_UNCERTAINTY_HV)}: check the plan's core "
+                     f"and surface hardness, the soak and the readings' depths.")
         return text
 
     def to_dict(self) -> dict:
@@ -184,8 +185,8 @@ def check_traverse(traverse) -> tuple[list[float], list[float]]:
             raise InputError("traverse", f"reading {number}: depth {shown} is outside 0–10 mm (0–0.394 in) from the "
                              f"surface (0 excluded)")
         if not (math.isfinite(value) and TRAVERSE_HARDNESS_RANGE[0] <= value <= TRAVERSE_HARDNESS_RANGE[1]):
-            raise InputError("traverse", f"reading {number}: {value:g} HV is outside "
-                             f"{TRAVERSE_HARDNESS_RANGE[0]:g}–{TRAVERSE_HARDNESS_RANGE[1]:g} HV")
+            raise InputError("traverse", f"reading {number}: {formats.typed(value, 'HV')} is outside "
+                             f"{formats.typed_range(*TRAVERSE_HARDNESS_RANGE, 'HV')}")
         if depths and depth <= depths[-1]:
             raise InputError("traverse", f"reading {number}: depth {both_lengths(depth)} is not deeper than reading "
                              f"{number - 1} ({both_lengths(depths[-1])}); depths must increase strictly, from the "

@@ -13,6 +13,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, field
 
+from .. import formats
 from ..constants import ZERO_CELSIUS
 from ..errors import InputError
 from ..parameters import label
@@ -103,8 +104,8 @@ def plan_load(plans: list[Plan]) -> LoadPlan:
         if step[0] != first[0]:
             raise InputError("plan", f"{plan.title!r} is {step[0]}, the first plan {first[0]}: one load, one treatment")
         if abs(step[1] - first[1]) > SAME_TEMPERATURE:
-            raise InputError("plan", f"{plan.title!r} runs at {step[1] - ZERO_CELSIUS:.0f} °C, the first plan at "
-                             f"{first[1] - ZERO_CELSIUS:.0f} °C: one load, one temperature")
+            raise InputError("plan", f"{plan.title!r} runs at {formats.typed(step[1] - ZERO_CELSIUS, '°C')}, the first "
+                             f"plan at {formats.typed(first[1] - ZERO_CELSIUS, '°C')}: one load, one temperature")
         treatment = treatment_of(plan.values())
         if abs(step[2] - first[2]) > treatment.potential_tolerance:
             raise InputError("plan", f"{plan.title!r} asks for a {label(treatment.potential_key).lower()} of "

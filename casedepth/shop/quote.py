@@ -12,6 +12,7 @@ from __future__ import annotations
 
 from dataclasses import asdict, dataclass, field, fields
 
+from .. import formats
 from ..errors import InputError
 from ..units import finite_number
 
@@ -110,10 +111,10 @@ class Quote:
 
     def text(self) -> str:
         width = max(len(label) for label, _ in self.lines) if self.lines else 10
-        money = f" {self.currency}" if self.currency else ""
         rows = [f"  {label:<{width}}  {hours:6.2f} h" for label, hours in self.lines]
         rows.append(f"  {'whole cycle':<{width}}  {self.total_h:6.2f} h")
-        rows.append(f"  cost per load {self.cost_per_load:.2f}{money}, per part {self.cost_per_part:.3f}{money}")
+        rows.append(f"  cost per load {formats.money(self.cost_per_load, self.currency)}, "
+                    f"per part {formats.piece_price(self.cost_per_part, self.currency)}")
         return "\n".join(rows)
 
 
