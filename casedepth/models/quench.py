@@ -31,6 +31,7 @@ Temperatures in K, lengths in m, times in s.
 
 from __future__ import annotations
 
+import functools
 import math
 from dataclasses import dataclass, field
 
@@ -402,6 +403,16 @@ def short_time_quench(x, Fo, Bi: float, weight: int):
     return theta, np.where(Fo > 0.0, rate, 0.0)
 
 
+@functools.lru_cache(maxsize=64)
+def _series(shape: str, Bi: float, terms: int) -> tuple[np.ndarray, np.ndarray]:
+    """Eigenvalues and coefficients of a body's series, kept for the next evaluation of the same quench (a
+    window's edits mostly leave the quench alone); read-only, as they are shared."""
+    lam = Carslaw_Jaeger_eigenvalues(shape, Bi, terms)
+    coef = _coefficients(shape, lam, Bi)
+    lam.flags.writeable = coef.flags.writeable = False
+    return lam, coef
+
+
 class _Conduction:
     """A body in dimensionless form: the series (finite bodies) and the short-time form, with the hand-over.
 
@@ -413,8 +424,7 @@ class _Conduction:
         self.switch = _SHORT_TIME_FO[shape] if finite else math.inf
         if finite:
             terms = int(math.ceil(math.sqrt(_TAIL / self.switch) / math.pi)) + 2
-            self.lam = Carslaw_Jaeger_eigenvalues(shape, Bi, terms)
-            self.coef = _coefficients(shape, self.lam, Bi)
+            self.lam, self.coef = _series(shape, Bi, terms)
             self.lam2 = self.lam ** 2
 
     def amplitudes(self, x: np.ndarray) -> np.ndarray:
