@@ -163,6 +163,25 @@ def _build_parser(argv: list[str] | None = None) -> argparse.ArgumentParser:
     _printing(ld)
     ld.set_defaults(handler=_load)
 
+    cp = commands.add_parser("capability", help="where a load's spread puts the case against the drawing's window",
+                             description="Draw the parts of a load from the furnace's spread (temperature uniformity, "
+                                         "potential band, β, the grade's composition range), run the plan's soak on "
+                                         "each, and say where the depths fall: percentiles, the share inside the "
+                                         "drawing's window, Cp and Cpk, and which input moves the depth most.")
+    cp.add_argument("plan", metavar="PLAN", help="a one-soak plan file (*.cdplan.json)")
+    cp.add_argument("--temperature-band", metavar="10C", help="furnace uniformity, ± (default 10 °C, AMS 2750 class 4)")
+    cp.add_argument("--potential-band", metavar="0.05",
+                    help="potential held within ±: %%C for carburizing, K_N for nitriding (default 0.05 %%C, 10 %% of K_N)")
+    cp.add_argument("--beta-range", metavar="1e-5-2e-5cm/s",
+                    help="the parts' mass-transfer coefficient anywhere in this range (default the plan's β /2 to ×2)")
+    cp.add_argument("--composition", choices=["nominal", "grade-range"], default="nominal",
+                    help="the steel's nominal composition, or anywhere in its grade's range")
+    cp.add_argument("--distribution", choices=["uniform", "normal"], default="uniform",
+                    help="uniform within each band, or normal with the band as 2σ")
+    cp.add_argument("--samples", default="256", help="parts drawn (16–4096, default 256)")
+    _printing(cp)
+    cp.set_defaults(handler=_capability)
+
     pr = commands.add_parser("probe", help="oxygen-probe millivolts <-> carbon potential in endothermic gas",
                              description="Convert between an oxygen probe's voltage (air reference) and the carbon "
                                          "potential it means, at a temperature and CO content (ideal probe; trim "
@@ -379,6 +398,42 @@ def _calibrate(args) -> int:
     print(found.describe())
     print(f"  {'stored in ' + _shown(args.plan) if args.write else 'add --write to store it in the plan'} "
           f"({label(found.field)})")
+    return 0
+
+
+def _range(text: str, read, field: str) -> tuple[float, float]:
+    """``"1e-5-2e-5cm/s"`` -> two values read by ``read`` (the unit after the second applies to both): a range
+    split at its dash, not at an exponent's minus."""
+    text = str(text).strip()
+    cut = next((i for i, ch in enumerate(text) if ch in "-–" and i > 0 and text[i - 1] not in "eE"), None)
+    if cut is None:
+        raise InputError(field, f"cannot read {text!r}; write a range such as 1e-5-2e-5cm/s")
+    first, second = text[:cut].strip(), text[cut + 1:].strip()
+    unit = second.lstrip("0123456789.eE+-")
+    return read(first + unit if first and first[-1].isdigit() else first, field), read(second, field)
+
+
+def _capability(args) -> int:
+    from .shop.capability import Spread, capability
+    from .units import parse_temperature_difference, parse_velocity
+
+    plan = load(args.plan)
+    units = DisplayUnits(args.units)
+    bands = {}
+    if args.temperature_band is not None:
+        bands["temperature"] = parse_temperature_difference(args.temperature_band, "temperature_band")
+    if args.potential_band is not None:
+        bands[TREATMENTS[plan.treatment].potential_key] = parse_number(args.potential_band, "potential_band")
+    beta_range = None if args.beta_range is None else _range(args.beta_range, parse_velocity, "beta_range")
+    samples = parse_number(args.samples, "samples")
+    if not samples.is_integer():
+        raise InputError("samples", f"{args.samples!r} is not a whole number of parts")
+    spread = Spread(bands, beta_range, args.composition, args.distribution, int(samples))
+    found = capability(plan.values(), spread)
+    if args.json:
+        print(json.dumps(found.to_dict()))
+        return 0
+    print(found.text(units))
     return 0
 
 

@@ -107,6 +107,20 @@ def parse_temperature(text: str | float, field: str = "temperature", default_uni
     return kelvin
 
 
+def parse_temperature_difference(text: str | float, field: str = "temperature band") -> float:
+    """Read a temperature *difference* such as ``10C``, ``18F`` or ``10K`` (a band, a tolerance); returns kelvin."""
+    value, unit = _value_and_unit(text, field, "c")
+    if unit in ("c", "°c", "degc", "k"):
+        kelvin = value
+    elif unit in ("f", "°f", "degf"):
+        kelvin = value * 5.0 / 9.0
+    else:
+        raise InputError(field, f"unknown temperature unit {unit!r}; use C, F or K (e.g. 10C, 18F)")
+    if kelvin < 0:
+        raise InputError(field, f"{text!r} is negative; give the half-width of the band")
+    return kelvin
+
+
 def _value_and_unit(text: str | float, field: str, default_unit: str) -> tuple[float, str]:
     """A number with its unit; a bare number (or number type) takes ``default_unit``."""
     if isinstance(text, (int, float)):

@@ -51,6 +51,11 @@ class CarburizingResult:
         return self.profile.surface_carbon
 
     @property
+    def window_depth(self) -> float:
+        """The depth the drawing's window is about [m]: the effective (or total) case depth."""
+        return self.case_depth
+
+    @property
     def threshold_carbon(self) -> float:
         return self.setup.threshold_carbon
 

@@ -42,6 +42,8 @@ class Steel:
     nitrided_surface_hv: float | None = None  # typical after gas nitriding (nitriding grades), [HV]
     nitriding: "NitridingConstants | None" = field(default=None, compare=False)  # the precipitation model's constants
     grain_size: float = 7.0  # austenite grain size, ASTM E112 number (library grades: typical; 7 when not known)
+    #: the standard's range of each element, wt % (library grades where the file gives it; from memory there)
+    composition_range: dict[str, tuple[float, float]] = field(default_factory=dict, compare=False)
 
     @property
     def carbon(self) -> float:
@@ -69,7 +71,8 @@ def _all_grades() -> tuple[Steel, ...]:
         Steel(entry["name"], validate_composition(entry["composition"], f"steel library entry {entry['name']}"),
               entry["standard"], entry.get("note", ""), tuple(entry.get("also", ())),
               entry.get("process", "carburizing"), entry.get("core_hardness_hv"), entry.get("nitrided_surface_hv"),
-              _constants(entry), float(entry.get("grain_size_astm", 7.0)))
+              _constants(entry), float(entry.get("grain_size_astm", 7.0)),
+              {el: (float(lo), float(hi)) for el, (lo, hi) in entry.get("composition_range", {}).items()})
         for entry in data["steels"]
     )
 

@@ -46,6 +46,11 @@ class NitridingResult:
         """Compound-layer thickness, ε + γ′ [m]."""
         return self.layer.thickness
 
+    @property
+    def window_depth(self) -> float:
+        """The depth the drawing's window is about [m]: the nitrided hardness depth."""
+        return self.nitrided_depth
+
     def to_dict(self) -> dict:
         """The JSON of ``casedepth nitride --time`` (units in the key names)."""
         from .setup import dissociation_for_potential

@@ -1,0 +1,305 @@
+"""Process capability: where the spread of a real load puts the case against the drawing's window.
+
+A planned soak is one number for exact inputs. A load sees a furnace temperature spread (the furnace's
+uniformity), a potential the controller holds within a band, a mass-transfer coefficient known to a
+factor, and a heat of steel anywhere in its grade's range. :func:`capability` draws the load's parts from
+those spreads (a Latin hypercube, McKay, Beckman & Conover 1979), runs the plan's soak on each — the same
+soak, the plan's stages counted as the plan counts them, through the one evaluation path
+(:func:`casedepth.plan.forward`) — and says where the depths fall: percentiles, the share inside the
+drawing's window, Cp and Cpk against it, and which input moves the depth most (each input alone at the
+ends of its band).
+
+The inputs and their defaults are rows of :data:`SPREAD_INPUTS`; the command line, the JSON and the tests
+read that table.
+"""
+
+from __future__ import annotations
+
+import math
+import statistics
+from dataclasses import dataclass, field
+from typing import Any, Callable, Mapping
+
+import numpy as np
+
+from .. import formats
+from ..errors import InputError
+from ..models.steels import find
+from ..parameters import PARAMETERS
+from ..treatments import treatment_of
+from ..units import DisplayUnits, format_duration
+
+#: AMS 2750 furnace classes and their temperature uniformity, ± K (±5, 10, 15, 20, 25, 50 °F; from memory)
+AMS2750_CLASSES = {1: 5 / 1.8, 2: 10 / 1.8, 3: 15 / 1.8, 4: 20 / 1.8, 5: 25 / 1.8, 6: 50 / 1.8}
+
+SAMPLES_RANGE = (16, 4096)
+DISTRIBUTIONS = ("uniform", "normal")
+COMPOSITIONS = ("nominal", "grade-range")
+
+
+def survey_class(band: float) -> str:
+    """The tightest AMS 2750 class a furnace with uniformity ± ``band`` [K] meets, in words."""
+    for number, limit in AMS2750_CLASSES.items():
+        if band <= limit + 1e-9:
+            return f"AMS 2750 class {number} (±{formats.typed(round(limit * 1.8), '°F')})"
+    return "wider than AMS 2750 class 6"
+
+
+@dataclass(frozen=True)
+class SpreadInput:
+    """One row of the spread table: an input of the plan that varies from part to part in a load."""
+
+    key: str  # the plan's parameter it moves
+    label: str
+    default: Callable[[Mapping[str, Any]], float | None]  # the half-width for a plan's values (None: not used)
+    apply: Callable[[Mapping[str, Any], float], dict]  # (values, offset in the band's own unit) -> changed values
+    describe: Callable[[float], str]  # the band in words
+    note: str  # where the default comes from
+
+
+def _used(key: str, values: Mapping[str, Any]) -> bool:
+    """Whether the plan's parameter ``key`` plays a part in the plan (the parameter table says)."""
+    return key in values and PARAMETERS[key].used_by(values)
+
+
+def _beta_applies(values) -> bool:
+    return _used("beta", values) and math.isfinite(values["beta"])
+
+
+#: the inputs a load spreads, each with its default band (half-widths; a normal distribution reads them as 2σ)
+SPREAD_INPUTS: dict[str, SpreadInput] = {row.key: row for row in (
+    SpreadInput("temperature", "furnace temperature", lambda v: 10.0 if _used("temperature", v) else None,
+                lambda v, x: {"temperature": v["temperature"] + x},
+                lambda b: f"±{formats.typed(round(b, 2), '°C')}, {survey_class(b)}",
+                "±10 °C, AMS 2750 class 4: common practice for carburizing and nitriding furnaces"),
+    SpreadInput("carbon_potential", "carbon potential", lambda v: 0.05 if _used("carbon_potential", v) else None,
+                lambda v, x: {"carbon_potential": v["carbon_potential"] + x},
+                lambda b: f"±{formats.carbon(b)}",
+                "±0.05 %C: what a probe-controlled furnace holds (common practice)"),
+    SpreadInput("kn", "nitriding potential", lambda v: 0.1 * v["kn"] if _used("kn", v) else None,
+                lambda v, x: {"kn": v["kn"] + x},
+                lambda b: f"±{formats.kn(b)}",
+                "±10 % of K_N: what a controlled retort holds (common practice)"),
+    SpreadInput("beta", "mass-transfer coefficient", lambda v: 2.0 if _beta_applies(v) else None,
+                lambda v, x: {"beta": v["beta"] * x},
+                lambda b: f"from β/{formats.trimmed(b, 2)} to β×{formats.trimmed(b, 2)}",
+                "a factor of 2 either way: β is rarely known better (common practice)"),
+)}
+
+
+@dataclass(frozen=True)
+class Spread:
+    """What spreads in the load: the half-width of each input's band (``bands``, by :data:`SPREAD_INPUTS` key;
+    a factor for β, whose band is β/f … β·f), whether the composition ranges over its grade's standard,
+    the distribution (``uniform`` within the band, or ``normal`` with the band as 2σ), how many parts are
+    drawn and the seed that makes the draw repeatable."""
+
+    bands: Mapping[str, float] = field(default_factory=dict)
+    beta_range: tuple[float, float] | None = None  # m/s: the parts' β anywhere in it (log scale), not about the plan's
+    composition: str = "nominal"
+    distribution: str = "uniform"
+    samples: int = 256
+    seed: int = 20261203
+
+    def __post_init__(self):
+        if self.composition not in COMPOSITIONS:
+            raise InputError("composition", f"{self.composition!r} is not one of {', '.join(COMPOSITIONS)}")
+        if self.distribution not in DISTRIBUTIONS:
+            raise InputError("distribution", f"{self.distribution!r} is not one of {', '.join(DISTRIBUTIONS)}")
+        if not (isinstance(self.samples, int) and SAMPLES_RANGE[0] <= self.samples <= SAMPLES_RANGE[1]):
+            raise InputError("samples", f"{self.samples!r} is outside {SAMPLES_RANGE[0]}–{SAMPLES_RANGE[1]}")
+        if self.beta_range is not None:
+            low, high = self.beta_range
+            if not (math.isfinite(low) and math.isfinite(high) and 0.0 < low <= high):
+                raise InputError("beta_range", f"{self.beta_range!r} must be two finite β with 0 < low ≤ high")
+        for key, band in self.bands.items():
+            if key not in SPREAD_INPUTS:
+                raise InputError(key, f"no spread of {key!r}; choose among {', '.join(SPREAD_INPUTS)}")
+            low = 1.0 if key == "beta" else 0.0
+            if not (math.isfinite(band) and band >= low):
+                raise InputError(key, f"the band {band!r} must be {'a factor ≥ 1' if key == 'beta' else '≥ 0'}")
+
+    def resolved(self, values: Mapping[str, Any]) -> dict[str, float]:
+        """The band of every input the plan uses: given, or the table's default."""
+        out = {}
+        for key, row in SPREAD_INPUTS.items():
+            default = row.default(values)
+            if default is None:
+                continue
+            out[key] = float(self.bands.get(key, default))
+        return out
+
+
+@dataclass
+class Capability:
+    """Where the load's depths fall: ``depths`` [m] of the drawn parts, the plan's ``soak`` [s] and its nominal
+    depth [m], the drawing's window [m], the bands used and, per input, the depth at the low and high ends of
+    its band with everything else nominal (the sensitivity)."""
+
+    values: dict
+    soak: float
+    nominal: float
+    depths: np.ndarray
+    window: tuple[float, float]
+    bands: dict[str, float]
+    spread: Spread
+    sensitivity: dict[str, tuple[float, float]]
+    composition_range: dict[str, tuple[float, float]]
+
+    PERCENTILES = (1, 5, 50, 95, 99)
+
+    @property
+    def percentiles(self) -> dict[str, float]:
+        """p1, p5, p50, p95 and p99 of the depth [m]."""
+        return {f"p{p}": float(np.percentile(self.depths, p)) for p in self.PERCENTILES}
+
+    @property
+    def share_in_window(self) -> float:
+        low, high = self.window
+        return float(np.mean((self.depths >= low) & (self.depths <= high)))
+
+    @property
+    def cp(self) -> float:
+        """Cp = (USL − LSL) / 6σ (ISO 22514-2; from memory)."""
+        sigma = float(np.std(self.depths, ddof=1))
+        return math.inf if sigma == 0.0 else (self.window[1] - self.window[0]) / (6.0 * sigma)
+
+    @property
+    def cpk(self) -> float:
+        """Cpk = min(USL − μ, μ − LSL) / 3σ (ISO 22514-2; from memory)."""
+        sigma = float(np.std(self.depths, ddof=1))
+        mean = float(np.mean(self.depths))
+        room = min(self.window[1] - mean, mean - self.window[0])
+        return math.inf if sigma == 0.0 else room / (3.0 * sigma)
+
+    def ranked(self) -> list[tuple[str, float]]:
+        """Inputs by how far their band alone moves the depth (half the low-to-high change [m]), largest first."""
+        moves = {key: abs(high - low) / 2.0 for key, (low, high) in self.sensitivity.items()}
+        return sorted(moves.items(), key=lambda item: -item[1])
+
+    def to_dict(self) -> dict:
+        return {
+            "soak_time_h": self.soak / 3600.0, "nominal_depth_mm": self.nominal * 1e3,
+            "case_depth_percentiles_mm": {k: v * 1e3 for k, v in self.percentiles.items()},
+            "share_in_window": self.share_in_window, "cp": _finite(self.cp), "cpk": _finite(self.cpk),
+            "window_mm": [self.window[0] * 1e3, self.window[1] * 1e3],
+            "sensitivity": {key: {"low_mm": low * 1e3, "high_mm": high * 1e3}
+                            for key, (low, high) in self.sensitivity.items()},
+            "spread": {"bands": dict(self.bands), "composition": self.spread.composition,
+                       "composition_range_pct": {el: list(r) for el, r in self.composition_range.items()},
+                       "distribution": self.spread.distribution, "samples": self.spread.samples,
+                       "seed": self.spread.seed},
+        }
+
+    def text(self, units: DisplayUnits) -> str:
+        pct = self.percentiles
+        low, high = self.window
+        lines = [f"Capability: soak {format_duration(self.soak)} (the plan's aim, {units.format_length(self.nominal)}), "
+                 f"{self.spread.samples} parts drawn (Latin hypercube), {self.spread.distribution} bands"]
+        bands = [f"{SPREAD_INPUTS[k].label} {SPREAD_INPUTS[k].describe(b)}" for k, b in self.bands.items()]
+        bands.append("composition " + ("nominal" if not self.composition_range else "over the grade's range"))
+        lines.append("  spread            " + "; ".join(bands))
+        lines.append("  depth             " + " · ".join(f"{k} {units.format_length(v)}" for k, v in pct.items()))
+        lines.append(f"  drawing window    {formats.length_range(low, high, units)}: {formats.percent(100 * self.share_in_window)} "
+                     f"inside; Cp {_index(self.cp)}, Cpk {_index(self.cpk)}")
+        moves = [f"{SPREAD_INPUTS[k].label if k in SPREAD_INPUTS else k} ±{units.format_length(m)}"
+                 for k, m in self.ranked()]
+        lines.append("  moves it most     " + ", ".join(moves))
+        return "\n".join(lines)
+
+
+def _finite(value: float) -> float | None:
+    return value if math.isfinite(value) else None
+
+
+def _index(value: float) -> str:
+    return "∞ (no spread)" if not math.isfinite(value) else f"{value:.2f}"
+
+
+def _unit_samples(count: int, dimensions: int, rng: np.random.Generator) -> np.ndarray:
+    """A Latin hypercube in (0, 1)^d: each dimension's ``count`` strata hit once, in random order, at a random
+    point of the stratum (McKay, Beckman & Conover 1979, Technometrics 21: 239–245)."""
+    strata = np.array([rng.permutation(count) for _ in range(dimensions)]).T
+    return (strata + rng.random((count, dimensions))) / count
+
+
+def _offset(u: np.ndarray, band: float, distribution: str, log: bool = False) -> np.ndarray:
+    """Offsets [band's unit] for uniform numbers ``u``: uniform within ±band, or normal with 2σ = band (a factor
+    ``band`` for β: log-uniform or log-normal between 1/band and band)."""
+    scale = math.log(band) if log else band
+    if distribution == "uniform":
+        x = (2.0 * u - 1.0) * scale
+    else:
+        normal = statistics.NormalDist()
+        x = np.array([normal.inv_cdf(float(v)) for v in u]) * (scale / 2.0)
+    return np.exp(x) if log else x
+
+
+def _composition_range(values: Mapping[str, Any], spread: Spread) -> dict[str, tuple[float, float]]:
+    if spread.composition == "nominal":
+        return {}
+    try:
+        steel = find(values["steel"])
+    except InputError:
+        raise InputError("composition", "a custom composition has no grade range: give a library grade, or "
+                                        "--composition nominal") from None
+    if not steel.composition_range:
+        raise InputError("composition", f"the library gives no composition range for {steel.name}")
+    return dict(steel.composition_range)
+
+
+def capability(values: Mapping[str, Any], spread: Spread = Spread(), soak: float | None = None) -> Capability:
+    """Where the depths of a load planned by ``values`` (a one-soak plan's values) fall with ``spread``, after
+    the plan's aim soak (or ``soak`` [s]). Each part is the plan with its inputs moved within their bands,
+    run through :func:`casedepth.plan.forward`."""
+    from ..plan.evaluate import evaluate, forward
+
+    values = dict(values)
+    treatment = treatment_of(values)
+    treatment.single_soak(values)
+    if soak is None:
+        soak = evaluate(values).soak_time
+    base = dict(values)
+    bands = spread.resolved(values)
+    if spread.beta_range is not None:
+        if not _beta_applies(values):
+            raise InputError("beta_range", "the plan has no finite mass-transfer coefficient to spread")
+        low, high = spread.beta_range
+        base["beta"], bands["beta"] = math.sqrt(low * high), math.sqrt(high / low)
+    ranges = _composition_range(values, spread)
+    keys = list(bands)
+    rng = np.random.default_rng(spread.seed)
+    u = _unit_samples(spread.samples, len(keys) + len(ranges), rng)
+    columns = {key: _offset(u[:, i], bands[key], spread.distribution, log=key == "beta")
+               for i, key in enumerate(keys)}
+    elements = list(ranges)
+    for j, element in enumerate(elements):
+        low, high = ranges[element]
+        column = u[:, len(keys) + j]
+        if spread.distribution == "normal":  # the range as ±2σ about its middle, held inside it
+            column = np.clip(0.5 + _offset(column, 0.5, "normal"), 0.0, 1.0)
+        columns[element] = low + column * (high - low)
+
+    def part(changes: Mapping[str, float]) -> float:
+        moved = dict(base)
+        composition = dict(base["composition"])
+        for key, x in changes.items():
+            if key in SPREAD_INPUTS:
+                moved.update(SPREAD_INPUTS[key].apply(base, x))
+            else:
+                composition[key] = x
+        moved["composition"] = composition
+        return forward(moved, soak).window_depth
+
+    nominal = part({})
+    depths = np.array([part({key: float(col[i]) for key, col in columns.items()}) for i in range(spread.samples)])
+    sensitivity = {}
+    for key in keys:
+        ends = (1.0 / bands[key], bands[key]) if key == "beta" else (-bands[key], bands[key])
+        sensitivity[key] = (part({key: ends[0]}), part({key: ends[1]})) if bands[key] not in (0.0, 1.0) else (nominal, nominal)
+    if ranges:
+        # the grade's whole range at once, each element at the end that deepens the case and the end that does not
+        sensitivity["composition"] = (part({el: lo for el, (lo, hi) in ranges.items()}),
+                                      part({el: hi for el, (lo, hi) in ranges.items()}))
+    window = (values["case_min"], values["case_max"])
+    return Capability(values, soak, nominal, depths, window, bands, spread, sensitivity, ranges)
