@@ -179,6 +179,8 @@ def _build_parser(argv: list[str] | None = None) -> argparse.ArgumentParser:
     cp.add_argument("--distribution", choices=["uniform", "normal"], default="uniform",
                     help="uniform within each band, or normal with the band as 2σ")
     cp.add_argument("--samples", default="256", help="parts drawn (16–4096, default 256)")
+    cp.add_argument("--optimize", action="store_true",
+                    help="also the soak that puts most parts inside the drawing's window (each part run twice)")
     _printing(cp)
     cp.set_defaults(handler=_capability)
 
@@ -429,7 +431,7 @@ def _capability(args) -> int:
     if not samples.is_integer():
         raise InputError("samples", f"{args.samples!r} is not a whole number of parts")
     spread = Spread(bands, beta_range, args.composition, args.distribution, int(samples))
-    found = capability(plan.values(), spread)
+    found = capability(plan.values(), spread, optimize=args.optimize)
     if args.json:
         print(json.dumps(found.to_dict()))
         return 0

@@ -145,6 +145,10 @@ class Capability:
     spread: Spread
     sensitivity: dict[str, tuple[float, float]]
     composition_range: dict[str, tuple[float, float]]
+    centred: "Centred | None" = None
+
+    #: a load is capable when at least this share of its parts lands inside the window (common practice: 95 %)
+    WANTED_SHARE = 0.95
 
     PERCENTILES = (1, 5, 50, 95, 99)
 
@@ -185,6 +189,9 @@ class Capability:
             "window_mm": [self.window[0] * 1e3, self.window[1] * 1e3],
             "sensitivity": {key: {"low_mm": low * 1e3, "high_mm": high * 1e3}
                             for key, (low, high) in self.sensitivity.items()},
+            **({} if self.centred is None else {
+                "centred_soak_time_h": self.centred.soak / 3600.0, "share_in_window_at_centred": self.centred.share}),
+            "warnings": self.warnings(),
             "spread": {"bands": dict(self.bands), "composition": self.spread.composition,
                        "composition_range_pct": {el: list(r) for el, r in self.composition_range.items()},
                        "distribution": self.spread.distribution, "samples": self.spread.samples,
@@ -205,7 +212,24 @@ class Capability:
         moves = [f"{SPREAD_INPUTS[k].label if k in SPREAD_INPUTS else k} ±{units.format_length(m)}"
                  for k, m in self.ranked()]
         lines.append("  moves it most     " + ", ".join(moves))
+        if self.centred is not None:
+            lines.append(f"  centred soak      {format_duration(self.centred.soak)}: "
+                         f"{formats.percent(100 * self.centred.share)} inside (the plan's aim: "
+                         f"{formats.percent(100 * self.share_in_window)})")
+        lines += [f"Warning: {w}" for w in self.warnings()]
         return "\n".join(lines)
+
+    def warnings(self) -> list[str]:
+        """A load that is not capable, and what to tighten first."""
+        best = self.share_in_window if self.centred is None else max(self.share_in_window, self.centred.share)
+        if best >= self.WANTED_SHARE or not self.sensitivity:
+            return []
+        first = self.ranked()[0][0]
+        name = SPREAD_INPUTS[first].label if first in SPREAD_INPUTS else first
+        where = "at the plan's soak" if self.centred is None else "at any soak"
+        return [f"Fewer than {formats.percent(100 * self.WANTED_SHARE)} of the parts land inside "
+                f"{formats.length_range(*self.window)} {where} (best {formats.percent(100 * best)}): tighten the "
+                f"{name} first; it moves the depth most."]
 
 
 def _finite(value: float) -> float | None:
@@ -248,10 +272,12 @@ def _composition_range(values: Mapping[str, Any], spread: Spread) -> dict[str, t
     return dict(steel.composition_range)
 
 
-def capability(values: Mapping[str, Any], spread: Spread = Spread(), soak: float | None = None) -> Capability:
+def capability(values: Mapping[str, Any], spread: Spread = Spread(), soak: float | None = None,
+               optimize: bool = False) -> Capability:
     """Where the depths of a load planned by ``values`` (a one-soak plan's values) fall with ``spread``, after
     the plan's aim soak (or ``soak`` [s]). Each part is the plan with its inputs moved within their bands,
-    run through :func:`casedepth.plan.forward`."""
+    run through :func:`casedepth.plan.forward`. With ``optimize``, also the soak that puts most parts inside
+    the drawing's window (each part run at a second soak, :func:`_best_soak`)."""
     from ..plan.evaluate import evaluate, forward
 
     values = dict(values)
@@ -280,7 +306,7 @@ def capability(values: Mapping[str, Any], spread: Spread = Spread(), soak: float
             column = np.clip(0.5 + _offset(column, 0.5, "normal"), 0.0, 1.0)
         columns[element] = low + column * (high - low)
 
-    def part(changes: Mapping[str, float]) -> float:
+    def part(changes: Mapping[str, float], at: float = soak) -> float:
         moved = dict(base)
         composition = dict(base["composition"])
         for key, x in changes.items():
@@ -289,10 +315,16 @@ def capability(values: Mapping[str, Any], spread: Spread = Spread(), soak: float
             else:
                 composition[key] = x
         moved["composition"] = composition
-        return forward(moved, soak).window_depth
+        return forward(moved, at).window_depth
 
     nominal = part({})
-    depths = np.array([part({key: float(col[i]) for key, col in columns.items()}) for i in range(spread.samples)])
+    parts = [{key: float(col[i]) for key, col in columns.items()} for i in range(spread.samples)]
+    depths = np.array([part(changes) for changes in parts])
+    centred = None
+    if optimize:
+        later = soak * (1.0 + OPTIMIZE_STEP)
+        centred = _best_soak(soak, depths, later, np.array([part(changes, later) for changes in parts]),
+                             (values["case_min"], values["case_max"]))
     sensitivity = {}
     for key in keys:
         ends = (1.0 / bands[key], bands[key]) if key == "beta" else (-bands[key], bands[key])
@@ -302,4 +334,54 @@ def capability(values: Mapping[str, Any], spread: Spread = Spread(), soak: float
         sensitivity["composition"] = (part({el: lo for el, (lo, hi) in ranges.items()}),
                                       part({el: hi for el, (lo, hi) in ranges.items()}))
     window = (values["case_min"], values["case_max"])
-    return Capability(values, soak, nominal, depths, window, bands, spread, sensitivity, ranges)
+    return Capability(values, soak, nominal, depths, window, bands, spread, sensitivity, ranges, centred)
+
+
+#: the second soak each part is run at to find its rate, over the first: 20 % longer
+OPTIMIZE_STEP = 0.2
+
+
+@dataclass(frozen=True)
+class Centred:
+    """The soak [s] that puts most parts inside the drawing's window (the middle of the soaks that do), the
+    share it puts there, and the parts' depths [m] there (from each part's depth² line)."""
+
+    soak: float
+    share: float
+    depths: np.ndarray
+
+
+def _best_soak(soak: float, depths: np.ndarray, later: float, later_depths: np.ndarray,
+               window: tuple[float, float]) -> Centred:
+    """Each part's depth² is a straight line in the soak (a case grows as √t, and the stages after the soak add
+    depth nearly in quadrature: the planners' rule, final² ≈ stop² + c), fixed by its depths at ``soak`` and
+    ``later``; the share inside the window is then constant between the soaks where a part crosses an end of
+    it, so the best soaks form intervals found exactly, and the middle of the best (nearest the plan's soak)
+    is returned."""
+    slope = (later_depths**2 - depths**2) / (later - soak)
+    low, high = window
+
+    def at(t: float) -> np.ndarray:
+        return np.sqrt(np.maximum(depths**2 + slope * (t - soak), 0.0))
+
+    with np.errstate(divide="ignore", invalid="ignore"):
+        crossings = np.concatenate(((low**2 - depths**2) / slope, (high**2 - depths**2) / slope)) + soak
+    points = np.unique(np.concatenate(([soak * 0.2, soak * 5.0], crossings[np.isfinite(crossings)])))
+    points = points[(points > 60.0) & (points < soak * 5.0 + 1.0)]
+    if len(points) < 2:
+        return Centred(soak, float(np.mean((depths >= low) & (depths <= high))), depths)
+    middles = 0.5 * (points[1:] + points[:-1])
+    shares = np.array([np.mean((at(t) >= low) & (at(t) <= high)) for t in middles])
+    best = shares.max()
+    # the longest run of neighbouring intervals at the best share, nearest the plan's soak: its middle
+    runs, start = [], None
+    for i, share in enumerate(shares):
+        if share == best and start is None:
+            start = i
+        if start is not None and (share != best or i == len(shares) - 1):
+            end = i if share == best else i - 1
+            runs.append((points[start], points[end + 1]))
+            start = None
+    first, last = min(runs, key=lambda r: (abs(0.5 * (r[0] + r[1]) - soak), -(r[1] - r[0])))
+    t = 0.5 * (first + last)
+    return Centred(float(t), float(best), at(t))
