@@ -144,6 +144,14 @@ def temperature(kelvin: float, units: DisplayUnits = _METRIC) -> str:
     return units.format_temperature(kelvin)
 
 
+def hours(seconds: float) -> str:
+    """A duration in decimal hours to 0.01 h, for the office's tables and the charts beside the duration in words:
+    ``24444`` -> ``"6.79 h"`` (the floor's sheet writes h:min, :func:`format_clock`)."""
+    if not math.isfinite(seconds):
+        return "–"
+    return f"{seconds / 3600.0:.2f} h"
+
+
 def typed(value: float, unit: str) -> str:
     """A value echoed back as it was given (a refusal, a limit of a table): every significant digit, so
     ``1.6001 %C`` is never shown as the ``1.60 %C`` it broke."""

@@ -16,7 +16,7 @@ from matplotlib.backends.backend_agg import FigureCanvasAgg
 from matplotlib.figure import Figure
 
 from casedepth.plan import evaluate, load
-from casedepth.report import documents
+from casedepth.report import documents, plot_marks
 
 EXAMPLES = Path(__file__).resolve().parent.parent / "resources" / "examples"
 PLANS = ["pinion-shaft", "piston-rod-nitrided", "ring-gear-boost-diffuse"]
@@ -92,10 +92,10 @@ def test_words_are_clear_on_plots_from_narrow_to_wide(example, size):
     ax.set_ylim(0, np.nanmax(line.temperatures - 273.15) * 1.25)
     potential.set_ylim(0, np.nanmax(line.potentials) * 1.3)
     ax.set_xlim(0, hours[-1])
-    stages, moments = documents.draw_cycle_words(ax, line)
+    stages, moments = plot_marks.draw_cycle_words(ax, line)
     fig.tight_layout()
     curves = [*ax.get_lines(), *potential.get_lines()]
-    documents.place_cycle_words(ax, stages, moments, curves)
+    plot_marks.place_cycle_words(ax, stages, moments, curves)
     fig.canvas.draw()
     assert word_problems(ax, stages, moments, curves) == []
     assert _longest_named(stages)

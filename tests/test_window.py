@@ -467,10 +467,11 @@ def test_the_shop_dialog_takes_only_what_the_shop_accepts(window, monkeypatch):
     assert dialog.result() != ShopDialog.Accepted
 
 
-def test_temperatures_tab_uses_the_plan_s_own_policy(window):
+def test_temperatures_tab_uses_the_plan_s_own_policy(window, qtbot):
     """The comparison evaluates the plan itself at other temperatures: at its own temperature it gives exactly the
     headline's soak (the shop's heat-up and drop counted as the plan counts them)."""
     window.plots.setCurrentIndex(3)
+    qtbot.waitUntil(lambda: not window.plots.waiting, timeout=20000)  # worked out on the worker
     pairs = window.plots.tradeoff_page.pairs
     assert len(pairs) >= 5
     assert all(a[1] > b[1] for a, b in zip(pairs, pairs[1:]))  # hotter is faster
@@ -629,6 +630,7 @@ def test_the_window_the_command_line_and_python_give_the_same_numbers(window, qt
         window.plan.update(shape="cylinder", size=32e-3, case_min=1.0e-3, case_max=1.0e-3)
     shown = window.outcome.soak_time
     window.plots.setCurrentIndex(3)
+    qtbot.waitUntil(lambda: not window.plots.waiting, timeout=20000)
     assert dict(window.plots.tradeoff_page.pairs)[window.plan.temperature] == shown
     path = tmp_path / "shaft.cdplan.json"
     args = ["carburize", "--steel", "8620", "--temperature", "925C", "--potential", "1.00", "--target", "1.0mm",

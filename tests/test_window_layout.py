@@ -94,6 +94,7 @@ def test_nothing_is_cut_off_at_the_usual_sizes(opened, qtbot):
         _settle(qtbot, window, size)
         for index, page in enumerate(plots.pages):
             plots.setCurrentIndex(index)
+            qtbot.waitUntil(lambda: not plots.waiting, timeout=20000)  # the comparison comes from the worker
             qtbot.wait(10)
             page.canvas.draw()
             problems += [f"{size} {plots.tabText(index)}: {p}" for p in layout_problems(page.figure)]

@@ -45,6 +45,7 @@ class PlanForm(QWidget):
         self.notes: dict[str, QLabel] = {}
         self.named: dict[str, QLabel] = {}  # the labels of lines whose words follow another choice
         self._invalid: set[str] = set()
+        self._heard: Plan | None = None  # the plan whose changes the form is told of
         layout = QVBoxLayout(self)
         layout.setContentsMargins(6, 6, 6, 6)
         for group in GROUPS:
@@ -135,7 +136,9 @@ class PlanForm(QWidget):
     # -- plan -> widgets -------------------------------------------------------------------------------------------
     def plan_replaced(self, plan: Plan) -> None:
         self.context.plan = plan
-        plan.subscribe(self._changed)
+        if plan is not self._heard:  # (the window hands on the plan the form was made with too: heard once)
+            plan.subscribe(self._changed)
+            self._heard = plan
         self._invalid.clear()
         self.show_plan()
 

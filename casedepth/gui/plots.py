@@ -3,28 +3,38 @@
 The profile pages draw the :class:`~casedepth.outcome.Panel` of the outcome's
 :meth:`~casedepth.outcome.Outcome.view` (carbon or nitrogen, and hardness); the cycle page its
 :meth:`~casedepth.outcome.Outcome.timeline` and quote; the temperatures page the plan evaluated at
-other temperatures (:func:`casedepth.plan.compare_temperatures`). No page asks which treatment it
-shows. Artists are made once and only their data change on a new result: rebuilding axes, ticks and
-titles costs far more than solving, and a planner expects the plot to follow an edit at once.
+other temperatures (:func:`casedepth.plan.compare_temperatures`, worked out on the window's worker). No page
+asks which treatment it shows.
+
+A planner expects the plot to follow an edit at once, and drawing costs more than solving, so:
+
+* a page makes its figure when it is first drawn, and the page on show once the window is on screen
+  (matplotlib takes longer to import than the rest of the window);
+* only the page on show is drawn; the others are drawn when they are shown;
+* artists are made once and only their data, texts and ranges change on a new result;
+* on the profile pages only the curves are drawn again over the rest as last drawn (blitting, the canvas of
+  :func:`_matplotlib`) while the frame holds still: its ranges are rounded out to round numbers, so an edit
+  that moves the curves a little leaves the axes, ticks and labels as they are; the key and the caption, which
+  change with nearly every result, are Qt labels (a text drawn by matplotlib costs more than the curves);
+* a whole figure is drawn when Qt is next idle (``draw_idle``), so a burst of changes draws once.
 """
 
 from __future__ import annotations
 
+import functools
 import html
+import math
 import warnings
+from types import SimpleNamespace
 
 import numpy as np
-from matplotlib.backends.backend_qtagg import FigureCanvasQTAgg, NavigationToolbar2QT
-from matplotlib.figure import Figure
-from PySide6.QtCore import Qt
+from PySide6.QtCore import Qt, QTimer, Signal
 from PySide6.QtWidgets import (QHeaderView, QLabel, QSplitter, QTableWidget, QTableWidgetItem, QTabWidget, QVBoxLayout,
                                QWidget)
 
 from .. import formats
-from ..errors import InputError
+from ..errors import CasedepthError, InputError
 from ..outcome import Outcome, Panel, ProfileView
-from ..plan import compare_temperatures
-from ..report.documents import draw_cycle_words, hrc_scale, place_cycle_words
 from ..treatments import TREATMENTS
 from ..units import DisplayUnits, format_duration
 
@@ -37,6 +47,83 @@ LIMIT = "#b5651d"
 LAYER = "#c9c9c9"
 LEVEL_STYLES = {"threshold": (THRESHOLD, "--", 1.2), "core": (CORE, ":", 1.0), "limit": (LIMIT, "-.", 1.0)}
 MARKER = "#2a7f62"  # the moments of a cycle: purges, the atmosphere going in
+GRID = {"color": "#dddddd", "lw": 0.6}
+
+
+@functools.cache
+def _matplotlib() -> SimpleNamespace:
+    """Matplotlib's figure, the canvas of the pages (:class:`Canvas`) and the toolbar, imported when the first
+    figure is made."""
+    from matplotlib.backends import backend_qtagg
+    from matplotlib.figure import Figure
+
+    class Canvas(backend_qtagg.FigureCanvasQTAgg):
+        """A page's canvas: says when it has been painted (:attr:`painted`), and redraws only its moving artists
+        while nothing else changes.
+
+        ``moving`` are the artists a new result or another moment of the cycle changes (curves, levels, bands).
+        A whole draw renders the rest, keeps it as the background and draws the moving artists
+        over it; :meth:`refresh` puts the background back and draws only them, as long as the frame (the
+        canvas's size, each axes' place, ranges and labels) is as it was drawn, else draws the whole figure
+        when Qt is next idle. Saved pictures always draw everything.
+        """
+
+        painted = Signal()
+
+        def __init__(self, figure):
+            super().__init__(figure)
+            self.moving: list = []
+            self._background = None
+            self._frame = None
+
+        def frame(self) -> tuple:
+            """What the background depends on besides the moving artists."""
+            return (self.get_width_height(physical=True),
+                    tuple((ax.get_position().bounds, ax.get_xlim(), ax.get_ylim(), ax.get_xlabel(), ax.get_ylabel(),
+                           ax.axison) for ax in self.figure.axes))
+
+        def draw(self) -> None:
+            for artist in self.moving:
+                artist.set_animated(True)  # left out of the whole draw
+            try:
+                super().draw()
+            finally:
+                for artist in self.moving:
+                    artist.set_animated(False)
+            self._background = self.copy_from_bbox(self.figure.bbox)
+            self._frame = self.frame()
+            self._draw_moving()
+
+        def refresh(self) -> None:
+            """Show the moving artists as they are now: over the background when the frame is as drawn, else
+            with the whole figure drawn anew."""
+            if self._background is None or self.frame() != self._frame:
+                self.draw_idle()
+                self.update()  # (a saved picture leaves a whole draw pending that only a paint does)
+                return
+            self.restore_region(self._background)
+            self._draw_moving()
+            self.update()
+
+        def _draw_moving(self) -> None:
+            for artist in self.moving:
+                self.figure.draw_artist(artist)
+
+        def paintEvent(self, event) -> None:
+            super().paintEvent(event)
+            if hasattr(self, "renderer"):
+                self.painted.emit()
+
+    return SimpleNamespace(Figure=Figure, Canvas=Canvas, Toolbar=backend_qtagg.NavigationToolbar2QT)
+
+
+def round_out(axis, low: float, high: float) -> tuple[float, float]:
+    """The range ``low``–``high`` widened to the ticks ``axis`` draws round it: a small change of the curves then
+    leaves the axes as they are."""
+    if not (math.isfinite(low) and math.isfinite(high)) or high <= low:
+        return low, high
+    ticks = axis.get_major_locator().tick_values(low, high)
+    return float(ticks[0]), float(ticks[-1])
 
 
 def _swatch(handle) -> str:
@@ -95,44 +182,83 @@ class _Key(QLabel):
             self.shown = key
 
 
-def save_with_legend(figure, axes, handles, path: str, dpi: int = 200) -> None:
-    """Save the figure with its key drawn in as a legend (an exported picture stands alone)."""
+def save_with_legend(figure, axes, handles, path: str, dpi: int = 200, caption: str = "") -> None:
+    """Save the figure with its key drawn in as a legend and its caption as the title (an exported picture stands
+    alone); the margins are fitted to the title while it is saved."""
     legend = axes.legend(handles=handles, fontsize=8, loc="best", framealpha=0.9) if handles else None
+    if caption:
+        axes.set_title(caption, loc="left", fontsize=9)
+        fit_margins(figure)
     try:
         figure.savefig(path, dpi=dpi)
     finally:
         if legend is not None:
             legend.remove()
+        if caption:
+            axes.set_title("", loc="left")
+            fit_margins(figure)
 
 
-class _PlotPage(QWidget):
-    """One profile plot with its toolbar, the drawing window band, the aim line, lines, and a caption over it."""
+class _Page(QWidget):
+    """A page of the plots. Its Qt widgets are made with it, its figure when it is first drawn (:meth:`build`)."""
+
+    def __init__(self, parent=None):
+        super().__init__(parent)
+        self.figure = self.canvas = self.axes = None
+        self._fitted = None  # what the margins were last fitted to
+
+    def build(self) -> None:
+        """Make the figure, if it is not made yet."""
+        if self.canvas is None:
+            self._build(_matplotlib())
+
+    def _build(self, mpl: SimpleNamespace) -> None:
+        raise NotImplementedError
+
+    def fit(self, *texts_and_ranges) -> None:
+        """Fit the margins again (:func:`fit_margins`) if what they depend on changed since they were last fitted:
+        the texts round the axes and their ranges."""
+        if texts_and_ranges != self._fitted:
+            fit_margins(self.figure)
+            self._fitted = texts_and_ranges
+
+
+class _PlotPage(_Page):
+    """One profile plot with its toolbar, the drawing window band, the aim line, lines, a caption over it and the
+    key under it."""
 
     def __init__(self, hrc_axis: bool, parent=None):
         super().__init__(parent)
-        self.figure = Figure(figsize=(6, 4))
-        self.canvas = FigureCanvasQTAgg(self.figure)
-        self.toolbar = NavigationToolbar2QT(self.canvas, self)
+        self.hrc_axis = hrc_axis
+        self.levels: list = []
+        self.caption = QLabel()
+        self.caption.setObjectName("plot_caption")
+        self.caption.setWordWrap(True)
+        self.key = _Key()
         layout = QVBoxLayout(self)
         layout.setContentsMargins(0, 0, 0, 0)
-        layout.addWidget(self.toolbar)
-        layout.addWidget(self.canvas, 1)
-        self.key = _Key()
+        layout.addWidget(self.caption)
         layout.addWidget(self.key)
+
+    def _build(self, mpl: SimpleNamespace) -> None:
+        self.figure = mpl.Figure(figsize=(6, 4))
+        self.canvas = mpl.Canvas(self.figure)
+        self.toolbar = mpl.Toolbar(self.canvas, self)
+        self.layout().insertWidget(0, self.toolbar)
+        self.layout().insertWidget(2, self.canvas, 1)  # under the caption
         ax = self.axes = self.figure.add_subplot()
-        ax.grid(True, color="#dddddd", lw=0.6)
+        ax.grid(True, **GRID)
         self.band = ax.axvspan(0, 0, color=WINDOW, alpha=0.22, lw=0, label="drawing window")
         self.aim = ax.axvline(0, color=WINDOW, lw=1.2, label="aim")
         self.layer = ax.axvspan(0, 0, color=LAYER, alpha=0.8, lw=0)
         self.final, = ax.plot([], [], color=EARLIER, lw=1.2, ls="--")
         self.line, = ax.plot([], [], color=INK, lw=2.2)
-        self.levels: list = []
-        # the caption is the plot's title, over the axes rather than over the curves
-        self.caption = ax.set_title("", loc="left", fontsize=9)
-        if hrc_axis:
+        self.canvas.moving = [self.layer, self.band, self.aim, self.final, self.line]
+        if self.hrc_axis:
+            from ..report.plot_marks import hrc_scale
+
             ax.set_ylim(250.0, 900.0)  # HV the HRC scale spans, until a result sets the range (fitting measures it)
             hrc_scale(ax)
-        self._fitted = None  # the texts and ranges the margins were fitted to
         keep_fitted(self.canvas, self.figure)
 
     def draw_panel(self, panel: Panel, view: ProfileView, units: DisplayUnits) -> None:
@@ -153,6 +279,7 @@ class _PlotPage(QWidget):
             self.final.set_label(panel.final.label)
         while len(self.levels) < len(panel.levels):
             self.levels.append(ax.axhline(0, lw=1.0))
+            self.canvas.moving.append(self.levels[-1])
         for artist, level in zip(self.levels, panel.levels):
             colour, style, width = LEVEL_STYLES[level.style]
             artist.set(ydata=[level.value] * 2, color=colour, linestyle=style, linewidth=width, label=level.label,
@@ -164,15 +291,11 @@ class _PlotPage(QWidget):
             self.layer.set_x(0.0)
             self.layer.set_width(units.length(panel.band[0]))
             self.layer.set_label(panel.band[1])
-        ax.set_ylim(*panel.limits)
-        self.caption.set_text(panel.caption)
+        ax.set_ylim(*round_out(ax.yaxis, *panel.limits))
+        self.caption.setText(panel.caption)
         self.legend()
-        # margins follow the texts and ranges, not the time scrubbed (the caption's length only roughly)
-        fitted = (ax.get_xlabel(), ax.get_ylabel(), ax.get_xlim(), ax.get_ylim(), len(panel.caption) // 12)
-        if fitted != self._fitted:
-            fit_margins(self.figure)
-            self._fitted = fitted
-        self.canvas.draw_idle()
+        self.fit(ax.get_xlabel(), ax.get_ylabel(), ax.get_xlim(), ax.get_ylim())  # not the time scrubbed
+        self.canvas.refresh()
 
     def _handles(self):
         patches = [self.band] + ([self.layer] if self.layer.get_visible() else [])
@@ -183,8 +306,9 @@ class _PlotPage(QWidget):
         self.key.show_handles(self._handles())
 
     def save(self, path: str, dpi: int = 200) -> None:
-        """Save the figure with the key drawn into it as a legend (an exported picture stands alone)."""
-        save_with_legend(self.figure, self.axes, self._handles(), path, dpi)
+        """Save the figure with the key drawn into it as a legend and the caption as its title (an exported picture
+        stands alone)."""
+        save_with_legend(self.figure, self.axes, self._handles(), path, dpi, self.caption.text())
 
 
 def _compact(table: QTableWidget) -> None:
@@ -220,21 +344,15 @@ class _Beside(QSplitter):
         self.setSizes([max(total - width, 0), width])
 
 
-class _CyclePage(QWidget):
+class _CyclePage(_Page):
     """Temperature and potential through the whole cycle, with its stages and moments (purges, the atmosphere going
     in), and the quote beside it."""
 
     def __init__(self, parent=None):
         super().__init__(parent)
-        self.figure = Figure(figsize=(6, 3))
-        self.canvas = FigureCanvasQTAgg(self.figure)
-        plot = QWidget()
-        layout = QVBoxLayout(plot)
-        layout.setContentsMargins(0, 0, 0, 0)
-        layout.addWidget(NavigationToolbar2QT(self.canvas, plot))
-        layout.addWidget(self.canvas, 1)
-        self.axes = self.figure.add_subplot()
-        self.potential_axes = self.axes.twinx()
+        self.plot = QWidget()
+        plot_layout = QVBoxLayout(self.plot)
+        plot_layout.setContentsMargins(0, 0, 0, 0)
         self.stage_texts: list = []  # (text, span start [h], span end [h]) of each stage's name in the plot
         self.marker_texts: list = []  # the moments' words, along the top of the plot
         quote = QWidget()
@@ -252,26 +370,42 @@ class _CyclePage(QWidget):
         self.total.setObjectName("quote_total")
         self.total.setWordWrap(True)
         quote_layout.addWidget(self.total)
-        self.split = _Beside(plot, quote, self.table)
+        self.split = _Beside(self.plot, quote, self.table)
         page_layout = QVBoxLayout(self)
         page_layout.setContentsMargins(0, 0, 0, 0)
         page_layout.addWidget(self.split)
+
+    def _build(self, mpl: SimpleNamespace) -> None:
+        self.figure = mpl.Figure(figsize=(6, 3))
+        self.canvas = mpl.Canvas(self.figure)
+        self.plot.layout().addWidget(mpl.Toolbar(self.canvas, self.plot))
+        self.plot.layout().addWidget(self.canvas, 1)
+        ax = self.axes = self.figure.add_subplot()
+        pax = self.potential_axes = ax.twinx()
+        self.temperature, = ax.plot([], [], color=INK, lw=2.0, label="temperature")
+        self.potential, = pax.plot([], [], color=THRESHOLD, lw=1.6, ls="--")
+        ax.set_xlabel("time in the cycle [h]")
+        ax.grid(True, **GRID)
+        pax.yaxis.set_label_position("right")
+        pax.yaxis.tick_right()
+        self.title = ax.set_title("", fontsize=10)
         keep_fitted(self.canvas, self.figure, then=self._place_texts)
 
     def show_outcome(self, outcome: Outcome, units: DisplayUnits) -> None:
+        from ..report.plot_marks import draw_cycle_words
+
         line = outcome.timeline()
         ax, pax = self.axes, self.potential_axes
-        ax.clear()
-        pax.clear()
         hours = line.times / 3600.0
         shown = np.array([units.temperature(t) for t in line.temperatures])
-        ax.plot(hours, shown, color=INK, lw=2.0, label="temperature")
-        pax.plot(hours, line.potentials, color=THRESHOLD, lw=1.6, ls="--", label=line.potential_name)
+        self.temperature.set_data(hours, shown)
+        self.potential.set_data(hours, line.potentials)
+        self.potential.set_label(line.potential_name)
+        # the stages' shading and names and the moments' lines and words are the cycle's own: made anew
+        for artist in [*ax.patches, *ax.texts, *(curve for curve in ax.get_lines() if curve is not self.temperature)]:
+            artist.remove()
         self.stage_texts, self.marker_texts = draw_cycle_words(ax, line, MARKER)
-        ax.set_xlabel("time in the cycle [h]")
         ax.set_ylabel(f"temperature [{units.temperature_unit}]")
-        pax.yaxis.set_label_position("right")
-        pax.yaxis.tick_right()
         pax.set_ylabel(line.potential_name, color=THRESHOLD)
         # headroom over both curves: the top of the plot is where the moments are named
         ax.set_ylim(min(0.0, float(np.nanmin(shown))), float(np.nanmax(shown)) * 1.25)
@@ -279,16 +413,15 @@ class _CyclePage(QWidget):
         pax.set_ylim(0, max(line.potential_floor, float(np.nanmax(line.potentials)) * 1.3) if finite.any()
                      else line.potential_floor)
         ax.set_xlim(0, max(hours[-1], 0.1))
-        ax.grid(True, color="#dddddd", lw=0.6)
-        ax.set_title(f"Temperature (solid) and {line.potential_name.split(' [')[0]} (dashed)", fontsize=10)
-        fit_margins(self.figure)
+        self.title.set_text(f"Temperature (solid) and {line.potential_name.split(' [')[0]} (dashed)")
+        self.fit(ax.get_ylabel(), pax.get_ylabel(), ax.get_xlim(), ax.get_ylim(), pax.get_ylim())
         self._place_texts()
         self.canvas.draw_idle()
         quote = outcome.quote
         self.table.setRowCount(len(quote.lines))
         for r, (label, h) in enumerate(quote.lines):
-            for c, text in enumerate((label, f"{h:.2f}", formats.percent(100 * h / quote.total_h) if quote.total_h
-                                      else "")):
+            for c, text in enumerate((label, formats.hours(h * 3600),
+                                      formats.percent(100 * h / quote.total_h) if quote.total_h else "")):
                 item = QTableWidgetItem(text)
                 if c:
                     item.setTextAlignment(Qt.AlignRight | Qt.AlignVCenter)
@@ -303,50 +436,71 @@ class _CyclePage(QWidget):
 
     def _place_texts(self) -> None:
         """Set the stages' names and the moments' words where they are clear of the curves and of each other, on
-        the plot as large as it is now (:func:`~casedepth.report.documents.place_cycle_words`)."""
+        the plot as large as it is now (:func:`~casedepth.report.plot_marks.place_cycle_words`)."""
+        from ..report.plot_marks import place_cycle_words
+
         place_cycle_words(self.axes, self.stage_texts, self.marker_texts,
                           [*self.axes.get_lines(), *self.potential_axes.get_lines()])
 
 
 class _KeyedPlot(QWidget):
-    """A figure with its key under it (in Qt, see :class:`_Key`)."""
+    """A figure with its key under it (in Qt, see :class:`_Key`), and a message written across it when there is
+    nothing to plot; the figure is made by :meth:`build`."""
 
     def __init__(self, parent=None):
         super().__init__(parent)
-        self.figure = Figure(figsize=(6, 3))
-        self.canvas = FigureCanvasQTAgg(self.figure)
         layout = QVBoxLayout(self)
         layout.setContentsMargins(0, 0, 0, 0)
-        layout.addWidget(self.canvas, 1)
         self.key = _Key()
         layout.addWidget(self.key)
+        self.figure = self.canvas = self.axes = self.message = None
+
+    def build(self, mpl: SimpleNamespace) -> None:
+        self.figure = mpl.Figure(figsize=(6, 3))
+        self.canvas = mpl.Canvas(self.figure)
+        self.layout().insertWidget(0, self.canvas, 1)
         self.axes = self.figure.add_subplot()
+        self.axes.grid(True, **GRID)
+        self.message = self.axes.text(0.5, 0.5, "", transform=self.axes.transAxes, ha="center", va="center",
+                                      wrap=True, fontsize=10, color="#555", visible=False)
         keep_fitted(self.canvas, self.figure)
 
-    def handles(self):
-        return [h for h in self.axes.get_lines() if not h.get_label().startswith("_")]
+    def say(self, message: str | None) -> None:
+        """Write ``message`` across the figure instead of the axes, or (None) show the axes."""
+        self.message.set_visible(message is not None)
+        self.message.set_text(message or "")
+        if message is None:
+            self.axes.set_axis_on()
+        else:
+            self.axes.set_axis_off()
 
-    def finish(self) -> None:
-        """After drawing anew: the key, the margins, the canvas."""
+    def handles(self):
+        return [h for h in self.axes.get_lines() if h.get_visible() and not h.get_label().startswith("_")]
+
+    def finish(self, fit) -> None:
+        """After new data: the key, the margins (``fit``: the page's :meth:`_Page.fit`), the canvas."""
+        ax = self.axes
         self.key.show_handles(self.handles())
         self.key.setVisible(bool(self.key.shown))
-        fit_margins(self.figure)
+        fit(ax.get_xlabel(), ax.get_ylabel(), ax.get_xlim(), ax.get_ylim(), ax.axison, bool(ax.get_title()))
         self.canvas.draw_idle()
 
     def save(self, path: str, dpi: int = 200) -> None:
         save_with_legend(self.figure, self.axes, self.handles(), path, dpi)
 
 
-class _TradeoffPage(QWidget):
+class _TradeoffPage(_Page):
     """The plan's soak at other temperatures (the plan otherwise unchanged, its own policy on the shop's stages):
-    furnace time against grain growth and distortion; the plot, the table beside it and a note under both."""
+    furnace time against grain growth and distortion; the plot, the table beside it and a note under both.
+
+    The comparison is worked out on the window's worker: :meth:`show_outcome` draws it when it has the answer
+    for the outcome (:meth:`take`), else says it is being worked out and returns False."""
 
     def __init__(self, parent=None):
         super().__init__(parent)
         layout = QVBoxLayout(self)
         layout.setContentsMargins(0, 0, 0, 0)
         self.plot = _KeyedPlot()
-        self.figure, self.canvas, self.axes = self.plot.figure, self.plot.canvas, self.plot.axes
         self.table = QTableWidget(0, 2)
         self.table.setObjectName("tradeoff_table")
         self.table.setHorizontalHeaderLabels(["Temperature", "Soak for the aim depth"])
@@ -359,47 +513,73 @@ class _TradeoffPage(QWidget):
         self.note.setWordWrap(True)
         layout.addWidget(self.note)
         self.pairs: list[tuple[float, float]] = []
+        self.waiting = False  # for the worker's answer
+        self._answer: tuple[dict, list, Exception | None] | None = None  # (values, pairs, error) from the worker
 
-    def show_outcome(self, outcome: Outcome, units: DisplayUnits) -> None:
-        values = outcome.values
-        temperatures = sorted({*TREATMENTS[outcome.treatment].comparison_temperatures, values["temperature"]})
+    def _build(self, mpl: SimpleNamespace) -> None:
+        self.plot.build(mpl)
+        self.figure, self.canvas, self.axes = self.plot.figure, self.plot.canvas, self.plot.axes
         ax = self.axes
-        ax.clear()
-        try:
-            self.pairs = compare_temperatures(values, temperatures)
+        self.soaks, = ax.plot([], [], "o-", color=INK, label="soak for the aim depth")
+        self.own, = ax.plot([], [], "o", color=THRESHOLD, ms=9, label="this plan's temperature")
+        ax.set_ylabel("soak [h]")
+        self.title = ax.set_title("", fontsize=10)
+
+    @staticmethod
+    def temperatures(outcome: Outcome) -> list[float]:
+        """The temperatures [K] the plan of ``outcome`` is compared at: its treatment's and its own."""
+        return sorted({*TREATMENTS[outcome.treatment].comparison_temperatures, outcome.values["temperature"]})
+
+    def has(self, outcome: Outcome) -> bool:
+        """Whether the page has the comparison for ``outcome``'s plan."""
+        return self._answer is not None and self._answer[0] is outcome.values
+
+    def take(self, values: dict, pairs: list | None, error: Exception | None) -> None:
+        """The comparison of the plan ``values`` at other temperatures, or (``error``) why there is none."""
+        self._answer = (values, pairs if error is None else [], error)
+
+    def show_outcome(self, outcome: Outcome, units: DisplayUnits) -> bool:
+        """Draw the comparison for ``outcome``; False (the last one left on show, greyed) while it is not known."""
+        self.waiting = not self.has(outcome)
+        self.table.setEnabled(not self.waiting)
+        if self.waiting:
+            self.note.setText("<i>Working out this plan at other temperatures…</i>")
+            return False
+        _, self.pairs, error = self._answer
+        if error is None:
             note = ("This plan as it is (every other value, and how it counts its stages) at other temperatures. "
                     + TREATMENTS[outcome.treatment].comparison_note)
-        except InputError as error:
-            self.pairs, note = [], error.message
-        if not self.pairs:
-            ax.set_axis_off()
-            ax.text(0.5, 0.5, note, transform=ax.transAxes, ha="center", va="center", wrap=True, fontsize=10, color="#555")
         else:
-            ax.set_axis_on()
-            ax.plot([units.temperature(T) for T, _ in self.pairs], [t / 3600 for _, t in self.pairs], "o-", color=INK,
-                    label="soak for the aim depth")
-            own = dict(self.pairs).get(values["temperature"])
-            if own is not None:
-                ax.plot([units.temperature(values["temperature"])], [own / 3600], "o", color=THRESHOLD, ms=9,
-                        label="this plan's temperature")
+            note = error.message if isinstance(error, InputError) else f"{type(error).__name__}: {error}"
+        values, ax = outcome.values, self.axes
+        self.plot.say(None if self.pairs else note)
+        self.soaks.set_visible(bool(self.pairs))
+        self.soaks.set_data([units.temperature(T) for T, _ in self.pairs], [t / 3600 for _, t in self.pairs])
+        own = dict(self.pairs).get(values["temperature"])
+        self.own.set_visible(own is not None)
+        if own is None:
+            self.own.set_data([], [])
+        else:
+            self.own.set_data([units.temperature(values["temperature"])], [own / 3600])
+        ax.relim()
+        ax.autoscale_view()
         ax.set_xlabel(f"temperature [{units.temperature_unit}]")
-        ax.set_ylabel("soak [h]")
-        ax.grid(True, color="#dddddd", lw=0.6)
-        ax.set_title(f"This plan at other temperatures: the soak for {formats.length(outcome.targets[1], units)}",
-                     fontsize=10)
-        self.plot.finish()
+        aim = formats.length(outcome.targets[1], units)
+        self.title.set_text(f"This plan at other temperatures: the soak for {aim}")
+        self.plot.finish(self.fit)
         self.table.setRowCount(len(self.pairs))
         for r, (T, t) in enumerate(self.pairs):
             self.table.setItem(r, 0, QTableWidgetItem(formats.temperature(T, units)))
-            self.table.setItem(r, 1, QTableWidgetItem(f"{format_duration(t)}  ({t / 3600:.2f} h)"))
+            self.table.setItem(r, 1, QTableWidgetItem(f"{format_duration(t)}  ({formats.hours(t)})"))
         self.split.fit_table()
         self.note.setText(note)
+        return True
 
     def save(self, path: str, dpi: int = 200) -> None:
         self.plot.save(path, dpi)
 
 
-class _HardenabilityPage(QWidget):
+class _HardenabilityPage(_Page):
     """The steel's hardenability: its Jominy curve (and the case's, at the surface carbon), the ideal critical
     diameter, and what the estimate rests on."""
 
@@ -408,39 +588,48 @@ class _HardenabilityPage(QWidget):
         layout = QVBoxLayout(self)
         layout.setContentsMargins(0, 0, 0, 0)
         self.plot = _KeyedPlot()
-        self.figure, self.canvas, self.axes = self.plot.figure, self.plot.canvas, self.plot.axes
         layout.addWidget(self.plot, 1)
         self.note = QLabel()
         self.note.setObjectName("hardenability_note")
         self.note.setWordWrap(True)
         layout.addWidget(self.note)
 
-    def show_outcome(self, outcome: Outcome, units: DisplayUnits) -> None:
-        facts = outcome.hardenability()
+    def _build(self, mpl: SimpleNamespace) -> None:
+        self.plot.build(mpl)
+        self.figure, self.canvas, self.axes = self.plot.figure, self.plot.canvas, self.plot.axes
         ax = self.axes
-        ax.clear()
-        steel = outcome.setup.steel
-        if "error" in facts:
-            ax.set_axis_off()
-            ax.text(0.5, 0.5, facts["error"], transform=ax.transAxes, ha="center", va="center", wrap=True, fontsize=10,
-                    color="#555")
-            self.note.setText("")
-            self.plot.finish()
-            return
-        ax.set_axis_on()
-        distance = facts["curve_distances"] / 0.0254 * 16.0  # sixteenths of an inch, as Jominy curves are read
-        ax.plot(distance, facts["curve_hrc"], color=INK, lw=2, label=f"core, {formats.carbon(steel.carbon)}")
-        if facts["case_curve_hrc"] is not None:
-            ax.plot(distance, facts["case_curve_hrc"], color=THRESHOLD, lw=2, ls="--",
-                    label=f"case at the surface carbon, {formats.carbon(facts['case_carbon'])}")
+        self.core, = ax.plot([], [], color=INK, lw=2)
+        self.case, = ax.plot([], [], color=THRESHOLD, lw=2, ls="--")
         ax.set_xlabel("distance from the quenched end [1/16 in]")
         ax.set_ylabel("hardness [HRC]")
         ax.set_xlim(0, 32)
-        ax.grid(True, color="#dddddd", lw=0.6)
+        self.title = ax.set_title("", fontsize=10)
+
+    def show_outcome(self, outcome: Outcome, units: DisplayUnits) -> None:
+        facts = outcome.hardenability()
+        steel = outcome.setup.steel
+        error = facts.get("error")
+        self.plot.say(error)
+        self.core.set_visible(error is None)
+        self.case.set_visible(error is None and facts["case_curve_hrc"] is not None)
+        if error is not None:
+            self.title.set_text("")
+            self.note.setText("")
+            self.plot.finish(self.fit)
+            return
+        distance = facts["curve_distances"] / 0.0254 * 16.0  # sixteenths of an inch, as Jominy curves are read
+        self.core.set_data(distance, facts["curve_hrc"])
+        self.core.set_label(f"core, {formats.carbon(steel.carbon)}")
+        if facts["case_curve_hrc"] is not None:
+            self.case.set_data(distance, facts["case_curve_hrc"])
+            self.case.set_label(f"case at the surface carbon, {formats.carbon(facts['case_carbon'])}")
+        else:
+            self.case.set_data([], [])
+        self.axes.relim()
+        self.axes.autoscale_view(scalex=False)
         ideal = facts["ideal_diameter"]
-        ax.set_title(f"Jominy end-quench curve of {steel.name}, estimated (D_I {formats.ideal_diameter(ideal)})",
-                     fontsize=10)
-        self.plot.finish()
+        self.title.set_text(f"Jominy end-quench curve of {steel.name}, estimated (D_I {formats.ideal_diameter(ideal)})")
+        self.plot.finish(self.fit)
         case = ("" if facts["case_ideal_diameter"] is None else
                 f"; the case at {formats.carbon(facts['case_carbon'])}: D_I "
                 f"{formats.ideal_diameter(facts['case_ideal_diameter'])}")
@@ -455,7 +644,13 @@ class _HardenabilityPage(QWidget):
 
 class ProfilePlots(QTabWidget):
     """Five pages: the main profile (carbon or nitrogen), hardness, the cycle and quote, other temperatures, and
-    the steel's hardenability."""
+    the steel's hardenability.
+
+    Only the page on show is drawn; another is drawn when it is shown. The Temperatures page asks for its
+    comparison with :attr:`comparison_wanted` (the window hands it to its worker) and draws the answer given to
+    :meth:`show_comparison`."""
+
+    comparison_wanted = Signal(object, object)  # the plan's values, the temperatures [K] to compare it at
 
     def __init__(self, parent=None):
         super().__init__(parent)
@@ -471,8 +666,23 @@ class ProfilePlots(QTabWidget):
         self.outcome: Outcome | None = None
         self.units = DisplayUnits()
         self.time = None
-        self._stale = {index: False for index in range(len(self.pages))}
+        self._stale: set[int] = set()  # pages to draw anew when they are shown
+        self._painted = False
         self.currentChanged.connect(self._page_shown)
+
+    @property
+    def waiting(self) -> bool:
+        """Whether the page on show waits for the worker (the comparison at other temperatures)."""
+        return self.currentWidget() is self.tradeoff_page and self.tradeoff_page.waiting
+
+    def paintEvent(self, event) -> None:
+        super().paintEvent(event)
+        if not self._painted:  # the window is on screen: now the page on show makes its figure
+            self._painted = True
+            QTimer.singleShot(0, self, self._build_current)
+
+    def _build_current(self) -> None:
+        self.currentWidget().build()
 
     def save_current(self, path: str, dpi: int = 200) -> None:
         self.pages[self.currentIndex()].save(path, dpi)
@@ -482,34 +692,60 @@ class ProfilePlots(QTabWidget):
         self.redraw()
 
     def set_time(self, time: float | None) -> None:
+        """Show the profiles at ``time`` [s] of the cycle (None: at its end); the other pages do not change."""
         self.time = time
-        self.redraw()
+        self._stale |= {self.pages.index(self.carbon_page), self.pages.index(self.hardness_page)}
+        self._page_shown(self.currentIndex())
 
     def redraw(self) -> None:
         """Draw the page on show now; the others when they are shown (drawing costs more than solving)."""
         if self.outcome is None:
             return
         self.setTabText(0, self.outcome.profile_name)
-        self._stale = {index: True for index in self._stale}
+        self._stale = set(range(len(self.pages)))
+        self._page_shown(self.currentIndex())
+
+    def show_comparison(self, values: dict, pairs: list | None, error: Exception | None) -> None:
+        """The worker's comparison of the plan ``values`` at other temperatures: kept if it is of the result on
+        show, and drawn if its page is on show."""
+        if self.outcome is None or values is not self.outcome.values:
+            return
+        self.tradeoff_page.take(values, pairs, error)
+        self._stale.add(self.pages.index(self.tradeoff_page))
         self._page_shown(self.currentIndex())
 
     def draw_all(self) -> None:
-        """Draw every page now (before exporting or printing); a page already drawn for this result is not made
-        again, only rendered."""
+        """Draw every page now (before exporting or printing): a page already drawn for this result is not made
+        again, only rendered; the comparison at other temperatures is worked out here if the worker has not."""
+        from ..plan import compare_temperatures
+
+        page = self.tradeoff_page
+        if self.outcome is not None and not page.has(self.outcome):
+            values = self.outcome.values
+            try:
+                page.take(values, compare_temperatures(values, page.temperatures(self.outcome)), None)
+            except CasedepthError as error:
+                page.take(values, None, error)
+            self._stale.add(self.pages.index(page))
         for index, page in enumerate(self.pages):
-            if self.outcome is not None and self._stale.get(index):
+            page.build()
+            if self.outcome is not None and index in self._stale:
                 self._draw_page(index)
             page.canvas.draw()
 
     def _page_shown(self, index: int) -> None:
-        if self.outcome is not None and self._stale.get(index):
+        if self.outcome is not None and index in self._stale:
             self._draw_page(index)
 
     def _draw_page(self, index: int) -> None:
         page = self.pages[index]
+        page.build()
+        self._stale.discard(index)
         if isinstance(page, _PlotPage):
             view = self.outcome.view(self.time)
             page.draw_panel(view.main if index == 0 else view.hardness, view, self.units)
+        elif page is self.tradeoff_page:
+            if not page.show_outcome(self.outcome, self.units):
+                self.comparison_wanted.emit(self.outcome.values, page.temperatures(self.outcome))
         else:
             page.show_outcome(self.outcome, self.units)
-        self._stale[index] = False

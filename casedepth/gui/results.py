@@ -111,7 +111,8 @@ class ResultPanel(QFrame):
         self.set_stale(True)
 
     def set_stale(self, stale: bool) -> None:
+        if stale != self.stale:  # (a style sheet set again costs as much as a new one)
+            self.setStyleSheet(STALE_STYLE if stale else BANNER_STYLE)
         self.stale = stale
-        self.setStyleSheet(STALE_STYLE if stale else BANNER_STYLE)
         if not stale:
             self.status.hide()

@@ -25,7 +25,6 @@ from ..files import FileWriteError, atomic_write
 from ..parameters import PARAMETERS, label
 from ..plan import Plan, PlanFileError, load, save
 from ..report.export import profile_csv, write_profile_csv
-from ..report.sources import model_sources
 from ..shop.quote import ShopDefaults
 from ..treatments import TREATMENTS
 from ..units import DisplayUnits, format_duration
@@ -184,6 +183,8 @@ class MainWindow(QMainWindow):
         self._fit_form()
         self.results = ResultPanel()
         self.plots = ProfilePlots()
+        self.plots.comparison_wanted.connect(self.calculator.compare)
+        self.calculator.compared.connect(self.plots.show_comparison)
         slider_row = QHBoxLayout()
         slider_row.addWidget(QLabel("Time"))
         self.time_slider = QSlider(Qt.Horizontal)
@@ -310,7 +311,7 @@ class MainWindow(QMainWindow):
         self.scroll.setMinimumWidth(self.form.minimumSizeHint().width() + self.scroll.verticalScrollBar().sizeHint().width() + 6)
 
     def _plan_changed(self, key, value) -> None:
-        QTimer.singleShot(0, self._fit_form)  # once the form has shown the change (it hears of it after the window)
+        QTimer.singleShot(0, self._fit_form)  # once the form has shown the change (it may hear of it after the window)
         self._update_title()
         self._update_undo()
         self.offers.show_offers(self.plan.offers())
@@ -723,6 +724,8 @@ class MainWindow(QMainWindow):
 
     # -- help ----------------------------------------------------------------------------------------------------
     def models_text(self) -> str:
+        from ..report.sources import model_sources
+
         rows = [f"<li><b>{html.escape(name)}</b> — {html.escape(source)}</li>" for name, source in model_sources()]
         return "<ul>" + "".join(rows) + "</ul>"
 

@@ -9,14 +9,12 @@ from __future__ import annotations
 
 import datetime as _dt
 import functools
-import itertools
 import math
 import os
 from dataclasses import astuple, dataclass, field, replace
 from pathlib import Path
 
 import numpy as np
-from matplotlib import path as mpath
 from matplotlib.backends.backend_agg import FigureCanvasAgg
 from matplotlib.backends.backend_pdf import PdfPages
 from matplotlib.figure import Figure
@@ -29,12 +27,13 @@ from ..carburizing.setup import CarburizingSetup
 from ..carburizing.soak import carburize, soak_times_for_case_depths
 from ..errors import InputError, NotReachableError
 from ..files import atomic_write
-from ..models.hardness import ASTM_E140_hrc_to_hv, ASTM_E140_hv_to_hrc, HARDNESS_RELATIONS
+from ..models.hardness import HARDNESS_RELATIONS
 from ..nitriding.nitride import nitride, nitriding_time
 from ..nitriding.setup import NitridingSetup, dissociation_for_potential
 from ..outcome import Outcome
 from ..treatments import TREATMENTS
 from ..units import DisplayUnits, format_clock, format_duration
+from .plot_marks import draw_cycle_words, hrc_scale, place_cycle_words
 
 PAPER = {"a4": (8.27, 11.69), "letter": (8.5, 11.0)}  # inches, portrait
 METRIC_DEPTHS = (0.3, 0.5, 0.8, 1.0, 1.2, 1.5, 2.0, 2.5)  # mm
@@ -79,7 +78,8 @@ def _chart_table(fig: Figure, box: list[float], title: str, header: list[str], r
     _table(fig.add_axes(box), rows, header, size=7.5 if len(header) > 4 else 8)
     fig.text(0.1, box[1] + box[3] + 0.015, title, fontsize=10, weight="bold", color=INK)
     if beyond_hours is not None:
-        fig.text(0.1, box[1] - 0.02, f"† beyond the {beyond_hours:g} h of the plot", fontsize=7.5, color="#555")
+        fig.text(0.1, box[1] - 0.02, f"† beyond the {formats.hours(beyond_hours * 3600)} of the plot", fontsize=7.5,
+                 color="#555")
 
 
 def _axis_hours(hours: float | None, times: list[list[float]], choices: tuple[float, ...]) -> float:
@@ -191,7 +191,7 @@ def case_depth_chart(setup: CarburizingSetup, temperatures: list[float] | None =
         for t, row in zip(values["soak_times"][k], rows):
             mark = " †" if t > hours * 3600.0 else ""
             beyond = beyond or bool(mark)
-            row.append("—" if math.isnan(t) else f"{format_duration(t)}  ({t / 3600:.2f} h){mark}")
+            row.append("—" if math.isnan(t) else f"{format_duration(t)}  ({formats.hours(t)}){mark}")
     ax.set_xlim(0, hours)
     ax.set_ylim(0, None)
     ax.set_xlabel("time at temperature [h]")
@@ -310,108 +310,6 @@ def _nitriding_chart_lines(setup: NitridingSetup, temperatures, u: DisplayUnits)
         (f"Models: {setup.models_text()}{calibrated}. Uncertainty: {setup.uncertainty}; compound layer ±50 %. "
          f"Time at temperature only: heat-up, purge and cool-down are not included."),
     ]
-
-
-# -- the cycle plot's words: the window's cycle page and the floor's sheet name stages and moments alike -----------
-def draw_cycle_words(ax, line, colour: str = "#2a7f62", size: float = 7.0) -> tuple[list, list]:
-    """Shade every other stage of the cycle ``line`` (a :class:`~casedepth.outcome.Timeline`) in ``ax`` and write
-    each stage's first word and each moment (a purge, the atmosphere going in) with its dotted line; returns the
-    stages' names as (text, start [h], end [h]) and the moments' words, to be placed by :func:`place_cycle_words`
-    once the axes have their size."""
-    stages, moments = [], []
-    words = {"fontsize": size, "clip_on": True, "in_layout": False, "parse_math": False}
-    for i, (start, end, label) in enumerate(line.labels):
-        if i % 2 == 0:
-            ax.axvspan(start / 3600.0, end / 3600.0, color="#eef2f6", lw=0, zorder=0)
-        text = ax.text((start + end) / 7200.0, 0.0, label.split(" ")[0], transform=ax.get_xaxis_transform(),
-                       ha="center", va="bottom", color="#555", **words)
-        stages.append((text, start / 3600.0, end / 3600.0))
-    for time, what in line.markers:
-        ax.axvline(time / 3600.0, color=colour, lw=1.2, ls=":")
-        moments.append(ax.text(time / 3600.0, 0.97, what, transform=ax.get_xaxis_transform(), va="top", color=colour,
-                               style="italic", bbox={"boxstyle": "square,pad=0.15", "fc": "white", "ec": "none",
-                                                     "alpha": 0.85}, **words))
-    return stages, moments
-
-
-def place_cycle_words(ax, stages: list, moments: list, curves: list, gap: float = 2.0) -> None:
-    """Place the words of :func:`draw_cycle_words` where they are clear, measured in display units on the axes as
-    drawn now: each moment along the top, in the first row where it crosses no curve and no other word (after its
-    line, or before it near the right edge or where after it is not clear; on its white ground it may cover the
-    moments' dotted lines); each stage's name level if it fits in its span, else upright, at the lowest place in
-    its span where it keeps ``gap`` points from every curve in ``curves`` (the temperature, the potential, the
-    moments' lines) and from the other words. Words with no such place are left out (the stage table names the
-    stage; the dotted line still marks the moment)."""
-    if not stages and not moments:
-        return
-    for axes in {ax, *(curve.axes for curve in curves)}:  # limits still to be autoscaled are set now
-        axes.get_xlim(), axes.get_ylim()
-    x0, x1 = ax.get_xlim()
-    renderer = ax.figure.canvas.get_renderer()
-    frame = ax.get_window_extent(renderer)
-    pad = renderer.points_to_pixels(gap)
-    # (a moment's dotted line: the same time all the way up)
-    paths = [(len(set(curve.get_xdata())) == 1, path) for curve in curves if curve.get_visible()
-             for path in _drawn_runs(curve)]
-    taken: list = []
-
-    def clear(box, over_dotted_lines: bool = False) -> bool:
-        padded = box.padded(pad)
-        return (frame.x0 <= padded.x0 and padded.x1 <= frame.x1 and frame.y0 <= padded.y0 and padded.y1 <= frame.y1
-                and not any(padded.overlaps(o) for o in taken)
-                and not any(path.intersects_bbox(padded, filled=False) for dotted, path in paths
-                            if not (dotted and over_dotted_lines)))
-
-    rows = [0.97 - 0.1 * row for row in range(5)]
-    for text in moments:
-        time = text.get_position()[0]
-        word = text.get_text().strip()
-        sides = ("right", "left") if (time - x0) / max(x1 - x0, 1e-9) > 0.6 else ("left", "right")
-        text.set_visible(True)  # (an invisible text measures as nothing)
-        for side, y in itertools.product(sides, rows):
-            text.set(ha=side, text=f"{word} " if side == "right" else f" {word}")
-            if clear(_at(text, y, renderer), over_dotted_lines=True):
-                taken.append(text.get_window_extent(renderer))
-                break
-        else:
-            text.set_visible(False)
-    to_display = ax.transData.transform
-    for text, start, end in stages:
-        left, right = to_display([(start, 0.0), (end, 0.0)])[:, 0]
-        text.set_visible(True)  # (an invisible text measures as nothing)
-        text.set_visible(any(_lift(text, rotation, right - left, frame, clear, pad, renderer) for rotation in (0, 90)))
-        if text.get_visible():
-            taken.append(text.get_window_extent(renderer))
-
-
-def _lift(text, rotation: float, room: float, frame, clear, pad: float, renderer) -> bool:
-    """Turn a stage's name by ``rotation`` and set it at the lowest place where ``clear`` holds; False if it is
-    wider than its span (``room`` pixels) or no place is clear."""
-    text.set(rotation=rotation, y=0.0)
-    box = text.get_window_extent(renderer)
-    if box.width + 2 * pad > room or box.height > 0.45 * frame.height:
-        return False
-    lift = pad
-    while frame.y0 + lift + box.height + pad <= frame.y1:
-        if clear(box.translated(0.0, frame.y0 + lift - box.y0)):
-            text.set_y(lift / frame.height)
-            return True
-        lift += max(pad, 1.0)
-    return False
-
-
-def _drawn_runs(curve) -> list[mpath.Path]:
-    """The runs of a line as drawn, in display units: split where it has no value (NaN), as the line is."""
-    xy = curve.get_transform().transform(curve.get_xydata())
-    finite = np.isfinite(xy).all(axis=1)
-    runs = np.split(np.arange(len(xy)), np.flatnonzero(~finite))
-    return [mpath.Path(xy[run[finite[run]]]) for run in runs if finite[run].sum() > 1]
-
-
-def _at(text, y: float, renderer):
-    """Move ``text`` to ``y`` (axes fraction) and return where it is drawn now."""
-    text.set_y(y)
-    return text.get_window_extent(renderer)
 
 
 # -- process sheet (for the floor) and quote sheet (for the office) ----------------------------------------
@@ -801,9 +699,9 @@ def quote_sheet(plan, outcome: Outcome, paper: str = "a4", units: str = "metric"
     defaults = ShopDefaults.from_dict(shop_values)
     rate = defaults.furnace_rate_per_h if rate is None else rate
     parts = defaults.parts_per_load if parts is None else parts
-    rows = [[label, f"{hours:.2f}", format_clock(hours * 3600), formats.money(hours * rate, currency)]
+    rows = [[label, formats.hours(hours * 3600), format_clock(hours * 3600), formats.money(hours * rate, currency)]
             for label, hours in quote.lines]
-    rows.append(["Whole cycle", f"{quote.total_h:.2f}", format_clock(quote.total_h * 3600),
+    rows.append(["Whole cycle", formats.hours(quote.total_h * 3600), format_clock(quote.total_h * 3600),
                  formats.money(quote.cost_per_load, currency)])
     page.text(0.06, 0.82, "Cycle and cost", fontsize=10, weight="bold", color=INK)
     height = min(0.024 * (len(rows) + 1), 0.55)
@@ -891,24 +789,6 @@ def _continued_heading(page: _Paper, plan, revision: str, date: _dt.date) -> flo
     return SHEET_TOP + _CONTINUED
 
 
-def _hv_to_hrc(hv):
-    return ASTM_E140_hv_to_hrc(np.clip(hv, 238.0, 940.0))
-
-
-def _hrc_to_hv(hrc):
-    return ASTM_E140_hrc_to_hv(np.clip(hrc, 20.0, 68.0))
-
-
-def hrc_scale(axis, size: float | None = None):
-    """A Rockwell C scale on the right of a hardness plot in HV, by the conversion of ASTM E140 where it is
-    tabulated (20–68 HRC; held at its ends beyond); the window's hardness page and the sheet both draw it."""
-    scale = axis.secondary_yaxis("right", functions=(_hv_to_hrc, _hrc_to_hv))
-    scale.set_ylabel("[HRC]", fontsize=size)
-    if size is not None:
-        scale.tick_params(labelsize=SMALLEST)
-    return scale
-
-
 def _profiles(ax, hax, outcome: Outcome, u: DisplayUnits, height: float) -> None:
     """The two profile plots of the process sheet (``height`` [in] of the plots): what the window shows at the end
     of the cycle."""
@@ -929,7 +809,7 @@ def _profiles(ax, hax, outcome: Outcome, u: DisplayUnits, height: float) -> None
         axis.set_ylabel(_axis_label(panel.quantity, 7.5, height), fontsize=7.5)
         axis.set_xlim(0, u.length(view.reach))
     if "HV" in view.hardness.quantity:
-        hrc_scale(hax, 7.5)
+        hrc_scale(hax, 7.5, SMALLEST)
     ax.set_title("Profile at the end", fontsize=8)
     hax.set_title("Estimated hardness", fontsize=8)
 
@@ -941,7 +821,7 @@ def _axis_label(text: str, size: float, room: float) -> str:
 
 def _timeline(ax, outcome: Outcome, u: DisplayUnits, height: float) -> None:
     """The cycle on the sheet (``height`` [in] of the plot): temperature and potential, the stages and moments
-    named as the window names them (:func:`draw_cycle_words`)."""
+    named as the window names them (:func:`~casedepth.report.plot_marks.draw_cycle_words`)."""
     line = outcome.timeline()
     hours = line.times / 3600
     shown = np.array([u.temperature(t) for t in line.temperatures])
