@@ -681,7 +681,7 @@ class CarburizingOutcome(Outcome):
             lines.append(f"Boost {format_duration(self.boost_time)}, then diffuse {format_duration(self.diffuse_time)} "
                          f"at {units.format_temperature(s.temperature)}")
         else:
-            lines.append("Stages as entered (see the cycle page)")
+            lines.append("Stages as entered (every stage in the setpoints)")
         if self.cycle_kind != "stages":
             lines.append("Shop stages " + describe_counted(self.planned.counted))
         lines.append(f"{s.threshold.depth_name.capitalize()} {units.format_length(self.depth)} at {s.threshold}; surface "
