@@ -10,6 +10,7 @@ band never narrows the spread).
 from __future__ import annotations
 
 import json
+import pathlib
 import math
 import statistics
 
@@ -155,3 +156,20 @@ def test_centred_soak_puts_at_least_as_many_parts_inside_and_its_depths_hold():
                       optimize=True)
     exact = forward(values, line.centred.soak).window_depth
     assert line.centred.depths[0] == pytest.approx(exact, rel=3e-3)
+
+
+def test_other_figures_spread_too():
+    """Surface carbon (carburizing) and the compound layer (nitriding) get percentiles beside the depth; a wider
+    potential band never narrows the surface carbon's spread."""
+    values = plain(beta="1.5e-5cm/s")
+    narrow = capability(values, Spread(bands={"temperature": 0.0, "carbon_potential": 0.02, "beta": 1.0}, samples=32))
+    wide = capability(values, Spread(bands={"temperature": 0.0, "carbon_potential": 0.08, "beta": 1.0}, samples=32))
+    width = [c.figure_percentiles("surface_carbon_pct")["p95"] - c.figure_percentiles("surface_carbon_pct")["p5"]
+             for c in (narrow, wide)]
+    assert width[1] > width[0] > 0.0
+    assert "surface_carbon_percentiles_pct" in wide.to_dict()
+    nitrided = casedepth.load(pathlib.Path(__file__).parents[1]
+                              / "resources/examples/piston-rod-nitrided.cdplan.json").values()
+    found = capability(nitrided, Spread(samples=16))
+    layer = found.figure_percentiles("compound_layer_um")
+    assert 0.0 < layer["p5"] < layer["p95"]

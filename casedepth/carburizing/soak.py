@@ -56,6 +56,11 @@ class CarburizingResult:
         return self.case_depth
 
     @property
+    def spread_figures(self) -> dict[str, float]:
+        """The figures besides the depth that a load's spread is reported for (casedepth.shop.capability)."""
+        return {"surface_carbon_pct": self.surface_carbon}
+
+    @property
     def threshold_carbon(self) -> float:
         return self.setup.threshold_carbon
 

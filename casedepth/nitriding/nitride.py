@@ -51,6 +51,11 @@ class NitridingResult:
         """The depth the drawing's window is about [m]: the nitrided hardness depth."""
         return self.nitrided_depth
 
+    @property
+    def spread_figures(self) -> dict[str, float]:
+        """The figures besides the depth that a load's spread is reported for (casedepth.shop.capability)."""
+        return {"compound_layer_um": self.compound_layer * 1e6}
+
     def to_dict(self) -> dict:
         """The JSON of ``casedepth nitride --time`` (units in the key names)."""
         from .setup import dissociation_for_potential

@@ -146,6 +146,7 @@ class Capability:
     sensitivity: dict[str, tuple[float, float]]
     composition_range: dict[str, tuple[float, float]]
     centred: "Centred | None" = None
+    figures: dict[str, np.ndarray] = field(default_factory=dict)  # the parts' other figures (FIGURES), by key
 
     #: a load is capable when at least this share of its parts lands inside the window (common practice: 95 %)
     WANTED_SHARE = 0.95
@@ -176,6 +177,10 @@ class Capability:
         room = min(self.window[1] - mean, mean - self.window[0])
         return math.inf if sigma == 0.0 else room / (3.0 * sigma)
 
+    def figure_percentiles(self, name: str) -> dict[str, float]:
+        """p1 … p99 of one of the parts' other figures, in its own unit (the key's suffix)."""
+        return {f"p{p}": float(np.percentile(self.figures[name], p)) for p in self.PERCENTILES}
+
     def ranked(self) -> list[tuple[str, float]]:
         """Inputs by how far their band alone moves the depth (half the low-to-high change [m]), largest first."""
         moves = {key: abs(high - low) / 2.0 for key, (low, high) in self.sensitivity.items()}
@@ -187,6 +192,7 @@ class Capability:
             "case_depth_percentiles_mm": {k: v * 1e3 for k, v in self.percentiles.items()},
             "share_in_window": self.share_in_window, "cp": _finite(self.cp), "cpk": _finite(self.cpk),
             "window_mm": [self.window[0] * 1e3, self.window[1] * 1e3],
+            **{_percentiles_key(name): self.figure_percentiles(name) for name in self.figures},
             "sensitivity": {key: {"low_mm": low * 1e3, "high_mm": high * 1e3}
                             for key, (low, high) in self.sensitivity.items()},
             **({} if self.centred is None else {
@@ -207,6 +213,9 @@ class Capability:
         bands.append("composition " + ("nominal" if not self.composition_range else "over the grade's range"))
         lines.append("  spread            " + "; ".join(bands))
         lines.append("  depth             " + " · ".join(f"{k} {units.format_length(v)}" for k, v in pct.items()))
+        for name in self.figures:
+            label, shown = FIGURES[name]
+            lines.append(f"  {label:17s} " + " · ".join(f"{k} {shown(v)}" for k, v in self.figure_percentiles(name).items()))
         lines.append(f"  drawing window    {formats.length_range(low, high, units)}: {formats.percent(100 * self.share_in_window)} "
                      f"inside; Cp {_index(self.cp)}, Cpk {_index(self.cpk)}")
         moves = [f"{SPREAD_INPUTS[k].label if k in SPREAD_INPUTS else k} ±{units.format_length(m)}"
@@ -230,6 +239,19 @@ class Capability:
         return [f"Fewer than {formats.percent(100 * self.WANTED_SHARE)} of the parts land inside "
                 f"{formats.length_range(*self.window)} {where} (best {formats.percent(100 * best)}): tighten the "
                 f"{name} first; it moves the depth most."]
+
+
+#: the figures besides the depth a load's spread is reported for: key (unit as its suffix) -> (label, format)
+FIGURES: dict[str, tuple[str, Callable[[float], str]]] = {
+    "surface_carbon_pct": ("surface carbon", formats.carbon),
+    "compound_layer_um": ("compound layer", lambda um: formats.thin_length(um * 1e-6)),
+}
+
+
+def _percentiles_key(name: str) -> str:
+    """``surface_carbon_pct`` -> ``surface_carbon_percentiles_pct`` (as ``case_depth_percentiles_mm``)."""
+    base, unit = name.rsplit("_", 1)
+    return f"{base}_percentiles_{unit}"
 
 
 def _finite(value: float) -> float | None:
@@ -306,7 +328,7 @@ def capability(values: Mapping[str, Any], spread: Spread = Spread(), soak: float
             column = np.clip(0.5 + _offset(column, 0.5, "normal"), 0.0, 1.0)
         columns[element] = low + column * (high - low)
 
-    def part(changes: Mapping[str, float], at: float = soak) -> float:
+    def run(changes: Mapping[str, float], at: float = soak):
         moved = dict(base)
         composition = dict(base["composition"])
         for key, x in changes.items():
@@ -315,11 +337,16 @@ def capability(values: Mapping[str, Any], spread: Spread = Spread(), soak: float
             else:
                 composition[key] = x
         moved["composition"] = composition
-        return forward(moved, at).window_depth
+        return forward(moved, at)
+
+    def part(changes: Mapping[str, float], at: float = soak) -> float:
+        return run(changes, at).window_depth
 
     nominal = part({})
     parts = [{key: float(col[i]) for key, col in columns.items()} for i in range(spread.samples)]
-    depths = np.array([part(changes) for changes in parts])
+    results = [run(changes) for changes in parts]
+    depths = np.array([r.window_depth for r in results])
+    figures = {name: np.array([r.spread_figures[name] for r in results]) for name in results[0].spread_figures}
     centred = None
     if optimize:
         later = soak * (1.0 + OPTIMIZE_STEP)
@@ -334,7 +361,7 @@ def capability(values: Mapping[str, Any], spread: Spread = Spread(), soak: float
         sensitivity["composition"] = (part({el: lo for el, (lo, hi) in ranges.items()}),
                                       part({el: hi for el, (lo, hi) in ranges.items()}))
     window = (values["case_min"], values["case_max"])
-    return Capability(values, soak, nominal, depths, window, bands, spread, sensitivity, ranges, centred)
+    return Capability(values, soak, nominal, depths, window, bands, spread, sensitivity, ranges, centred, figures)
 
 
 #: the second soak each part is run at to find its rate, over the first: 20 % longer
