@@ -169,9 +169,10 @@ def _build_parser(argv: list[str] | None = None) -> argparse.ArgumentParser:
                                          "each, and say where the depths fall: percentiles, the share inside the "
                                          "drawing's window, Cp and Cpk, and which input moves the depth most.")
     cp.add_argument("plan", metavar="PLAN", help="a one-soak plan file (*.cdplan.json)")
-    cp.add_argument("--temperature-band", metavar="10C", help="furnace uniformity, ± (default 10 °C, AMS 2750 class 4)")
+    cp.add_argument("--temperature-band", metavar="10C",
+                    help="furnace uniformity, ± (default: the shop's temperature tolerance, as on the process sheet)")
     cp.add_argument("--potential-band", metavar="0.05",
-                    help="potential held within ±: %%C for carburizing, K_N for nitriding (default 0.05 %%C, 10 %% of K_N)")
+                    help="potential held within ±: %%C for carburizing, K_N for nitriding (default: the shop's tolerance)")
     cp.add_argument("--beta-range", metavar="1e-5-2e-5cm/s",
                     help="the parts' mass-transfer coefficient anywhere in this range (default the plan's β /2 to ×2)")
     cp.add_argument("--composition", choices=["nominal", "grade-range"], default="nominal",

@@ -173,3 +173,16 @@ def test_other_figures_spread_too():
     found = capability(nitrided, Spread(samples=16))
     layer = found.figure_percentiles("compound_layer_um")
     assert 0.0 < layer["p5"] < layer["p95"]
+
+
+def test_default_bands_are_the_shops_tolerances():
+    """One source of truth: the spread a load is judged with is the band the process sheet tells the floor to
+    hold (the shop's tolerances), unless the command line gives another."""
+    from casedepth.shop.quote import ShopDefaults
+
+    values = plain()
+    shop = ShopDefaults.from_dict(values["shop"])
+    bands = Spread().resolved(values)
+    assert bands["temperature"] == shop.temperature_tolerance_c
+    assert bands["carbon_potential"] == shop.potential_tolerance_pct
+    assert "kn" not in bands and "beta" not in bands  # a held surface has no β to spread

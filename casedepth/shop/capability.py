@@ -26,6 +26,7 @@ from .. import formats
 from ..errors import InputError
 from ..models.steels import find
 from ..parameters import PARAMETERS
+from .quote import ShopDefaults
 from ..treatments import treatment_of
 from ..units import DisplayUnits, format_duration
 
@@ -57,6 +58,11 @@ class SpreadInput:
     note: str  # where the default comes from
 
 
+def _shop(values: Mapping[str, Any]) -> ShopDefaults:
+    """The plan's shop (its tolerance bands are the load's default spread)."""
+    return ShopDefaults.from_dict(values["shop"]) if "shop" in values else ShopDefaults()
+
+
 def _used(key: str, values: Mapping[str, Any]) -> bool:
     """Whether the plan's parameter ``key`` plays a part in the plan (the parameter table says)."""
     return key in values and PARAMETERS[key].used_by(values)
@@ -68,18 +74,21 @@ def _beta_applies(values) -> bool:
 
 #: the inputs a load spreads, each with its default band (half-widths; a normal distribution reads them as 2σ)
 SPREAD_INPUTS: dict[str, SpreadInput] = {row.key: row for row in (
-    SpreadInput("temperature", "furnace temperature", lambda v: 10.0 if _used("temperature", v) else None,
+    SpreadInput("temperature", "furnace temperature",
+                lambda v: _shop(v).temperature_tolerance_c if _used("temperature", v) else None,
                 lambda v, x: {"temperature": v["temperature"] + x},
                 lambda b: f"±{formats.typed(round(b, 2), '°C')}, {survey_class(b)}",
-                "±10 °C, AMS 2750 class 4: common practice for carburizing and nitriding furnaces"),
-    SpreadInput("carbon_potential", "carbon potential", lambda v: 0.05 if _used("carbon_potential", v) else None,
+                "the shop's temperature tolerance (Edit → Shop; the band the process sheet prints)"),
+    SpreadInput("carbon_potential", "carbon potential",
+                lambda v: _shop(v).potential_tolerance_pct if _used("carbon_potential", v) else None,
                 lambda v, x: {"carbon_potential": v["carbon_potential"] + x},
                 lambda b: f"±{formats.carbon(b)}",
-                "±0.05 %C: what a probe-controlled furnace holds (common practice)"),
-    SpreadInput("kn", "nitriding potential", lambda v: 0.1 * v["kn"] if _used("kn", v) else None,
+                "the shop's carbon-potential tolerance (the band the process sheet prints)"),
+    SpreadInput("kn", "nitriding potential",
+                lambda v: _shop(v).kn_tolerance_pct / 100.0 * v["kn"] if _used("kn", v) else None,
                 lambda v, x: {"kn": v["kn"] + x},
                 lambda b: f"±{formats.kn(b)}",
-                "±10 % of K_N: what a controlled retort holds (common practice)"),
+                "the shop's K_N tolerance (the band the process sheet prints)"),
     SpreadInput("beta", "mass-transfer coefficient", lambda v: 2.0 if _beta_applies(v) else None,
                 lambda v, x: {"beta": v["beta"] * x},
                 lambda b: f"from β/{formats.trimmed(b, 2)} to β×{formats.trimmed(b, 2)}",
