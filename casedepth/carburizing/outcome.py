@@ -480,8 +480,8 @@ class CarburizingOutcome(Outcome):
         facts = []
         if self.cycle_kind == "single":
             soak_low, _, soak_high = self.soak_window
-            facts.append(Fact("window", "Drawing window", f"{units.format_length(low)} in {format_duration(soak_low)}  "
-                                                          f"to  {units.format_length(high)} in {format_duration(soak_high)}"))
+            facts.append(Fact("window", "Drawing window", f"{units.format_length(low)} after {format_duration(soak_low)}  "
+                                                          f"to  {units.format_length(high)} after {format_duration(soak_high)}"))
         else:
             inside = low <= self.depth <= high
             facts.append(Fact("window", "Drawing window", f"{units.format_length(low)} to {units.format_length(high)}"

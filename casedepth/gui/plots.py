@@ -3,8 +3,9 @@
 The profile pages draw the :class:`~casedepth.outcome.Panel` of the outcome's
 :meth:`~casedepth.outcome.Outcome.view` (carbon or nitrogen, and hardness); the cycle page its
 :meth:`~casedepth.outcome.Outcome.timeline` and quote; the temperatures page the plan evaluated at
-other temperatures (:func:`casedepth.plan.compare_temperatures`, worked out on the window's worker). No page
-asks which treatment it shows.
+other temperatures (:func:`casedepth.plan.compare_temperatures`) and the load spread page the depths of a load's
+parts (:func:`casedepth.shop.capability.capability`), both worked out on the window's worker. No page asks which
+treatment it shows.
 
 A planner expects the plot to follow an edit at once, and drawing costs more than solving, so:
 
@@ -29,12 +30,13 @@ from types import SimpleNamespace
 
 import numpy as np
 from PySide6.QtCore import Qt, QTimer, Signal
-from PySide6.QtWidgets import (QHeaderView, QLabel, QSplitter, QTableWidget, QTableWidgetItem, QTabWidget, QVBoxLayout,
-                               QWidget)
+from PySide6.QtWidgets import (QHeaderView, QLabel, QScrollArea, QSplitter, QTableWidget, QTableWidgetItem, QTabWidget,
+                               QVBoxLayout, QWidget)
 
 from .. import formats
 from ..errors import CasedepthError, InputError
 from ..outcome import Outcome, Panel, ProfileView
+from ..shop.capability import SPREAD_INPUTS, Capability, Spread, capability
 from ..treatments import TREATMENTS
 from ..units import DisplayUnits, format_duration
 
@@ -475,7 +477,8 @@ class _KeyedPlot(QWidget):
             self.axes.set_axis_off()
 
     def handles(self):
-        return [h for h in self.axes.get_lines() if h.get_visible() and not h.get_label().startswith("_")]
+        return [h for h in self.axes.get_lines() + self.axes.patches
+                if h.get_visible() and not h.get_label().startswith("_")]
 
     def finish(self, fit) -> None:
         """After new data: the key, the margins (``fit``: the page's :meth:`_Page.fit`), the canvas."""
@@ -487,6 +490,11 @@ class _KeyedPlot(QWidget):
 
     def save(self, path: str, dpi: int = 200) -> None:
         save_with_legend(self.figure, self.axes, self.handles(), path, dpi)
+
+
+def _why(error: Exception) -> str:
+    """What a refusal or an unforeseen failure says, for the page that shows it instead of its plot."""
+    return error.message if isinstance(error, InputError) else f"{type(error).__name__}: {error}"
 
 
 class _TradeoffPage(_Page):
@@ -550,7 +558,7 @@ class _TradeoffPage(_Page):
             note = ("This plan as it is (every other value, and how it counts its stages) at other temperatures. "
                     + TREATMENTS[outcome.treatment].comparison_note)
         else:
-            note = error.message if isinstance(error, InputError) else f"{type(error).__name__}: {error}"
+            note = _why(error)
         values, ax = outcome.values, self.axes
         self.plot.say(None if self.pairs else note)
         self.soaks.set_visible(bool(self.pairs))
@@ -577,6 +585,155 @@ class _TradeoffPage(_Page):
 
     def save(self, path: str, dpi: int = 200) -> None:
         self.plot.save(path, dpi)
+
+
+class _SpreadPage(_Page):
+    """Where the case depths of a load's parts fall (:func:`casedepth.shop.capability.capability`): a histogram of
+    the parts' depths over the drawing's window beside the figures in the library's words, and what the spread
+    rests on under both. A plan with no single soak gets the refusal instead of the plot.
+
+    The load is worked out on the window's worker, as the temperatures page's comparison: :meth:`show_outcome`
+    draws it when it has the answer for the outcome (:meth:`take`), else says it is being worked out and returns
+    False."""
+
+    #: small enough to be worked out in about a second
+    SPREAD = Spread(samples=64)
+
+    def __init__(self, parent=None):
+        super().__init__(parent)
+        layout = QVBoxLayout(self)
+        layout.setContentsMargins(0, 0, 0, 0)
+        self.plot = _KeyedPlot()
+        self.figures = QLabel()
+        self.figures.setObjectName("spread_figures")
+        self.figures.setWordWrap(True)
+        self.figures.setAlignment(Qt.AlignTop | Qt.AlignLeft)
+        self.figures.setTextInteractionFlags(Qt.TextSelectableByMouse)
+        self.figures.setContentsMargins(6, 4, 6, 4)
+        self.side = QScrollArea()  # a long warning scrolls rather than being cut off
+        self.side.setWidget(self.figures)
+        self.side.setWidgetResizable(True)
+        self.side.setHorizontalScrollBarPolicy(Qt.ScrollBarAlwaysOff)
+        self.side.setFrameShape(QScrollArea.NoFrame)
+        self.split = QSplitter(Qt.Horizontal)
+        self.split.addWidget(self.plot)
+        self.split.addWidget(self.side)
+        self.split.setSizes([550, 450])  # kept in proportion as the page is resized
+        layout.addWidget(self.split, 1)
+        self.note = QLabel()
+        self.note.setObjectName("spread_note")
+        self.note.setWordWrap(True)
+        layout.addWidget(self.note)
+        self.capability: Capability | None = None
+        self.waiting = False  # for the worker's answer
+        self._answer: tuple[dict, Capability | None, Exception | None] | None = None  # (values, answer, error)
+
+    def _build(self, mpl: SimpleNamespace) -> None:
+        from matplotlib.ticker import MaxNLocator
+
+        self.plot.build(mpl)
+        self.figure, self.canvas, self.axes = self.plot.figure, self.plot.canvas, self.plot.axes
+        ax = self.axes
+        ax.set_axisbelow(True)  # the grid behind the bars
+        self.band = ax.axvspan(0, 0, color=WINDOW, alpha=0.22, lw=0)
+        self.parts = ax.stairs([0], [0, 1], fill=True, color=INK, alpha=0.75, label="parts of the load")
+        self.aim = ax.axvline(0, color=THRESHOLD, lw=1.4, ls="--")
+        ax.yaxis.set_major_locator(MaxNLocator(integer=True))
+        self.title = ax.set_title("", fontsize=10)
+
+    def has(self, outcome: Outcome) -> bool:
+        """Whether the page has the load's spread for ``outcome``'s plan."""
+        return self._answer is not None and self._answer[0] is outcome.values
+
+    def take(self, values: dict, answer: Capability | None, error: Exception | None) -> None:
+        """The spread of a load of the plan ``values``, or (``error``) why there is none."""
+        self._answer = (values, answer if error is None else None, error)
+
+    def work_out(self, outcome: Outcome) -> None:
+        """Work the spread out here and now (before exporting or printing, when the worker has not)."""
+        try:
+            self.take(outcome.values, capability(outcome.values, self.SPREAD), None)
+        except CasedepthError as error:
+            self.take(outcome.values, None, error)
+
+    def show_outcome(self, outcome: Outcome, units: DisplayUnits) -> bool:
+        """Draw the load's spread for ``outcome``; False (the last one left on show, greyed) while it is not
+        known."""
+        self.waiting = not self.has(outcome)
+        self.figures.setEnabled(not self.waiting)
+        bands = _bands_note(self.SPREAD.resolved(outcome.values))
+        if self.waiting:
+            self.note.setText(f"<i>Working out how the case depths of a load's parts spread…</i> {bands}")
+            self.note.show()
+            return False
+        self.note.setText(bands)
+        _, self.capability, error = self._answer
+        found = self.capability
+        self.plot.say(None if found is not None else _why(error))
+        for artist in (self.parts, self.band, self.aim):
+            artist.set_visible(found is not None)
+        self.side.setVisible(found is not None)  # a refusal is written across the whole page
+        self.note.setVisible(found is not None and bool(bands))
+        if found is None:  # no labels either: the axes are off, and the message has the whole canvas
+            self.title.set_text("")
+            self.axes.set_xlabel("")
+            self.axes.set_ylabel("")
+            self.figures.setText("")
+            self.plot.finish(self.fit)
+            return True
+        ax = self.axes
+        depths = units.length(found.depths)
+        low, high = (units.length(end) for end in found.window)
+        counts, edges = np.histogram(depths, bins="sturges")
+        self.parts.set_data(counts, edges)
+        self.band.set_x(low)
+        self.band.set_width(high - low)
+        self.band.set_label(f"drawing window {formats.length_range(*found.window, units)}")
+        nominal = units.length(found.nominal)
+        self.aim.set_xdata([nominal, nominal])
+        self.aim.set_label(f"the plan's aim {formats.length(found.nominal, units)}")
+        reach = max(high, float(edges[-1])) - min(low, float(edges[0]))
+        ax.set_xlim(*round_out(ax.xaxis, min(low, float(edges[0])) - 0.05 * reach,
+                               max(high, float(edges[-1])) + 0.05 * reach))
+        ax.set_ylim(*round_out(ax.yaxis, 0.0, float(counts.max()) * 1.1))
+        ax.set_xlabel(f"case depth [{units.length_unit}]")
+        ax.set_ylabel("parts")
+        self.title.set_text(f"The load's parts after the soak of {format_duration(found.soak)}")
+        self.plot.finish(self.fit)
+        self.figures.setText(_figures_html(found.text(units)))
+        return True
+
+    def save(self, path: str, dpi: int = 200) -> None:
+        self.plot.save(path, dpi)
+
+
+def _bands_note(bands: dict[str, float]) -> str:
+    """Where the bands of a load's spread come from (``bands``: :meth:`Spread.resolved`, by input)."""
+    shop = [SPREAD_INPUTS[key].label for key in bands if key != "beta"]
+    if not shop:
+        return ""
+    note = f"Each part has its {' and '.join(shop)} anywhere in the shop's tolerances (Edit → Shop times and rates)"
+    if "beta" in bands:
+        factor = formats.trimmed(bands["beta"], 2)
+        note += f", and its mass-transfer coefficient anywhere from β ÷ {factor} to β × {factor}"
+    return note + "."
+
+
+def _figures_html(text: str) -> str:
+    """The library's text of a load's spread (:meth:`Capability.text`) as a table of its lines: the first line
+    over it, each figure's name beside what it says (a list's items, "p5 0.90 mm", each kept on one line), the
+    warnings under it in red."""
+    lines = text.splitlines()
+    rows, warned = [], []
+    for line in lines[1:]:
+        if line.startswith("Warning: "):
+            warned.append(f"<p style='color:{THRESHOLD}'><b>{html.escape(line)}</b></p>")
+            continue
+        name, _, said = line.strip().partition("  ")
+        items = html.escape(said.strip()).split(" · ")
+        shown = " · ".join(item.replace(" ", "&nbsp;") for item in items) if len(items) > 1 else items[0]
+        rows.append(f"<tr><td style='padding-right:8px'><b>{html.escape(name)}</b></td><td>{shown}</td></tr>")
+    return f"<p>{html.escape(lines[0])}</p><table>{''.join(rows)}</table>{''.join(warned)}"
 
 
 class _HardenabilityPage(_Page):
@@ -643,14 +800,16 @@ class _HardenabilityPage(_Page):
 
 
 class ProfilePlots(QTabWidget):
-    """Five pages: the main profile (carbon or nitrogen), hardness, the cycle and quote, other temperatures, and
-    the steel's hardenability.
+    """Six pages: the main profile (carbon or nitrogen), hardness, the cycle and quote, other temperatures, the
+    spread of a load, and the steel's hardenability.
 
     Only the page on show is drawn; another is drawn when it is shown. The Temperatures page asks for its
-    comparison with :attr:`comparison_wanted` (the window hands it to its worker) and draws the answer given to
-    :meth:`show_comparison`."""
+    comparison with :attr:`comparison_wanted` and the Load spread page for its load with
+    :attr:`capability_wanted` (the window hands both to its worker); they draw the answers given to
+    :meth:`show_comparison` and :meth:`show_capability`."""
 
     comparison_wanted = Signal(object, object)  # the plan's values, the temperatures [K] to compare it at
+    capability_wanted = Signal(object, object)  # the plan's values, the Spread to draw its load's parts from
 
     def __init__(self, parent=None):
         super().__init__(parent)
@@ -658,10 +817,12 @@ class ProfilePlots(QTabWidget):
         self.hardness_page = _PlotPage(hrc_axis=True)
         self.cycle_page = _CyclePage()
         self.tradeoff_page = _TradeoffPage()
+        self.spread_page = _SpreadPage()
         self.hardenability_page = _HardenabilityPage()
-        self.pages = (self.carbon_page, self.hardness_page, self.cycle_page, self.tradeoff_page, self.hardenability_page)
+        self.pages = (self.carbon_page, self.hardness_page, self.cycle_page, self.tradeoff_page, self.spread_page,
+                      self.hardenability_page)
         for page, name in zip(self.pages, ("Carbon profile", "Hardness profile", "Cycle and quote", "Temperatures",
-                                           "Hardenability")):
+                                           "Load spread", "Hardenability")):
             self.addTab(page, name)
         self.outcome: Outcome | None = None
         self.units = DisplayUnits()
@@ -672,8 +833,9 @@ class ProfilePlots(QTabWidget):
 
     @property
     def waiting(self) -> bool:
-        """Whether the page on show waits for the worker (the comparison at other temperatures)."""
-        return self.currentWidget() is self.tradeoff_page and self.tradeoff_page.waiting
+        """Whether the page on show waits for the worker (the comparison at other temperatures, a load's spread)."""
+        page = self.currentWidget()
+        return page in (self.tradeoff_page, self.spread_page) and page.waiting
 
     def paintEvent(self, event) -> None:
         super().paintEvent(event)
@@ -708,15 +870,24 @@ class ProfilePlots(QTabWidget):
     def show_comparison(self, values: dict, pairs: list | None, error: Exception | None) -> None:
         """The worker's comparison of the plan ``values`` at other temperatures: kept if it is of the result on
         show, and drawn if its page is on show."""
+        self._answered(self.tradeoff_page, values, pairs, error)
+
+    def show_capability(self, values: dict, capability: Capability | None, error: Exception | None) -> None:
+        """The worker's spread of a load of the plan ``values``: kept if it is of the result on show, and drawn if
+        its page is on show."""
+        self._answered(self.spread_page, values, capability, error)
+
+    def _answered(self, page: _Page, values: dict, answer, error: Exception | None) -> None:
         if self.outcome is None or values is not self.outcome.values:
             return
-        self.tradeoff_page.take(values, pairs, error)
-        self._stale.add(self.pages.index(self.tradeoff_page))
+        page.take(values, answer, error)
+        self._stale.add(self.pages.index(page))
         self._page_shown(self.currentIndex())
 
     def draw_all(self) -> None:
         """Draw every page now (before exporting or printing): a page already drawn for this result is not made
-        again, only rendered; the comparison at other temperatures is worked out here if the worker has not."""
+        again, only rendered; the comparison at other temperatures and a load's spread are worked out here if the
+        worker has not."""
         from ..plan import compare_temperatures
 
         page = self.tradeoff_page
@@ -726,6 +897,10 @@ class ProfilePlots(QTabWidget):
                 page.take(values, compare_temperatures(values, page.temperatures(self.outcome)), None)
             except CasedepthError as error:
                 page.take(values, None, error)
+            self._stale.add(self.pages.index(page))
+        page = self.spread_page
+        if self.outcome is not None and not page.has(self.outcome):
+            page.work_out(self.outcome)
             self._stale.add(self.pages.index(page))
         for index, page in enumerate(self.pages):
             page.build()
@@ -747,5 +922,8 @@ class ProfilePlots(QTabWidget):
         elif page is self.tradeoff_page:
             if not page.show_outcome(self.outcome, self.units):
                 self.comparison_wanted.emit(self.outcome.values, page.temperatures(self.outcome))
+        elif page is self.spread_page:
+            if not page.show_outcome(self.outcome, self.units):
+                self.capability_wanted.emit(self.outcome.values, page.SPREAD)
         else:
             page.show_outcome(self.outcome, self.units)

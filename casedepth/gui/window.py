@@ -185,6 +185,8 @@ class MainWindow(QMainWindow):
         self.plots = ProfilePlots()
         self.plots.comparison_wanted.connect(self.calculator.compare)
         self.calculator.compared.connect(self.plots.show_comparison)
+        self.plots.capability_wanted.connect(self.calculator.work_out_capability)
+        self.calculator.capability_known.connect(self.plots.show_capability)
         slider_row = QHBoxLayout()
         slider_row.addWidget(QLabel("Time"))
         self.time_slider = QSlider(Qt.Horizontal)

@@ -1,10 +1,12 @@
 """Solving off the window's thread: debounced, coalesced, newest request wins, stale work stopped.
 
-Two kinds of work share the one worker thread: the plan's evaluation, which every edit asks for, and the plan
-at other temperatures (:func:`casedepth.plan.compare_temperatures`), which only the Temperatures tab asks for.
-The evaluation goes first: a comparison waits for it, and an edit stops a comparison that is running (the
-edit's answer is what the planner waits for); the stopped comparison runs again after the evaluation unless the
-new result asks for its own (a refused edit leaves the last result, and its comparison, on show).
+Work of two sorts shares the one worker thread: the plan's evaluation, which every edit asks for, and side work
+a page asks for only while it is shown (:data:`SIDE_WORK`): the plan at other temperatures
+(:func:`casedepth.plan.compare_temperatures`, the Temperatures tab) and the spread of a load
+(:func:`casedepth.shop.capability.capability`, the Load spread tab). The evaluation goes first: side work waits
+for it, and an edit stops side work that is running (the edit's answer is what the planner waits for); the
+stopped work runs again after the evaluation unless the new result asks for its own (a refused edit leaves the
+last result, and its side work, on show).
 """
 
 from __future__ import annotations
@@ -16,6 +18,14 @@ from PySide6.QtCore import QObject, QRunnable, QThreadPool, QTimer, Signal
 
 from ..numerics.budget import Stopped, stoppable
 from ..plan.evaluate import compare_temperatures, evaluate
+from ..shop.capability import capability
+
+#: the side work pages ask for: kind -> (the signal of :class:`Calculator` that tells the answer, the work). The
+#: work looks its function up when it runs (so a test can stand in for it).
+SIDE_WORK: dict[str, tuple[str, Callable[..., object]]] = {
+    "comparison": ("compared", lambda values, temperatures: compare_temperatures(values, temperatures)),
+    "capability": ("capability_known", lambda values, spread: capability(values, spread)),
+}
 
 
 class _Signals(QObject):
@@ -24,12 +34,13 @@ class _Signals(QObject):
 
 class _Job(QRunnable):
     """One piece of work for the worker thread, stoppable from the window's thread: ``work()`` for the evaluation
-    of ``generation``, or for ``comparison`` (the values and temperatures compared)."""
+    of ``generation``, or for ``side`` work (its kind in :data:`SIDE_WORK` and its arguments, the plan's values
+    first)."""
 
     def __init__(self, work: Callable[[], object], signals: _Signals, generation: int = 0,
-                 comparison: tuple[dict, list[float]] | None = None):
+                 side: tuple[str, tuple] | None = None):
         super().__init__()
-        self.work, self.signals, self.generation, self.comparison = work, signals, generation, comparison
+        self.work, self.signals, self.generation, self.side = work, signals, generation, side
         self.stop = threading.Event()
 
     def run(self):
@@ -43,20 +54,20 @@ class _Job(QRunnable):
 
 
 class Calculator(QObject):
-    """Runs :func:`casedepth.plan.evaluate` on a worker thread, and :func:`casedepth.plan.compare_temperatures`
-    when asked.
+    """Runs :func:`casedepth.plan.evaluate` on a worker thread, and the side work of :data:`SIDE_WORK` when asked.
 
     :meth:`request` may be called on every keystroke: the work starts ``delay_ms`` after the last
     request, at most one job runs at a time, a running job a newer request makes stale is stopped at its
-    next solver step, and only the newest request's answer is reported. :meth:`compare` waits until no
-    evaluation is running or due; a new result drops it (whoever wants the comparison of the new result asks
-    for it when it is shown).
+    next solver step, and only the newest request's answer is reported. :meth:`compare` and
+    :meth:`work_out_capability` wait until no evaluation is running or due; a new result drops them (whoever
+    wants the side work of the new result asks for it when it is shown).
     """
 
     busy = Signal()
     finished = Signal(object)  # Outcome
     failed = Signal(object)  # the exception
     compared = Signal(object, object, object)  # the values compared, (temperature, soak) pairs or None, error
+    capability_known = Signal(object, object, object)  # the values, their Capability or None, error
 
     def __init__(self, delay_ms: int = 10, parent=None):
         super().__init__(parent)
@@ -72,7 +83,7 @@ class Calculator(QObject):
         self._values: dict | None = None
         self._job: _Job | None = None
         self._due_now = False  # the debounce is over and the evaluation waits for the running job to stop
-        self._comparison: tuple[dict, list[float]] | None = None
+        self._side: dict[str, tuple] = {}  # side work waiting: kind -> arguments
 
     def request(self, values: dict) -> None:
         self._values = values
@@ -80,26 +91,35 @@ class Calculator(QObject):
         job = self._job
         if job is not None:
             job.stop.set()  # what it solves is stale now, or it would hold up the edit's answer
-            if job.comparison is not None and self._comparison is None:
-                self._comparison = job.comparison
+            if job.side is not None:
+                self._side.setdefault(*job.side)
         self._timer.start()
 
     def compare(self, values: dict, temperatures: list[float]) -> None:
         """Work out the soak of the plan ``values`` at each of ``temperatures`` [K] once no evaluation is running
         or due; :attr:`compared` tells the answer. Replaces a comparison still waiting."""
-        self._comparison = (values, list(temperatures))
+        self._ask("comparison", values, list(temperatures))
+
+    def work_out_capability(self, values: dict, spread) -> None:
+        """Work out how a load of the plan ``values`` spreads with ``spread`` (a
+        :class:`~casedepth.shop.capability.Spread`) once no evaluation is running or due; :attr:`capability_known`
+        tells the answer. Replaces one still waiting."""
+        self._ask("capability", values, spread)
+
+    def _ask(self, kind: str, *arguments) -> None:
+        self._side[kind] = arguments
         self._next()
 
     def idle(self) -> bool:
         """Nothing running and nothing waiting to run."""
-        return self._job is None and not self._timer.isActive() and not self._due_now and self._comparison is None
+        return self._job is None and not self._timer.isActive() and not self._due_now and not self._side
 
     def _due(self) -> None:
         self._due_now = True
         self._next()
 
     def _next(self) -> None:
-        """Start what waits when the worker is free: the evaluation first, then a comparison."""
+        """Start what waits when the worker is free: the evaluation first, then side work in the order asked."""
         if self._job is not None or self._timer.isActive():
             return
         if self._due_now:
@@ -107,9 +127,11 @@ class Calculator(QObject):
             self.busy.emit()
             values = self._values
             self._start(_Job(lambda: evaluate(values), self._signals, generation=self._generation))
-        elif self._comparison is not None:
-            comparison, self._comparison = self._comparison, None
-            self._start(_Job(lambda: compare_temperatures(*comparison), self._signals, comparison=comparison))
+        elif self._side:
+            kind = next(iter(self._side))
+            arguments = self._side.pop(kind)
+            work = SIDE_WORK[kind][1]
+            self._start(_Job(lambda: work(*arguments), self._signals, side=(kind, arguments)))
 
     def _start(self, job: _Job) -> None:
         self._job = job
@@ -119,13 +141,14 @@ class Calculator(QObject):
     def _done(self, job: _Job, answer, error) -> None:
         self._job = None
         stopped = isinstance(error, Stopped)
-        if job.comparison is not None and not stopped:
-            if self._comparison is job.comparison:
-                self._comparison = None  # (put back by an edit that came as it finished)
-            self.compared.emit(job.comparison[0], answer, error)
-        elif job.comparison is None and not stopped and job.generation == self._generation:
+        if job.side is not None and not stopped:
+            kind, arguments = job.side
+            if self._side.get(kind) is arguments:
+                del self._side[kind]  # (put back by an edit that came as it finished)
+            getattr(self, SIDE_WORK[kind][0]).emit(arguments[0], answer, error)
+        elif job.side is None and not stopped and job.generation == self._generation:
             if error is None:
-                self._comparison = None  # of the result before: the new result's is asked for when it is shown
+                self._side.clear()  # of the result before: the new result's is asked for when it is shown
                 self.finished.emit(answer)
             else:
                 self.failed.emit(error)
@@ -135,7 +158,7 @@ class Calculator(QObject):
         """Stop any running job and wait until the worker is idle (for shutting down): never longer than a step."""
         self._timer.stop()
         self._due_now = False
-        self._comparison = None
+        self._side.clear()
         if self._job is not None:
             self._job.stop.set()
         self._pool.waitForDone()

@@ -170,8 +170,8 @@ class NitridingOutcome(Outcome):
             gases.append(f"NH3 {formats.percent(100 * (1 - d))}, H2 {formats.percent(75 * d)}, "
                          f"N2 {formats.percent(25 * d)}")
         facts = [
-            Fact("window", "Drawing window", f"{units.format_length(self.low.nitrided_depth)} in "
-                 f"{format_duration(self.low.time)}  to  {units.format_length(self.high.nitrided_depth)} in "
+            Fact("window", "Drawing window", f"{units.format_length(self.low.nitrided_depth)} after "
+                 f"{format_duration(self.low.time)}  to  {units.format_length(self.high.nitrided_depth)} after "
                  f"{format_duration(self.high.time)}"),
             Fact("surface", "Compound layer", f"{aim.layer.describe()}; window "
                                               f"{formats.thin_range(*self.compound_window)}"),

@@ -54,7 +54,7 @@ class SpreadInput:
     label: str
     default: Callable[[Mapping[str, Any]], float | None]  # the half-width for a plan's values (None: not used)
     apply: Callable[[Mapping[str, Any], float], dict]  # (values, offset in the band's own unit) -> changed values
-    describe: Callable[[float], str]  # the band in words
+    describe: Callable[[float, DisplayUnits], str]  # the band in words, in the display units
     note: str  # where the default comes from
 
 
@@ -77,21 +77,22 @@ SPREAD_INPUTS: dict[str, SpreadInput] = {row.key: row for row in (
     SpreadInput("temperature", "furnace temperature",
                 lambda v: _shop(v).temperature_tolerance_c if _used("temperature", v) else None,
                 lambda v, x: {"temperature": v["temperature"] + x},
-                lambda b: f"±{formats.typed(round(b, 2), '°C')}, {survey_class(b)}",
+                lambda b, u: f"±{formats.typed(round(b * (1.8 if u.imperial else 1.0), 1), u.temperature_unit)}, "
+                             f"{survey_class(b)}",
                 "the shop's temperature tolerance (Edit → Shop; the band the process sheet prints)"),
     SpreadInput("carbon_potential", "carbon potential",
                 lambda v: _shop(v).potential_tolerance_pct if _used("carbon_potential", v) else None,
                 lambda v, x: {"carbon_potential": v["carbon_potential"] + x},
-                lambda b: f"±{formats.carbon(b)}",
+                lambda b, u: f"±{formats.carbon(b)}",
                 "the shop's carbon-potential tolerance (the band the process sheet prints)"),
     SpreadInput("kn", "nitriding potential",
                 lambda v: _shop(v).kn_tolerance_pct / 100.0 * v["kn"] if _used("kn", v) else None,
                 lambda v, x: {"kn": v["kn"] + x},
-                lambda b: f"±{formats.kn(b)}",
+                lambda b, u: f"±{formats.kn(b)}",
                 "the shop's K_N tolerance (the band the process sheet prints)"),
     SpreadInput("beta", "mass-transfer coefficient", lambda v: 2.0 if _beta_applies(v) else None,
                 lambda v, x: {"beta": v["beta"] * x},
-                lambda b: f"from β/{formats.trimmed(b, 2)} to β×{formats.trimmed(b, 2)}",
+                lambda b, u: f"from β/{formats.trimmed(b, 2)} to β×{formats.trimmed(b, 2)}",
                 "a factor of 2 either way: β is rarely known better (common practice)"),
 )}
 
@@ -218,7 +219,7 @@ class Capability:
         low, high = self.window
         lines = [f"Capability: soak {format_duration(self.soak)} (the plan's aim, {units.format_length(self.nominal)}), "
                  f"{self.spread.samples} parts drawn (Latin hypercube), {self.spread.distribution} bands"]
-        bands = [f"{SPREAD_INPUTS[k].label} {SPREAD_INPUTS[k].describe(b)}" for k, b in self.bands.items()]
+        bands = [f"{SPREAD_INPUTS[k].label} {SPREAD_INPUTS[k].describe(b, units)}" for k, b in self.bands.items()]
         bands.append("composition " + ("nominal" if not self.composition_range else "over the grade's range"))
         lines.append("  spread            " + "; ".join(bands))
         lines.append("  depth             " + " · ".join(f"{k} {units.format_length(v)}" for k, v in pct.items()))
@@ -234,11 +235,11 @@ class Capability:
             lines.append(f"  centred soak      {format_duration(self.centred.soak)}: "
                          f"{formats.percent(100 * self.centred.share)} inside (the plan's aim: "
                          f"{formats.percent(100 * self.share_in_window)})")
-        lines += [f"Warning: {w}" for w in self.warnings()]
+        lines += [f"Warning: {w}" for w in self.warnings(units)]
         return "\n".join(lines)
 
-    def warnings(self) -> list[str]:
-        """A load that is not capable, and what to tighten first."""
+    def warnings(self, units: DisplayUnits = DisplayUnits()) -> list[str]:
+        """A load that is not capable, and what to tighten first (lengths in ``units``)."""
         best = self.share_in_window if self.centred is None else max(self.share_in_window, self.centred.share)
         if best >= self.WANTED_SHARE or not self.sensitivity:
             return []
@@ -246,7 +247,7 @@ class Capability:
         name = SPREAD_INPUTS[first].label if first in SPREAD_INPUTS else first
         where = "at the plan's soak" if self.centred is None else "at any soak"
         return [f"Fewer than {formats.percent(100 * self.WANTED_SHARE)} of the parts land inside "
-                f"{formats.length_range(*self.window)} {where} (best {formats.percent(100 * best)}): tighten the "
+                f"{formats.length_range(*self.window, units)} {where} (best {formats.percent(100 * best)}): tighten the "
                 f"{name} first; it moves the depth most."]
 
 

@@ -1,0 +1,75 @@
+"""The Load spread page: how the case depths of a load's parts spread about the plan
+(:func:`casedepth.shop.capability.capability`), worked out on the window's worker only while the page is shown,
+and the library's refusal for a plan with no single soak (pytest-qt, offscreen)."""
+
+import threading
+from pathlib import Path
+
+import pytest
+
+pytest.importorskip("PySide6")
+
+EXAMPLES = Path(__file__).resolve().parent.parent / "resources" / "examples"
+
+
+def _show_spread(window, qtbot):
+    plots = window.plots
+    plots.setCurrentIndex(plots.pages.index(plots.spread_page))
+    qtbot.waitUntil(lambda: not plots.waiting, timeout=20000)
+    return plots.spread_page
+
+
+def test_a_one_soak_plan_shows_its_load_once_the_page_is_shown(window, qtbot):
+    plots = window.plots
+    plots.setCurrentIndex(plots.pages.index(plots.spread_page))
+    assert plots.waiting and not plots.spread_page.figures.isEnabled()  # greyed while it is worked out
+    page = _show_spread(window, qtbot)
+    found = page.capability
+    assert found is not None and page.has(window.outcome)
+    assert len(found.depths) == page.SPREAD.samples == 64
+    counts = page.parts.get_data().values
+    assert counts.sum() == len(found.depths)  # every part in the histogram
+    low, high = (window.units.length(end) for end in found.window)
+    assert page.band.get_x() == pytest.approx(low) and page.band.get_width() == pytest.approx(high - low)
+    text = page.figures.text()
+    assert page.figures.isEnabled() and "64 parts drawn" in text and "Cpk" in text and "moves it most" in text
+    assert "Edit → Shop" in page.note.text() and "β" in page.note.text()
+
+
+def test_the_load_is_worked_out_on_the_worker_only_while_its_page_is_shown(window, qtbot, monkeypatch):
+    from casedepth.gui import worker
+
+    threads = []
+    capability = worker.capability
+
+    def on_which_thread(*arguments):
+        threads.append(threading.current_thread())
+        return capability(*arguments)
+
+    monkeypatch.setattr(worker, "capability", on_which_thread)
+    with qtbot.waitSignal(window.result_shown, timeout=20000):
+        window.plan.set("temperature", window.plan.temperature + 10.0)
+    qtbot.wait(50)
+    assert threads == []  # its page is not on show
+    page = _show_spread(window, qtbot)
+    assert threads and threading.main_thread() not in threads
+    assert page.has(window.outcome)
+
+
+def test_an_edit_stops_the_load_and_the_new_result_gets_its_own(window, qtbot):
+    plots = window.plots
+    plots.setCurrentIndex(plots.pages.index(plots.spread_page))
+    qtbot.waitUntil(lambda: not window.calculator.idle(), timeout=5000)
+    with qtbot.waitSignal(window.result_shown, timeout=20000):
+        window.plan.set("temperature", window.plan.temperature + 10.0)
+    page = _show_spread(window, qtbot)
+    assert page.has(window.outcome) and page.capability.values["temperature"] == window.plan.temperature
+
+
+def test_a_boost_and_diffuse_plan_shows_the_refusal(window, qtbot):
+    with qtbot.waitSignal(window.result_shown, timeout=20000):
+        assert window.open_plan(EXAMPLES / "ring-gear-boost-diffuse.cdplan.json")
+    page = _show_spread(window, qtbot)
+    assert page.capability is None
+    assert page.plot.message.get_visible() and "no single soak" in page.plot.message.get_text()
+    assert not page.parts.get_visible() and not page.axes.axison
