@@ -133,6 +133,13 @@ class Treatment:
     steel_note: Callable[[Any, Any], str]  # (steel, display units) -> what matters about a steel for it
     cautions: Callable[[Mapping[str, Any]], list] = lambda values: []  # the cautions a plan's values call for
     forward_options: tuple[Option, ...] = ()  # the command line's extra options for what a soak gives
+    forward_many: Callable[..., list] | None = None  # (values list, soaks [s]) -> forward of each, marched together
+
+    def forward_each(self, values_list: list[Mapping[str, Any]], soaks: list[float]) -> list:
+        """What each plan's soak [s] gives: :attr:`forward` of each, in one batch where the treatment has one."""
+        if self.forward_many is not None:
+            return self.forward_many(values_list, soaks)
+        return [self.forward(values, soak, None) for values, soak in zip(values_list, soaks)]
 
     def chart_temperatures(self, values: Mapping[str, Any]) -> list[float]:
         """Three temperatures [K] for a chart around the plan's, kept within the treatment's range."""
@@ -154,7 +161,8 @@ TREATMENTS: dict[str, Treatment] = {t.key: t for t in (
         "furnace, fixtures and the steel's grain-size control set the limit (common practice).",
         "effective case depth", "carburizing", _carburizing_steel,
         lambda values: safety.cautions(values["temperature"]),
-        (Option("--carbon-at", "with --time: also report the carbon at this depth (0.5mm)"),)),
+        (Option("--carbon-at", "with --time: also report the carbon at this depth (0.5mm)"),),
+        _on_first_use(".carburizing.outcome", "forward_many")),
     Treatment(
         "nitriding", "Gas nitriding", "nitride",
         "Gas nitriding: the nitriding time for a nitrided hardness depth (core + 50 HV), the compound layer it "

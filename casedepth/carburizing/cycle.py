@@ -21,7 +21,8 @@ from .. import formats
 from ..constants import ROOM_TEMPERATURE, ZERO_CELSIUS
 from ..errors import InputError
 from ..models.austenite import Andrews_1965_Ac3, saturation_carbon
-from ..numerics.solver import CarbonSolver, History, Profile, SurfaceCondition
+from ..numerics.batch import Program, Segment, run_program, run_programs
+from ..numerics.solver import CarbonSolver, History, Profile, Ramp, SurfaceCondition
 from ..units import both_temperatures, finite_number
 from .setup import GRAIN_GROWTH_TEMPERATURE, MAX_TEMPERATURE, POTENTIAL_RANGE, CarburizingSetup
 
@@ -208,13 +209,41 @@ def _conditions(setup: CarburizingSetup, stage: Stage, t_from: float):
     p_from = stage.start_potential if stage.start_potential is not None else p_to
     if t_from == t_to and p_from == p_to:
         return SurfaceCondition(t_to, p_to * af, setup.beta)
-    span = max(stage.duration, 1e-30)
+    return Ramp(t_from, t_to, p_from, p_to, af, setup.beta, max(stage.duration, 1e-30))
 
-    def at(t: float) -> SurfaceCondition:
-        w = min(max(t / span, 0.0), 1.0)
-        return SurfaceCondition(t_from + w * (t_to - t_from), (p_from + w * (p_to - p_from)) * af, setup.beta)
 
-    return at
+def recipe_program(setup: CarburizingSetup, stages: list[Stage], start_temperature: float | None = None) -> Program:
+    """The march a recipe makes (see :func:`run_recipe`), as data: frozen time where no carbon moves (stages
+    that take only time, and a heat-up below Ac3), else the stage's condition, ramped where it ramps."""
+    if start_temperature is None:
+        first = next((s for s in stages if s.moves_carbon), None)
+        start_temperature = ROOM_TEMPERATURE if first is None or first.kind == "heat-up" else first.temperature
+    ac3 = Andrews_1965_Ac3(setup.steel.composition)
+    segments = []
+    t_now = start_temperature
+    for number, stage in enumerate(stages):
+        if not stage.moves_carbon or stage.duration == 0.0:
+            if stage.duration > 0.0:
+                segments.append(Segment(number, stage.duration))
+        else:
+            frozen = 0.0
+            t_from = t_now
+            if t_from < ac3 < stage.temperature:  # heating through Ac3: carbon moves only above it
+                frozen = stage.duration * (ac3 - t_from) / (stage.temperature - t_from)
+                segments.append(Segment(number, frozen))
+                t_from = ac3
+            rest = replace(stage, duration=stage.duration - frozen)
+            condition = _conditions(setup, rest, t_from)
+            ramp = not isinstance(condition, SurfaceCondition)
+            segments.append(Segment(number, rest.duration, condition, rest.duration / RAMP_STEPS if ramp else math.inf))
+        if stage.moves_carbon:
+            t_now = stage.temperature
+    return Program(len(stages), tuple(segments))
+
+
+def _recipe_solver(setup: CarburizingSetup, stages: list[Stage]) -> CarbonSolver:
+    carbon_time = sum(s.duration for s in stages if s.moves_carbon)
+    return setup.solver(soak_time=max(carbon_time, 60.0))
 
 
 def run_recipe(setup: CarburizingSetup, stages: list[Stage], start_temperature: float | None = None,
@@ -225,38 +254,34 @@ def run_recipe(setup: CarburizingSetup, stages: list[Stage], start_temperature: 
     begins with a heat-up, else the first carburizing stage's temperature (a load already at heat).
     """
     warnings = check_recipe(setup, stages)
-    if start_temperature is None:
-        first = next((s for s in stages if s.moves_carbon), None)
-        start_temperature = ROOM_TEMPERATURE if first is None or first.kind == "heat-up" else first.temperature
-    ac3 = Andrews_1965_Ac3(setup.steel.composition)
-    carbon_time = sum(s.duration for s in stages if s.moves_carbon)
+    program = recipe_program(setup, stages, start_temperature)
     if solver is None:
-        solver = setup.solver(soak_time=max(carbon_time, 60.0))
-    starts, uptake = [], []
-    t_now = start_temperature
-    for stage in stages:
-        starts.append(solver.time)
-        before = solver.carbon_uptake()
-        if not stage.moves_carbon or stage.duration == 0.0:
-            if stage.duration > 0.0:
-                solver.wait(stage.duration)
-        else:
-            frozen = 0.0
-            t_from = t_now
-            if t_from < ac3 < stage.temperature:  # heating through Ac3: carbon moves only above it
-                frozen = stage.duration * (ac3 - t_from) / (stage.temperature - t_from)
-                solver.wait(frozen)
-                t_from = ac3
-            rest = replace(stage, duration=stage.duration - frozen)
-            condition = _conditions(setup, rest, t_from)
-            ramp = not isinstance(condition, SurfaceCondition)
-            solver.advance(rest.duration, condition, max_step=rest.duration / RAMP_STEPS if ramp else math.inf)
-        uptake.append(solver.carbon_uptake() - before)
-        if stage.moves_carbon:
-            t_now = stage.temperature
+        solver = _recipe_solver(setup, stages)
+    marched = run_program(solver, program)
     profile = solver.profile()
     depth = profile.depth_at(setup.threshold_carbon)
-    return CycleResult(setup, list(stages), starts, uptake, profile, depth, solver.history(), warnings)
+    return CycleResult(setup, list(stages), marched.stage_start, marched.stage_uptake, profile, depth, solver.history(),
+                       warnings)
+
+
+def run_recipes(setups: list[CarburizingSetup], recipes: list[list[Stage]]) -> list[CycleResult]:
+    """:func:`run_recipe` of each setup's recipe, marched together where they can be
+    (:func:`casedepth.numerics.batch.run_programs`): the same results, except that a batched result's history
+    holds only the start and the end. A recipe that cannot be run raises as :func:`run_recipe` does."""
+    warnings = [check_recipe(setup, stages) for setup, stages in zip(setups, recipes)]
+    solvers = [_recipe_solver(setup, stages) for setup, stages in zip(setups, recipes)]
+    programs = [recipe_program(setup, stages) for setup, stages in zip(setups, recipes)]
+    results = []
+    for setup, stages, solver, marched, warned in zip(setups, recipes, solvers, run_programs(solvers, programs), warnings):
+        if marched is None:  # not batched (another diffusivity), or it needed what only a single march does
+            results.append(run_recipe(setup, stages, solver=solver))
+            continue
+        half = setup.geometry.half_section
+        profile = Profile(solver.nodes.copy(), marched.carbon, marched.time, half)
+        history = History(solver.nodes.copy(), np.array([solver.time, marched.time]), [solver.carbon, marched.carbon], half)
+        results.append(CycleResult(setup, list(stages), marched.stage_start, marched.stage_uptake, profile,
+                                   profile.depth_at(setup.threshold_carbon), history, warned))
+    return results
 
 
 #: temperature shown for stages that do not set one: quench and wash baths, about 60 °C (display only)

@@ -30,12 +30,13 @@ from ..outcome import Curve, Fact, Level, Outcome, Panel, ProfileView, SheetCont
 from ..parameters import drawing_window
 from ..shop.quote import Quote, ShopDefaults, quote_lines
 from ..units import DisplayUnits, Threshold, format_clock, format_duration
-from .cycle import (CycleResult, Stage, describe_counted, run_recipe, shop_stages, stage_from_dict, stage_lines,
+from .cycle import (CycleResult, Stage, describe_counted, run_recipe, run_recipes, shop_stages, stage_from_dict, stage_lines,
                     stage_to_dict, timeline)
 from .planners import plan_boost_diffuse, plan_single_soak
 from .hardening import DEFAULT_HARDNESS_DEPTH, Hardening, core_depth, hardness_at
 from .setup import CarburizingSetup, case_warnings
-from .soak import CarburizingResult, carburize, check_probe_depth, check_soak, soak_times_for_case_depths
+from .soak import (CarburizingResult, carburize, carburize_many, check_probe_depth, check_soak,
+                   soak_times_for_case_depths)
 
 
 # -- plan values -> setup ------------------------------------------------------------------------------------
@@ -242,15 +243,13 @@ def evaluate(values: Mapping[str, Any]) -> "CarburizingOutcome":
 
 
 # -- what a soak gives ---------------------------------------------------------------------------------------
-def run_soak(setup: CarburizingSetup, soak: float, before: tuple[Stage, ...] = (), after: tuple[Stage, ...] = (),
-             probe_depth: float | None = None) -> CarburizingResult:
-    """A soak of ``soak`` [s] at the setup's temperature and potential, with the ``before`` and ``after``
-    stages run around it and counted in the case (none: the soak alone)."""
-    if not before and not after:
-        return carburize(setup, soak, probe_depth)
-    check_soak(soak)
-    check_probe_depth(setup, probe_depth)
-    cycle = run_recipe(setup, [*before, Stage("soak", soak, setup.temperature, setup.carbon_potential), *after])
+def _soak_recipe(setup: CarburizingSetup, soak: float, before: tuple[Stage, ...], after: tuple[Stage, ...]) -> list[Stage]:
+    return [*before, Stage("soak", soak, setup.temperature, setup.carbon_potential), *after]
+
+
+def _soak_result(setup: CarburizingSetup, soak: float, before, after, cycle: CycleResult,
+                 probe_depth: float | None) -> CarburizingResult:
+    """What a soak with the shop's stages around it gave (``cycle``), as a soak's result."""
     warnings = case_warnings(setup, cycle.case_depth, cycle.surface_carbon)
     warnings += [w for w in cycle.warnings if w not in warnings]
     counted = tuple(s for s in (*before, *after) if s.moves_carbon and s.duration > 0)
@@ -259,11 +258,44 @@ def run_soak(setup: CarburizingSetup, soak: float, before: tuple[Stage, ...] = (
                              sum(cycle.stage_uptake), carbon_at_depth=at, probe_depth=probe_depth, counted=counted)
 
 
+def run_soak(setup: CarburizingSetup, soak: float, before: tuple[Stage, ...] = (), after: tuple[Stage, ...] = (),
+             probe_depth: float | None = None) -> CarburizingResult:
+    """A soak of ``soak`` [s] at the setup's temperature and potential, with the ``before`` and ``after``
+    stages run around it and counted in the case (none: the soak alone)."""
+    if not before and not after:
+        return carburize(setup, soak, probe_depth)
+    check_soak(soak)
+    check_probe_depth(setup, probe_depth)
+    return _soak_result(setup, soak, before, after, run_recipe(setup, _soak_recipe(setup, soak, before, after)),
+                        probe_depth)
+
+
 def forward(values: Mapping[str, Any], soak: float, probe_depth: float | None = None) -> CarburizingResult:
     """What a one-soak plan gives after a soak of ``soak`` [s], the shop's stages counted as the plan counts them."""
     setup = carburizing_setup({**values, "process": "single"})
     _, _, before, after = _counted_stages(values, shop_of(values), setup, setup.carbon_potential)
     return run_soak(setup, soak, before, after, probe_depth)
+
+
+def forward_many(values_list: list[Mapping[str, Any]], soaks: list[float]) -> list[CarburizingResult]:
+    """:func:`forward` of each one-soak plan's values after its soak [s], the cases marched together where they
+    can be (:func:`casedepth.carburizing.cycle.run_recipes`, :func:`casedepth.carburizing.soak.carburize_many`):
+    the same numbers to round-off; a batched result's history holds only the start and the end."""
+    rows = []
+    for values, soak in zip(values_list, soaks):
+        setup = carburizing_setup({**values, "process": "single"})
+        _, _, before, after = _counted_stages(values, shop_of(values), setup, setup.carbon_potential)
+        check_soak(soak)
+        rows.append((setup, soak, before, after))
+    results: list[CarburizingResult | None] = [None] * len(rows)
+    plain = [k for k, (_, _, before, after) in enumerate(rows) if not before and not after]
+    for k, result in zip(plain, carburize_many([rows[k][0] for k in plain], [rows[k][1] for k in plain])):
+        results[k] = result
+    staged = [k for k in range(len(rows)) if results[k] is None]
+    cycles = run_recipes([rows[k][0] for k in staged], [_soak_recipe(*rows[k]) for k in staged])
+    for k, cycle in zip(staged, cycles):
+        results[k] = _soak_result(*rows[k], cycle, None)
+    return results
 
 
 # -- the outcome -----------------------------------------------------------------------------------------------

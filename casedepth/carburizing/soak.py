@@ -16,6 +16,7 @@ import numpy as np
 
 from .. import formats, safety
 from ..errors import InputError, NotReachableError
+from ..numerics.batch import Program, Segment, run_programs, times_to
 from ..numerics.march import March
 from ..numerics.solver import History, Profile
 from ..units import as_number, both_lengths, format_duration, length_range
@@ -135,6 +136,28 @@ def carburize(setup: CarburizingSetup, soak_time: float, probe_depth: float | No
                              probe_depth=probe_depth)
 
 
+def carburize_many(setups: list[CarburizingSetup], soak_times: list[float]) -> list[CarburizingResult]:
+    """:func:`carburize` of each setup for its soak [s], marched together where they can be
+    (:func:`casedepth.numerics.batch.run_programs`): the same depths, profiles and warnings to round-off,
+    except that a batched result's history holds only the start and the end."""
+    for soak in soak_times:
+        check_soak(soak)
+    solvers = [setup.solver(soak_time=soak) for setup, soak in zip(setups, soak_times)]
+    programs = [Program(1, (Segment(0, soak, setup.surface_condition),)) for setup, soak in zip(setups, soak_times)]
+    results = []
+    for setup, soak, solver, marched in zip(setups, soak_times, solvers, run_programs(solvers, programs)):
+        if marched is None:
+            results.append(carburize(setup, soak))
+            continue
+        half = setup.geometry.half_section
+        profile = Profile(solver.nodes.copy(), marched.carbon, marched.time, half)
+        depth = profile.depth_at(setup.threshold_carbon)
+        history = History(solver.nodes.copy(), np.array([solver.time, marched.time]), [solver.carbon, marched.carbon], half)
+        results.append(CarburizingResult(setup, soak, profile, depth, history, case_warnings(setup, depth, profile.surface_carbon),
+                                         float(np.sum(solver.volume * (marched.carbon - solver.core_carbon)))))
+    return results
+
+
 def check_target(setup: CarburizingSetup, target: float, field: str = "target") -> None:
     """Refuse a target depth [m] outside the range the models cover (or beyond the centre of the section)."""
     target = as_number(target, field)
@@ -171,6 +194,50 @@ def soak_times_for_case_depths(setup: CarburizingSetup, targets: list[float],
         results.append(CarburizingResult(setup, time, profile, depth, march.history(time, profile),
                                          case_warnings(setup, depth, profile.surface_carbon), uptake,
                                          target_depth=target))
+    return results
+
+
+def soak_times_many(setups: list[CarburizingSetup], targets: list[float],
+                    errors: str = "raise") -> list[CarburizingResult | Exception]:
+    """:func:`soak_time_for_case_depth` for each setup and its target [m], the cases marched together where they
+    can be (:func:`casedepth.numerics.batch.times_to`): the same soaks, profiles and warnings, to round-off,
+    except that a batched result's history holds only the start and the end. With ``errors="return"``, a case
+    the single path refuses gives its :class:`InputError` (or :class:`NotReachableError`) in its place instead
+    of raising it."""
+    if errors not in ("raise", "return"):
+        raise ValueError("errors must be 'raise' or 'return'")
+    results: list[CarburizingResult | Exception | None] = [None] * len(setups)
+    rows = []
+    for k, (setup, target) in enumerate(zip(setups, targets)):
+        try:
+            check_target(setup, target)
+        except InputError as error:
+            if errors == "raise":
+                raise
+            results[k] = error
+            continue
+        rows.append(k)
+    solvers = [setups[k].solver(case_depth=targets[k]) for k in rows]
+    landed = times_to(solvers, [setups[k].surface_condition for k in rows], [setups[k].threshold_carbon for k in rows],
+                      [targets[k] for k in rows], SOAK_RANGE[1])
+    for k, solver, found in zip(rows, solvers, landed):
+        setup, target = setups[k], targets[k]
+        if found is None:  # solved alone: the exact single march, or the error it raises
+            try:
+                results[k] = soak_time_for_case_depth(setup, target)
+            except InputError as error:
+                if errors == "raise":
+                    raise
+                results[k] = error
+            continue
+        time, carbon = found
+        half = setup.geometry.half_section
+        profile = Profile(solver.nodes, carbon, time, half)
+        depth = profile.depth_at(setup.threshold_carbon)
+        uptake = float(np.sum(solver.volume * (carbon - setup.steel.carbon)))
+        history = History(solver.nodes.copy(), np.array([solver.time, time]), [solver.carbon, carbon], half)
+        results[k] = CarburizingResult(setup, time, profile, depth, history,
+                                       case_warnings(setup, depth, profile.surface_carbon), uptake, target_depth=target)
     return results
 
 

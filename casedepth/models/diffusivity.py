@@ -251,3 +251,27 @@ class Diffusivity:
     @property
     def display(self) -> str:
         return METHODS[self.method].display
+
+
+class ExponentialForms:
+    """The exponential forms (A, s) of many diffusivities at once, for a batch of solvers
+    (:class:`casedepth.numerics.batch.BatchMarch`): row k is ``diffusivities[k].exponential_form(T[k])``,
+    the same formulas evaluated on arrays. Every diffusivity must have the form (:attr:`Diffusivity.exponential_form`
+    not None: Tibbetts 1980, or a constant Arrhenius D).
+    """
+
+    def __init__(self, diffusivities: list[Diffusivity]):
+        if any(d.method not in ("tibbetts", "arrhenius") for d in diffusivities):
+            raise ValueError("only the Tibbetts and Arrhenius diffusivities have the exponential form")
+        self.tibbetts = np.array([d.method == "tibbetts" for d in diffusivities])
+        self.multiplier = np.array([d.multiplier for d in diffusivities], dtype=float)
+        self.D0 = np.array([d.D0 for d in diffusivities], dtype=float)
+        self.Q = np.array([d.Q for d in diffusivities], dtype=float)
+
+    def at(self, rows: np.ndarray, T: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        """(A [m²/s], s [per wt %]) of the diffusivities ``rows`` at temperatures ``T`` [K] (arrays alike)."""
+        tibbetts = self.tibbetts[rows]
+        A = np.where(tibbetts, self.multiplier[rows] * 0.47e-4 * np.exp(-37000.0 / (GAS_CONSTANT_CAL * T)),
+                     self.multiplier[rows] * (self.D0[rows] * np.exp(-self.Q[rows] / (GAS_CONSTANT * T))))
+        s = np.where(tibbetts, -1.6 + 6600.0 / (GAS_CONSTANT_CAL * T), 0.0)
+        return A, s

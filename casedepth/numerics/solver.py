@@ -69,6 +69,34 @@ class SurfaceCondition:
 
 
 @dataclass(frozen=True)
+class Ramp:
+    """A surface condition that moves linearly in time: temperature [K] and carbon potential [wt %] from their
+    values at the start to those at ``span`` [s], the equilibrium surface carbon the potential times
+    ``alloy_factor``; ``beta`` [m/s] as in :class:`SurfaceCondition`. Called with a time [s] since the start
+    it gives the condition then (held at the ends outside 0–span)."""
+
+    temperature_from: float
+    temperature_to: float
+    potential_from: float
+    potential_to: float
+    alloy_factor: float
+    beta: float
+    span: float
+
+    @classmethod
+    def constant(cls, condition: SurfaceCondition) -> Ramp:
+        """A condition that does not move, as a ramp (its potential is the equilibrium carbon, factor 1)."""
+        return cls(condition.temperature, condition.temperature, condition.equilibrium_carbon,
+                   condition.equilibrium_carbon, 1.0, condition.beta, 1.0)
+
+    def __call__(self, t: float) -> SurfaceCondition:
+        w = min(max(t / self.span, 0.0), 1.0)
+        return SurfaceCondition(self.temperature_from + w * (self.temperature_to - self.temperature_from),
+                                (self.potential_from + w * (self.potential_to - self.potential_from)) * self.alloy_factor,
+                                self.beta)
+
+
+@dataclass(frozen=True)
 class Accuracy:
     """Discretisation settings, relative to the problem's own scales.
 

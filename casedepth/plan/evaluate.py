@@ -42,6 +42,19 @@ def forward(plan: Plan | Mapping[str, Any], soak: float, probe_depth: float | No
     return treatment_of(values).forward(values, soak, probe_depth)
 
 
+def forward_many(plans: list[Plan | Mapping[str, Any]], soaks: list[float]) -> list:
+    """:func:`forward` of each plan (all of one treatment) after its soak [s]: the same numbers, the cases marched
+    together where the treatment can (:meth:`casedepth.treatments.Treatment.forward_each`)."""
+    values = [_values(plan) for plan in plans]
+    for v in values:
+        check_ranges({**v, "case_min": 1e-3, "case_max": 1e-3})
+    if not values:
+        return []
+    if len({v["treatment"] for v in values}) != 1:
+        raise InputError("treatment", "plans run together must be of one treatment")
+    return treatment_of(values[0]).forward_each(values, soaks)
+
+
 def compare_temperatures(plan: Plan | Mapping[str, Any], temperatures: list[float]) -> list[tuple[float, float]]:
     """The soak [s] for the plan's aim at each of ``temperatures`` [K], the plan otherwise unchanged (its
     cycle and its policy on the shop's stages too): ``(temperature, soak)`` pairs, temperatures the plan

@@ -24,7 +24,7 @@ from matplotlib.patches import Rectangle
 
 from .. import __version__, formats, safety
 from ..carburizing.setup import CarburizingSetup
-from ..carburizing.soak import carburize, soak_times_for_case_depths
+from ..carburizing.soak import carburize, soak_times_many
 from ..errors import InputError, NotReachableError
 from ..files import atomic_write
 from ..models.hardness import HARDNESS_RELATIONS
@@ -167,14 +167,11 @@ def case_depth_chart(setup: CarburizingSetup, temperatures: list[float] | None =
               else [formats.carbon(p) for p in potentials])
     depths = [d * 1e-3 for d in METRIC_DEPTHS] if not u.imperial else [d * 0.0254 for d in IMPERIAL_DEPTHS]
     values: dict = {"depths": depths, "labels": labels, "soak_times": []}
-    for variant in variants:
-        times = []
-        for depth in depths:
-            try:
-                times.append(soak_times_for_case_depths(variant, [depth])[0].soak_time)
-            except (InputError, NotReachableError):
-                times.append(math.nan)
-        values["soak_times"].append(times)
+    # every variant's soak for every tabulated depth, marched together (the same soaks as one by one)
+    found = soak_times_many([v for v in variants for _ in depths], [d for _ in variants for d in depths], errors="return")
+    for k in range(len(variants)):
+        row = found[k * len(depths):(k + 1) * len(depths)]
+        values["soak_times"].append([math.nan if isinstance(r, Exception) else r.soak_time for r in row])
     hours = _axis_hours(hours, values["soak_times"], (6.0, 8.0, 12.0, 16.0, 20.0, 24.0, 30.0, 36.0, 48.0, 60.0, 72.0, 96.0))
     values["hours"] = hours
     fig = _page(paper)

@@ -310,7 +310,7 @@ def capability(values: Mapping[str, Any], spread: Spread = Spread(), soak: float
     the plan's aim soak (or ``soak`` [s]). Each part is the plan with its inputs moved within their bands,
     run through :func:`casedepth.plan.forward`. With ``optimize``, also the soak that puts most parts inside
     the drawing's window (each part run at a second soak, :func:`_best_soak`)."""
-    from ..plan.evaluate import evaluate, forward
+    from ..plan.evaluate import evaluate, forward_many
 
     values = dict(values)
     treatment = treatment_of(values)
@@ -338,38 +338,45 @@ def capability(values: Mapping[str, Any], spread: Spread = Spread(), soak: float
             column = np.clip(0.5 + _offset(column, 0.5, "normal"), 0.0, 1.0)
         columns[element] = low + column * (high - low)
 
-    def run(changes: Mapping[str, float], at: float = soak):
-        moved = dict(base)
+    def moved(changes: Mapping[str, float]) -> dict:
+        out = dict(base)
         composition = dict(base["composition"])
         for key, x in changes.items():
             if key in SPREAD_INPUTS:
-                moved.update(SPREAD_INPUTS[key].apply(base, x))
+                out.update(SPREAD_INPUTS[key].apply(base, x))
             else:
                 composition[key] = x
-        moved["composition"] = composition
-        return forward(moved, at)
+        out["composition"] = composition
+        return out
 
-    def part(changes: Mapping[str, float], at: float = soak) -> float:
-        return run(changes, at).window_depth
-
-    nominal = part({})
+    # every case this study runs — the nominal part, the load's parts (at a second soak too, to optimize), each
+    # input at the ends of its band — in one batch (casedepth.plan.forward_many): the same numbers as one by one
     parts = [{key: float(col[i]) for key, col in columns.items()} for i in range(spread.samples)]
-    results = [run(changes) for changes in parts]
-    depths = np.array([r.window_depth for r in results])
-    figures = {name: np.array([r.spread_figures[name] for r in results]) for name in results[0].spread_figures}
-    centred = None
+    cases: list[tuple[dict, float]] = [({}, soak), *((changes, soak) for changes in parts)]
+    later = soak * (1.0 + OPTIMIZE_STEP)
     if optimize:
-        later = soak * (1.0 + OPTIMIZE_STEP)
-        centred = _best_soak(soak, depths, later, np.array([part(changes, later) for changes in parts]),
-                             (values["case_min"], values["case_max"]))
-    sensitivity = {}
+        cases += [(changes, later) for changes in parts]
+    ends = {}
     for key in keys:
-        ends = (1.0 / bands[key], bands[key]) if key == "beta" else (-bands[key], bands[key])
-        sensitivity[key] = (part({key: ends[0]}), part({key: ends[1]})) if bands[key] not in (0.0, 1.0) else (nominal, nominal)
+        if bands[key] not in (0.0, 1.0):
+            ends[key] = (1.0 / bands[key], bands[key]) if key == "beta" else (-bands[key], bands[key])
+            cases += [({key: ends[key][0]}, soak), ({key: ends[key][1]}, soak)]
     if ranges:
         # the grade's whole range at once, each element at the end that deepens the case and the end that does not
-        sensitivity["composition"] = (part({el: lo for el, (lo, hi) in ranges.items()}),
-                                      part({el: hi for el, (lo, hi) in ranges.items()}))
+        cases += [({el: lo for el, (lo, hi) in ranges.items()}, soak), ({el: hi for el, (lo, hi) in ranges.items()}, soak)]
+    results = iter(forward_many([moved(changes) for changes, _ in cases], [at for _, at in cases]))
+    nominal = next(results).window_depth
+    done = [next(results) for _ in parts]
+    depths = np.array([r.window_depth for r in done])
+    figures = {name: np.array([r.spread_figures[name] for r in done]) for name in done[0].spread_figures}
+    centred = None
+    if optimize:
+        later_depths = np.array([next(results).window_depth for _ in parts])
+        centred = _best_soak(soak, depths, later, later_depths, (values["case_min"], values["case_max"]))
+    sensitivity = {key: ((next(results).window_depth, next(results).window_depth) if key in ends else (nominal, nominal))
+                   for key in keys}
+    if ranges:
+        sensitivity["composition"] = (next(results).window_depth, next(results).window_depth)
     window = (values["case_min"], values["case_max"])
     return Capability(values, soak, nominal, depths, window, bands, spread, sensitivity, ranges, centred, figures)
 

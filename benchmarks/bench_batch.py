@@ -1,0 +1,101 @@
+"""Many cases in one march: the batch against one inverse, and a load's capability against its plan.
+
+What it measures, in one run, each the median of ``REPEATS`` interleaved repeats:
+
+1. **Inverse, 1000 cases.** 1000 different setups (8620 plate, 880–1050 °C, potential 0.8–1.1 %C, β
+   5e-6–5e-5 cm/s, target 0.3–2.5 mm at 0.40 %C, all drawn with a fixed seed) solved by
+   ``soak_times_many`` in one batch, against one inverse (925 °C, potential 1.0, 1.0 mm) and against
+   the same 1000 solved one by one. Goal (issue "fast where the user waits"): at most ``GOAL_MANY``
+   times one inverse. Before timing, the batch's soaks are checked against the one-by-one ones
+   (identical to round-off; the largest relative difference is printed).
+2. **Capability.** ``capability`` of the pinion-shaft example (256 parts, the shop's ramped heat-up
+   and drop counted) and with ``optimize``, against the plan's nominal ``evaluate``. Goals (issue
+   "process capability"): at most ``GOAL_CAPABILITY`` and ``GOAL_OPTIMIZE`` times the nominal.
+
+How to run
+----------
+From the repository root::
+
+    python benchmarks/bench_batch.py
+"""
+
+from __future__ import annotations
+
+import os
+import statistics
+import sys
+import time
+
+import numpy as np
+
+sys.path.insert(0, os.path.dirname(os.path.dirname(os.path.abspath(__file__))))
+
+import casedepth  # noqa: E402
+from casedepth.carburizing.soak import soak_time_for_case_depth, soak_times_many  # noqa: E402
+from casedepth.plan.evaluate import evaluate  # noqa: E402
+from casedepth.plan.fileformat import load  # noqa: E402
+from casedepth.shop.capability import Spread, capability  # noqa: E402
+
+CASES = 1000
+REPEATS = 5
+GOAL_MANY = 40.0
+GOAL_CAPABILITY = 30.0
+GOAL_OPTIMIZE = 100.0
+EXAMPLE = os.path.join(os.path.dirname(os.path.dirname(os.path.abspath(__file__))), "resources", "examples",
+                       "pinion-shaft.cdplan.json")
+
+
+def drawn(count: int):
+    rng = np.random.default_rng(20261204)
+    setups = [casedepth.setup("8620", f"{rng.uniform(880, 1050):.2f}C", f"{rng.uniform(0.8, 1.1):.3f}",
+                              beta=f"{np.exp(rng.uniform(np.log(5e-6), np.log(5e-5))):.3e}cm/s") for _ in range(count)]
+    targets = list(np.exp(rng.uniform(np.log(0.3e-3), np.log(2.5e-3), count)))
+    return setups, targets
+
+
+def timed(fn) -> float:
+    start = time.perf_counter()
+    fn()
+    return time.perf_counter() - start
+
+
+def main() -> None:
+    setups, targets = drawn(CASES)
+    one = casedepth.setup("8620", "925C", 1.0, beta="1.5e-5cm/s")
+    together = soak_times_many(setups, targets)
+    alone = [soak_time_for_case_depth(s, t) for s, t in zip(setups, targets)]
+    worst = max(abs(a.soak_time / b.soak_time - 1) for a, b in zip(together, alone))
+    print(f"{CASES} inverse cases: batch against one by one, largest difference {worst:.1e} (relative)")
+
+    values = load(EXAMPLE).values()
+    spread = Spread()  # the default: 256 parts, the shop's tolerance bands
+    times: dict[str, list[float]] = {k: [] for k in ("one inverse", f"{CASES} in one batch", f"{CASES} one by one",
+                                                      "nominal evaluate", "capability", "capability --optimize")}
+    for _ in range(REPEATS):
+        times["one inverse"].append(statistics.median(timed(lambda: soak_time_for_case_depth(one, 1e-3))
+                                                      for _ in range(20)))
+        times[f"{CASES} in one batch"].append(timed(lambda: soak_times_many(setups, targets)))
+        times[f"{CASES} one by one"].append(timed(lambda: [soak_time_for_case_depth(s, t)
+                                                           for s, t in zip(setups, targets)]))
+        times["nominal evaluate"].append(statistics.median(timed(lambda: evaluate(values)) for _ in range(5)))
+        times["capability"].append(timed(lambda: capability(values, spread)))
+        times["capability --optimize"].append(timed(lambda: capability(values, spread, optimize=True)))
+    median = {k: statistics.median(v) for k, v in times.items()}
+    print(f"\n{'':28}{'median':>12}")
+    for key, value in median.items():
+        print(f"{key:28}{value * 1e3:10.1f} ms")
+    many = median[f"{CASES} in one batch"] / median["one inverse"]
+    cap = median["capability"] / median["nominal evaluate"]
+    opt = median["capability --optimize"] / median["nominal evaluate"]
+    print(f"\n{CASES} cases in one batch / one inverse        {many:6.0f}x   (goal <= {GOAL_MANY:g}x: "
+          f"{'met' if many <= GOAL_MANY else 'NOT met'})")
+    print(f"{CASES} one by one / in one batch              "
+          f"{median[f'{CASES} one by one'] / median[f'{CASES} in one batch']:6.1f}x")
+    print(f"capability (256 parts) / nominal evaluate   {cap:6.1f}x   (goal <= {GOAL_CAPABILITY:g}x: "
+          f"{'met' if cap <= GOAL_CAPABILITY else 'NOT met'})")
+    print(f"capability --optimize / nominal evaluate    {opt:6.1f}x   (goal <= {GOAL_OPTIMIZE:g}x: "
+          f"{'met' if opt <= GOAL_OPTIMIZE else 'NOT met'})")
+
+
+if __name__ == "__main__":
+    main()

@@ -1,0 +1,158 @@
+"""Many cases in one march give what each gives alone.
+
+The batch (casedepth.numerics.batch) takes every row through the steps its own march would take, so the
+check is identity to round-off (1e-12), not a tolerance: against the single solver on drawn cases of every
+geometry, surface and diffusivity, through the shop's ramped stages, for the inverse, and for a load's
+capability. Rows the batch cannot take (a diffusivity without the exponential form, a far end the carbon
+reaches) are solved alone, and the test checks they are. One check is against a published solution:
+a held surface with a constant D, batched, against the error-function solution (Crank 1975, *The
+Mathematics of Diffusion*, 2nd ed., eq. 3.13).
+"""
+
+from __future__ import annotations
+
+import importlib
+import math
+import random
+
+import numpy as np
+import pytest
+
+import casedepth
+from casedepth.carburizing.cycle import Stage, run_recipe, run_recipes, shop_stages
+from casedepth.carburizing.soak import carburize, carburize_many, soak_time_for_case_depth, soak_times_many
+from casedepth.errors import InputError, NotReachableError
+from casedepth.numerics import batch
+from casedepth.numerics.geometry import Geometry
+from casedepth.numerics.solver import CarbonSolver, SurfaceCondition, threshold_depth
+from casedepth.models.diffusivity import Diffusivity
+from casedepth.shop.quote import ShopDefaults
+
+from test_accuracy_domain import draw
+
+ROUND_OFF = 1e-12
+
+
+def same(a: float, b: float) -> bool:
+    return abs(a - b) <= ROUND_OFF * max(abs(a), abs(b), 1e-30)
+
+
+def test_threshold_depths_row_by_row_as_the_single_reading():
+    rng = np.random.default_rng(4)
+    n = 30
+    nodes = np.cumsum(rng.uniform(0.5, 1.5, (200, n)), axis=1) * 1e-4
+    nodes[:, 0] = 0.0
+    carbon = np.sort(rng.uniform(0.1, 1.0, (200, n)), axis=1)[:, ::-1].copy()
+    carbon[::7] += rng.normal(0, 0.02, (len(carbon[::7]), n))  # some rows not monotone: the fall-backs
+    threshold = rng.uniform(0.05, 1.1, 200)  # some above the surface, some never reached
+    half = np.where(rng.random(200) < 0.3, nodes[:, -1] * 0.8, np.inf)
+    got = batch.threshold_depths(nodes, carbon, threshold, half)
+    want = [threshold_depth(nodes[k], carbon[k], threshold[k], half[k]) for k in range(200)]
+    assert all(same(g, w) or g == w for g, w in zip(got, want))
+
+
+def drawn(count: int, seed: int):
+    rng = random.Random(seed)
+    return [draw(rng) for _ in range(count)]
+
+
+def test_the_inverse_of_drawn_cases_is_what_each_gives_alone():
+    """Every geometry, held and finite surfaces, each diffusivity (Ågren's is solved alone)."""
+    cases = drawn(60, 20261204)
+    setups, targets = [c[0] for c in cases], [c[1] for c in cases]
+    many = soak_times_many(setups, targets)
+    for (setup, target, text), result in zip(cases, many):
+        alone = soak_time_for_case_depth(setup, target)
+        assert same(result.soak_time, alone.soak_time), text
+        assert same(result.case_depth, alone.case_depth), text
+        assert same(result.surface_carbon, alone.surface_carbon), text
+        assert same(result.carbon_uptake, alone.carbon_uptake), text
+        assert result.warnings == alone.warnings, text
+
+
+def test_the_forward_of_drawn_cases_is_what_each_gives_alone():
+    cases = drawn(40, 7)
+    setups = [c[0] for c in cases]
+    soaks = [3600.0 * (1 + k % 9) for k in range(len(cases))]
+    for (setup, _, text), soak, result in zip(cases, soaks, carburize_many(setups, soaks)):
+        alone = carburize(setup, soak)
+        assert same(result.case_depth, alone.case_depth), text
+        assert same(result.surface_carbon, alone.surface_carbon), text
+        assert same(result.carbon_uptake, alone.carbon_uptake), text
+
+
+def test_recipes_with_the_shops_ramps_batched_as_alone():
+    """Heat-up from room temperature (frozen below Ac3, then ramped), soak, drop and equalize ramped down."""
+    rng = np.random.default_rng(11)
+    setups, recipes = [], []
+    for k in range(24):
+        geometry = {} if k % 3 else {"geometry": "cylinder", "diameter": "30mm"}
+        setup = casedepth.setup("8620" if k % 2 else "20MnCr5", f"{rng.uniform(900, 960):.1f}C",
+                                f"{rng.uniform(0.8, 1.1):.3f}", beta="inf" if k % 5 == 0 else "1.5e-5cm/s", **geometry)
+        before, after = shop_stages(ShopDefaults(), setup.temperature, setup.carbon_potential, None)
+        setups.append(setup)
+        recipes.append([*before, Stage("soak", 3600.0 * rng.uniform(2, 9), setup.temperature, setup.carbon_potential),
+                        *after])
+    for setup, recipe, result in zip(setups, recipes, run_recipes(setups, recipes)):
+        alone = run_recipe(setup, recipe)
+        assert same(result.case_depth, alone.case_depth)
+        assert same(result.surface_carbon, alone.surface_carbon)
+        assert all(same(a, b) for a, b in zip(result.stage_uptake, alone.stage_uptake))
+        assert all(same(a, b) for a, b in zip(result.stage_start, alone.stage_start))
+
+
+def test_a_row_that_needs_what_only_a_single_march_does_is_left_to_it():
+    """A grid sized for a far shorter soak: the carbon reaches its far end, which a single march extends
+    and a batch does not; the batch marks the row, the others go on."""
+    d = Diffusivity("tibbetts")
+    condition = SurfaceCondition(1198.15, 1.0, 1.5e-7)
+    right = CarbonSolver(Geometry(), d, 0.2, math.sqrt(3e-11 * 3600 * 8), 3600 * 8)
+    short = CarbonSolver(Geometry(), d, 0.2, math.sqrt(3e-11 * 60), 60)
+    program = batch.Program(1, (batch.Segment(0, 3600 * 8, condition),))
+    out = batch.run_programs([right, short], [program, program])
+    assert out[1] is None and out[0] is not None
+    batch.run_program(right, program)
+    assert np.allclose(out[0].carbon, right.carbon, rtol=ROUND_OFF, atol=0)
+
+
+def test_a_held_surface_with_constant_d_batched_follows_the_error_function():
+    """Crank (1975) eq. 3.13: C = C_core + (C_s − C_core) erfc(x / 2√(Dt)); the depth where it falls to the
+    threshold is 2√(Dt) erfc⁻¹((thr − C_core)/(C_s − C_core)). The solver's own tolerance (0.1 %) applies."""
+    from scipy.special import erfcinv
+
+    setups = [casedepth.setup("1018", f"{T}C", 1.0, beta="inf", diffusivity="arrhenius") for T in (900, 925, 950)]
+    soak = 6 * 3600.0
+    for setup, result in zip(setups, carburize_many(setups, [soak] * 3)):
+        D = float(setup.diffusivity(0.5, setup.temperature))
+        core, surface = setup.steel.carbon, setup.equilibrium_carbon
+        exact = 2 * math.sqrt(D * soak) * float(erfcinv((setup.threshold_carbon - core) / (surface - core)))
+        assert abs(result.case_depth / exact - 1) < 1e-3
+
+
+def test_a_case_the_single_path_refuses_is_refused_in_place():
+    good = casedepth.setup("8620", "925C", 1.0)
+    lean = casedepth.setup("8620", "880C", 0.5)  # 4 mm is not reached within the longest soak (500 h)
+    out = soak_times_many([good, lean, good], [1e-3, 4e-3, 50e-3], errors="return")
+    assert same(out[0].soak_time, soak_time_for_case_depth(good, 1e-3).soak_time)
+    assert isinstance(out[1], NotReachableError) and isinstance(out[2], InputError)
+    with pytest.raises(InputError):
+        soak_times_many([good, lean], [1e-3, 4e-3])
+
+
+def test_capability_is_the_same_as_its_parts_one_by_one(monkeypatch):
+    """The load's parts (with the shop's ramped heat-up and drop counted), run in one batch, give what
+    casedepth.plan.forward gives each."""
+    evaluation = importlib.import_module("casedepth.plan.evaluate")
+    from casedepth.plan.fileformat import load
+    from casedepth.shop.capability import Spread, capability
+
+    values = load("resources/examples/pinion-shaft.cdplan.json").values()
+    together = capability(values, Spread(samples=16), optimize=True)
+    monkeypatch.setattr(evaluation, "forward_many",
+                        lambda plans, soaks: [evaluation.forward(p, s) for p, s in zip(plans, soaks)])
+    alone = capability(values, Spread(samples=16), optimize=True)
+    assert same(together.nominal, alone.nominal)
+    assert np.allclose(together.depths, alone.depths, rtol=ROUND_OFF, atol=0)
+    assert same(together.centred.soak, alone.centred.soak)
+    for key, ends in alone.sensitivity.items():
+        assert all(same(a, b) for a, b in zip(together.sensitivity[key], ends))
