@@ -174,12 +174,17 @@ def _build_parser(argv: list[str] | None = None) -> argparse.ArgumentParser:
     cp.add_argument("--potential-band", metavar="0.05",
                     help="potential held within ±: %%C for carburizing, K_N for nitriding (default: the shop's tolerance)")
     cp.add_argument("--beta-range", metavar="1e-5-2e-5cm/s",
-                    help="the parts' mass-transfer coefficient anywhere in this range (default the plan's β /2 to ×2)")
-    cp.add_argument("--composition", choices=["nominal", "grade-range"], default="nominal",
-                    help="the steel's nominal composition, or anywhere in its grade's range")
-    cp.add_argument("--distribution", choices=["uniform", "normal"], default="uniform",
-                    help="uniform within each band, or normal with the band as 2σ")
-    cp.add_argument("--samples", default="256", help="parts drawn (16–4096, default 256)")
+                    help="the parts' mass-transfer coefficient anywhere in this range (default: the plan's β within "
+                         "the plan's factor, 2 unless set)")
+    cp.add_argument("--beta-factor", metavar="2", help="the parts' β anywhere from β ÷ factor to β × factor (default: "
+                                                       "the plan's Load spread setting, 2 unless set)")
+    # the choices are the parameter table's (its tables load with the capability module: only for this command)
+    spread_choices = (lambda key: list(PARAMETERS[key].kind.options)) if named in (None, "capability") else (lambda key: None)
+    cp.add_argument("--composition", choices=spread_choices("spread_composition"),
+                    help="the steel's nominal composition, or anywhere in its grade's range (default: the plan's)")
+    cp.add_argument("--distribution", choices=spread_choices("spread_distribution"),
+                    help="uniform within each band, or normal with the band as 2σ (default: the plan's)")
+    cp.add_argument("--samples", help="parts drawn (16–4096; default: the plan's, 256 unless set)")
     cp.add_argument("--optimize", action="store_true",
                     help="also the soak that puts most parts inside the drawing's window (each part run twice)")
     _printing(cp)
@@ -428,10 +433,15 @@ def _capability(args) -> int:
     if args.potential_band is not None:
         bands[TREATMENTS[plan.treatment].potential_key] = parse_number(args.potential_band, "potential_band")
     beta_range = None if args.beta_range is None else _range(args.beta_range, parse_velocity, "beta_range")
-    samples = parse_number(args.samples, "samples")
-    if not samples.is_integer():
-        raise InputError("samples", f"{args.samples!r} is not a whole number of parts")
-    spread = Spread(bands, beta_range, args.composition, args.distribution, int(samples))
+    if args.beta_factor is not None:
+        bands["beta"] = parse_number(args.beta_factor, "beta_factor")
+    samples = None
+    if args.samples is not None:
+        samples = parse_number(args.samples, "samples")
+        if not samples.is_integer():
+            raise InputError("samples", f"{args.samples!r} is not a whole number of parts")
+        samples = int(samples)
+    spread = Spread(bands, beta_range, args.composition, args.distribution, samples)
     found = capability(plan.values(), spread, optimize=args.optimize)
     if args.json:
         print(json.dumps(found.to_dict()))

@@ -116,6 +116,16 @@ def length(metres: float, units: DisplayUnits = _METRIC) -> str:
     return units.format_length(metres)
 
 
+def length_effect(metres: float, units: DisplayUnits = _METRIC) -> str:
+    """How far an input moves a depth either way: ``"±0.04 mm"``, or ``"under ±0.01 mm"`` where it rounds to
+    nothing in the depth's format (never a bare ``"±0.00 mm"``)."""
+    d = units.length_decimals_shown
+    shown = abs(units.length(metres))
+    if round(shown, d) == 0.0:
+        return f"under ±{10.0 ** -d:.{d}f} {units.length_unit}"
+    return f"±{shown:.{d}f} {units.length_unit}"
+
+
 def length_range(low: float, high: float, units: DisplayUnits = _METRIC) -> str:
     """``"0.90–1.30 mm"``."""
     d = units.length_decimals_shown

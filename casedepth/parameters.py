@@ -535,6 +535,18 @@ def _cycle_note(key: str) -> str:
     return CYCLES[key].note if key in CYCLES else ""
 
 
+def _spread_distributions() -> dict[str, str]:
+    from .shop.capability import DISTRIBUTIONS
+
+    return DISTRIBUTIONS
+
+
+def _spread_compositions() -> dict[str, str]:
+    from .shop.capability import COMPOSITIONS
+
+    return COMPOSITIONS
+
+
 def _layer_models() -> dict[str, str]:
     from .nitriding.layer import LAYER_MODELS
     return {key: m.display for key, m in LAYER_MODELS.items()}
@@ -823,6 +835,20 @@ PARAMETERS: dict[str, Parameter] = {p.key: p for p in (
               "da-silva-mclellan-1976", "nitrogen_diffusivity_model", NITRIDING, group="Model settings",
               options=(Option("--n-diffusivity", "diffusivity of nitrogen in ferrite",
                               choices=lambda: list(_n_diffusivities())),), since=6),
+    # how a load's parts spread (casedepth.shop.capability: the Load spread page, ``casedepth capability``); the
+    # furnace's temperature and potential bands are the shop's tolerances (Edit → Shop times and rates)
+    Parameter("spread_distribution", "Parts within each band", Choice(_spread_distributions), "uniform",
+              "spread_distribution", group="Load spread",
+              help="how the parts of a load fall within the shop's tolerance bands and β's factor", since=7),
+    Parameter("spread_composition", "Steel composition", Choice(_spread_compositions), "nominal", "spread_composition",
+              group="Load spread", help="the nominal composition, or a heat anywhere in the grade's range", since=7),
+    Parameter("spread_beta_factor", "β known within a factor of", Quantity("number"), 2.0, "spread_beta_factor",
+              CARBURIZING, group="Load spread", unit_label="×", range=(1.0, 10.0),
+              applies=lambda v: isinstance(v.get("beta"), float) and math.isfinite(v["beta"]),
+              when="a finite mass-transfer coefficient",
+              help="the parts' β anywhere from β ÷ factor to β × factor (2: common practice)", since=7),
+    Parameter("spread_samples", "Parts drawn", Quantity("number"), 256, "spread_parts", group="Load spread",
+              range=(16.0, 4096.0), decimals=0, help="parts drawn for the load (a Latin hypercube)", since=7),
     # the shop's times and rates (a dialog of their own) and the notes
     Parameter("shop", "Shop times and rates", Table(dict, _check_shop, "a table of the shop's times and rates"), {},
               "shop", help="the shop's standard times and rates (Edit → Shop times and rates)", since=2),

@@ -24,6 +24,7 @@ from casedepth.errors import InputError
 from casedepth.models.diffusivity import ARRHENIUS_Q
 from casedepth.plan import forward
 from casedepth.shop.capability import Capability, Spread, capability, survey_class
+from casedepth.units import DisplayUnits
 
 
 def plain(**changes):
@@ -186,3 +187,42 @@ def test_default_bands_are_the_shops_tolerances():
     assert bands["temperature"] == shop.temperature_tolerance_c
     assert bands["carbon_potential"] == shop.potential_tolerance_pct
     assert "kn" not in bands and "beta" not in bands  # a held surface has no β to spread
+
+
+def test_hardness_spreads_as_the_plan_reads_it():
+    """Where the plan's hardness comes from the quench (the structure relation), the parts' surface and core
+    hardness get percentiles: with no spread each part reads what the plan's outcome reads (one path), and a heat
+    anywhere in the grade's range (SAE J404 ranges, from memory) spreads the core far more than the nominal does,
+    its hardenability changing with it (ASTM A255 factors)."""
+    values = casedepth.load(pathlib.Path(__file__).parents[1] / "resources/examples/pinion-shaft.cdplan.json").values()
+    outcome = casedepth.evaluate(values)
+    still = capability(values, Spread(bands={"temperature": 0.0, "carbon_potential": 0.0, "beta": 1.0}, samples=16),
+                       soak=outcome.soak_time)
+    for name, expected in (("surface_hardness_hrc", outcome.hardened.surface_hrc),
+                           ("core_hardness_hrc", outcome.hardened.core_hrc)):
+        spread = still.figure_percentiles(name)
+        assert spread["p1"] == pytest.approx(expected, abs=0.05) and spread["p99"] == pytest.approx(expected, abs=0.05)
+    nominal = capability(values, Spread(samples=32))
+    heats = capability(values, Spread(samples=32, composition="grade-range"))
+    width = [c.figure_percentiles("core_hardness_hrc")["p95"] - c.figure_percentiles("core_hardness_hrc")["p5"]
+             for c in (nominal, heats)]
+    assert width[1] > 3 * width[0]
+    text = heats.text(DisplayUnits())
+    assert "core hardness" in text and "±3 HRC" in text
+    assert heats.to_dict()["hardness_uncertainty_hrc"] == 3.0
+
+
+def test_the_profile_band_crosses_the_threshold_at_the_depths_percentiles():
+    """For profiles that fall monotonically with depth, a part's carbon at a depth is under the threshold exactly
+    when its case is shallower, so the pointwise 5th (95th) percentile of the carbon crosses the threshold at the
+    5th (95th) percentile of the depths: the band and the histogram tell one story."""
+    from casedepth.numerics.solver import threshold_depth
+
+    values = plain(beta="1.5e-5cm/s")
+    found = capability(values, Spread(samples=128))
+    depth, low, high = found.profile_band
+    threshold = casedepth.evaluate(values).setup.threshold_carbon
+    pct = found.percentiles
+    assert threshold_depth(depth, low, threshold) == pytest.approx(pct["p5"], rel=0.01)
+    assert threshold_depth(depth, high, threshold) == pytest.approx(pct["p95"], rel=0.01)
+    assert np.all(low <= high)

@@ -14,6 +14,7 @@ from casedepth.report.documents import case_depth_chart, nitriding_chart, proces
 from casedepth.nitriding import NitridingSetup, nitriding_time
 from casedepth.models.steels import find
 from casedepth.plan import evaluate, load
+from casedepth.units import DisplayUnits
 
 K = 273.15
 EXAMPLES = Path(__file__).resolve().parent.parent / "resources" / "examples"
@@ -208,3 +209,27 @@ def test_customer_chart_names_shop_and_customer_and_keeps_its_header_above_the_p
     assert plot.get_tightbbox(renderer).y1 <= lowest_header
     longest = max(t for row in document.values["soak_times"] for t in row if math.isfinite(t)) / 3600
     assert longest <= document.values["hours"] < 1.5 * longest
+
+
+def test_the_sheet_says_where_the_loads_spread_puts_the_case():
+    """Issue 16: a one-soak plan's sheet carries the spread of its load (the plan's Load spread settings, the
+    shop's tolerances), the same figures `casedepth capability` gives; a boost and diffuse plan, which has no
+    single soak to spread, carries none."""
+    from casedepth.shop.capability import capability
+
+    plan = load(EXAMPLES / "pinion-shaft.cdplan.json")
+    outcome = evaluate(plan.values())
+    texts = " ".join(t.get_text() for page in process_sheet(plan, outcome).pages for t in page.texts)
+    expected = capability(plan.values()).sheet_line(DisplayUnits())
+    assert expected.split(":")[1].split(",")[0].strip() in texts  # the 5–95 % range
+    assert "Cpk\u00a0" in texts
+    ring = load(EXAMPLES / "ring-gear-boost-diffuse.cdplan.json")
+    other = " ".join(t.get_text() for page in process_sheet(ring, evaluate(ring.values())).pages for t in page.texts)
+    assert "load spread" not in other
+
+
+def test_a_no_break_space_keeps_its_words_on_one_line():
+    from casedepth.report.documents import _wrap
+
+    lines = _wrap("a b c d e f g h Cpk\u00a01.64", 8.0, 0.9)
+    assert any("Cpk\u00a01.64" in line for line in lines)

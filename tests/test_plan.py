@@ -36,6 +36,8 @@ def changed_plan() -> Plan:
                 quench_temperature=40 + 273.15, temper_temperature=160 + 273.15, temper_time=3 * 3600.0,
                 surface_hrc_min=58.0, surface_hrc_max=62.0, core_hrc_min=30.0, core_hrc_max=42.0, furnace="IQ-3",
                 load_number="L-0042", quantity=80.0, fixture="basket 2")
+    plan.update(spread_distribution="normal", spread_composition="grade-range", spread_beta_factor=3.0,
+                spread_samples=512.0)
     return plan
 
 
@@ -133,7 +135,8 @@ def test_old_files_give_the_numbers_they_gave_when_written(path):
     got = outcome.to_dict()
     assert got["soak_time_h"] == pytest.approx(expected["soak_time_h"], rel=1e-3)
     assert got["case_depth_mm"] == pytest.approx(expected["case_depth_mm"], rel=1e-3)
-    for key in ("window_soak_time_h", "surface_carbon_pct", "boost_time_h", "diffuse_time_h", "compound_layer_um"):
+    for key in ("window_soak_time_h", "surface_carbon_pct", "boost_time_h", "diffuse_time_h", "compound_layer_um",
+                "surface_hardness_hrc", "core_hardness_hrc"):
         if key in expected:
             assert got[key] == pytest.approx(expected[key], rel=1e-3), key
     if "stages" in expected:

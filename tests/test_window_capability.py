@@ -26,13 +26,13 @@ def test_a_one_soak_plan_shows_its_load_once_the_page_is_shown(window, qtbot):
     page = _show_spread(window, qtbot)
     found = page.capability
     assert found is not None and page.has(window.outcome)
-    assert len(found.depths) == page.SPREAD.samples == 64
+    assert len(found.depths) == window.plan.values()["spread_samples"] == 256  # the plan's setting, as on the command line
     counts = page.parts.get_data().values
     assert counts.sum() == len(found.depths)  # every part in the histogram
     low, high = (window.units.length(end) for end in found.window)
     assert page.band.get_x() == pytest.approx(low) and page.band.get_width() == pytest.approx(high - low)
     text = page.figures.text()
-    assert page.figures.isEnabled() and "64 parts drawn" in text and "Cpk" in text and "moves it most" in text
+    assert page.figures.isEnabled() and "256 parts drawn" in text and "Cpk" in text and "moves it most" in text
     assert "Edit → Shop" in page.note.text() and "β" in page.note.text()
 
 
@@ -73,3 +73,26 @@ def test_a_boost_and_diffuse_plan_shows_the_refusal(window, qtbot):
     assert page.capability is None
     assert page.plot.message.get_visible() and "no single soak" in page.plot.message.get_text()
     assert not page.parts.get_visible() and not page.axes.axison
+
+
+def test_the_plans_load_spread_settings_are_what_the_page_draws(window, qtbot):
+    """The form's Load spread group is the plan's: fewer parts and a normal spread there are what the page (and
+    `casedepth capability` on the saved plan) use."""
+    window.plan.set("spread_samples", 32.0)
+    window.plan.set("spread_distribution", "normal")
+    qtbot.waitUntil(lambda: window.outcome is not None and window.outcome.values["spread_samples"] == 32.0,
+                    timeout=10000)
+    page = _show_spread(window, qtbot)
+    qtbot.waitUntil(lambda: page.capability is not None and len(page.capability.depths) == 32, timeout=20000)
+    assert page.capability.spread.distribution == "normal"
+    assert "32 parts drawn" in page.figures.text() and "normal bands" in page.figures.text()
+
+
+def test_the_carbon_profile_gets_the_loads_band_once_it_is_known(window, qtbot):
+    plots = window.plots
+    assert plots.carbon_page.spread is None  # not worked out yet: no band
+    _show_spread(window, qtbot)
+    plots.setCurrentIndex(0)
+    qtbot.waitUntil(lambda: plots.carbon_page.spread is not None, timeout=10000)
+    assert "5–95 %" in plots.carbon_page.spread.get_label()
+    assert plots.carbon_page.spread in plots.carbon_page._handles()  # in the key under the plot

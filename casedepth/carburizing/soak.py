@@ -58,8 +58,37 @@ class CarburizingResult:
 
     @property
     def spread_figures(self) -> dict[str, float]:
-        """The figures besides the depth that a load's spread is reported for (casedepth.shop.capability)."""
-        return {"surface_carbon_pct": self.surface_carbon}
+        """The figures besides the depth that a load's spread is reported for (casedepth.shop.capability): see
+        :meth:`figures_of`."""
+        return {name: float(values[0]) for name, values in self.figures_of([self]).items()}
+
+    @staticmethod
+    def figures_of(results: list[CarburizingResult]) -> dict[str, np.ndarray]:
+        """The figures besides the depth that a load's spread is reported for, of many results at once: the
+        surface carbon [wt %] and, where the plan's hardness comes from the quench's structure, the surface and
+        core hardness [HRC] as the plan's outcome reads them (:func:`casedepth.carburizing.hardening.hardness_at`:
+        Maynier, Jungmann & Dollet 1978 on the cooling through the section, Carslaw & Jaeger 1959), one call
+        of the structure relation for all parts that share a composition, a section and a quench."""
+        out = {"surface_carbon_pct": np.array([r.surface_carbon for r in results])}
+        if not all(r.setup.structure for r in results):
+            return out
+        from ..models.hardness import HV_RANGE, ASTM_E140_hv_to_hrc
+        from .hardening import core_depth, hardness_at
+
+        surface, core = np.empty(len(results)), np.empty(len(results))
+        groups: dict[tuple, list[int]] = {}
+        for k, r in enumerate(results):
+            s = r.setup
+            groups.setdefault((tuple(sorted(s.steel.composition.items())), s.geometry, s.hardening), []).append(k)
+        for rows in groups.values():
+            s = results[rows[0]].setup
+            depths = np.concatenate((np.zeros(len(rows)), np.full(len(rows), core_depth(s.geometry))))
+            carbon = np.concatenate(([results[k].surface_carbon for k in rows], np.full(len(rows), s.steel.carbon)))
+            hv = hardness_at(s.steel.composition, s.geometry, s.hardening, depths, carbon)["hv"]
+            surface[rows], core[rows] = hv[:len(rows)], hv[len(rows):]
+        hrc = (lambda hv: np.asarray(ASTM_E140_hv_to_hrc(np.clip(hv, HV_RANGE[0], HV_RANGE[1])), dtype=float))
+        out.update(surface_hardness_hrc=hrc(surface), core_hardness_hrc=hrc(core))
+        return out
 
     @property
     def threshold_carbon(self) -> float:

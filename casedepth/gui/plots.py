@@ -255,6 +255,7 @@ class _PlotPage(_Page):
         self.layer = ax.axvspan(0, 0, color=LAYER, alpha=0.8, lw=0)
         self.final, = ax.plot([], [], color=EARLIER, lw=1.2, ls="--")
         self.line, = ax.plot([], [], color=INK, lw=2.2)
+        self.spread = None  # the load's 5–95 % band around the profile, while the Load spread page has it
         self.canvas.moving = [self.layer, self.band, self.aim, self.final, self.line]
         if self.hrc_axis:
             from ..report.plot_marks import hrc_scale
@@ -263,8 +264,19 @@ class _PlotPage(_Page):
             hrc_scale(ax)
         keep_fitted(self.canvas, self.figure)
 
-    def draw_panel(self, panel: Panel, view: ProfileView, units: DisplayUnits) -> None:
+    def draw_panel(self, panel: Panel, view: ProfileView, units: DisplayUnits, spread=None) -> None:
+        """Draw ``panel``; with ``spread`` (depths [m], low and high values: the load's 5th and 95th percentiles at
+        the end, :attr:`casedepth.shop.capability.Capability.profile_band`) the band around the profile too."""
         ax = self.axes
+        if self.spread is not None:
+            self.spread.remove()
+            self.canvas.moving.remove(self.spread)
+            self.spread = None
+        if spread is not None:
+            depth, low_values, high_values = spread
+            self.spread = ax.fill_between(units.length(depth), low_values, high_values, color=INK, alpha=0.18, lw=0,
+                                          label="the load's parts, 5–95 % (Load spread)", zorder=1.5)
+            self.canvas.moving.insert(0, self.spread)
         low, aim, high = (units.length(depth) for depth in view.targets)
         self.band.set_x(low)
         self.band.set_width(high - low)
@@ -300,7 +312,8 @@ class _PlotPage(_Page):
         self.canvas.refresh()
 
     def _handles(self):
-        patches = [self.band] + ([self.layer] if self.layer.get_visible() else [])
+        patches = ([self.band] + ([self.layer] if self.layer.get_visible() else [])
+                   + ([self.spread] if self.spread is not None else []))
         return [h for h in self.axes.get_lines() + patches if h.get_visible() and not h.get_label().startswith("_")]
 
     def legend(self) -> None:
@@ -596,8 +609,8 @@ class _SpreadPage(_Page):
     draws it when it has the answer for the outcome (:meth:`take`), else says it is being worked out and returns
     False."""
 
-    #: small enough to be worked out in about a second
-    SPREAD = Spread(samples=64)
+    #: the plan's own Load spread settings (the form's group of that name), as on the command line
+    SPREAD = Spread()
 
     def __init__(self, parent=None):
         super().__init__(parent)
@@ -876,6 +889,8 @@ class ProfilePlots(QTabWidget):
         """The worker's spread of a load of the plan ``values``: kept if it is of the result on show, and drawn if
         its page is on show."""
         self._answered(self.spread_page, values, capability, error)
+        if self.outcome is not None and values is self.outcome.values:  # the carbon profile gets the load's band
+            self._stale.add(self.pages.index(self.carbon_page))
 
     def _answered(self, page: _Page, values: dict, answer, error: Exception | None) -> None:
         if self.outcome is None or values is not self.outcome.values:
@@ -918,7 +933,9 @@ class ProfilePlots(QTabWidget):
         self._stale.discard(index)
         if isinstance(page, _PlotPage):
             view = self.outcome.view(self.time)
-            page.draw_panel(view.main if index == 0 else view.hardness, view, self.units)
+            found = self.spread_page.capability if self.spread_page.has(self.outcome) else None
+            band = found.profile_band if found is not None and index == 0 and self.time is None else None
+            page.draw_panel(view.main if index == 0 else view.hardness, view, self.units, band)
         elif page is self.tradeoff_page:
             if not page.show_outcome(self.outcome, self.units):
                 self.comparison_wanted.emit(self.outcome.values, page.temperatures(self.outcome))

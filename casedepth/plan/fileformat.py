@@ -24,7 +24,7 @@ from ..outcome import Offer
 from ..parameters import PARAMETERS
 from .state import Plan
 
-SCHEMA_VERSION = 6
+SCHEMA_VERSION = 7
 FILE_KIND = "casedepth plan"
 LARGEST_FILE = 5_000_000  # bytes: a plan with 100 stages and long notes is under 100 kB
 HEADER_KEYS = ("kind", "schema_version")
@@ -93,7 +93,14 @@ def _to_6(data: dict, offers: list[Offer], made_with: int) -> None:
         data["temper_time_h"] = shop["temper_h"]
 
 
-MIGRATIONS = {1: _to_2, 2: _to_3, 3: _to_4, 4: _to_5, 5: _to_6}
+def _to_7(data: dict, offers: list[Offer], made_with: int) -> None:
+    # schema 7 adds how a load's parts spread (the Load spread settings); an older plan gets the defaults, which
+    # are what `casedepth capability` and the window used before they were a plan's (written here, not filled in as
+    # a guess: the spread of its load does not change)
+    data.update(spread_distribution="uniform", spread_composition="nominal", spread_beta_factor=2.0, spread_parts=256)
+
+
+MIGRATIONS = {1: _to_2, 2: _to_3, 3: _to_4, 4: _to_5, 5: _to_6, 6: _to_7}
 
 
 def migrate(data: dict) -> tuple[dict, list[Offer], list[str]]:

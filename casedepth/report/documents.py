@@ -10,6 +10,7 @@ from __future__ import annotations
 import datetime as _dt
 import functools
 import math
+import re
 import os
 from dataclasses import astuple, dataclass, field, replace
 from pathlib import Path
@@ -353,11 +354,14 @@ def _width(text: str, size: float, style: str = "normal", weight: str | int = "n
 def _wrap(text: str, size: float, width: float, indent: float = 0.0, style: str = "normal") -> tuple[str, ...]:
     """``text`` in lines that print no wider than ``width`` [in] (the second and later ``indent`` narrower),
     measured in the font they are printed in (a word at a time, with :data:`SPARE` to spare); a word longer than a
-    line is cut where the line ends."""
+    line is cut where the line ends. A no-break space (U+00A0: a number's thousands, a figure and its name) joins
+    what it stands between into one word."""
     space = _width(" ", size, style)
     lines: list[str] = []
     line, used = "", 0.0
-    for word in text.split():
+    for word in re.split(r"[ \t\n]+", text.strip(" \t\n")):
+        if not word:
+            continue
         room = SPARE * (width - (indent if lines else 0.0))
         wide = _width(word, size, style)
         if line and used + space + wide <= room:
@@ -649,14 +653,30 @@ def process_sheet(plan, outcome: Outcome, paper: str = "a4", units: str = "metri
     return Document(figures, plan.title)
 
 
+def _load_spread(outcome: Outcome):
+    """The spread of a load of a one-soak plan (:func:`casedepth.shop.capability.capability` with the plan's Load
+    spread settings), or None for a plan with no single soak."""
+    from ..shop.capability import capability
+
+    try:
+        return capability(outcome.values)
+    except InputError:  # no single soak (boost and diffuse, stages of one's own, two-stage nitriding)
+        return None
+
+
 def _sheet_blocks(plan, outcome: Outcome, u: DisplayUnits) -> list:
     """What a process sheet carries, in the order it is printed."""
     content = outcome.sheet(u)
     steel = outcome.setup.steel
     composition = "  ".join(f"{el} {val:g}" for el, val in steel.composition.items())
     lines = list(content.lines)
+    spread = _load_spread(outcome)
     if outcome.quote is not None:
-        lines.append(f"Whole cycle {format_clock(outcome.quote.total_h * 3600)} h:min (every stage in the setpoints)")
+        whole = f"Whole cycle {format_clock(outcome.quote.total_h * 3600)} h:min"
+        lines.append(f"{whole}; {spread.sheet_line(u)}" if spread is not None else
+                     f"{whole} (every stage in the setpoints)")
+    elif spread is not None:
+        lines.append(spread.sheet_line(u)[0].upper() + spread.sheet_line(u)[1:])
     if content.setpoints:
         header, rows = [*content.setpoint_header, "actual", "initials"], [[*r, "", ""] for r in content.setpoints]
     else:

@@ -17,7 +17,7 @@ from __future__ import annotations
 
 import math
 import statistics
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from typing import Any, Callable, Mapping
 
 import numpy as np
@@ -34,8 +34,12 @@ from ..units import DisplayUnits, format_duration
 AMS2750_CLASSES = {1: 5 / 1.8, 2: 10 / 1.8, 3: 15 / 1.8, 4: 20 / 1.8, 5: 25 / 1.8, 6: 50 / 1.8}
 
 SAMPLES_RANGE = (16, 4096)
-DISTRIBUTIONS = ("uniform", "normal")
-COMPOSITIONS = ("nominal", "grade-range")
+#: how the parts fall within each band (the plan's ``spread_distribution``; the window and ``--distribution`` offer these)
+DISTRIBUTIONS = {"uniform": "Uniform within each band", "normal": "Normal, each band ±2σ"}
+#: the steel's composition across the load (the plan's ``spread_composition``; ``--composition``)
+COMPOSITIONS = {"nominal": "The grade's nominal", "grade-range": "Anywhere in the grade's range"}
+#: the mass-transfer coefficient is rarely known better than a factor of 2 either way (common practice)
+BETA_FACTOR = 2.0
 
 
 def survey_class(band: float) -> str:
@@ -90,10 +94,11 @@ SPREAD_INPUTS: dict[str, SpreadInput] = {row.key: row for row in (
                 lambda v, x: {"kn": v["kn"] + x},
                 lambda b, u: f"±{formats.kn(b)}",
                 "the shop's K_N tolerance (the band the process sheet prints)"),
-    SpreadInput("beta", "mass-transfer coefficient", lambda v: 2.0 if _beta_applies(v) else None,
+    SpreadInput("beta", "mass-transfer coefficient",
+                lambda v: float(v.get("spread_beta_factor", BETA_FACTOR)) if _beta_applies(v) else None,
                 lambda v, x: {"beta": v["beta"] * x},
                 lambda b, u: f"from β/{formats.trimmed(b, 2)} to β×{formats.trimmed(b, 2)}",
-                "a factor of 2 either way: β is rarely known better (common practice)"),
+                "the plan's factor (Load spread; 2 by default: β is rarely known better, common practice)"),
 )}
 
 
@@ -106,18 +111,22 @@ class Spread:
 
     bands: Mapping[str, float] = field(default_factory=dict)
     beta_range: tuple[float, float] | None = None  # m/s: the parts' β anywhere in it (log scale), not about the plan's
-    composition: str = "nominal"
-    distribution: str = "uniform"
-    samples: int = 256
+    composition: str | None = None  # None: the plan's (spread_composition)
+    distribution: str | None = None  # None: the plan's (spread_distribution)
+    samples: int | None = None  # None: the plan's (spread_samples)
     seed: int = 20261203
 
+    #: the plan's parameter each of the fields above stands in for when it is None
+    PLAN_KEYS = {"composition": "spread_composition", "distribution": "spread_distribution", "samples": "spread_samples"}
+
     def __post_init__(self):
-        if self.composition not in COMPOSITIONS:
+        if self.composition is not None and self.composition not in COMPOSITIONS:
             raise InputError("composition", f"{self.composition!r} is not one of {', '.join(COMPOSITIONS)}")
-        if self.distribution not in DISTRIBUTIONS:
+        if self.distribution is not None and self.distribution not in DISTRIBUTIONS:
             raise InputError("distribution", f"{self.distribution!r} is not one of {', '.join(DISTRIBUTIONS)}")
-        if not (isinstance(self.samples, int) and SAMPLES_RANGE[0] <= self.samples <= SAMPLES_RANGE[1]):
-            raise InputError("samples", f"{self.samples!r} is outside {SAMPLES_RANGE[0]}–{SAMPLES_RANGE[1]}")
+        if self.samples is not None and not (isinstance(self.samples, int)
+                                             and SAMPLES_RANGE[0] <= self.samples <= SAMPLES_RANGE[1]):
+            raise InputError("samples", f"{self.samples!r} is not a whole number in {SAMPLES_RANGE[0]}–{SAMPLES_RANGE[1]}")
         if self.beta_range is not None:
             low, high = self.beta_range
             if not (math.isfinite(low) and math.isfinite(high) and 0.0 < low <= high):
@@ -139,6 +148,20 @@ class Spread:
             out[key] = float(self.bands.get(key, default))
         return out
 
+    def for_plan(self, values: Mapping[str, Any]) -> Spread:
+        """This spread with what it leaves open (None) taken from the plan's Load spread settings, or their
+        defaults for values that have none."""
+        chosen = {}
+        for name, key in self.PLAN_KEYS.items():
+            if getattr(self, name) is None:
+                value = values.get(key, PARAMETERS[key].default)
+                if name == "samples":
+                    if not float(value).is_integer():
+                        raise InputError(key, f"{formats.typed(value, 'parts')} is not a whole number of parts")
+                    value = int(value)
+                chosen[name] = value
+        return replace(self, **chosen)
+
 
 @dataclass
 class Capability:
@@ -157,6 +180,9 @@ class Capability:
     composition_range: dict[str, tuple[float, float]]
     centred: "Centred | None" = None
     figures: dict[str, np.ndarray] = field(default_factory=dict)  # the parts' other figures (FIGURES), by key
+    #: the parts' carbon profiles at the end: depths [m] (the nominal part's nodes) and the 5th and 95th
+    #: percentiles of the carbon there [wt %]; None where the results have no carbon profile (nitriding)
+    profile_band: tuple[np.ndarray, np.ndarray, np.ndarray] | None = None
 
     #: a load is capable when at least this share of its parts lands inside the window (common practice: 95 %)
     WANTED_SHARE = 0.95
@@ -203,6 +229,8 @@ class Capability:
             "share_in_window": self.share_in_window, "cp": _finite(self.cp), "cpk": _finite(self.cpk),
             "window_mm": [self.window[0] * 1e3, self.window[1] * 1e3],
             **{_percentiles_key(name): self.figure_percentiles(name) for name in self.figures},
+            **({"hardness_uncertainty_hrc": FIGURE_UNCERTAINTY["surface_hardness_hrc"]}
+               if any(name in FIGURE_UNCERTAINTY for name in self.figures) else {}),
             "sensitivity": {key: {"low_mm": low * 1e3, "high_mm": high * 1e3}
                             for key, (low, high) in self.sensitivity.items()},
             **({} if self.centred is None else {
@@ -213,6 +241,13 @@ class Capability:
                        "distribution": self.spread.distribution, "samples": self.spread.samples,
                        "seed": self.spread.seed},
         }
+
+    def sheet_line(self, units: DisplayUnits) -> str:
+        """The load's spread in a few words, for the process sheet's result."""
+        pct = self.percentiles
+        return (f"load spread ({self.spread.samples} parts, shop's tolerances): "
+                f"{formats.length_range(pct['p5'], pct['p95'], units)} for 90 % of parts, "
+                f"{formats.percent(100 * self.share_in_window)} inside, Cpk\u00a0{_index(self.cpk)}")
 
     def text(self, units: DisplayUnits) -> str:
         pct = self.percentiles
@@ -225,10 +260,13 @@ class Capability:
         lines.append("  depth             " + " · ".join(f"{k} {units.format_length(v)}" for k, v in pct.items()))
         for name in self.figures:
             label, shown = FIGURES[name]
-            lines.append(f"  {label:17s} " + " · ".join(f"{k} {shown(v)}" for k, v in self.figure_percentiles(name).items()))
+            sure = (f" (each ±{formats.trimmed(FIGURE_UNCERTAINTY[name], 1)} HRC: the model's own uncertainty)"
+                    if name in FIGURE_UNCERTAINTY else "")
+            lines.append(f"  {label:17s} " + " · ".join(f"{k} {shown(v)}" for k, v in self.figure_percentiles(name).items())
+                         + sure)
         lines.append(f"  drawing window    {formats.length_range(low, high, units)}: {formats.percent(100 * self.share_in_window)} "
                      f"inside; Cp {_index(self.cp)}, Cpk {_index(self.cpk)}")
-        moves = [f"{SPREAD_INPUTS[k].label if k in SPREAD_INPUTS else k} ±{units.format_length(m)}"
+        moves = [f"{SPREAD_INPUTS[k].label if k in SPREAD_INPUTS else k} {formats.length_effect(m, units)}"
                  for k, m in self.ranked()]
         lines.append("  moves it most     " + ", ".join(moves))
         if self.centred is not None:
@@ -254,8 +292,13 @@ class Capability:
 #: the figures besides the depth a load's spread is reported for: key (unit as its suffix) -> (label, format)
 FIGURES: dict[str, tuple[str, Callable[[float], str]]] = {
     "surface_carbon_pct": ("surface carbon", formats.carbon),
+    "surface_hardness_hrc": ("surface hardness", formats.hrc),
+    "core_hardness_hrc": ("core hardness", formats.hrc),
     "compound_layer_um": ("compound layer", lambda um: formats.thin_length(um * 1e-6)),
 }
+#: what the model itself is sure of, where a figure carries more than the load's spread: the hardness read from the
+#: quench (coefficients from memory, the quench's constant h an average; the plan's outcome prints the same ±3 HRC)
+FIGURE_UNCERTAINTY = {"surface_hardness_hrc": 3.0, "core_hardness_hrc": 3.0}
 
 
 def _percentiles_key(name: str) -> str:
@@ -307,7 +350,8 @@ def _composition_range(values: Mapping[str, Any], spread: Spread) -> dict[str, t
 def capability(values: Mapping[str, Any], spread: Spread = Spread(), soak: float | None = None,
                optimize: bool = False) -> Capability:
     """Where the depths of a load planned by ``values`` (a one-soak plan's values) fall with ``spread``, after
-    the plan's aim soak (or ``soak`` [s]). Each part is the plan with its inputs moved within their bands,
+    the plan's aim soak (or ``soak`` [s]); what ``spread`` leaves open comes from the plan's Load spread settings
+    (:meth:`Spread.for_plan`). Each part is the plan with its inputs moved within their bands,
     run through :func:`casedepth.plan.forward`. With ``optimize``, also the soak that puts most parts inside
     the drawing's window (each part run at a second soak, :func:`_best_soak`)."""
     from ..plan.evaluate import evaluate, forward_many
@@ -315,6 +359,7 @@ def capability(values: Mapping[str, Any], spread: Spread = Spread(), soak: float
     values = dict(values)
     treatment = treatment_of(values)
     treatment.single_soak(values)
+    spread = spread.for_plan(values)
     if soak is None:
         soak = evaluate(values).soak_time
     base = dict(values)
@@ -365,10 +410,14 @@ def capability(values: Mapping[str, Any], spread: Spread = Spread(), soak: float
         # the grade's whole range at once, each element at the end that deepens the case and the end that does not
         cases += [({el: lo for el, (lo, hi) in ranges.items()}, soak), ({el: hi for el, (lo, hi) in ranges.items()}, soak)]
     results = iter(forward_many([moved(changes) for changes, _ in cases], [at for _, at in cases]))
-    nominal = next(results).window_depth
+    nominal_result = next(results)
+    nominal = nominal_result.window_depth
     done = [next(results) for _ in parts]
+    band = _profile_band(nominal_result, done)
     depths = np.array([r.window_depth for r in done])
-    figures = {name: np.array([r.spread_figures[name] for r in done]) for name in done[0].spread_figures}
+    figures_of = getattr(type(done[0]), "figures_of", None)  # a treatment's results may work them out together
+    figures = (figures_of(done) if figures_of is not None else
+               {name: np.array([r.spread_figures[name] for r in done]) for name in done[0].spread_figures})
     centred = None
     if optimize:
         later_depths = np.array([next(results).window_depth for _ in parts])
@@ -378,7 +427,18 @@ def capability(values: Mapping[str, Any], spread: Spread = Spread(), soak: float
     if ranges:
         sensitivity["composition"] = (next(results).window_depth, next(results).window_depth)
     window = (values["case_min"], values["case_max"])
-    return Capability(values, soak, nominal, depths, window, bands, spread, sensitivity, ranges, centred, figures)
+    return Capability(values, soak, nominal, depths, window, bands, spread, sensitivity, ranges, centred, figures, band)
+
+
+def _profile_band(nominal, parts) -> tuple[np.ndarray, np.ndarray, np.ndarray] | None:
+    """The 5th and 95th percentiles of the parts' carbon at the nominal part's nodes (each part's own profile read
+    there, linearly between its nodes), or None where the results carry no carbon profile."""
+    profile = getattr(nominal, "profile", None)
+    if profile is None or not hasattr(profile, "carbon"):
+        return None
+    depth = profile.depth
+    carbon = np.array([np.interp(depth, p.profile.depth, p.profile.carbon) for p in parts])
+    return depth, np.percentile(carbon, 5, axis=0), np.percentile(carbon, 95, axis=0)
 
 
 #: the second soak each part is run at to find its rate, over the first: 20 % longer
