@@ -847,6 +847,12 @@ PARAMETERS: dict[str, Parameter] = {p.key: p for p in (
               applies=lambda v: isinstance(v.get("beta"), float) and math.isfinite(v["beta"]),
               when="a finite mass-transfer coefficient",
               help="the parts' β anywhere from β ÷ factor to β × factor (2: common practice)", since=7),
+    Parameter("spread_section", "Section varies by ±", Quantity("length"), 0.0, "spread_section_mm", group="Load spread",
+              range=lambda v: (0.0, 0.25 * (v.get("size") or 0.0)), decimals=3,
+              applies=lambda v: isinstance(v.get("size"), float) and v["size"] > 0,
+              when="a part with a size (a plate's thickness or a diameter)",
+              help="part-to-part spread of the section (its tolerance as machined); it changes how the core cools and "
+                   "how a thin section carburizes (0: every part at the plan's size)", since=7),
     Parameter("spread_samples", "Parts drawn", Quantity("number"), 256, "spread_parts", group="Load spread",
               range=(16.0, 4096.0), decimals=0, help="parts drawn for the load (a Latin hypercube)", since=7),
     # the shop's times and rates (a dialog of their own) and the notes

@@ -50,14 +50,26 @@ def _nitriding_temperatures(values) -> tuple[float, float]:
     return TEMPERATURE_RANGE
 
 
-def _carburizing_chart(values, **kwargs):
+def _carburizing_chart(values, load: bool = False, **kwargs):
+    """The case-depth chart of a plan's steel; with ``load``, the band of a load's parts (the plan's Load spread
+    settings) around the plan's own curve, for a plan with a single soak."""
     from .carburizing.outcome import carburizing_setup
+    from .errors import InputError
     from .report.documents import case_depth_chart
 
-    return case_depth_chart(carburizing_setup({**values, "process": "single"}), **kwargs)
+    parts = None
+    if load:
+        from .shop.capability import draw_parts
+
+        try:
+            parts = [carburizing_setup({**v, "process": "single"}) for v in draw_parts(values).part_values()]
+        except InputError:  # no single soak to spread: the chart without the band
+            parts = None
+    return case_depth_chart(carburizing_setup({**values, "process": "single"}), load=parts, **kwargs)
 
 
-def _nitriding_chart(values, **kwargs):
+def _nitriding_chart(values, load: bool = False, **kwargs):
+    """The nitriding chart of a plan's steel (a load's band is drawn on carburizing charts only, so far)."""
     from .nitriding.outcome import nitriding_setup
     from .report.documents import nitriding_chart
 
@@ -124,7 +136,7 @@ class Treatment:
     potential_key: str  # the atmosphere's parameter: what parts in one load share with the temperature
     potential_tolerance: float  # potentials this close count as the same atmosphere
     single_soak: Callable[[Mapping[str, Any]], None]  # refuses a plan with no single soak (loads, calibration)
-    chart: Callable[..., Any]  # (values, temperatures=… or potentials=…, paper, units, hours) -> Document
+    chart: Callable[..., Any]  # (values, temperatures=… or potentials=…, paper, units, hours, load) -> Document
     chart_spread: float  # the window's chart: the plan's temperature and this far [K] either side
     comparison_temperatures: tuple[float, ...]  # K, the window's comparison of temperatures
     comparison_note: str  # what limits the temperature, in words

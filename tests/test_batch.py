@@ -156,3 +156,15 @@ def test_capability_is_the_same_as_its_parts_one_by_one(monkeypatch):
     assert same(together.centred.soak, alone.centred.soak)
     for key, ends in alone.sensitivity.items():
         assert all(same(a, b) for a, b in zip(together.sensitivity[key], ends))
+
+
+def test_depth_histories_batched_as_alone():
+    """The chart's band: each part's depth after every step, recorded by the batch, is the single march's history."""
+    from casedepth.carburizing.soak import depth_histories_many
+
+    setups = [casedepth.setup("8620", f"{T}C", p, beta=b) for T, p, b in
+              ((900, 1.0, "1.5e-5cm/s"), (950, 0.9, "inf"), (925, 1.1, "8e-6cm/s"))]
+    for setup, (times, depths) in zip(setups, depth_histories_many(setups, 10 * 3600.0)):
+        history = carburize(setup, 10 * 3600.0).history
+        assert np.allclose(times, history.times, rtol=ROUND_OFF, atol=0)
+        assert np.allclose(depths, history.threshold_depths(setup.threshold_carbon), rtol=ROUND_OFF, atol=1e-18)

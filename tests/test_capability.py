@@ -226,3 +226,22 @@ def test_the_profile_band_crosses_the_threshold_at_the_depths_percentiles():
     assert threshold_depth(depth, low, threshold) == pytest.approx(pct["p5"], rel=0.01)
     assert threshold_depth(depth, high, threshold) == pytest.approx(pct["p95"], rel=0.01)
     assert np.all(low <= high)
+
+
+def test_a_section_spread_spreads_the_core_and_is_none_unless_set():
+    """Part-to-part section (the plan's Load spread setting, none by default): a 32 mm shaft ±2 mm cools its core at
+    a different rate from part to part (Carslaw & Jaeger 1959 series through the section), so the core hardness
+    spreads; with no section spread every part reads the plan's core. A band over a quarter of the size is
+    refused, naming the setting."""
+    values = casedepth.load(pathlib.Path(__file__).parents[1] / "resources/examples/pinion-shaft.cdplan.json").values()
+    still = {"temperature": 0.0, "carbon_potential": 0.0, "beta": 1.0}
+    assert "size" not in Spread().resolved(values)
+    fixed = capability(values, Spread(bands=still, samples=16)).figure_percentiles("core_hardness_hrc")
+    assert fixed["p1"] == pytest.approx(fixed["p99"], abs=1e-9)
+    varied = capability({**values, "spread_section": 2e-3}, Spread(bands=still, samples=16))
+    core = varied.figure_percentiles("core_hardness_hrc")
+    assert core["p99"] - core["p1"] > 0.5
+    assert "section ±2.00 mm" in varied.text(DisplayUnits())
+    with pytest.raises(InputError) as refused:
+        casedepth.evaluate({**values, "spread_section": 9e-3})
+    assert refused.value.field == "spread_section"

@@ -233,3 +233,28 @@ def test_a_no_break_space_keeps_its_words_on_one_line():
 
     lines = _wrap("a b c d e f g h Cpk\u00a01.64", 8.0, 0.9)
     assert any("Cpk\u00a01.64" in line for line in lines)
+
+
+def test_the_plans_chart_has_its_loads_band_around_its_own_curve():
+    """Issue 16: the case-depth chart printed for a plan (the window's) shades where a load's parts fall (5–95 %)
+    around the plan's own temperature, in its colour; at the soak the plan's sheet states, the band is the spread
+    `casedepth capability` gives there (its 5th and 95th percentiles, within the chart's reading of time)."""
+    from casedepth.shop.capability import Spread, capability
+    from casedepth.treatments import TREATMENTS
+
+    plan = load(EXAMPLES / "pinion-shaft.cdplan.json")
+    values = {**plan.values(), "count_shop_stages": False}  # the chart's curves are the soak at temperature alone
+    treatment = TREATMENTS["carburizing"]
+    chart = treatment.chart(values, temperatures=treatment.chart_temperatures(values), load=True)
+    ax = chart.pages[0].axes[0]
+    bands = [c for c in ax.collections if "parts, 5–95 %" in c.get_label()]
+    assert len(bands) == 1
+    found = capability(values, Spread())
+    path = bands[0].get_paths()[0].vertices
+    hours = found.soak / 3600.0
+    near = path[np.abs(path[:, 0] - hours) < 0.15]
+    pct = found.percentiles
+    assert near[:, 1].min() == pytest.approx(pct["p5"] * 1e3, rel=0.02)
+    assert near[:, 1].max() == pytest.approx(pct["p95"] * 1e3, rel=0.02)
+    plain = treatment.chart(values, temperatures=treatment.chart_temperatures(values))
+    assert not [c for c in plain.pages[0].axes[0].collections if "parts" in c.get_label()]

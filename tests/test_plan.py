@@ -37,7 +37,7 @@ def changed_plan() -> Plan:
                 surface_hrc_min=58.0, surface_hrc_max=62.0, core_hrc_min=30.0, core_hrc_max=42.0, furnace="IQ-3",
                 load_number="L-0042", quantity=80.0, fixture="basket 2")
     plan.update(spread_distribution="normal", spread_composition="grade-range", spread_beta_factor=3.0,
-                spread_samples=512.0)
+                spread_samples=512.0, spread_section=1e-3)
     return plan
 
 

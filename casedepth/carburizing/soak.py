@@ -187,6 +187,35 @@ def carburize_many(setups: list[CarburizingSetup], soak_times: list[float]) -> l
     return results
 
 
+def depth_histories_many(setups: list[CarburizingSetup], soak_time: float) -> list[tuple[np.ndarray, np.ndarray]]:
+    """The threshold depth [m] of each setup after every solver step of a soak of ``soak_time`` [s], as
+    ``(times [s], depths [m])``: what :func:`carburize`'s history gives (``history.threshold_depths``), the cases
+    marched together where they can be (:class:`casedepth.numerics.batch.BatchMarch`, recording as it goes)."""
+    from ..numerics.batch import BatchMarch, batchable
+
+    check_soak(soak_time)
+    solvers = [setup.solver(soak_time=soak_time) for setup in setups]
+    out: list[tuple[np.ndarray, np.ndarray] | None] = [None] * len(setups)
+    groups: dict[int, list[int]] = {}
+    for k, solver in enumerate(solvers):
+        if batchable(solver):
+            groups.setdefault(len(solver.nodes), []).append(k)
+    for rows in groups.values():
+        batch = BatchMarch([solvers[k] for k in rows])
+        batch.advance(soak_time, [setups[k].surface_condition for k in rows],
+                      record=np.array([setups[k].threshold_carbon for k in rows]))
+        times = np.array([t for t, _ in batch.recorded])
+        depths = np.array([d for _, d in batch.recorded])
+        for position, k in enumerate(rows):
+            if not batch.failed[position]:
+                out[k] = (times[:, position], depths[:, position])
+    for k, setup in enumerate(setups):
+        if out[k] is None:
+            history = carburize(setup, soak_time).history
+            out[k] = (history.times, history.threshold_depths(setup.threshold_carbon))
+    return out
+
+
 def check_target(setup: CarburizingSetup, target: float, field: str = "target") -> None:
     """Refuse a target depth [m] outside the range the models cover (or beyond the centre of the section)."""
     target = as_number(target, field)

@@ -722,14 +722,16 @@ class _SpreadPage(_Page):
 
 def _bands_note(bands: dict[str, float]) -> str:
     """Where the bands of a load's spread come from (``bands``: :meth:`Spread.resolved`, by input)."""
-    shop = [SPREAD_INPUTS[key].label for key in bands if key != "beta"]
+    shop = [SPREAD_INPUTS[key].label for key in bands if key not in ("beta", "size")]
     if not shop:
         return ""
     note = f"Each part has its {' and '.join(shop)} anywhere in the shop's tolerances (Edit → Shop times and rates)"
     if "beta" in bands:
         factor = formats.trimmed(bands["beta"], 2)
-        note += f", and its mass-transfer coefficient anywhere from β ÷ {factor} to β × {factor}"
-    return note + "."
+        note += f", its mass-transfer coefficient anywhere from β ÷ {factor} to β × {factor}"
+    if "size" in bands:
+        note += ", its section within the plan's tolerance"
+    return note + " (the plan's Load spread settings)."
 
 
 def _figures_html(text: str) -> str:

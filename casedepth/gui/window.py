@@ -689,7 +689,7 @@ class MainWindow(QMainWindow):
         values = self.outcome.values
         treatment = TREATMENTS[values["treatment"]]
         return treatment.chart(values, temperatures=treatment.chart_temperatures(values), paper=self.paper,
-                               units=self.units.system)
+                               units=self.units.system, load=True)
 
     def _document_or_message(self, kind: str):
         try:

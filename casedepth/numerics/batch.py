@@ -151,6 +151,7 @@ class BatchMarch:
         self.forms = ExponentialForms([s.diffusivity for s in self.solvers])
         self.failed = np.zeros(len(self.solvers), dtype=bool)
         self.crossings: dict[int, Crossing] = {}
+        self.recorded: list[tuple[np.ndarray, np.ndarray]] = []  # (times [s], threshold depths [m]) of the rows
 
     def __len__(self) -> int:
         return len(self.solvers)
@@ -262,14 +263,16 @@ class BatchMarch:
 
     # -- the march ------------------------------------------------------------------------------------
     def advance(self, durations, conditions: Sequence[SurfaceCondition | Ramp], max_steps=math.inf,
-                until: np.ndarray | None = None, threshold: np.ndarray | None = None) -> np.ndarray:
+                until: np.ndarray | None = None, threshold: np.ndarray | None = None,
+                record: np.ndarray | None = None) -> np.ndarray:
         """March each row ``durations`` [s] under its condition (a :class:`SurfaceCondition` or a
         :class:`Ramp`), as :meth:`CarbonSolver.advance` would, steps of at most ``max_steps`` [s].
 
         With ``until`` [m] and ``threshold`` [wt %], a row stops at the step after which its threshold
         depth reaches ``until`` (as :meth:`casedepth.numerics.march.March.advance`); that step is kept in
         :attr:`crossings`. Returns which rows reached it (all False without ``until``). Failed rows
-        (:attr:`failed`) are not marched."""
+        (:attr:`failed`) are not marched. With ``record`` (a threshold [wt %] per row), the rows' times [s] and
+        threshold depths [m] at the start and after every step are appended to :attr:`recorded`."""
         N = len(self)
         durations = np.broadcast_to(np.asarray(durations, dtype=float), (N,))
         max_steps = np.broadcast_to(np.asarray(max_steps, dtype=float), (N,))
@@ -295,6 +298,8 @@ class BatchMarch:
         smoothing = CarbonSolver.SMOOTHING_STEPS
         steps = 0
         active = ~self.failed & ~reached & (end - self.time > 1e-12 * np.maximum(end, 1.0))
+        if record is not None:
+            self.recorded.append((self.time.copy(), self.depths(record)))
         while active.any():
             check()
             steps += 1
@@ -341,6 +346,8 @@ class BatchMarch:
                     self._check_reached(ok, good, until, threshold, shallower, reached, before, t_before, h, T, ceq,
                                         beta[idx], smoothing > 0)
             smoothing -= 1
+            if record is not None:
+                self.recorded.append((self.time.copy(), self.depths(record)))
             dt = np.minimum(dt * self.growth, max_steps)
             active = ~self.failed & ~reached & (end - self.time > 1e-12 * np.maximum(end, 1.0))
         return reached

@@ -97,7 +97,8 @@ def _to_7(data: dict, offers: list[Offer], made_with: int) -> None:
     # schema 7 adds how a load's parts spread (the Load spread settings); an older plan gets the defaults, which
     # are what `casedepth capability` and the window used before they were a plan's (written here, not filled in as
     # a guess: the spread of its load does not change)
-    data.update(spread_distribution="uniform", spread_composition="nominal", spread_beta_factor=2.0, spread_parts=256)
+    data.update(spread_distribution="uniform", spread_composition="nominal", spread_beta_factor=2.0, spread_parts=256,
+                spread_section_mm=0.0)
 
 
 MIGRATIONS = {1: _to_2, 2: _to_3, 3: _to_4, 4: _to_5, 5: _to_6, 6: _to_7}

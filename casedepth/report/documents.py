@@ -25,7 +25,7 @@ from matplotlib.patches import Rectangle
 
 from .. import __version__, formats, safety
 from ..carburizing.setup import CarburizingSetup
-from ..carburizing.soak import carburize, soak_times_many
+from ..carburizing.soak import carburize, depth_histories_many, soak_times_many
 from ..errors import InputError, NotReachableError
 from ..files import atomic_write
 from ..models.hardness import HARDNESS_RELATIONS
@@ -154,11 +154,13 @@ def _table(ax, rows: list[list[str]], header: list[str], widths: list[float] | N
 def case_depth_chart(setup: CarburizingSetup, temperatures: list[float] | None = None,
                      potentials: list[float] | None = None, paper: str = "a4", units: str = "metric",
                      hours: float | None = None, date: _dt.date | None = None, shop: str = "", customer: str = "",
-                     logo: str | None = None) -> Document:
+                     logo: str | None = None, load: list[CarburizingSetup] | None = None) -> Document:
     """Effective case depth against time for several temperatures [K] (or potentials [wt %]), with a
     table of soak times for the standard depths of ``units``; one page. The time axis runs ``hours``
     [h], by default the shortest of 12, 24, 48 or 96 h that shows every tabulated soak (times beyond
-    the axis are marked in the table)."""
+    the axis are marked in the table). With ``load`` (the setups of a load's parts,
+    :func:`casedepth.shop.capability.draw_parts`), the band their depths fill (5th to 95th percentile at each
+    time) is drawn around the curve of ``setup``'s own temperature and potential."""
     if bool(temperatures) == bool(potentials):
         raise InputError("temperatures", "give several temperatures or several potentials (not both)")
     u = DisplayUnits(units)
@@ -190,6 +192,8 @@ def case_depth_chart(setup: CarburizingSetup, temperatures: list[float] | None =
             mark = " †" if t > hours * 3600.0 else ""
             beyond = beyond or bool(mark)
             row.append("—" if math.isnan(t) else f"{format_duration(t)}  ({formats.hours(t)}){mark}")
+    if load:
+        _load_band(ax, setup, variants, load, hours, u)
     ax.set_xlim(0, hours)
     ax.set_ylim(0, None)
     ax.set_xlabel("time at temperature [h]")
@@ -651,6 +655,20 @@ def process_sheet(plan, outcome: Outcome, paper: str = "a4", units: str = "metri
     for number, fig in enumerate(figures, 1):
         _footer(fig, footer, number, len(figures))
     return Document(figures, plan.title)
+
+
+def _load_band(ax, setup: CarburizingSetup, variants: list, load: list, hours: float, u: DisplayUnits) -> None:
+    """The 5–95 % band of a load's parts' depths against time, around the curve of the plan's own step (in its
+    colour; none if no curve is the plan's)."""
+    own = [k for k, v in enumerate(variants) if v.temperature == setup.temperature
+           and v.carbon_potential == setup.carbon_potential]
+    if not own:
+        return
+    t = np.linspace(0.0, hours * 3600.0, 241)
+    depths = np.array([np.interp(t, times, d) for times, d in depth_histories_many(load, hours * 3600.0)])
+    low, high = np.percentile(depths, 5, axis=0), np.percentile(depths, 95, axis=0)
+    ax.fill_between(t / 3600.0, u.length(low), u.length(high), color=COLOURS[own[0] % len(COLOURS)], alpha=0.18,
+                    lw=0, label=f"a load's {len(load)} parts, 5–95 %")
 
 
 def _load_spread(outcome: Outcome):

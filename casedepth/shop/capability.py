@@ -94,6 +94,11 @@ SPREAD_INPUTS: dict[str, SpreadInput] = {row.key: row for row in (
                 lambda v, x: {"kn": v["kn"] + x},
                 lambda b, u: f"±{formats.kn(b)}",
                 "the shop's K_N tolerance (the band the process sheet prints)"),
+    SpreadInput("size", "section",
+                lambda v: float(v["spread_section"]) if _used("spread_section", v) and v["spread_section"] > 0 else None,
+                lambda v, x: {"size": v["size"] + x},
+                lambda b, u: f"±{formats.length(b, u)}",
+                "the plan's section tolerance (Load spread; none unless set)"),
     SpreadInput("beta", "mass-transfer coefficient",
                 lambda v: float(v.get("spread_beta_factor", BETA_FACTOR)) if _beta_applies(v) else None,
                 lambda v, x: {"beta": v["beta"] * x},
@@ -347,21 +352,41 @@ def _composition_range(values: Mapping[str, Any], spread: Spread) -> dict[str, t
     return dict(steel.composition_range)
 
 
-def capability(values: Mapping[str, Any], spread: Spread = Spread(), soak: float | None = None,
-               optimize: bool = False) -> Capability:
-    """Where the depths of a load planned by ``values`` (a one-soak plan's values) fall with ``spread``, after
-    the plan's aim soak (or ``soak`` [s]); what ``spread`` leaves open comes from the plan's Load spread settings
-    (:meth:`Spread.for_plan`). Each part is the plan with its inputs moved within their bands,
-    run through :func:`casedepth.plan.forward`. With ``optimize``, also the soak that puts most parts inside
-    the drawing's window (each part run at a second soak, :func:`_best_soak`)."""
-    from ..plan.evaluate import evaluate, forward_many
+@dataclass(frozen=True)
+class Draw:
+    """The parts of a load drawn from a spread: the spread with the plan's settings filled in, the plan as the parts
+    are spread about (``base``: β moved to the middle of a given β range), each input's band, the composition
+    ranges, and each part's offsets (by input key, or element for the composition)."""
 
+    spread: Spread
+    base: dict
+    bands: dict[str, float]
+    ranges: dict[str, tuple[float, float]]
+    parts: list[dict[str, float]]
+
+    def moved(self, changes: Mapping[str, float]) -> dict:
+        """The plan's values with ``changes`` applied (offsets by input key; an element's content [wt %])."""
+        out = dict(self.base)
+        composition = dict(self.base["composition"])
+        for key, x in changes.items():
+            if key in SPREAD_INPUTS:
+                out.update(SPREAD_INPUTS[key].apply(self.base, x))
+            else:
+                composition[key] = x
+        out["composition"] = composition
+        return out
+
+    def part_values(self) -> list[dict]:
+        """Each part's plan values."""
+        return [self.moved(changes) for changes in self.parts]
+
+
+def draw_parts(values: Mapping[str, Any], spread: Spread = Spread()) -> Draw:
+    """The parts of a load of the one-soak plan ``values``, drawn with ``spread`` (what it leaves open from the plan's
+    Load spread settings) by a Latin hypercube (McKay, Beckman & Conover 1979)."""
     values = dict(values)
-    treatment = treatment_of(values)
-    treatment.single_soak(values)
+    treatment_of(values).single_soak(values)
     spread = spread.for_plan(values)
-    if soak is None:
-        soak = evaluate(values).soak_time
     base = dict(values)
     bands = spread.resolved(values)
     if spread.beta_range is not None:
@@ -375,28 +400,34 @@ def capability(values: Mapping[str, Any], spread: Spread = Spread(), soak: float
     u = _unit_samples(spread.samples, len(keys) + len(ranges), rng)
     columns = {key: _offset(u[:, i], bands[key], spread.distribution, log=key == "beta")
                for i, key in enumerate(keys)}
-    elements = list(ranges)
-    for j, element in enumerate(elements):
+    for j, element in enumerate(ranges):
         low, high = ranges[element]
         column = u[:, len(keys) + j]
         if spread.distribution == "normal":  # the range as ±2σ about its middle, held inside it
             column = np.clip(0.5 + _offset(column, 0.5, "normal"), 0.0, 1.0)
         columns[element] = low + column * (high - low)
+    parts = [{key: float(col[i]) for key, col in columns.items()} for i in range(spread.samples)]
+    return Draw(spread, base, bands, ranges, parts)
 
-    def moved(changes: Mapping[str, float]) -> dict:
-        out = dict(base)
-        composition = dict(base["composition"])
-        for key, x in changes.items():
-            if key in SPREAD_INPUTS:
-                out.update(SPREAD_INPUTS[key].apply(base, x))
-            else:
-                composition[key] = x
-        out["composition"] = composition
-        return out
+
+def capability(values: Mapping[str, Any], spread: Spread = Spread(), soak: float | None = None,
+               optimize: bool = False) -> Capability:
+    """Where the depths of a load planned by ``values`` (a one-soak plan's values) fall with ``spread``, after
+    the plan's aim soak (or ``soak`` [s]); what ``spread`` leaves open comes from the plan's Load spread settings
+    (:meth:`Spread.for_plan`). Each part (:func:`draw_parts`) is the plan with its inputs moved within their
+    bands, run through :func:`casedepth.plan.forward`. With ``optimize``, also the soak that puts most parts
+    inside the drawing's window (each part run at a second soak, :func:`_best_soak`)."""
+    from ..plan.evaluate import evaluate, forward_many
+
+    values = dict(values)
+    drawn = draw_parts(values, spread)
+    spread, bands, ranges, parts, moved = drawn.spread, drawn.bands, drawn.ranges, drawn.parts, drawn.moved
+    keys = list(bands)
+    if soak is None:
+        soak = evaluate(values).soak_time
 
     # every case this study runs — the nominal part, the load's parts (at a second soak too, to optimize), each
     # input at the ends of its band — in one batch (casedepth.plan.forward_many): the same numbers as one by one
-    parts = [{key: float(col[i]) for key, col in columns.items()} for i in range(spread.samples)]
     cases: list[tuple[dict, float]] = [({}, soak), *((changes, soak) for changes in parts)]
     later = soak * (1.0 + OPTIMIZE_STEP)
     if optimize:
