@@ -191,16 +191,12 @@ def depth_histories_many(setups: list[CarburizingSetup], soak_time: float) -> li
     """The threshold depth [m] of each setup after every solver step of a soak of ``soak_time`` [s], as
     ``(times [s], depths [m])``: what :func:`carburize`'s history gives (``history.threshold_depths``), the cases
     marched together where they can be (:class:`casedepth.numerics.batch.BatchMarch`, recording as it goes)."""
-    from ..numerics.batch import BatchMarch, batchable
+    from ..numerics.batch import BatchMarch, batch_rows
 
     check_soak(soak_time)
     solvers = [setup.solver(soak_time=soak_time) for setup in setups]
     out: list[tuple[np.ndarray, np.ndarray] | None] = [None] * len(setups)
-    groups: dict[int, list[int]] = {}
-    for k, solver in enumerate(solvers):
-        if batchable(solver):
-            groups.setdefault(len(solver.nodes), []).append(k)
-    for rows in groups.values():
+    for rows in batch_rows(solvers):
         batch = BatchMarch([solvers[k] for k in rows])
         batch.advance(soak_time, [setups[k].surface_condition for k in rows],
                       record=np.array([setups[k].threshold_carbon for k in rows]))

@@ -67,6 +67,16 @@ def batchable(solver: CarbonSolver) -> bool:
     return solver.diffusivity.method in ("tibbetts", "arrhenius")
 
 
+def batch_rows(solvers: Sequence[CarbonSolver], shape=lambda k: ()) -> list[list[int]]:
+    """The solvers that can be marched together, as lists of their indices: batchable ones (:func:`batchable`)
+    with the same number of nodes and the same ``shape(index)`` (e.g. the shape of their programs)."""
+    groups: dict[tuple, list[int]] = {}
+    for k, solver in enumerate(solvers):
+        if batchable(solver):
+            groups.setdefault((len(solver.nodes), shape(k)), []).append(k)
+    return list(groups.values())
+
+
 def threshold_depths(nodes: np.ndarray, carbon: np.ndarray, threshold: np.ndarray, half_section: np.ndarray) -> np.ndarray:
     """Each row's depth [m] where its profile first falls to its ``threshold`` [wt %]: row by row what
     :func:`casedepth.numerics.solver.threshold_depth` gives (the same quadratic, same fall-backs)."""
@@ -509,11 +519,7 @@ def run_programs(solvers: Sequence[CarbonSolver], programs: Sequence[Program]) -
     could not take to the end (see :class:`BatchMarch`) is None: the caller runs it alone (:func:`run_program`).
     The solvers themselves are not moved."""
     out: list[Marched | None] = [None] * len(solvers)
-    groups: dict[tuple, list[int]] = {}
-    for k, (solver, program) in enumerate(zip(solvers, programs)):
-        if batchable(solver):
-            groups.setdefault((len(solver.nodes), program.shape), []).append(k)
-    for rows in groups.values():
+    for rows in batch_rows(solvers, lambda k: programs[k].shape):
         batch = BatchMarch([solvers[k] for k in rows])
         first = programs[rows[0]]
         starts, uptake = [], []
@@ -545,11 +551,7 @@ def times_to(solvers: Sequence[CarbonSolver], conditions: Sequence[SurfaceCondit
     where the batch could not (not batchable, a single march's exceptions, or the target not reached): the
     caller solves that one alone. The solvers themselves are not moved."""
     out: list[tuple[float, np.ndarray] | None] = [None] * len(solvers)
-    groups: dict[int, list[int]] = {}
-    for k, solver in enumerate(solvers):
-        if batchable(solver):
-            groups.setdefault(len(solver.nodes), []).append(k)
-    for rows in groups.values():
+    for rows in batch_rows(solvers):
         batch = BatchMarch([solvers[k] for k in rows])
         until = np.array([targets[k] for k in rows], dtype=float)
         threshold = np.array([thresholds[k] for k in rows], dtype=float)
