@@ -245,3 +245,14 @@ def test_a_section_spread_spreads_the_core_and_is_none_unless_set():
     with pytest.raises(InputError) as refused:
         casedepth.evaluate({**values, "spread_section": 9e-3})
     assert refused.value.field == "spread_section"
+
+
+def test_the_models_own_uncertainty_stands_beside_the_spread():
+    """A nitrided depth is sure to ±25 % until calibrated (the zone model says so on every depth it gives): the
+    load's spread is printed with it, in text and JSON; the carburizing depth states none."""
+    nitrided = casedepth.load(pathlib.Path(__file__).parents[1]
+                              / "resources/examples/piston-rod-nitrided.cdplan.json").values()
+    found = capability(nitrided, Spread(samples=16))
+    assert "±25 %" in found.model_uncertainty and "the model's own" in found.text(DisplayUnits())
+    assert found.to_dict()["model_uncertainty"] == found.model_uncertainty
+    assert capability(plain(), Spread(samples=16)).model_uncertainty is None

@@ -709,7 +709,7 @@ class _SpreadPage(_Page):
         ax.set_xlim(*round_out(ax.xaxis, min(low, float(edges[0])) - 0.05 * reach,
                                max(high, float(edges[-1])) + 0.05 * reach))
         ax.set_ylim(*round_out(ax.yaxis, 0.0, float(counts.max()) * 1.1))
-        ax.set_xlabel(f"case depth [{units.length_unit}]")
+        ax.set_xlabel(f"{TREATMENTS[outcome.treatment].depth_name} [{units.length_unit}]")
         ax.set_ylabel("parts")
         self.title.set_text(f"The load's parts after the soak of {format_duration(found.soak)}")
         self.plot.finish(self.fit)
@@ -731,7 +731,7 @@ def _bands_note(bands: dict[str, float]) -> str:
         note += f", its mass-transfer coefficient anywhere from β ÷ {factor} to β × {factor}"
     if "size" in bands:
         note += ", its section within the plan's tolerance"
-    return note + " (the plan's Load spread settings)."
+    return note + "; how they are drawn is the plan's (Load spread in the form)."
 
 
 def _figures_html(text: str) -> str:

@@ -52,6 +52,11 @@ class NitridingResult:
         return self.nitrided_depth
 
     @property
+    def uncertainty(self) -> str:
+        """How sure the model is of the depth, in words (a load's spread is on top of it)."""
+        return self.setup.uncertainty
+
+    @property
     def spread_figures(self) -> dict[str, float]:
         """The figures besides the depth that a load's spread is reported for (casedepth.shop.capability)."""
         return {"compound_layer_um": self.compound_layer * 1e6}

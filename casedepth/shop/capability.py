@@ -188,6 +188,9 @@ class Capability:
     #: the parts' carbon profiles at the end: depths [m] (the nominal part's nodes) and the 5th and 95th
     #: percentiles of the carbon there [wt %]; None where the results have no carbon profile (nitriding)
     profile_band: tuple[np.ndarray, np.ndarray, np.ndarray] | None = None
+    #: how sure the treatment's model is of the depth, in words, where it says (nitriding, until calibrated): the
+    #: load's spread is on top of it, so it is printed beside the spread
+    model_uncertainty: str | None = None
 
     #: a load is capable when at least this share of its parts lands inside the window (common practice: 95 %)
     WANTED_SHARE = 0.95
@@ -241,6 +244,7 @@ class Capability:
             **({} if self.centred is None else {
                 "centred_soak_time_h": self.centred.soak / 3600.0, "share_in_window_at_centred": self.centred.share}),
             "warnings": self.warnings(),
+            **({"model_uncertainty": self.model_uncertainty} if self.model_uncertainty else {}),
             "spread": {"bands": dict(self.bands), "composition": self.spread.composition,
                        "composition_range_pct": {el: list(r) for el, r in self.composition_range.items()},
                        "distribution": self.spread.distribution, "samples": self.spread.samples,
@@ -263,6 +267,8 @@ class Capability:
         bands.append("composition " + ("nominal" if not self.composition_range else "over the grade's range"))
         lines.append("  spread            " + "; ".join(bands))
         lines.append("  depth             " + " · ".join(f"{k} {units.format_length(v)}" for k, v in pct.items()))
+        if self.model_uncertainty:
+            lines.append(f"  the model's own   {self.model_uncertainty} (on top of the load's spread)")
         for name in self.figures:
             label, shown = FIGURES[name]
             sure = (f" (each ±{formats.trimmed(FIGURE_UNCERTAINTY[name], 1)} HRC: the model's own uncertainty)"
@@ -458,7 +464,8 @@ def capability(values: Mapping[str, Any], spread: Spread = Spread(), soak: float
     if ranges:
         sensitivity["composition"] = (next(results).window_depth, next(results).window_depth)
     window = (values["case_min"], values["case_max"])
-    return Capability(values, soak, nominal, depths, window, bands, spread, sensitivity, ranges, centred, figures, band)
+    return Capability(values, soak, nominal, depths, window, bands, spread, sensitivity, ranges, centred, figures, band,
+                      getattr(nominal_result, "uncertainty", None))
 
 
 def _profile_band(nominal, parts) -> tuple[np.ndarray, np.ndarray, np.ndarray] | None:
