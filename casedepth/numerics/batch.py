@@ -38,28 +38,20 @@ import numpy as np
 
 from ..models.diffusivity import ExponentialForms
 from .budget import MAX_STEPS, check
-from .solver import _GAMMA, CarbonSolver, Ramp, SurfaceCondition
-
-_dgtsv = None
-
+from ..errors import SolverError
+from .solver import _GAMMA, CarbonSolver, Ramp, SurfaceCondition, _tridiagonal
 
 def _solve(below: np.ndarray, diagonal: np.ndarray, above: np.ndarray, rhs: np.ndarray, keep: bool) -> np.ndarray:
-    """Solve the rows' tridiagonal systems (each row one system) in one ``dgtsv`` call, end to end with no
-    coupling between rows. ``rhs`` is overwritten; the matrix too unless ``keep``."""
-    global _dgtsv
-    if _dgtsv is None:
-        from scipy.linalg.lapack import dgtsv as _dgtsv
+    """Solve the rows' tridiagonal systems (each row one system) in one ``dgtsv`` call
+    (:func:`casedepth.numerics.solver._tridiagonal`), end to end with no coupling between rows. ``rhs`` is
+    overwritten; the matrix too unless ``keep``. A singular system raises :class:`SolverError`: the caller marks
+    the rows failed and solves them alone."""
     m, n = diagonal.shape
     dl = np.zeros((m, n))
     dl[:, :-1] = below
     du = np.zeros((m, n))
     du[:, :-1] = above
-    flag = 0 if keep else 1
-    _, _, _, x, info = _dgtsv(dl.ravel()[:-1], diagonal.ravel() if keep else diagonal.reshape(-1),
-                              du.ravel()[:-1], rhs.reshape(-1), flag, flag, flag, 1)
-    if info != 0:
-        raise ValueError("singular matrix")  # the caller marks the rows failed and solves them alone
-    return x.reshape(m, n)
+    return _tridiagonal(dl.ravel()[:-1], diagonal.reshape(-1), du.ravel()[:-1], rhs.reshape(-1), keep).reshape(m, n)
 
 
 def batchable(solver: CarbonSolver) -> bool:
@@ -330,7 +322,7 @@ class BatchMarch:
                 t_before = self.time[idx]
                 try:
                     carbon, flux = self._step(idx, c0, h, T, ceq, beta[idx], held, smoothing > 0)
-                except ValueError:
+                except SolverError:
                     self.failed[idx] = True
                     continue
                 new_low = np.minimum.reduce(carbon, axis=1)
