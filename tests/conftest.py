@@ -28,3 +28,25 @@ def window(qtbot, tmp_path, monkeypatch):
     yield win
     win.plan.modified = False
     win.calculator.wait()
+
+
+@pytest.fixture
+def threads_of(monkeypatch):
+    """``threads_of(name)``: the window worker's function ``name`` (a name in casedepth.gui.worker) patched to
+    record the thread each call runs on; returns the list the threads are appended to."""
+    import threading
+
+    from casedepth.gui import worker
+
+    def record(name: str) -> list:
+        threads = []
+        original = getattr(worker, name)
+
+        def on_which_thread(*arguments):
+            threads.append(threading.current_thread())
+            return original(*arguments)
+
+        monkeypatch.setattr(worker, name, on_which_thread)
+        return threads
+
+    return record

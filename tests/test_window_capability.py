@@ -36,17 +36,8 @@ def test_a_one_soak_plan_shows_its_load_once_the_page_is_shown(window, qtbot):
     assert "Edit → Shop" in page.note.text() and "β" in page.note.text()
 
 
-def test_the_load_is_worked_out_on_the_worker_only_while_its_page_is_shown(window, qtbot, monkeypatch):
-    from casedepth.gui import worker
-
-    threads = []
-    capability = worker.capability
-
-    def on_which_thread(*arguments):
-        threads.append(threading.current_thread())
-        return capability(*arguments)
-
-    monkeypatch.setattr(worker, "capability", on_which_thread)
+def test_the_load_is_worked_out_on_the_worker_only_while_its_page_is_shown(window, qtbot, threads_of):
+    threads = threads_of("capability")
     with qtbot.waitSignal(window.result_shown, timeout=20000):
         window.plan.set("temperature", window.plan.temperature + 10.0)
     qtbot.wait(50)

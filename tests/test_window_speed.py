@@ -71,17 +71,8 @@ def test_moving_the_time_redraws_only_the_curves(window, qtbot):
     assert page.caption.text().startswith("Carbon after")
 
 
-def test_the_temperatures_page_is_worked_out_on_the_worker_when_shown(window, qtbot, monkeypatch):
-    from casedepth.gui import worker
-
-    threads = []
-    compare = worker.compare_temperatures
-
-    def on_which_thread(*arguments):
-        threads.append(threading.current_thread())
-        return compare(*arguments)
-
-    monkeypatch.setattr(worker, "compare_temperatures", on_which_thread)
+def test_the_temperatures_page_is_worked_out_on_the_worker_when_shown(window, qtbot, threads_of):
+    threads = threads_of("compare_temperatures")
     with qtbot.waitSignal(window.result_shown, timeout=20000):
         window.plan.set("temperature", window.plan.temperature + 10.0)
     assert threads == []  # its page is not on show
