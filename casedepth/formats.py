@@ -54,6 +54,13 @@ def carbon_value(pct: float) -> str:
     return f"{pct:.2f}"
 
 
+def carbon_effect(pct: float) -> str:
+    """How far an input moves a carbon content either way: ``"±0.03 %C"``, or ``"under ±0.01 %C"`` where it rounds to
+    nothing (as :func:`length_effect`)."""
+    shown = abs(pct)
+    return "under ±0.01 %C" if round(shown, 2) == 0.0 else f"±{shown:.2f} %C"
+
+
 def carbon_range(low: float, high: float) -> str:
     """``"0.70–0.90 %C"``."""
     return f"{low:.2f}–{high:.2f} %C"

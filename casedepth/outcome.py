@@ -20,6 +20,7 @@ from typing import Any
 import numpy as np
 
 from . import formats
+from .errors import InputError
 from .safety import Caution
 from .shop.quote import Quote
 from .units import DisplayUnits, format_duration
@@ -149,6 +150,21 @@ class Outcome(ABC):
     def soak_time(self) -> float:
         """Time at temperature [s] for the aim: what a shop sets on the furnace and what calibration asks for."""
         return self.soak_window[1]
+
+    @property
+    def held_stages(self) -> list[tuple[str, float]]:
+        """The stages at temperature whose lengths make the aim's time at temperature (:attr:`soak_time`), in order:
+        ``(name, duration [s])``. One soak unless the plan's cycle splits it (boost and diffuse, two stages)."""
+        return [("soak", self.soak_time)]
+
+    @property
+    def held_shares(self) -> tuple[float, ...]:
+        """Each held stage's share of :attr:`soak_time` (what a longer or shorter time at temperature keeps)."""
+        held = self.held_stages
+        total = sum(duration for _, duration in held)
+        if not total > 0:
+            raise InputError("stages", "the plan holds no time at temperature (no soak, boost or diffuse stage) to vary")
+        return tuple(duration / total for _, duration in held)
 
     @property
     @abstractmethod

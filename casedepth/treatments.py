@@ -62,6 +62,7 @@ def _carburizing_chart(values, load: bool = False, **kwargs):
         from .shop.capability import draw_parts
 
         try:
+            _one_soak_only(values)  # the chart is of one soak: a band only for a plan that has one
             parts = [carburizing_setup({**v, "process": "single"}) for v in draw_parts(values).part_values()]
         except InputError:  # no single soak to spread: the chart without the band
             parts = None
@@ -131,7 +132,7 @@ class Treatment:
     defaults: Mapping[str, Any]  # what a new plan of it starts from, where the parameter table's defaults differ
     temperature_range: Callable[[Mapping[str, Any]], tuple[float, float]]  # K, for a plan's values
     evaluate: Callable[[Mapping[str, Any]], Outcome]
-    forward: Callable[..., Any]  # (values, soak [s], probe depth [m] or None) -> what the soak gives (to_dict, text)
+    forward: Callable[..., Any]  # (values, soak [s], probe depth [m] or None, shares=) -> what the soak gives (to_dict, text)
     calibration_key: str  # the diffusivity multiplier calibration sets
     potential_key: str  # the atmosphere's parameter: what parts in one load share with the temperature
     potential_tolerance: float  # potentials this close count as the same atmosphere
@@ -145,13 +146,15 @@ class Treatment:
     steel_note: Callable[[Any, Any], str]  # (steel, display units) -> what matters about a steel for it
     cautions: Callable[[Mapping[str, Any]], list] = lambda values: []  # the cautions a plan's values call for
     forward_options: tuple[Option, ...] = ()  # the command line's extra options for what a soak gives
-    forward_many: Callable[..., list] | None = None  # (values list, soaks [s]) -> forward of each, marched together
+    forward_many: Callable[..., list] | None = None  # (values list, soaks [s], shares) -> forward of each, marched together
 
-    def forward_each(self, values_list: list[Mapping[str, Any]], soaks: list[float]) -> list:
-        """What each plan's soak [s] gives: :attr:`forward` of each, in one batch where the treatment has one."""
+    def forward_each(self, values_list: list[Mapping[str, Any]], soaks: list[float],
+                     shares: tuple[float, ...] | None = None) -> list:
+        """What each plan's soak [s] gives (its held stages in ``shares`` of it, where given): :attr:`forward` of
+        each, in one batch where the treatment has one."""
         if self.forward_many is not None:
-            return self.forward_many(values_list, soaks)
-        return [self.forward(values, soak, None) for values, soak in zip(values_list, soaks)]
+            return self.forward_many(values_list, soaks, shares)
+        return [self.forward(values, soak, None, shares=shares) for values, soak in zip(values_list, soaks)]
 
     def chart_temperatures(self, values: Mapping[str, Any]) -> list[float]:
         """Three temperatures [K] for a chart around the plan's, kept within the treatment's range."""

@@ -139,17 +139,18 @@ def test_a_case_the_single_path_refuses_is_refused_in_place():
         soak_times_many([good, lean], [1e-3, 4e-3])
 
 
-def test_capability_is_the_same_as_its_parts_one_by_one(monkeypatch):
-    """The load's parts (with the shop's ramped heat-up and drop counted), run in one batch, give what
-    casedepth.plan.forward gives each."""
+@pytest.mark.parametrize("example", ["pinion-shaft", "ring-gear-boost-diffuse"])
+def test_capability_is_the_same_as_its_parts_one_by_one(monkeypatch, example):
+    """The load's parts (with the shop's ramped heat-up and drop counted; one soak, or boost and diffuse in the
+    plan's split), run in one batch, give what casedepth.plan.forward gives each."""
     evaluation = importlib.import_module("casedepth.plan.evaluate")
     from casedepth.plan.fileformat import load
     from casedepth.shop.capability import Spread, capability
 
-    values = load("resources/examples/pinion-shaft.cdplan.json").values()
+    values = load(f"resources/examples/{example}.cdplan.json").values()
     together = capability(values, Spread(samples=16), optimize=True)
-    monkeypatch.setattr(evaluation, "forward_many",
-                        lambda plans, soaks: [evaluation.forward(p, s) for p, s in zip(plans, soaks)])
+    monkeypatch.setattr(evaluation, "forward_many", lambda plans, soaks, shares=None: [
+        evaluation.forward(p, s, shares=shares) for p, s in zip(plans, soaks)])
     alone = capability(values, Spread(samples=16), optimize=True)
     assert same(together.nominal, alone.nominal)
     assert np.allclose(together.depths, alone.depths, rtol=ROUND_OFF, atol=0)

@@ -121,10 +121,12 @@ def test_refusals():
         Spread(samples=4)
     with pytest.raises(InputError, match="distribution"):
         Spread(distribution="triangular")
-    boost = casedepth.plan(steel="8620", temperature="925C", target="1.2mm", surface_target="0.75-0.85",
-                           boost_potential=1.15, diffuse_potential=0.80).values()
-    with pytest.raises(InputError):
-        capability(boost, Spread(samples=16))
+    # stages of one's own with nothing held at temperature: no time at temperature to spread or centre
+    ramps = casedepth.Plan("carburizing", process="stages", stages=[
+        {"kind": "heat-up", "duration_h": 1.0, "temperature_c": 925.0, "carbon_potential_pct": 1.0},
+        {"kind": "drop", "duration_h": 0.5, "temperature_c": 845.0, "carbon_potential_pct": 0.8}]).values()
+    with pytest.raises(InputError, match="no time at temperature"):
+        capability(ramps, Spread(samples=16))
 
 
 def test_survey_classes():

@@ -57,12 +57,27 @@ def test_an_edit_stops_the_load_and_the_new_result_gets_its_own(window, qtbot):
     assert page.has(window.outcome) and page.capability.values["temperature"] == window.plan.temperature
 
 
-def test_a_boost_and_diffuse_plan_shows_the_refusal(window, qtbot):
+def test_a_boost_and_diffuse_plan_spreads_in_its_own_split(window, qtbot):
+    """Issue 16 item 3: a boost and diffuse plan's load runs its boost and diffuse in the plan's split, and its
+    surface-carbon window counts; the page says so (as `casedepth capability` on the saved plan does)."""
     with qtbot.waitSignal(window.result_shown, timeout=20000):
         assert window.open_plan(EXAMPLES / "ring-gear-boost-diffuse.cdplan.json")
     page = _show_spread(window, qtbot)
+    found = page.capability
+    assert found is not None and [name for name, _ in found.held] == ["boost", "diffuse"]
+    assert "boost" in page.title.get_text() and "diffuse" in page.title.get_text()
+    assert "surface window" in page.figures.text() and page.parts.get_visible()
+
+
+def test_a_plan_with_nothing_held_shows_the_refusal(window, qtbot):
+    stages = [{"kind": "heat-up", "duration_h": 1.0, "temperature_c": 925.0, "carbon_potential_pct": 1.0},
+              {"kind": "drop", "duration_h": 0.5, "temperature_c": 845.0, "carbon_potential_pct": 0.8}]
+    with qtbot.waitSignal(window.result_shown, timeout=20000):
+        window.plan.set("process", "stages")
+        window.plan.set("stages", stages)
+    page = _show_spread(window, qtbot)
     assert page.capability is None
-    assert page.plot.message.get_visible() and "no single soak" in page.plot.message.get_text()
+    assert page.plot.message.get_visible() and "no time at temperature" in page.plot.message.get_text()
     assert not page.parts.get_visible() and not page.axes.axison
 
 

@@ -179,6 +179,32 @@ def _furnace_temperature(values) -> tuple[float, str]:
     return values["temperature"], "temperature"
 
 
+#: the stages held at temperature: the time a load's spread study stretches or shortens (the rest keep their lengths)
+HELD_KINDS = ("soak", "boost", "diffuse")
+
+
+def _held_single(values, durations: tuple[float, ...]) -> list[Stage]:
+    (soak,) = durations
+    return [Stage("soak", soak, values["temperature"], values["carbon_potential"])]
+
+
+def _held_boost_diffuse(values, durations: tuple[float, ...]) -> list[Stage]:
+    boost, diffuse = durations
+    T = values["temperature"]
+    return [Stage("boost", boost, T, values["boost_potential"]), Stage("diffuse", diffuse, T, values["diffuse_potential"])]
+
+
+def _held_own_stages(values, durations: tuple[float, ...]) -> list[Stage]:
+    """The plan's own stages, its held ones (soak, boost, diffuse) given ``durations`` in order."""
+    stages = stage_list(values)
+    held = [k for k, stage in enumerate(stages) if stage.kind in HELD_KINDS]
+    if len(held) != len(durations):
+        raise ValueError(f"{len(durations)} held times for {len(held)} held stages")
+    for k, duration in zip(held, durations):
+        stages[k] = replace(stages[k], duration=duration)
+    return stages
+
+
 @dataclass(frozen=True)
 class Cycle:
     """One row of the cycle table: what the window calls it, the note under it, which carbon potential and
@@ -191,6 +217,10 @@ class Cycle:
     temperature: Callable[[Mapping[str, Any]], tuple[float, str]]
     plan: Callable[[CarburizingSetup, Mapping[str, Any], ShopDefaults, tuple], Planned]
     has_soak: bool  # a single soak at temperature that loads and calibration may vary
+    #: (values, lengths [s] of the held stages) -> the stages the plan holds at temperature with those lengths; the
+    #: whole recipe for stages of one's own, else what the shop's counted stages go around
+    held: Callable[[Mapping[str, Any], tuple[float, ...]], list[Stage]]
+    own_stages: bool = False  # the held stages are the whole recipe (no shop stages go around them)
 
 
 CYCLES: dict[str, Cycle] = {
@@ -198,16 +228,17 @@ CYCLES: dict[str, Cycle] = {
         "single", "One soak at one carbon potential",
         "The soak time at temperature for the case at the end of the cycle (with the shop's heat-up, drop and "
         "equalize counted when ticked); the quote adds load, quench, wash and temper times.",
-        lambda v: (v["carbon_potential"], "carbon_potential"), _furnace_temperature, _plan_single, True),
+        lambda v: (v["carbon_potential"], "carbon_potential"), _furnace_temperature, _plan_single, True, _held_single),
     "boost-diffuse": Cycle(
         "boost-diffuse", "Boost and diffuse (plan both times)",
         "Plans boost and diffuse so the case and the surface carbon are on target at the end of the cycle (with "
         "the shop's heat-up, drop and equalize counted when ticked).",
-        lambda v: (v["boost_potential"], "boost_potential"), _furnace_temperature, _plan_boost_diffuse, False),
+        lambda v: (v["boost_potential"], "boost_potential"), _furnace_temperature, _plan_boost_diffuse, False,
+        _held_boost_diffuse),
     "stages": Cycle(
         "stages", "Stages of my own",
         "Runs the stages as entered (temperatures ramp from the previous stage) and shows what they give.",
-        _richest_stage, _hottest_stage, _plan_stages, False),
+        _richest_stage, _hottest_stage, _plan_stages, False, _held_own_stages, own_stages=True),
 }
 
 #: errors of the planners raised against their arguments, and the parameter each stands for (a depth not reached:
@@ -270,31 +301,69 @@ def run_soak(setup: CarburizingSetup, soak: float, before: tuple[Stage, ...] = (
                         probe_depth)
 
 
-def forward(values: Mapping[str, Any], soak: float, probe_depth: float | None = None) -> CarburizingResult:
-    """What a one-soak plan gives after a soak of ``soak`` [s], the shop's stages counted as the plan counts them."""
-    setup = carburizing_setup({**values, "process": "single"})
-    _, _, before, after = _counted_stages(values, shop_of(values), setup, setup.carbon_potential)
-    return run_soak(setup, soak, before, after, probe_depth)
+@dataclass(frozen=True)
+class _Run:
+    """One forward case: the setup, the time at temperature [s], the counted stages before and after, and the held
+    stages between them (``None``: the plain soak of the setup)."""
+
+    setup: CarburizingSetup
+    soak: float
+    before: tuple[Stage, ...]
+    after: tuple[Stage, ...]
+    held: tuple[Stage, ...] | None = None
+
+    @property
+    def recipe(self) -> list[Stage]:
+        if self.held is None:
+            return _soak_recipe(self.setup, self.soak, self.before, self.after)
+        return [*self.before, *self.held, *self.after]
 
 
-def forward_many(values_list: list[Mapping[str, Any]], soaks: list[float]) -> list[CarburizingResult]:
-    """:func:`forward` of each one-soak plan's values after its soak [s], the cases marched together where they
-    can be (:func:`casedepth.carburizing.cycle.run_recipes`, :func:`casedepth.carburizing.soak.carburize_many`):
-    the same numbers to round-off; a batched result's history holds only the start and the end."""
-    rows = []
-    for values, soak in zip(values_list, soaks):
+def _forward_run(values: Mapping[str, Any], soak: float, shares: tuple[float, ...] | None) -> _Run:
+    """What :func:`forward` runs: the one soak (no ``shares``, or a one-soak plan), else the plan's own cycle with its
+    held stages (:attr:`Cycle.held`) ``shares`` of ``soak`` long and the shop's stages counted as the plan counts
+    them."""
+    check_soak(soak)
+    cycle = CYCLES[values["process"]]
+    if shares is None or cycle.key == "single":
         setup = carburizing_setup({**values, "process": "single"})
         _, _, before, after = _counted_stages(values, shop_of(values), setup, setup.carbon_potential)
-        check_soak(soak)
-        rows.append((setup, soak, before, after))
-    results: list[CarburizingResult | None] = [None] * len(rows)
-    plain = [k for k, (_, _, before, after) in enumerate(rows) if not before and not after]
-    for k, result in zip(plain, carburize_many([rows[k][0] for k in plain], [rows[k][1] for k in plain])):
+        return _Run(setup, soak, before, after)
+    setup = carburizing_setup(values)
+    held = tuple(cycle.held(values, tuple(share * soak for share in shares)))
+    if cycle.own_stages:
+        return _Run(setup, soak, (), (), held)
+    _, _, before, after = _counted_stages(values, shop_of(values), setup, held[0].carbon_potential)
+    return _Run(setup, soak, before, after, held)
+
+
+def forward(values: Mapping[str, Any], soak: float, probe_depth: float | None = None,
+            shares: tuple[float, ...] | None = None) -> CarburizingResult:
+    """What a plan gives after ``soak`` [s] at temperature, the shop's stages counted as the plan counts them: one soak
+    of that length, or with ``shares`` (the plan's :attr:`~casedepth.outcome.Outcome.held_shares`) the plan's own
+    cycle with its held stages (boost and diffuse, or its own soaks) stretched alike to that total."""
+    run = _forward_run(values, soak, shares)
+    if run.held is None:
+        return run_soak(run.setup, soak, run.before, run.after, probe_depth)
+    check_probe_depth(run.setup, probe_depth)
+    return _soak_result(run.setup, soak, run.before, run.after, run_recipe(run.setup, run.recipe), probe_depth)
+
+
+def forward_many(values_list: list[Mapping[str, Any]], soaks: list[float],
+                 shares: tuple[float, ...] | None = None) -> list[CarburizingResult]:
+    """:func:`forward` of each plan's values after its soak [s] (all with ``shares``), the cases marched together where
+    they can be (:func:`casedepth.carburizing.cycle.run_recipes`, :func:`casedepth.carburizing.soak.carburize_many`):
+    the same numbers to round-off; a batched result's history holds only the start and the end."""
+    runs = [_forward_run(values, soak, shares) for values, soak in zip(values_list, soaks)]
+    results: list[CarburizingResult | None] = [None] * len(runs)
+    plain = [k for k, run in enumerate(runs) if run.held is None and not run.before and not run.after]
+    for k, result in zip(plain, carburize_many([runs[k].setup for k in plain], [runs[k].soak for k in plain])):
         results[k] = result
-    staged = [k for k in range(len(rows)) if results[k] is None]
-    cycles = run_recipes([rows[k][0] for k in staged], [_soak_recipe(*rows[k]) for k in staged])
+    staged = [k for k in range(len(runs)) if results[k] is None]
+    cycles = run_recipes([runs[k].setup for k in staged], [runs[k].recipe for k in staged])
     for k, cycle in zip(staged, cycles):
-        results[k] = _soak_result(*rows[k], cycle, None)
+        run = runs[k]
+        results[k] = _soak_result(run.setup, run.soak, run.before, run.after, cycle, None)
     return results
 
 
@@ -414,6 +483,10 @@ class CarburizingOutcome(Outcome):
     @property
     def soak_window(self) -> tuple[float, float, float]:
         return self.planned.soak_times
+
+    @property
+    def held_stages(self) -> list[tuple[str, float]]:
+        return [(stage.label.lower(), stage.duration) for stage in self.planned.stages if stage.kind in HELD_KINDS]
 
     @property
     def _end(self):

@@ -711,7 +711,9 @@ class _SpreadPage(_Page):
         ax.set_ylim(*round_out(ax.yaxis, 0.0, float(counts.max()) * 1.1))
         ax.set_xlabel(f"{TREATMENTS[outcome.treatment].depth_name} [{units.length_unit}]")
         ax.set_ylabel("parts")
-        self.title.set_text(f"The load's parts after the soak of {format_duration(found.soak)}")
+        after = (f"the soak of {format_duration(found.soak)}" if len(found.held) == 1 else
+                 found.held_words(found.soak, short=True))
+        self.title.set_text(f"The load's parts after {after}")
         self.plot.finish(self.fit)
         self.figures.setText(_figures_html(found.text(units)))
         return True
@@ -746,9 +748,15 @@ def _figures_html(text: str) -> str:
             continue
         name, _, said = line.strip().partition("  ")
         items = html.escape(said.strip()).split(" · ")
-        shown = " · ".join(item.replace(" ", "&nbsp;") for item in items) if len(items) > 1 else items[0]
+        shown = " · ".join(_unbroken(item) for item in items) if len(items) > 1 else items[0]
         rows.append(f"<tr><td style='padding-right:8px'><b>{html.escape(name)}</b></td><td>{shown}</td></tr>")
     return f"<p>{html.escape(lines[0])}</p><table>{''.join(rows)}</table>{''.join(warned)}"
+
+
+def _unbroken(item: str) -> str:
+    """A list item ("p5 0.90 mm") kept on one line; a note after it in brackets may still wrap."""
+    figure, bracket, note = item.partition(" (")
+    return figure.replace(" ", "&nbsp;") + bracket + note
 
 
 class _HardenabilityPage(_Page):

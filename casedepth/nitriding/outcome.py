@@ -24,7 +24,8 @@ from ..shop.quote import Quote, ShopDefaults, quote_lines
 from ..units import DisplayUnits, both_lengths, format_clock, format_duration
 from .cycle import nitriding_cycle, segments_timeline
 from .nitride import NitridingResult, nitride, nitriding_time
-from .schedule import TwoStageSchedule, compound_layer_advice, staged_layer_at, two_stage_for_depth
+from .schedule import (TwoStageSchedule, compound_layer_advice, second_stage_potential, staged_layer_at,
+                       two_stage_for_depth)
 from .setup import NitridingSetup, dissociation_for_potential
 from .zone import ZONE_MODELS, SharpFrontZone
 
@@ -96,11 +97,20 @@ def evaluate(values: Mapping[str, Any]) -> "NitridingOutcome":
                             segments=segments)
 
 
-def forward(values: Mapping[str, Any], soak: float, probe_depth: float | None = None) -> NitridingResult:
-    """What one nitriding stage of ``soak`` [s] gives (``probe_depth`` is not used: nitriding reports profiles)."""
+def forward(values: Mapping[str, Any], soak: float, probe_depth: float | None = None,
+            shares: tuple[float, ...] | None = None) -> NitridingResult:
+    """What one nitriding stage of ``soak`` [s] gives (``probe_depth`` is not used: nitriding reports profiles); with
+    ``shares`` of a two-stage plan (its :attr:`~NitridingOutcome.held_shares`), the plan's two stages in that split
+    of ``soak``: the first at the plan's K_N, the second at its second K_N (:func:`second_stage_potential`)."""
     if probe_depth is not None:
         raise InputError("carbon_at", "carburizing only")
-    return nitride(nitriding_setup(values), soak)
+    setup = nitriding_setup(values)
+    if shares is None or len(shares) == 1 or not values["two_stage"]:
+        return nitride(setup, soak)
+    first = shares[0] * soak
+    split = TwoStageSchedule(first, setup.nitriding_potential, soak - first,
+                             second_stage_potential(setup, values["kn_second"]), layer=None)
+    return nitride(setup, soak, layer=staged_layer_at(setup, split, soak))
 
 
 @dataclass
@@ -129,6 +139,12 @@ class NitridingOutcome(Outcome):
     @property
     def soak_window(self) -> tuple[float, float, float]:
         return self.low.time, self.aim.time, self.high.time
+
+    @property
+    def held_stages(self) -> list[tuple[str, float]]:
+        if self.schedule is None:
+            return [("nitriding", self.aim.time)]
+        return [("first stage", self.schedule.first_time), ("second stage", self.aim.time - self.schedule.first_time)]
 
     @property
     def depth(self) -> float:

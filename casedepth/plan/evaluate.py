@@ -35,16 +35,22 @@ def evaluate(plan: Plan | Mapping[str, Any]) -> Outcome:
     return treatment_of(values).evaluate(values)
 
 
-def forward(plan: Plan | Mapping[str, Any], soak: float, probe_depth: float | None = None):
-    """What a soak of ``soak`` [s] gives for this plan, its stages counted as the plan counts them."""
+def forward(plan: Plan | Mapping[str, Any], soak: float, probe_depth: float | None = None,
+            shares: tuple[float, ...] | None = None):
+    """What a soak of ``soak`` [s] gives for this plan, its stages counted as the plan counts them; with ``shares``
+    (its outcome's :attr:`~casedepth.outcome.Outcome.held_shares`), the plan's own cycle with its held stages
+    (boost and diffuse, its own soaks, two nitriding stages) in that split of ``soak``."""
     values = _values(plan)
     check_ranges({**values, "case_min": 1e-3, "case_max": 1e-3})  # the drawing's window plays no part here
-    return treatment_of(values).forward(values, soak, probe_depth)
+    if shares is None:
+        return treatment_of(values).forward(values, soak, probe_depth)
+    return treatment_of(values).forward(values, soak, probe_depth, shares=shares)
 
 
-def forward_many(plans: list[Plan | Mapping[str, Any]], soaks: list[float]) -> list:
-    """:func:`forward` of each plan (all of one treatment) after its soak [s]: the same numbers, the cases marched
-    together where the treatment can (:meth:`casedepth.treatments.Treatment.forward_each`)."""
+def forward_many(plans: list[Plan | Mapping[str, Any]], soaks: list[float],
+                 shares: tuple[float, ...] | None = None) -> list:
+    """:func:`forward` of each plan (all of one treatment, all split by ``shares``) after its soak [s]: the same
+    numbers, the cases marched together where the treatment can (:meth:`casedepth.treatments.Treatment.forward_each`)."""
     values = [_values(plan) for plan in plans]
     for v in values:
         check_ranges({**v, "case_min": 1e-3, "case_max": 1e-3})
@@ -52,7 +58,7 @@ def forward_many(plans: list[Plan | Mapping[str, Any]], soaks: list[float]) -> l
         return []
     if len({v["treatment"] for v in values}) != 1:
         raise InputError("treatment", "plans run together must be of one treatment")
-    return treatment_of(values[0]).forward_each(values, soaks)
+    return treatment_of(values[0]).forward_each(values, soaks, shares)
 
 
 def compare_temperatures(plan: Plan | Mapping[str, Any], temperatures: list[float]) -> list[tuple[float, float]]:

@@ -27,7 +27,6 @@ from ..errors import InputError
 from ..models.steels import find
 from ..parameters import PARAMETERS
 from .quote import ShopDefaults
-from ..treatments import treatment_of
 from ..units import DisplayUnits, format_duration
 
 #: AMS 2750 furnace classes and their temperature uniformity, ± K (±5, 10, 15, 20, 25, 50 °F; from memory)
@@ -76,22 +75,78 @@ def _beta_applies(values) -> bool:
     return _used("beta", values) and math.isfinite(values["beta"])
 
 
+#: the plan's carbon potentials a controller's band moves alike (those the plan's cycle uses)
+_POTENTIAL_KEYS = ("carbon_potential", "boost_potential", "diffuse_potential")
+
+
+def _own_stages(values) -> list[dict]:
+    """The plan's own stages (file form), where its cycle is stages of its own."""
+    return list(values["stages"]) if _used("stages", values) else []
+
+
+def _moves_temperature(values) -> bool:
+    return _used("temperature", values) or any("temperature_c" in row for row in _own_stages(values))
+
+
+def _moves_potential(values) -> bool:
+    return (any(_used(key, values) for key in _POTENTIAL_KEYS)
+            or any("carbon_potential_pct" in row for row in _own_stages(values)))
+
+
+def _shop_stage_shift(values, key: str, x: float) -> dict:
+    """The plan's shop with its setting ``key`` moved by ``x``, where the shop's drop and equalize are stages of the
+    plan's cycle (one soak, or boost and diffuse); else nothing."""
+    if "shop" not in values or not _used("count_shop_stages", values):
+        return {}
+    return {"shop": {**values["shop"], key: getattr(_shop(values), key) + x}}
+
+
+def _shift_temperature(values, x: float) -> dict:
+    """A part ``x`` [K] hotter than the setpoints: a part in a hot spot of the furnace is hot at every setpoint, so the
+    furnace temperature and the shop's hardening temperature (drop, equalize, quench from) move alike, or every stage
+    of a plan's own stages."""
+    if _used("temperature", values):
+        return {"temperature": values["temperature"] + x, **_shop_stage_shift(values, "drop_temperature_c", x)}
+    return {"stages": [{**row, "temperature_c": row["temperature_c"] + x} if "temperature_c" in row else row
+                       for row in _own_stages(values)]}
+
+
+def _shift_potential(values, x: float) -> dict:
+    """A carbon potential ``x`` [wt %] off its setpoint at every stage (one probe and controller hold them all, so a
+    bias moves every setpoint alike): the potentials the plan's cycle uses and the shop's potential at hardening
+    temperature, or each of its own stages'."""
+    out = {key: values[key] + x for key in _POTENTIAL_KEYS if _used(key, values)}
+    out.update(_shop_stage_shift(values, "hardening_potential", x))
+    if _own_stages(values):
+        out["stages"] = [{**row, **{k: row[k] + x for k in ("carbon_potential_pct", "start_potential_pct") if k in row}}
+                         for row in _own_stages(values)]
+    return out
+
+
+def _shift_kn(values, x: float) -> dict:
+    """A nitriding potential ``x`` off its setpoint; a two-stage plan's set second K_N moves by the same factor."""
+    out = {"kn": values["kn"] + x}
+    if values.get("two_stage") and values.get("kn_second") is not None:
+        out["kn_second"] = values["kn_second"] * (values["kn"] + x) / values["kn"]
+    return out
+
+
 #: the inputs a load spreads, each with its default band (half-widths; a normal distribution reads them as 2σ)
 SPREAD_INPUTS: dict[str, SpreadInput] = {row.key: row for row in (
     SpreadInput("temperature", "furnace temperature",
-                lambda v: _shop(v).temperature_tolerance_c if _used("temperature", v) else None,
-                lambda v, x: {"temperature": v["temperature"] + x},
+                lambda v: _shop(v).temperature_tolerance_c if _moves_temperature(v) else None,
+                _shift_temperature,
                 lambda b, u: f"±{formats.typed(round(b * (1.8 if u.imperial else 1.0), 1), u.temperature_unit)}, "
                              f"{survey_class(b)}",
                 "the shop's temperature tolerance (Edit → Shop; the band the process sheet prints)"),
     SpreadInput("carbon_potential", "carbon potential",
-                lambda v: _shop(v).potential_tolerance_pct if _used("carbon_potential", v) else None,
-                lambda v, x: {"carbon_potential": v["carbon_potential"] + x},
+                lambda v: _shop(v).potential_tolerance_pct if _moves_potential(v) else None,
+                _shift_potential,
                 lambda b, u: f"±{formats.carbon(b)}",
                 "the shop's carbon-potential tolerance (the band the process sheet prints)"),
     SpreadInput("kn", "nitriding potential",
                 lambda v: _shop(v).kn_tolerance_pct / 100.0 * v["kn"] if _used("kn", v) else None,
-                lambda v, x: {"kn": v["kn"] + x},
+                _shift_kn,
                 lambda b, u: f"±{formats.kn(b)}",
                 "the shop's K_N tolerance (the band the process sheet prints)"),
     SpreadInput("size", "section",
@@ -191,6 +246,13 @@ class Capability:
     #: how sure the treatment's model is of the depth, in words, where it says (nitriding, until calibrated): the
     #: load's spread is on top of it, so it is printed beside the spread
     model_uncertainty: str | None = None
+    #: the stages held at temperature whose lengths make ``soak``, and each one's share of it (the plan's split: boost
+    #: and diffuse, its own soaks, two nitriding stages), ``(name, share)``
+    held: tuple[tuple[str, float], ...] = (("soak", 1.0),)
+    #: the plan's surface-carbon window [wt %] (boost and diffuse), which a part must meet too to count as inside
+    surface_window: tuple[float, float] | None = None
+    #: per input, the surface carbon [wt %] at the low and high ends of its band (with a surface window)
+    surface_sensitivity: dict[str, tuple[float, float]] = field(default_factory=dict)
 
     #: a load is capable when at least this share of its parts lands inside the window (common practice: 95 %)
     WANTED_SHARE = 0.95
@@ -203,9 +265,34 @@ class Capability:
         return {f"p{p}": float(np.percentile(self.depths, p)) for p in self.PERCENTILES}
 
     @property
+    def surface(self) -> np.ndarray | None:
+        """The parts' surface carbon [wt %], where the plan has a surface-carbon window."""
+        return None if self.surface_window is None else self.figures["surface_carbon_pct"]
+
+    @property
     def share_in_window(self) -> float:
-        low, high = self.window
-        return float(np.mean((self.depths >= low) & (self.depths <= high)))
+        """The share of parts inside the drawing's window (and inside the surface-carbon window, where the plan has
+        one)."""
+        return _inside(self.depths, self.window, self.surface, self.surface_window)[2]
+
+    @property
+    def share_in_depth_window(self) -> float:
+        return _inside(self.depths, self.window, self.surface, self.surface_window)[0]
+
+    @property
+    def share_in_surface_window(self) -> float | None:
+        return None if self.surface_window is None else _inside(self.depths, self.window, self.surface,
+                                                                 self.surface_window)[1]
+
+    def held_words(self, soak: float, short: bool = False) -> str:
+        """The held stages for a time at temperature of ``soak`` [s], in words (``short``: without the total)."""
+        if len(self.held) == 1:
+            return f"{self.held[0][0]} {format_duration(soak)}"
+        parts = " + ".join(f"{name} {format_duration(share * soak)}" for name, share in self.held)
+        return parts if short else f"{parts}, the plan's split of {format_duration(soak)} at temperature"
+
+    def held_to_dict(self, soak: float) -> list[dict]:
+        return [{"stage": name, "time_h": share * soak / 3600.0} for name, share in self.held]
 
     @property
     def cp(self) -> float:
@@ -225,9 +312,11 @@ class Capability:
         """p1 … p99 of one of the parts' other figures, in its own unit (the key's suffix)."""
         return {f"p{p}": float(np.percentile(self.figures[name], p)) for p in self.PERCENTILES}
 
-    def ranked(self) -> list[tuple[str, float]]:
-        """Inputs by how far their band alone moves the depth (half the low-to-high change [m]), largest first."""
-        moves = {key: abs(high - low) / 2.0 for key, (low, high) in self.sensitivity.items()}
+    def ranked(self, sensitivity: Mapping[str, tuple[float, float]] | None = None) -> list[tuple[str, float]]:
+        """Inputs by how far their band alone moves the depth (or what ``sensitivity`` gives, e.g. the surface
+        carbon: half the low-to-high change), largest first."""
+        table = self.sensitivity if sensitivity is None else sensitivity
+        moves = {key: abs(high - low) / 2.0 for key, (low, high) in table.items()}
         return sorted(moves.items(), key=lambda item: -item[1])
 
     def to_dict(self) -> dict:
@@ -242,7 +331,14 @@ class Capability:
             "sensitivity": {key: {"low_mm": low * 1e3, "high_mm": high * 1e3}
                             for key, (low, high) in self.sensitivity.items()},
             **({} if self.centred is None else {
-                "centred_soak_time_h": self.centred.soak / 3600.0, "share_in_window_at_centred": self.centred.share}),
+                "centred_soak_time_h": self.centred.soak / 3600.0, "share_in_window_at_centred": self.centred.share,
+                "centred_held_stages": self.held_to_dict(self.centred.soak)}),
+            "held_stages": self.held_to_dict(self.soak),
+            **({} if self.surface_window is None else {
+                "surface_window_pct": list(self.surface_window), "share_in_depth_window": self.share_in_depth_window,
+                "share_in_surface_window": self.share_in_surface_window,
+                "surface_sensitivity": {key: {"low_pct": low, "high_pct": high}
+                                        for key, (low, high) in self.surface_sensitivity.items()}}),
             "warnings": self.warnings(),
             **({"model_uncertainty": self.model_uncertainty} if self.model_uncertainty else {}),
             "spread": {"bands": dict(self.bands), "composition": self.spread.composition,
@@ -256,12 +352,13 @@ class Capability:
         pct = self.percentiles
         return (f"load spread ({self.spread.samples} parts, shop's tolerances): "
                 f"{formats.length_range(pct['p5'], pct['p95'], units)} for 90 % of parts, "
-                f"{formats.percent(100 * self.share_in_window)} inside, Cpk\u00a0{_index(self.cpk)}")
+                f"{formats.percent(100 * self.share_in_window)} inside"
+                f"{' both windows' if self.surface_window is not None else ''}, Cpk\u00a0{_index(self.cpk)}")
 
     def text(self, units: DisplayUnits) -> str:
         pct = self.percentiles
         low, high = self.window
-        lines = [f"Capability: soak {format_duration(self.soak)} (the plan's aim, {units.format_length(self.nominal)}), "
+        lines = [f"Capability: {self.held_words(self.soak)} (the plan's aim, {units.format_length(self.nominal)}), "
                  f"{self.spread.samples} parts drawn (Latin hypercube), {self.spread.distribution} bands"]
         bands = [f"{SPREAD_INPUTS[k].label} {SPREAD_INPUTS[k].describe(b, units)}" for k, b in self.bands.items()]
         bands.append("composition " + ("nominal" if not self.composition_range else "over the grade's range"))
@@ -275,29 +372,42 @@ class Capability:
                     if name in FIGURE_UNCERTAINTY else "")
             lines.append(f"  {label:17s} " + " · ".join(f"{k} {shown(v)}" for k, v in self.figure_percentiles(name).items())
                          + sure)
-        lines.append(f"  drawing window    {formats.length_range(low, high, units)}: {formats.percent(100 * self.share_in_window)} "
-                     f"inside; Cp {_index(self.cp)}, Cpk {_index(self.cpk)}")
-        moves = [f"{SPREAD_INPUTS[k].label if k in SPREAD_INPUTS else k} {formats.length_effect(m, units)}"
-                 for k, m in self.ranked()]
+        lines.append(f"  drawing window    {formats.length_range(low, high, units)}: "
+                     f"{formats.percent(100 * self.share_in_depth_window)} inside; Cp {_index(self.cp)}, Cpk {_index(self.cpk)}")
+        if self.surface_window is not None:
+            lines.append(f"  surface window    {formats.carbon_range(*self.surface_window)}: "
+                         f"{formats.percent(100 * self.share_in_surface_window)} inside; both windows "
+                         f"{formats.percent(100 * self.share_in_window)}")
+        moves = [f"{_label(k)} {formats.length_effect(m, units)}" for k, m in self.ranked()]
         lines.append("  moves it most     " + ", ".join(moves))
+        if self.surface_sensitivity:
+            moves = [f"{_label(k)} {formats.carbon_effect(m)}" for k, m in self.ranked(self.surface_sensitivity)]
+            lines.append("  moves surface C   " + ", ".join(moves))
         if self.centred is not None:
-            lines.append(f"  centred soak      {format_duration(self.centred.soak)}: "
+            lines.append(f"  centred           {self.held_words(self.centred.soak)}: "
                          f"{formats.percent(100 * self.centred.share)} inside (the plan's aim: "
                          f"{formats.percent(100 * self.share_in_window)})")
         lines += [f"Warning: {w}" for w in self.warnings(units)]
         return "\n".join(lines)
 
     def warnings(self, units: DisplayUnits = DisplayUnits()) -> list[str]:
-        """A load that is not capable, and what to tighten first (lengths in ``units``)."""
-        best = self.share_in_window if self.centred is None else max(self.share_in_window, self.centred.share)
+        """A load that is not capable, and what to tighten first (lengths in ``units``): the input that moves the
+        depth most, or the surface carbon where that window is the one missed."""
+        shares = _inside(self.depths, self.window, self.surface, self.surface_window)
+        if self.centred is not None and self.centred.share > shares[2]:
+            shares = _inside(self.centred.depths, self.window, self.centred.surface, self.surface_window)
+        best = shares[2]
         if best >= self.WANTED_SHARE or not self.sensitivity:
             return []
-        first = self.ranked()[0][0]
-        name = SPREAD_INPUTS[first].label if first in SPREAD_INPUTS else first
-        where = "at the plan's soak" if self.centred is None else "at any soak"
-        return [f"Fewer than {formats.percent(100 * self.WANTED_SHARE)} of the parts land inside "
-                f"{formats.length_range(*self.window, units)} {where} (best {formats.percent(100 * best)}): tighten the "
-                f"{name} first; it moves the depth most."]
+        where = "at the plan's time at temperature" if self.centred is None else "at any time at temperature"
+        missed = formats.length_range(*self.window, units)
+        if self.surface_window is not None:
+            missed += f" and {formats.carbon_range(*self.surface_window)} at the surface"
+        depth_short = shares[0] < self.WANTED_SHARE or not self.surface_sensitivity
+        first = self.ranked()[0][0] if depth_short else self.ranked(self.surface_sensitivity)[0][0]
+        return [f"Fewer than {formats.percent(100 * self.WANTED_SHARE)} of the parts land inside {missed} {where} "
+                f"(best {formats.percent(100 * best)}): tighten the {_label(first)} first; it moves the "
+                f"{'depth' if depth_short else 'surface carbon'} most."]
 
 
 #: the figures besides the depth a load's spread is reported for: key (unit as its suffix) -> (label, format)
@@ -316,6 +426,21 @@ def _percentiles_key(name: str) -> str:
     """``surface_carbon_pct`` -> ``surface_carbon_percentiles_pct`` (as ``case_depth_percentiles_mm``)."""
     base, unit = name.rsplit("_", 1)
     return f"{base}_percentiles_{unit}"
+
+
+def _label(key: str) -> str:
+    return SPREAD_INPUTS[key].label if key in SPREAD_INPUTS else key
+
+
+def _inside(depths: np.ndarray, window: tuple[float, float], surface: np.ndarray | None,
+            surface_window: tuple[float, float] | None) -> tuple[float, float | None, float]:
+    """The shares of parts inside the depth window, inside the surface-carbon window (None without one) and inside
+    both."""
+    deep = (depths >= window[0]) & (depths <= window[1])
+    if surface_window is None:
+        return float(np.mean(deep)), None, float(np.mean(deep))
+    rich = (surface >= surface_window[0]) & (surface <= surface_window[1])
+    return float(np.mean(deep)), float(np.mean(rich)), float(np.mean(deep & rich))
 
 
 def _finite(value: float) -> float | None:
@@ -375,8 +500,8 @@ class Draw:
         out = dict(self.base)
         composition = dict(self.base["composition"])
         for key, x in changes.items():
-            if key in SPREAD_INPUTS:
-                out.update(SPREAD_INPUTS[key].apply(self.base, x))
+            if key in SPREAD_INPUTS:  # in turn: two inputs may move one table (a plan's own stages)
+                out.update(SPREAD_INPUTS[key].apply(out, x))
             else:
                 composition[key] = x
         out["composition"] = composition
@@ -388,10 +513,9 @@ class Draw:
 
 
 def draw_parts(values: Mapping[str, Any], spread: Spread = Spread()) -> Draw:
-    """The parts of a load of the one-soak plan ``values``, drawn with ``spread`` (what it leaves open from the plan's
-    Load spread settings) by a Latin hypercube (McKay, Beckman & Conover 1979)."""
+    """The parts of a load of the plan ``values``, drawn with ``spread`` (what it leaves open from the plan's Load
+    spread settings) by a Latin hypercube (McKay, Beckman & Conover 1979)."""
     values = dict(values)
-    treatment_of(values).single_soak(values)
     spread = spread.for_plan(values)
     base = dict(values)
     bands = spread.resolved(values)
@@ -418,19 +542,27 @@ def draw_parts(values: Mapping[str, Any], spread: Spread = Spread()) -> Draw:
 
 def capability(values: Mapping[str, Any], spread: Spread = Spread(), soak: float | None = None,
                optimize: bool = False) -> Capability:
-    """Where the depths of a load planned by ``values`` (a one-soak plan's values) fall with ``spread``, after
-    the plan's aim soak (or ``soak`` [s]); what ``spread`` leaves open comes from the plan's Load spread settings
-    (:meth:`Spread.for_plan`). Each part (:func:`draw_parts`) is the plan with its inputs moved within their
-    bands, run through :func:`casedepth.plan.forward`. With ``optimize``, also the soak that puts most parts
-    inside the drawing's window (each part run at a second soak, :func:`_best_soak`)."""
+    """Where the depths of a load planned by ``values`` fall with ``spread``, after the plan's aim time at temperature
+    (or ``soak`` [s]); what ``spread`` leaves open comes from the plan's Load spread settings (:meth:`Spread.for_plan`).
+
+    Each part (:func:`draw_parts`) is the plan with its inputs moved within their bands, run through
+    :func:`casedepth.plan.forward_many` with the plan's own cycle: one soak, or its held stages (boost and diffuse,
+    its own soaks, two nitriding stages) in the plan's split of the time at temperature
+    (:attr:`~casedepth.outcome.Outcome.held_shares`: the load runs the recipe planned for the nominal part). With
+    ``optimize``, also the time at temperature, in the same split, that puts most parts inside the drawing's window
+    (and the surface-carbon window, where the plan has one; each part run at a second time, :func:`_best_soak`)."""
     from ..plan.evaluate import evaluate, forward_many
 
     values = dict(values)
     drawn = draw_parts(values, spread)
     spread, bands, ranges, parts, moved = drawn.spread, drawn.bands, drawn.ranges, drawn.parts, drawn.moved
     keys = list(bands)
+    outcome = evaluate(values)
+    held = tuple(name for name, _ in outcome.held_stages)
+    shares = outcome.held_shares
     if soak is None:
-        soak = evaluate(values).soak_time
+        soak = outcome.soak_time
+    surface_window = (values["surface_min"], values["surface_max"]) if _used("surface_min", values) else None
 
     # every case this study runs — the nominal part, the load's parts (at a second soak too, to optimize), each
     # input at the ends of its band — in one batch (casedepth.plan.forward_many): the same numbers as one by one
@@ -446,7 +578,7 @@ def capability(values: Mapping[str, Any], spread: Spread = Spread(), soak: float
     if ranges:
         # the grade's whole range at once, each element at the end that deepens the case and the end that does not
         cases += [({el: lo for el, (lo, hi) in ranges.items()}, soak), ({el: hi for el, (lo, hi) in ranges.items()}, soak)]
-    results = iter(forward_many([moved(changes) for changes, _ in cases], [at for _, at in cases]))
+    results = iter(forward_many([moved(changes) for changes, _ in cases], [at for _, at in cases], shares))
     nominal_result = next(results)
     nominal = nominal_result.window_depth
     done = [next(results) for _ in parts]
@@ -455,17 +587,27 @@ def capability(values: Mapping[str, Any], spread: Spread = Spread(), soak: float
     figures_of = getattr(type(done[0]), "figures_of", None)  # a treatment's results may work them out together
     figures = (figures_of(done) if figures_of is not None else
                {name: np.array([r.spread_figures[name] for r in done]) for name in done[0].spread_figures})
+    window = (values["case_min"], values["case_max"])
     centred = None
     if optimize:
-        later_depths = np.array([next(results).window_depth for _ in parts])
-        centred = _best_soak(soak, depths, later, later_depths, (values["case_min"], values["case_max"]))
-    sensitivity = {key: ((next(results).window_depth, next(results).window_depth) if key in ends else (nominal, nominal))
-                   for key in keys}
-    if ranges:
-        sensitivity["composition"] = (next(results).window_depth, next(results).window_depth)
-    window = (values["case_min"], values["case_max"])
+        later_done = [next(results) for _ in parts]
+        surface = None if surface_window is None else (
+            figures["surface_carbon_pct"], np.array([r.surface_carbon for r in later_done]), surface_window)
+        centred = _best_soak(soak, depths, later, np.array([r.window_depth for r in later_done]), window, surface)
+    sensitivity, surface_sensitivity = {}, {}
+    for key in [*keys, *(["composition"] if ranges else [])]:
+        if key in ends or key == "composition":
+            low, high = next(results), next(results)
+            sensitivity[key] = (low.window_depth, high.window_depth)
+            if surface_window is not None:
+                surface_sensitivity[key] = (low.surface_carbon, high.surface_carbon)
+        else:  # a band of nothing: the nominal
+            sensitivity[key] = (nominal, nominal)
+            if surface_window is not None:
+                surface_sensitivity[key] = (nominal_result.surface_carbon,) * 2
     return Capability(values, soak, nominal, depths, window, bands, spread, sensitivity, ranges, centred, figures, band,
-                      getattr(nominal_result, "uncertainty", None))
+                      getattr(nominal_result, "uncertainty", None), tuple(zip(held, shares)), surface_window,
+                      surface_sensitivity)
 
 
 def _profile_band(nominal, parts) -> tuple[np.ndarray, np.ndarray, np.ndarray] | None:
@@ -485,35 +627,50 @@ OPTIMIZE_STEP = 0.2
 
 @dataclass(frozen=True)
 class Centred:
-    """The soak [s] that puts most parts inside the drawing's window (the middle of the soaks that do), the
-    share it puts there, and the parts' depths [m] there (from each part's depth² line)."""
+    """The time at temperature [s] that puts most parts inside the drawing's window (the middle of the times that
+    do), the share it puts there, and the parts' depths [m] (and surface carbon [wt %], with a surface window)
+    there (from each part's lines)."""
 
     soak: float
     share: float
     depths: np.ndarray
+    surface: np.ndarray | None = None
 
 
 def _best_soak(soak: float, depths: np.ndarray, later: float, later_depths: np.ndarray,
-               window: tuple[float, float]) -> Centred:
+               window: tuple[float, float],
+               surface: tuple[np.ndarray, np.ndarray, tuple[float, float]] | None = None) -> Centred:
     """Each part's depth² is a straight line in the soak (a case grows as √t, and the stages after the soak add
     depth nearly in quadrature: the planners' rule, final² ≈ stop² + c), fixed by its depths at ``soak`` and
-    ``later``; the share inside the window is then constant between the soaks where a part crosses an end of
-    it, so the best soaks form intervals found exactly, and the middle of the best (nearest the plan's soak)
-    is returned."""
+    ``later``; with ``surface`` (each part's surface carbon [wt %] at the two times and the window), its surface
+    carbon a straight line too (at a fixed split of boost and diffuse the profile is nearly self-similar in
+    x/√t, Crank 1975 §2.3, so the surface carbon moves little with the total). The share inside the windows is
+    then constant between the times where a part crosses an end of one, so the best times form intervals found
+    exactly, and the middle of the best (nearest the plan's soak) is returned."""
     slope = (later_depths**2 - depths**2) / (later - soak)
     low, high = window
 
     def at(t: float) -> np.ndarray:
         return np.sqrt(np.maximum(depths**2 + slope * (t - soak), 0.0))
 
+    def surface_at(t: float) -> np.ndarray | None:
+        return None if surface is None else surface[0] + (surface[1] - surface[0]) * (t - soak) / (later - soak)
+
+    def share(t: float) -> float:
+        return _inside(at(t), window, surface_at(t), None if surface is None else surface[2])[2]
+
     with np.errstate(divide="ignore", invalid="ignore"):
-        crossings = np.concatenate(((low**2 - depths**2) / slope, (high**2 - depths**2) / slope)) + soak
+        crossings = [(low**2 - depths**2) / slope, (high**2 - depths**2) / slope]
+        if surface is not None:
+            rate = (surface[1] - surface[0]) / (later - soak)
+            crossings += [(end - surface[0]) / rate for end in surface[2]]
+        crossings = np.concatenate(crossings) + soak
     points = np.unique(np.concatenate(([soak * 0.2, soak * 5.0], crossings[np.isfinite(crossings)])))
     points = points[(points > 60.0) & (points < soak * 5.0 + 1.0)]
     if len(points) < 2:
-        return Centred(soak, float(np.mean((depths >= low) & (depths <= high))), depths)
+        return Centred(soak, share(soak), depths, surface_at(soak))
     middles = 0.5 * (points[1:] + points[:-1])
-    shares = np.array([np.mean((at(t) >= low) & (at(t) <= high)) for t in middles])
+    shares = np.array([share(t) for t in middles])
     best = shares.max()
     # the longest run of neighbouring intervals at the best share, nearest the plan's soak: its middle
     runs, start = [], None
@@ -526,4 +683,4 @@ def _best_soak(soak: float, depths: np.ndarray, later: float, later_depths: np.n
             start = None
     first, last = min(runs, key=lambda r: (abs(0.5 * (r[0] + r[1]) - soak), -(r[1] - r[0])))
     t = 0.5 * (first + last)
-    return Centred(float(t), float(best), at(t))
+    return Centred(float(t), float(best), at(t), surface_at(t))
