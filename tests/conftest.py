@@ -42,9 +42,9 @@ def threads_of(monkeypatch):
         threads = []
         original = getattr(worker, name)
 
-        def on_which_thread(*arguments):
+        def on_which_thread(*arguments, **keywords):
             threads.append(threading.current_thread())
-            return original(*arguments)
+            return original(*arguments, **keywords)
 
         monkeypatch.setattr(worker, name, on_which_thread)
         return threads

@@ -67,6 +67,8 @@ def test_a_boost_and_diffuse_plan_spreads_in_its_own_split(window, qtbot):
     assert found is not None and [name for name, _ in found.held] == ["boost", "diffuse"]
     assert "boost" in page.title.get_text() and "diffuse" in page.title.get_text()
     assert "surface window" in page.figures.text() and page.parts.get_visible()
+    # the time at temperature that centres the load, in the same split, beside the plan's (issue 16 item 3)
+    assert found.centred is not None and "centred" in page.figures.text()
 
 
 def test_a_plan_with_nothing_held_shows_the_refusal(window, qtbot):

@@ -133,9 +133,11 @@ def _swatch(handle) -> str:
     from matplotlib.colors import to_hex
 
     line = hasattr(handle, "get_xdata")
-    colour = to_hex(handle.get_color() if line else handle.get_facecolor(), keep_alpha=False)
+    outline = not line and not handle.get_fill()  # an unfilled band or histogram: its edge's colour, as an outline
+    colour = to_hex(handle.get_color() if line else handle.get_edgecolor() if outline else handle.get_facecolor(),
+                    keep_alpha=False)
     if not line:
-        return f"<span style='color:{colour}'>■</span>"
+        return f"<span style='color:{colour}'>{'□' if outline else '■'}</span>"
     if handle.get_linestyle() in ("None", "", " ") and handle.get_marker() not in ("None", "", " ", None):
         return f"<span style='color:{colour}'>●</span>"
     style = {"--": "╍╍", ":": "┈┈", "-.": "━·"}.get(handle.get_linestyle(), "━━")
@@ -650,6 +652,7 @@ class _SpreadPage(_Page):
         ax.set_axisbelow(True)  # the grid behind the bars
         self.band = ax.axvspan(0, 0, color=WINDOW, alpha=0.22, lw=0)
         self.parts = ax.stairs([0], [0, 1], fill=True, color=INK, alpha=0.75, label="parts of the load")
+        self.centred = ax.stairs([0], [0, 1], fill=False, edgecolor=LIMIT, facecolor="none", lw=1.6)  # at the centred time
         self.aim = ax.axvline(0, color=THRESHOLD, lw=1.4, ls="--")
         ax.yaxis.set_major_locator(MaxNLocator(integer=True))
         self.title = ax.set_title("", fontsize=10)
@@ -665,7 +668,7 @@ class _SpreadPage(_Page):
     def work_out(self, outcome: Outcome) -> None:
         """Work the spread out here and now (before exporting or printing, when the worker has not)."""
         try:
-            self.take(outcome.values, capability(outcome.values, self.SPREAD), None)
+            self.take(outcome.values, capability(outcome.values, self.SPREAD, optimize=True), None)
         except CasedepthError as error:
             self.take(outcome.values, None, error)
 
@@ -683,7 +686,7 @@ class _SpreadPage(_Page):
         _, self.capability, error = self._answer
         found = self.capability
         self.plot.say(None if found is not None else _why(error))
-        for artist in (self.parts, self.band, self.aim):
+        for artist in (self.parts, self.band, self.aim, self.centred):
             artist.set_visible(found is not None)
         self.side.setVisible(found is not None)  # a refusal is written across the whole page
         self.note.setVisible(found is not None and bool(bands))
@@ -699,16 +702,31 @@ class _SpreadPage(_Page):
         low, high = (units.length(end) for end in found.window)
         counts, edges = np.histogram(depths, bins="sturges")
         self.parts.set_data(counts, edges)
+        top, left, right = float(counts.max()), float(edges[0]), float(edges[-1])  # what the axes must hold
+        centred = found.centred
+        shown = centred is not None and abs(centred.soak - found.soak) > 0.5 * 60.0  # a minute apart or more
+        self.centred.set_visible(shown)
+        self.centred.set_label("_")
+        if shown:  # the same bins, stretched to hold the parts there too
+            step = edges[1] - edges[0]
+            there = units.length(centred.depths)
+            low_edge = edges[0] - step * math.ceil(max(edges[0] - there.min(), 0.0) / step)
+            high_edge = edges[-1] + step * math.ceil(max(there.max() - edges[-1], 0.0) / step)
+            grid = np.arange(low_edge, high_edge + 0.5 * step, step)
+            moved, _ = np.histogram(there, bins=grid)
+            self.centred.set_data(moved, grid)
+            self.centred.set_label(f"at the centred {found.held_words(centred.soak, short=True)}: "
+                                   f"{formats.percent(100 * centred.share)} inside")
+            top, left, right = max(top, float(moved.max())), min(left, float(grid[0])), max(right, float(grid[-1]))
         self.band.set_x(low)
         self.band.set_width(high - low)
         self.band.set_label(f"drawing window {formats.length_range(*found.window, units)}")
         nominal = units.length(found.nominal)
         self.aim.set_xdata([nominal, nominal])
         self.aim.set_label(f"the plan's aim {formats.length(found.nominal, units)}")
-        reach = max(high, float(edges[-1])) - min(low, float(edges[0]))
-        ax.set_xlim(*round_out(ax.xaxis, min(low, float(edges[0])) - 0.05 * reach,
-                               max(high, float(edges[-1])) + 0.05 * reach))
-        ax.set_ylim(*round_out(ax.yaxis, 0.0, float(counts.max()) * 1.1))
+        reach = max(high, right) - min(low, left)
+        ax.set_xlim(*round_out(ax.xaxis, min(low, left) - 0.05 * reach, max(high, right) + 0.05 * reach))
+        ax.set_ylim(*round_out(ax.yaxis, 0.0, top * 1.1))
         ax.set_xlabel(f"{TREATMENTS[outcome.treatment].depth_name} [{units.length_unit}]")
         ax.set_ylabel("parts")
         after = (f"the soak of {format_duration(found.soak)}" if len(found.held) == 1 else
