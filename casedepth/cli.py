@@ -165,10 +165,11 @@ def _build_parser(argv: list[str] | None = None) -> argparse.ArgumentParser:
 
     cp = commands.add_parser("capability", help="where a load's spread puts the case against the drawing's window",
                              description="Draw the parts of a load from the furnace's spread (temperature uniformity, "
-                                         "potential band, β, the grade's composition range), run the plan's soak on "
-                                         "each, and say where the depths fall: percentiles, the share inside the "
+                                         "potential band, β, the grade's composition range), run the plan's cycle on "
+                                         "each (its soak, or its boost and diffuse or its own stages in the plan's "
+                                         "split), and say where the depths fall: percentiles, the share inside the "
                                          "drawing's window, Cp and Cpk, and which input moves the depth most.")
-    cp.add_argument("plan", metavar="PLAN", help="a one-soak plan file (*.cdplan.json)")
+    cp.add_argument("plan", metavar="PLAN", help="a plan file (*.cdplan.json)")
     cp.add_argument("--temperature-band", metavar="10C",
                     help="furnace uniformity, ± (default: the shop's temperature tolerance, as on the process sheet)")
     cp.add_argument("--potential-band", metavar="0.05",
@@ -186,7 +187,8 @@ def _build_parser(argv: list[str] | None = None) -> argparse.ArgumentParser:
                     help="uniform within each band, or normal with the band as 2σ (default: the plan's)")
     cp.add_argument("--samples", help="parts drawn (16–4096; default: the plan's, 256 unless set)")
     cp.add_argument("--optimize", action="store_true",
-                    help="also the soak that puts most parts inside the drawing's window (each part run twice)")
+                    help="also the time at temperature (in the plan's split) that puts most parts inside the drawing's "
+                         "window (each part run twice)")
     _printing(cp)
     cp.set_defaults(handler=_capability)
 
