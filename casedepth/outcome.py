@@ -61,6 +61,7 @@ class Timeline:
     potential_name: str
     potential_floor: float  # the potential axis shows at least 0 to this
     markers: tuple[tuple[float, str], ...] = ()
+    limit: tuple[float, str] | None = None  # a level on the potential's axis, and its name (a surface-carbon limit)
 
     def __post_init__(self) -> None:
         moments = tuple((start, label) for start, end, label in self.labels if start == end)
@@ -156,6 +157,12 @@ class Outcome(ABC):
         """The stages at temperature whose lengths make the aim's time at temperature (:attr:`soak_time`), in order:
         ``(name, duration [s])``. One soak unless the plan's cycle splits it (boost and diffuse, two stages)."""
         return [("soak", self.soak_time)]
+
+    def frozen_values(self) -> dict[str, Any]:
+        """The plan's values with the cycle this outcome planned written into them, where the treatment plans one
+        the values do not hold (a low-pressure pulse table): what a load of the plan runs, whatever its parts'
+        spread (:func:`casedepth.shop.capability.capability`)."""
+        return dict(self.values)
 
     @property
     def held_shares(self) -> tuple[float, ...]:

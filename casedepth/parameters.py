@@ -27,7 +27,7 @@ from .models.hardness import HARDNESS_RELATIONS
 from .models.surface import DEFAULT_BETA
 from .numerics.geometry import MAX_SIZE, MIN_SIZE, SHAPES
 from .units import (TOTAL_CASE_EXCESS, parse_time, check_text, finite_number, both_lengths, length_range, parse_length, parse_number, parse_temperature,
-                    parse_threshold, parse_velocity, temperature_range)
+                    parse_threshold, parse_velocity, temperature_range, parse_area, parse_mass_flux)
 
 
 # -- kinds of value ------------------------------------------------------------------------------------------
@@ -137,6 +137,8 @@ UNITS = {
     "energy": Unit("energy", "kJ/mol", lambda text, key: parse_number(str(text).lower().removesuffix("kj/mol"), key) * 1e3,
                    1e-3),
     "time": Unit("time", "h", lambda text, key: parse_time(text, key), 1.0 / 3600.0),
+    "mass flux": Unit("mass flux", "g/(m²·h)", lambda text, key: parse_mass_flux(text, key), 3600e3),
+    "area": Unit("area", "m²", lambda text, key: parse_area(text, key)),
     "number": Unit("number", "", lambda text, key: parse_number(str(text).strip().rstrip("%").strip()
                                                                   if isinstance(text, str) else text, key)),
 }
@@ -520,6 +522,32 @@ def _check_shop(key: str, data: dict) -> None:
 
 
 # -- the table ---------------------------------------------------------------------------------------------------
+def _hydrocarbons() -> dict[str, str]:
+    from .lpc.setup import HYDROCARBONS
+    return {key: f"{h.label} ({h.formula})" for key, h in HYDROCARBONS.items()}
+
+
+def _surface_window_applies(values) -> bool:
+    # a final surface-carbon window: boost and diffuse plans, and every low-pressure plan (its pulses end in it)
+    return values.get("process") == "boost-diffuse" or values.get("treatment") == "lpc"
+
+
+def _read_carbon_flux(text: str, values: dict) -> dict:
+    flux = parse_mass_flux(text, "carbon_flux")
+    return {"carbon_flux": None if math.isinf(flux) else flux}
+
+
+def _read_max_hold(text: str, values: dict) -> dict:
+    return {"max_hold": parse_time(text, "max_hold", default_unit="s")}
+
+
+def _read_schedule(text: str, values: dict) -> dict:
+    from .lpc.schedule import parse_schedule
+
+    parse_schedule(text, "schedule")  # refused here, naming the option, if it cannot be read
+    return {"schedule": text.strip()}
+
+
 def _treatments() -> dict[str, str]:
     from .treatments import TREATMENTS
     return {key: t.label for key, t in TREATMENTS.items()}
@@ -612,6 +640,9 @@ THRESHOLD_KINDS: dict[str, ThresholdKind] = {
 
 CARBURIZING = ("carburizing",)
 NITRIDING = ("nitriding",)
+LPC = ("lpc",)
+#: what both kinds of carburizing read: the threshold, the quench and temper, the hardness windows, the carbon models
+CARBURIZED = ("carburizing", "lpc")
 POTENTIAL = (0.05, 2.0)  # wt % C, the carbon potentials the models cover
 MULTIPLIER = (0.1, 10.0)
 
@@ -720,13 +751,13 @@ PARAMETERS: dict[str, Parameter] = {p.key: p for p in (
               group="Cycle", unit_label="%C", range=POTENTIAL, applies=lambda v: v.get("process") == "boost-diffuse",
               when="boost and diffuse (--surface-target)",
               options=(Option("--diffuse-potential", "with --surface-target: carbon potential of the diffuse, wt %% C"),), since=2),
-    Parameter("surface_min", "Surface carbon from", Quantity("number"), 0.75, "surface_carbon_min_pct", CARBURIZING,
-              group="Cycle", unit_label="%C", range=(0.05, 2.0), applies=lambda v: v.get("process") == "boost-diffuse",
-              when="boost and diffuse (--surface-target)",
+    Parameter("surface_min", "Surface carbon from", Quantity("number"), 0.75, "surface_carbon_min_pct", CARBURIZED,
+              group="Cycle", unit_label="%C", range=(0.05, 2.0), applies=_surface_window_applies,
+              when="boost and diffuse (--surface-target), or low-pressure carburizing",
               options=(Option("--surface-target", "plan boost and diffuse for a final surface carbon: 0.80 (±0.05) or "
                                                   "0.75-0.85", _read_surface_target),), since=2),
-    Parameter("surface_max", "Surface carbon to", Quantity("number"), 0.85, "surface_carbon_max_pct", CARBURIZING,
-              group="Cycle", unit_label="%C", range=(0.05, 2.0), applies=lambda v: v.get("process") == "boost-diffuse", since=2),
+    Parameter("surface_max", "Surface carbon to", Quantity("number"), 0.85, "surface_carbon_max_pct", CARBURIZED,
+              group="Cycle", unit_label="%C", range=(0.05, 2.0), applies=_surface_window_applies, since=2),
     Parameter("stages", "Stages", Table(list, _check_stages, "a list of stages"), [], "stages", CARBURIZING,
               group="Cycle", applies=lambda v: v.get("process") == "stages", when="stages of one's own", since=2),
     Parameter("count_shop_stages", "Count the carbon of the shop's heat-up and drop", Flag(), True,
@@ -736,22 +767,64 @@ PARAMETERS: dict[str, Parameter] = {p.key: p for p in (
                    "and equalize counted (Edit → Shop times and rates); off: the soak at temperature alone",
               options=(Option("--shop-stages", "on (default): count the carbon the shop's heat-up, drop and equalize "
                                                "move in the case; off: the soak at temperature alone"),), since=5),
+    # the pulses of low-pressure carburizing
+    Parameter("hydrocarbon", "Hydrocarbon", Choice(_hydrocarbons), "acetylene", "hydrocarbon", LPC, group="Pulses",
+              help="the gas dosed in the boosts",
+              options=(Option("--gas", "hydrocarbon dosed in the boosts (default acetylene)",
+                              choices=lambda: list(_hydrocarbons())),), since=8),
+    Parameter("carbon_flux", "Carbon flux of a boost", Quantity("mass flux", optional=True,
+                                                                 unset="unlimited (at the limit at once)"),
+              150e-3 / 3600.0, "carbon_flux_g_per_m2_h", LPC, group="Pulses", range=(5e-3 / 3600.0, 5.0 / 3600.0),
+              decimals=0, help="carbon the gas delivers to the surface until it saturates (150 g/(m²·h): from memory; "
+                               "calibrate on the shop's sections); not set: the surface at the limit at once",
+              options=(Option("--carbon-flux", "carbon the gas delivers, e.g. 150g/m2h, or inf (the surface at its "
+                                               "limit from the start of every boost)", _read_carbon_flux),), since=8),
+    Parameter("surface_limit", "Surface limit in boosts", Quantity("number", optional=True,
+                                                                   unset="the steel's saturation"),
+              None, "surface_limit_pct", LPC, group="Pulses", unit_label="%C", range=(0.1, 2.0),
+              help="the surface carbon a boost holds once reached (not set: the saturation of this steel's austenite "
+                   "at the temperature; a lower limit keeps further from carbides)",
+              options=(Option("--surface-limit", "surface carbon the boosts hold, %%C (default: the steel's "
+                                                 "saturation)"),), since=8),
+    Parameter("pulse_count", "Pulses", Quantity("number", optional=True, unset="fewest that fit"), None, "pulses",
+              LPC, group="Pulses", range=(1.0, 40.0), decimals=0,
+              help="boost and diffuse pulses (not set: the fewest whose boosts hold the limit no longer than allowed)",
+              options=(Option("--pulses", "number of boost and diffuse pulses (default: the fewest that fit)"),), since=8),
+    Parameter("max_hold", "Longest hold at the limit", Quantity("number"), 180.0, "max_hold_at_limit_s", LPC,
+              group="Pulses", unit_label="s", range=(5.0, 3600.0), decimals=0,
+              help="the longest a boost holds the surface at the limit (180 s: common practice, from memory)",
+              options=(Option("--max-hold", "longest a boost holds the surface at its limit: 3min (default)",
+                              _read_max_hold),), since=8),
+    Parameter("hardening_temperature", "Hardening temperature", Quantity("temperature", optional=True,
+                                                                         unset="the shop's"),
+              None, "hardening_temperature_c", LPC, group="Pulses", decimals=0,
+              help="quenched from here after a drop in nitrogen (the carburizing temperature: no drop; not set: the "
+                   "shop's hardening temperature)",
+              options=(Option("--hardening-temperature", "quench from this temperature: 860C (default: the shop's; the "
+                                                         "carburizing temperature means no drop)"),), since=8),
+    Parameter("load_area", "Load surface area", Quantity("area"), 2.5, "load_area_m2", LPC, group="Pulses",
+              range=(1e-4, 1e3), decimals=2, help="the carburized surface of the whole load (for the gas it takes)",
+              options=(Option("--area", "carburized surface of the load, e.g. 2.5m2 (for the gas)"),), since=8),
+    Parameter("schedule", "Pulse table", Text(lines=2), "", "pulse_schedule", LPC, group="Pulses",
+              help='a table to run as it stands: "boost 2min, diffuse 8min, boost 1.5min, …" (empty: plan one)',
+              options=(Option("--schedule", 'run this pulse table: "boost 2min, diffuse 8min, boost 1.5min, …"',
+                              _read_schedule),), since=8),
     # the quench and temper (carburizing)
-    Parameter("quench", "Quench", Choice(_quench_media), "oil", "quench_medium", CARBURIZING, group="Quench and temper",
+    Parameter("quench", "Quench", Choice(_quench_media), "oil", "quench_medium", CARBURIZED, group="Quench and temper",
               companions=_with_quench,
               help="the medium the part is quenched in from the hardening temperature (Edit → Shop times and rates)",
               options=(Option("--quench", "quench medium (default oil: moderately agitated quench oil)",
                               choices=lambda: list(_quench_media())),), since=6),
     Parameter("quench_temperature", "Quench temperature", Quantity("temperature"), 60.0 + ZERO_CELSIUS,
-              "quench_temperature_c", CARBURIZING, group="Quench and temper", range=(0.0 + ZERO_CELSIUS, 300.0 + ZERO_CELSIUS),
+              "quench_temperature_c", CARBURIZED, group="Quench and temper", range=(0.0 + ZERO_CELSIUS, 300.0 + ZERO_CELSIUS),
               decimals=0, help="the bath (oil) temperature: the lowest the case reaches before tempering",
               options=(Option("--quench-temperature", "quench (bath) temperature, e.g. 60C (default 60 °C)"),), since=6),
     Parameter("temper_temperature", "Temper", Quantity("temperature", optional=True, unset="as quenched"),
-              180.0 + ZERO_CELSIUS, "temper_temperature_c", CARBURIZING, group="Quench and temper",
+              180.0 + ZERO_CELSIUS, "temper_temperature_c", CARBURIZED, group="Quench and temper",
               range=(100.0 + ZERO_CELSIUS, 250.0 + ZERO_CELSIUS), decimals=0,
               help="tempering temperature (not set: as quenched)",
               options=(Option("--temper", "temper: 180C/2h, 180C (2 h), or none (as quenched)", _read_temper),), since=6),
-    Parameter("temper_time", "Temper time", Quantity("time"), 2 * 3600.0, "temper_time_h", CARBURIZING,
+    Parameter("temper_time", "Temper time", Quantity("time"), 2 * 3600.0, "temper_time_h", CARBURIZED,
               group="Quench and temper", range=(0.25 * 3600.0, 24 * 3600.0), decimals=2, unit_label="h",
               applies=lambda v: v.get("temper_temperature") is not None, when="a temper", since=6),
     # the drawing's callout
@@ -764,45 +837,45 @@ PARAMETERS: dict[str, Parameter] = {p.key: p for p in (
     Parameter("aim", "Aim", Quantity("number"), 0.5, "aim_fraction_of_window", group="Drawing callout",
               range=(0.0, 1.0), help="where in the drawing's window to aim: 0.5 is the middle",
               options=(Option("--aim", "where in the window to aim: 50%% (default) or 0.4", _read_aim),)),
-    Parameter("threshold_value", "Threshold", Quantity("number"), 0.40, "threshold_value", CARBURIZING,
+    Parameter("threshold_value", "Threshold", Quantity("number"), 0.40, "threshold_value", CARBURIZED,
               group="Drawing callout", range=_threshold_range, decimals=lambda v: THRESHOLD_KINDS[v["threshold_kind"]].decimals,
               options=(Option("--at", "threshold: 0.40%%C, 550HV, 50HRC, or total (core + 0.04 %%C, SAE J423) "
                                       "(default 0.40%%C)", _read_threshold),)),
     Parameter("threshold_kind", "Threshold kind", Choice({k: t.label for k, t in THRESHOLD_KINDS.items()}), "carbon",
-              "threshold_kind", CARBURIZING, group="Drawing callout", companions=_with_threshold_kind),
+              "threshold_kind", CARBURIZED, group="Drawing callout", companions=_with_threshold_kind),
     Parameter("surface_hrc_min", "Surface hardness from", Quantity("number", optional=True, unset="not checked"), None,
-              "surface_hardness_min_hrc", CARBURIZING, group="Drawing callout", unit_label="HRC", range=(20.0, 68.0),
+              "surface_hardness_min_hrc", CARBURIZED, group="Drawing callout", unit_label="HRC", range=(20.0, 68.0),
               decimals=1, help="the drawing's surface-hardness window (not set: not checked)",
               options=(Option("--surface-hardness", "the drawing's surface hardness: 58-62HRC (or HV), or 58HRC "
                                                     "for a minimum", _read_hardness_window(("surface_hrc_min",
                                                                                           "surface_hrc_max"))),),
               since=6),
     Parameter("surface_hrc_max", "Surface hardness to", Quantity("number", optional=True, unset="not checked"), None,
-              "surface_hardness_max_hrc", CARBURIZING, group="Drawing callout", unit_label="HRC", range=(20.0, 68.0),
+              "surface_hardness_max_hrc", CARBURIZED, group="Drawing callout", unit_label="HRC", range=(20.0, 68.0),
               decimals=1, since=6),
     Parameter("core_hrc_min", "Core hardness from", Quantity("number", optional=True, unset="not checked"), None,
-              "core_hardness_min_hrc", CARBURIZING, group="Drawing callout", unit_label="HRC", range=(10.0, 68.0),
+              "core_hardness_min_hrc", CARBURIZED, group="Drawing callout", unit_label="HRC", range=(10.0, 68.0),
               decimals=1, help="the drawing's core-hardness window (not set: not checked)",
               options=(Option("--core-hardness", "the drawing's core hardness: 30-40HRC (or HV), or 30HRC for a "
                                                  "minimum", _read_hardness_window(("core_hrc_min", "core_hrc_max"))),),
               since=6),
     Parameter("core_hrc_max", "Core hardness to", Quantity("number", optional=True, unset="not checked"), None,
-              "core_hardness_max_hrc", CARBURIZING, group="Drawing callout", unit_label="HRC", range=(10.0, 68.0),
+              "core_hardness_max_hrc", CARBURIZED, group="Drawing callout", unit_label="HRC", range=(10.0, 68.0),
               decimals=1, since=6),
     # model settings (carburizing)
     Parameter("diffusivity", "Carbon diffusivity", Choice({k: m.display for k, m in METHODS.items()}), "tibbetts",
-              "diffusivity_model", CARBURIZING, group="Model settings",
+              "diffusivity_model", CARBURIZED, group="Model settings",
               options=(Option("--diffusivity", "carbon diffusivity model", choices=lambda: list(METHODS)),)),
-    Parameter("d_multiplier", "D multiplier", Quantity("number"), 1.0, "diffusivity_multiplier", CARBURIZING,
+    Parameter("d_multiplier", "D multiplier", Quantity("number"), 1.0, "diffusivity_multiplier", CARBURIZED,
               group="Model settings", unit_label="×", range=MULTIPLIER, decimals=3,
               help="calibration factor on D (1 = the published model)",
               options=(Option("--d-multiplier", "calibration factor on D (default 1)"),)),
-    Parameter("d0", "D0", Quantity("number"), ARRHENIUS_D0, "arrhenius_d0_m2_per_s", CARBURIZING, group="Model settings",
+    Parameter("d0", "D0", Quantity("number"), ARRHENIUS_D0, "arrhenius_d0_m2_per_s", CARBURIZED, group="Model settings",
               unit_label="m²/s", range=(1e-9, 1e-2), applies=lambda v: v.get("diffusivity") == "arrhenius",
               when="the arrhenius diffusivity",
               help="Arrhenius pre-exponential factor",
               options=(Option("--d0", "arrhenius only: D0 in m2/s (default 2.3e-5)"),)),
-    Parameter("q", "Activation energy Q", Quantity("energy"), ARRHENIUS_Q, "arrhenius_q_kj_per_mol", CARBURIZING,
+    Parameter("q", "Activation energy Q", Quantity("energy"), ARRHENIUS_Q, "arrhenius_q_kj_per_mol", CARBURIZED,
               group="Model settings", range=(50e3, 400e3), decimals=1, applies=lambda v: v.get("diffusivity") == "arrhenius",
               when="the arrhenius diffusivity",
               options=(Option("--q", "arrhenius only: activation energy in kJ/mol (default 148)"),)),
@@ -818,7 +891,7 @@ PARAMETERS: dict[str, Parameter] = {p.key: p for p in (
                               choices=lambda: ["on", "off"]),)),
     Parameter("hardness_relation", "Carbon → hardness",
               Choice({k: r.display for k, r in HARDNESS_RELATIONS.items()}, _relation_superseded),
-              "structure-2026", "hardness_relation", CARBURIZING, group="Model settings",
+              "structure-2026", "hardness_relation", CARBURIZED, group="Model settings",
               help="turns carbon into the hardness plotted, and HV or HRC thresholds into carbon",
               options=(Option("--hardness-relation", "carbon-to-hardness relation for HV/HRC thresholds (default "
                                                      "structure-2026: from the quench and temper)",

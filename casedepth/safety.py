@@ -54,6 +54,35 @@ AMMONIA = (
 )
 
 
+LOW_PRESSURE = (
+    Caution("acetylene", "Acetylene is flammable and unstable",
+            "Acetylene burns over a wide range in air and can decompose explosively under pressure: keep it at the "
+            "cylinder maker's pressure limits (about 1.5 bar gauge in the line), use acetone- or DMF-filled cylinders "
+            "upright with flashback arrestors, and keep the gas train and its interlocks as the furnace maker sets "
+            "them (propane and ethylene are flammable too)."),
+    Caution("vacuum-quench", "Vacuum furnace and high-pressure gas quench",
+            "The quench chamber is a pressure vessel (10–20 bar): keep its relief valves, door locks and inspections "
+            "current; never open a door under pressure or vacuum, and vent the hydrocarbon's cracked gases (hydrogen) "
+            "through the pumps' exhaust as the maker requires."),
+    Caution("asphyxiation", "Nitrogen and helium displace air",
+            "A gas quench releases cubic metres of nitrogen or helium: pits, enclosures and the space around the "
+            "furnace can lose their oxygen without warning. Keep oxygen monitors and ventilation working and enter "
+            "confined spaces only under a permit."),
+)
+
+
+def lpc_cautions(temperature: float | None = None) -> list[Caution]:
+    """The cautions of low-pressure carburizing, with grain growth above about 980 °C pressing (common practice)."""
+    pressing = []
+    if temperature is not None and temperature > 980.0 + ZERO_CELSIUS:
+        pressing.append(Caution(
+            "grain-growth", "Grain growth",
+            f"{both_temperatures(temperature)} is above about 980 °C (1800 °F), where steels without grain-refining "
+            "additions (Nb, Ti, Al–N) coarsen their grain: confirm the grade's grain-size control before running hot.",
+            True))
+    return pressing + list(LOW_PRESSURE)
+
+
 def cautions(temperature: float | None = None, equilibrium_carbon: float | None = None,
              saturation_carbon: float | None = None, ammonia: bool = False) -> list[Caution]:
     """The standing cautions, with those the inputs make pressing first.

@@ -77,6 +77,22 @@ def _nitriding_chart(values, load: bool = False, **kwargs):
     return nitriding_chart(nitriding_setup(values), **kwargs)
 
 
+def _lpc_temperatures(values) -> tuple[float, float]:
+    from .lpc.setup import TEMPERATURE_RANGE
+
+    return max(TEMPERATURE_RANGE[0], Andrews_1965_Ac3(values["composition"])), TEMPERATURE_RANGE[1]
+
+
+def _lpc_chart(values, load: bool = False, **kwargs):
+    raise InputError("treatment", "the case-depth chart is drawn for gas carburizing and nitriding; a low-pressure "
+                                  "plan prints its pulse table on the process sheet")
+
+
+def _pulses_only(values: Mapping[str, Any]) -> None:
+    raise InputError("treatment", "a low-pressure pulse table has no single soak: loads and calibration take one-soak "
+                                  "plans")
+
+
 def _carburizing_steel(steel, units) -> str:
     from .models.surface import Gunnarson_alloy_factor
 
@@ -190,6 +206,21 @@ TREATMENTS: dict[str, Treatment] = {t.key: t for t in (
         "below the steel's tempering temperature so the core keeps its hardness (common practice).",
         "nitrided hardness depth (core + 50 HV)", "nitriding", _nitriding_steel,
         lambda values: safety.cautions(ammonia=True)),
+    Treatment(
+        "lpc", "Low-pressure carburizing", "lpc",
+        "Low-pressure (vacuum) carburizing: the boost and diffuse pulse table for a target effective case depth and a "
+        "final surface-carbon window (--surface-target), the surface never above its limit; or what a pulse table "
+        "gives (--schedule).",
+        {"steel": "8620", "temperature": 950.0 + ZERO_CELSIUS, "case_min": 0.8e-3, "case_max": 1.2e-3,
+         "surface_min": 0.70, "surface_max": 0.80, "quench": "gas-n2-10bar", "quench_temperature": 40.0 + ZERO_CELSIUS},
+        _lpc_temperatures,
+        _on_first_use(".lpc.outcome", "evaluate"), _on_first_use(".lpc.outcome", "forward"), "d_multiplier",
+        "carbon_flux", 0.0, _pulses_only,
+        _lpc_chart, 30.0, tuple(t + ZERO_CELSIUS for t in (900.0, 930.0, 950.0, 980.0, 1000.0, 1030.0)),
+        "Hotter is faster, and low-pressure furnaces run hotter than atmosphere ones, but above about 980 °C steels "
+        "without grain-refining additions coarsen their grain (common practice).",
+        "effective case depth", "carburizing", _carburizing_steel,
+        lambda values: safety.lpc_cautions(values["temperature"])),
 )}
 
 

@@ -28,6 +28,12 @@ _TEMPERATURE_UNITS = {
 LENGTH_UNITS = {"m": 1.0, "cm": 1e-2, "mm": 1e-3, "um": 1e-6, "µm": 1e-6, "μm": 1e-6, "in": 0.0254, '"': 0.0254}
 TIME_UNITS = {"s": 1.0, "sec": 1.0, "min": 60.0, "h": 3600.0, "hr": 3600.0, "hrs": 3600.0}
 VELOCITY_UNITS = {"m/s": 1.0, "cm/s": 1e-2, "mm/s": 1e-3, "um/s": 1e-6, "µm/s": 1e-6, "in/s": 0.0254}
+#: a carbon mass flux into a surface, to kg/(m²·s)
+MASS_FLUX_UNITS = {"g/m2h": 1e-3 / 3600.0, "g/m²h": 1e-3 / 3600.0, "g/(m2h)": 1e-3 / 3600.0, "g/(m²h)": 1e-3 / 3600.0,
+                   "g/(m²·h)": 1e-3 / 3600.0, "g/m2/h": 1e-3 / 3600.0, "kg/m2s": 1.0, "kg/(m²·s)": 1.0,
+                   "mg/cm2h": 1e-2 / 3600.0, "mg/(cm²·h)": 1e-2 / 3600.0}
+AREA_UNITS = {"m2": 1.0, "m²": 1.0, "dm2": 1e-2, "dm²": 1e-2, "cm2": 1e-4, "cm²": 1e-4, "ft2": 0.09290304,
+              "ft²": 0.09290304, "in2": 6.4516e-4, "in²": 6.4516e-4}
 
 
 #: the largest number read with a unit: far beyond every range, small enough that any unit conversion stays finite
@@ -151,6 +157,18 @@ def parse_time(text: str | float, field: str = "time", default_unit: str = "h") 
     return _parse_scaled(text, field, TIME_UNITS, default_unit, "time", "6h or 90min")
 
 
+def parse_mass_flux(text: str | float, field: str = "carbon_flux", default_unit: str = "g/m2h") -> float:
+    """Read a carbon mass flux such as ``150g/m2h`` or ``inf``; returns kg/(m²·s) (``math.inf`` for inf)."""
+    if isinstance(text, str) and re.fullmatch(r"\s*(inf|infinite|infinity|unlimited)\s*([a-z²·()/0-9]*)\s*", text.lower()):
+        return math.inf
+    return _parse_scaled(text, field, MASS_FLUX_UNITS, default_unit, "carbon flux", "150g/m2h or inf")
+
+
+def parse_area(text: str | float, field: str = "area", default_unit: str = "m2") -> float:
+    """Read a surface area such as ``2.5m2`` or ``27ft2``; returns m²."""
+    return _parse_scaled(text, field, AREA_UNITS, default_unit, "area", "2.5m2")
+
+
 def parse_velocity(text: str | float, field: str = "beta", default_unit: str = "cm/s") -> float:
     """Read a mass-transfer coefficient such as ``1.5e-5cm/s`` or ``inf``; returns m/s (``math.inf`` for inf)."""
     if isinstance(text, str) and re.fullmatch(r"\s*(inf|infinite|infinity)\s*([a-zµ/]*)\s*", text.lower()):
@@ -248,8 +266,14 @@ def format_duration(seconds: float) -> str:
     return f"{hours} h {minutes:02d} min"
 
 
-def format_clock(seconds: float) -> str:
-    """``19080`` -> ``"5:18"``: hours and minutes, as the floor reads a furnace's timer."""
+def format_clock(seconds: float, with_seconds: bool = False) -> str:
+    """``19080`` -> ``"5:18"``: hours and minutes, as the floor reads a furnace's timer (``with_seconds``: ``"0:03:02"``,
+    for the short boosts of low-pressure pulses)."""
+    if with_seconds:
+        whole = int(round(seconds))
+        hours, rest = divmod(whole, 3600)
+        minutes, secs = divmod(rest, 60)
+        return f"{hours}:{minutes:02d}:{secs:02d}"
     minutes = int(round(seconds / 60.0))
     hours, minutes = divmod(minutes, 60)
     return f"{hours}:{minutes:02d}"

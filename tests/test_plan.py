@@ -38,6 +38,8 @@ def changed_plan() -> Plan:
                 load_number="L-0042", quantity=80.0, fixture="basket 2")
     plan.update(spread_distribution="normal", spread_composition="grade-range", spread_beta_factor=3.0,
                 spread_samples=512.0, spread_section=1e-3)
+    plan.update(hydrocarbon="propane", carbon_flux=200e-3 / 3600.0, surface_limit=1.2, pulse_count=5.0, max_hold=120.0,
+                hardening_temperature=850 + 273.15, load_area=4.0, schedule="boost 2min, diffuse 8min")
     return plan
 
 

@@ -424,6 +424,72 @@ class Hardened:
         return out
 
 
+def harden(s: CarburizingSetup, end: Profile) -> Hardened | None:
+    """The part whose case ends as ``end`` after the setup's quench and temper (None under the first release's
+    carbon → hardness relations, which read no structure)."""
+    if not s.structure:
+        return None
+    from ..models.hardenability import ideal_critical_diameter
+
+    grain = s.steel.grain_size
+    core_x = core_depth(s.geometry)
+    depths = np.append(end.depth, core_x)
+    carbon = np.append(end.carbon, s.steel.carbon)
+    out = hardness_at(s.steel.composition, s.geometry, s.hardening, depths, carbon)
+    hv, ra, martensite = out["hv"], out["retained_austenite"], out["martensite"]
+    return Hardened(end.depth, hv[:-1], ra[:-1], martensite[:-1], float(hv[0]), float(hv[-1]), core_x,
+                    float(ideal_critical_diameter(s.steel.composition, grain)),
+                    float(ideal_critical_diameter(s.steel.composition, grain, carbon=min(end.surface_carbon, 0.9))),
+                    s.hardening)
+
+
+def hardness_along(s: CarburizingSetup, profile: Profile, hardened: Hardened | None = None) -> np.ndarray:
+    """Hardness [HV] along ``profile``: from the quench's structure (``hardened``'s, where it is that profile's), or
+    the relation's carbon → hardness."""
+    if s.structure:
+        if hardened is not None:
+            return hardened.hardness
+        return hardness_at(s.steel.composition, s.geometry, s.hardening, profile.depth, profile.carbon)["hv"]
+    return HARDNESS_RELATIONS[s.hardness_relation].hv(profile.carbon)
+
+
+def threshold_hardness(s: CarburizingSetup) -> float:
+    """The hardness [HV] the threshold stands for, for the hardness plot's line."""
+    relation = HARDNESS_RELATIONS[s.hardness_relation]
+    if s.threshold.is_hardness:
+        return s.threshold.value if s.threshold.kind == "HV" else float(ASTM_E140_hrc_to_hv(s.threshold.value))
+    if s.structure:
+        return float(relation.hv(np.array([s.threshold_carbon]), s.quenched_at(s.hardness_depth))[0])
+    return float(relation.hv(s.threshold_carbon))
+
+
+def hardness_panel(s: CarburizingSetup, shown: Profile, hv: np.ndarray, end: Profile, end_hv: np.ndarray,
+                   scrubbing: bool, when: str, final_label: str) -> Panel:
+    """The hardness plot of a carburized case: ``hv`` along ``shown`` (and the end's, faint, while scrubbing)."""
+    relation = HARDNESS_RELATIONS[s.hardness_relation]
+    threshold_hv = threshold_hardness(s)
+    return Panel("hardness [HV]", Curve(shown.depth, hv, "estimated from the quench and temper" if s.structure
+                                        else f"estimated: {relation.display}"),
+                 Curve(end.depth, end_hv, final_label) if scrubbing else None,
+                 [Level(threshold_hv, f"threshold ≈ {formats.hv(threshold_hv)} "
+                                      f"({formats.hrc(ASTM_E140_hv_to_hrc(threshold_hv))})", "threshold")],
+                 (min(float(end_hv.min()), threshold_hv) - 60, max(float(end_hv.max()), threshold_hv) + 60),
+                 "Hardness " + when + ("; " + s.hardening.short() if s.structure else
+                                       "; assumes a fully martensitic case"), hrc_axis=True)
+
+
+def hardness_facts(hardened: Hardened | None, v: Mapping[str, Any]) -> list[Fact]:
+    """The surface and core hardness against the drawing's windows, retained austenite and D_I, as facts."""
+    if hardened is None:
+        return []
+    return [Fact("hardness", f"Surface / core hardness (±{formats.hrc(HARDNESS_UNCERTAINTY_HRC)})",
+                 f"{formats.hrc(hardened.surface_hrc)}{_drawing(v['surface_hrc_min'], v['surface_hrc_max'])} / "
+                 f"{formats.hrc(hardened.core_hrc)}{_drawing(v['core_hrc_min'], v['core_hrc_max'])}"),
+            Fact("hardenability", "Retained austenite, D_I",
+                 f"{formats.percent(100 * float(hardened.retained_austenite[0]))} at the surface; ideal diameter of "
+                 f"the core {formats.ideal_diameter(hardened.ideal_diameter)}")]
+
+
 def _drawing(low: float | None, high: float | None, hrc: float | None = None) -> str:
     """`` (drawing 58–62 HRC)`` — with ``hrc`` also ``: in`` or ``: OUT`` — or nothing without a window."""
     if low is None and high is None:
@@ -517,31 +583,10 @@ class CarburizingOutcome(Outcome):
     @cached_property  # the quench through the section and the structure at every depth: once per outcome
     def hardened(self) -> Hardened | None:
         """The part after its quench and temper (None under the first release's carbon → hardness relations)."""
-        s = self.setup
-        if not s.structure:
-            return None
-        from ..models.hardenability import ideal_critical_diameter
-
-        end = self.profile
-        grain = s.steel.grain_size
-        core_x = core_depth(s.geometry)
-        depths = np.append(end.depth, core_x)
-        carbon = np.append(end.carbon, s.steel.carbon)
-        out = hardness_at(s.steel.composition, s.geometry, s.hardening, depths, carbon)
-        hv, ra, martensite = out["hv"], out["retained_austenite"], out["martensite"]
-        return Hardened(end.depth, hv[:-1], ra[:-1], martensite[:-1], float(hv[0]), float(hv[-1]), core_x,
-                        float(ideal_critical_diameter(s.steel.composition, grain)),
-                        float(ideal_critical_diameter(s.steel.composition, grain, carbon=min(end.surface_carbon, 0.9))),
-                        s.hardening)
+        return harden(self.setup, self.profile)
 
     def _hardness_of(self, profile: Profile):
-        """Hardness [HV] along ``profile``: from the quench's structure, or the relation's carbon → hardness."""
-        s = self.setup
-        if s.structure:
-            if profile is self.profile:
-                return self.hardened.hardness
-            return hardness_at(s.steel.composition, s.geometry, s.hardening, profile.depth, profile.carbon)["hv"]
-        return HARDNESS_RELATIONS[s.hardness_relation].hv(profile.carbon)
+        return hardness_along(self.setup, profile, self.hardened if profile is self.profile else None)
 
     def profile_at(self, time: float) -> Profile:
         return self._end.profile_at(time)
@@ -609,16 +654,7 @@ class CarburizingOutcome(Outcome):
         return Summary(self._headline(), self._how(units), facts)
 
     def _hardness_facts(self) -> list[Fact]:
-        hardened = self.hardened
-        if hardened is None:
-            return []
-        v = self.values
-        return [Fact("hardness", f"Surface / core hardness (±{formats.hrc(HARDNESS_UNCERTAINTY_HRC)})",
-                     f"{formats.hrc(hardened.surface_hrc)}{_drawing(v['surface_hrc_min'], v['surface_hrc_max'])} / "
-                     f"{formats.hrc(hardened.core_hrc)}{_drawing(v['core_hrc_min'], v['core_hrc_max'])}"),
-                Fact("hardenability", "Retained austenite, D_I",
-                     f"{formats.percent(100 * float(hardened.retained_austenite[0]))} at the surface; ideal diameter of "
-                     f"the core {formats.ideal_diameter(hardened.ideal_diameter)}")]
+        return hardness_facts(self.hardened, self.values)
 
     def _hardness_lines(self, units: DisplayUnits) -> list[str]:
         """The surface and core hardness against the drawing, retained austenite and D_I, for text and sheet."""
@@ -659,13 +695,6 @@ class CarburizingOutcome(Outcome):
         whole = "soak" if self.cycle is None else "cycle"
         when = (f"after {format_duration(shown.time)} of {format_duration(self.duration)}" if scrubbing
                 else f"after the full {whole}, {format_duration(self.duration)}")
-        relation = HARDNESS_RELATIONS[s.hardness_relation]
-        if s.structure:
-            threshold_hv = (float(relation.hv(np.array([s.threshold_carbon]), s.quenched_at(s.hardness_depth))[0])
-                            if not s.threshold.is_hardness else
-                            (s.threshold.value if s.threshold.kind == "HV" else float(ASTM_E140_hrc_to_hv(s.threshold.value))))
-        else:
-            threshold_hv = float(relation.hv(s.threshold_carbon))
         hv, end_hv = self._hardness_of(shown), self._hardness_of(end)
         final_label = "at the end of the " + whole
         top = max(s.saturation_carbon, s.equilibrium_carbon, float(end.carbon.max())) * 1.08
@@ -676,14 +705,7 @@ class CarburizingOutcome(Outcome):
                       Level(s.steel.carbon, f"core {formats.carbon(s.steel.carbon)}", "core"),
                       Level(s.saturation_carbon, f"saturation (Acm) {formats.carbon(s.saturation_carbon)}", "limit")],
                      (0.0, top), "Carbon " + when)
-        hardness = Panel("hardness [HV]", Curve(shown.depth, hv, "estimated from the quench and temper" if s.structure
-                                                else f"estimated: {relation.display}"),
-                         Curve(end.depth, end_hv, final_label) if scrubbing else None,
-                         [Level(threshold_hv, f"threshold ≈ {formats.hv(threshold_hv)} "
-                                              f"({formats.hrc(ASTM_E140_hv_to_hrc(threshold_hv))})", "threshold")],
-                         (min(float(end_hv.min()), threshold_hv) - 60, max(float(end_hv.max()), threshold_hv) + 60),
-                         "Hardness " + when + ("; " + s.hardening.short() if s.structure else
-                                               "; assumes a fully martensitic case"), hrc_axis=True)
+        hardness = hardness_panel(s, shown, hv, end, end_hv, scrubbing, when, final_label)
         reach = max(high * 2.2, self.depth * 2.0)
         half = s.geometry.half_section
         return ProfileView(self.profile_name, main, hardness, min(reach, half) if np.isfinite(half) else reach,

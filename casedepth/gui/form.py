@@ -19,7 +19,7 @@ from ..treatments import TREATMENTS
 from ..units import DisplayUnits
 from .fields import INVALID_STYLE, Context, EntryField, Field, make_field
 
-GROUPS = ("Plan", "Steel", "Part", "Furnace step", "Cycle", "Drawing callout", "Quench and temper", "Load spread",
+GROUPS = ("Plan", "Steel", "Part", "Furnace step", "Cycle", "Pulses", "Drawing callout", "Quench and temper", "Load spread",
           "Model settings", "Notes")
 #: keys shown on the line of another key, and the word between them
 BESIDE = {"case_max": ("case_min", "to"), "compound_max": ("compound_min", "to"), "surface_max": ("surface_min", "to"),

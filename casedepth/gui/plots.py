@@ -401,6 +401,7 @@ class _CyclePage(_Page):
         pax = self.potential_axes = ax.twinx()
         self.temperature, = ax.plot([], [], color=INK, lw=2.0, label="temperature")
         self.potential, = pax.plot([], [], color=THRESHOLD, lw=1.6, ls="--")
+        self.limit = pax.axhline(0.0, color=LIMIT, lw=1.2, ls=":", visible=False)
         ax.set_xlabel("time in the cycle [h]")
         ax.grid(True, **GRID)
         pax.yaxis.set_label_position("right")
@@ -418,6 +419,10 @@ class _CyclePage(_Page):
         self.temperature.set_data(hours, shown)
         self.potential.set_data(hours, line.potentials)
         self.potential.set_label(line.potential_name)
+        self.limit.set_visible(line.limit is not None)
+        self.limit.set_label("_" if line.limit is None else line.limit[1])
+        if line.limit is not None:
+            self.limit.set_ydata([line.limit[0], line.limit[0]])
         # the stages' shading and names and the moments' lines and words are the cycle's own: made anew
         for artist in [*ax.patches, *ax.texts, *(curve for curve in ax.get_lines() if curve is not self.temperature)]:
             artist.remove()
@@ -430,7 +435,8 @@ class _CyclePage(_Page):
         pax.set_ylim(0, max(line.potential_floor, float(np.nanmax(line.potentials)) * 1.3) if finite.any()
                      else line.potential_floor)
         ax.set_xlim(0, max(hours[-1], 0.1))
-        self.title.set_text(f"Temperature (solid) and {line.potential_name.split(' [')[0]} (dashed)")
+        self.title.set_text(f"Temperature (solid) and {line.potential_name.split(' [')[0]} (dashed)"
+                            + ("; its limit dotted" if line.limit is not None else ""))
         self.fit(ax.get_ylabel(), pax.get_ylabel(), ax.get_xlim(), ax.get_ylim(), pax.get_ylim())
         self._place_texts()
         self.canvas.draw_idle()

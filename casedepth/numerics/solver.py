@@ -61,11 +61,16 @@ class SurfaceCondition:
         Surface carbon in equilibrium with the atmosphere (after the alloy factor), [wt %]
     beta : float
         Mass-transfer coefficient, [m/s]; ``math.inf`` holds the surface at ``equilibrium_carbon``.
+    influx : float
+        A constant carbon flux into the surface on top of the mass transfer, [wt % · m/s] (the carbon a
+        low-pressure boost delivers before the surface saturates; used with ``beta`` = 0, and
+        ``equilibrium_carbon`` the limit the march stops at, which bounds the plausibility check).
     """
 
     temperature: float
     equilibrium_carbon: float
     beta: float
+    influx: float = 0.0
 
 
 @dataclass(frozen=True)
@@ -85,7 +90,10 @@ class Ramp:
 
     @classmethod
     def constant(cls, condition: SurfaceCondition) -> Ramp:
-        """A condition that does not move, as a ramp (its potential is the equilibrium carbon, factor 1)."""
+        """A condition that does not move, as a ramp (its potential is the equilibrium carbon, factor 1); a ramp
+        carries no constant influx."""
+        if condition.influx:
+            raise ValueError("a surface condition with a constant influx is not a ramp")
         return cls(condition.temperature, condition.temperature, condition.equilibrium_carbon,
                    condition.equilibrium_carbon, 1.0, condition.beta, 1.0)
 
@@ -272,6 +280,7 @@ class CarbonSolver:
         self.history_time: list[float] = [0.0]
         self.history_carbon: list[np.ndarray] = [self.carbon]
         self._history_steps: list[tuple[SurfaceCondition, bool]] = []
+        self._history_flux: list[float] = []  # carbon through the surface in each step, wt % · m
 
     # -- grid -------------------------------------------------------------------------------
     def _set_grid(self, nodes: np.ndarray) -> None:
@@ -350,7 +359,7 @@ class CarbonSolver:
         """Carbon entering through the surface: β·A·(C_eq − c0), or for a held surface what crosses the
         first face inward."""
         if math.isfinite(cond.beta):
-            return self.surface_area * cond.beta * (cond.equilibrium_carbon - c0)
+            return self.surface_area * (cond.beta * (cond.equilibrium_carbon - c0) + cond.influx)
         return -float(flow[0])
 
     @staticmethod
@@ -521,6 +530,7 @@ class CarbonSolver:
             self.history_time.append(self.time)
             self.history_carbon.append(carbon)
             self._history_steps.append((cond, euler))
+            self._history_flux.append(flux)
             if on_step is not None and on_step(self):
                 return
             dt = min(dt * acc.step_growth, max_step)
@@ -531,6 +541,7 @@ class CarbonSolver:
         self.history_time.append(self.time)
         self.history_carbon.append(self.carbon)
         self._history_steps.append((None, False))
+        self._history_flux.append(0.0)
 
     def fork(self, carbon: np.ndarray | None = None, time: float | None = None) -> CarbonSolver:
         """A new solver on this grid starting from ``carbon`` [wt %] at ``time`` [s] (default: the
@@ -542,6 +553,7 @@ class CarbonSolver:
         twin.history_time = [twin.time]
         twin.history_carbon = [twin.carbon]
         twin._history_steps = []
+        twin._history_flux = []
         twin._evaluations = []
         return twin
 
@@ -559,6 +571,22 @@ class CarbonSolver:
             return Profile(self.nodes, self.snapshot(index - 1), self.history_time[index - 1] + dt, self.geometry.half_section)
         carbon, _ = self._step(dt, cond, euler, start=self.snapshot(index - 1))
         return Profile(self.nodes, carbon, self.history_time[index - 1] + dt, self.geometry.half_section)
+
+    def shorten_last_step(self, dt: float) -> None:
+        """Take the last step of the march again, only ``dt`` [s] long, and make that the present state (an event
+        inside the step — the surface reaching a limit — landed on by the caller's root search with
+        :meth:`retake`). The history's last entry and the carbon through the surface follow."""
+        index = len(self.history_time) - 1
+        cond, euler = self._history_steps[index - 1]
+        if cond is None:
+            raise ValueError("the last step took only time (no carbon moved)")
+        carbon, flux = self._step(dt, cond, euler, start=self.snapshot(index - 1))
+        self.flux_integral += flux - self._history_flux[-1]
+        self._history_flux[-1] = flux
+        self.carbon = carbon
+        self.time = self.history_time[index - 1] + dt
+        self.history_time[-1] = self.time
+        self.history_carbon[-1] = carbon
 
     def history(self, last: int | None = None, final: Profile | None = None) -> History:
         """The history up to step ``last`` (default: all of it), on the present grid; with ``final``, the

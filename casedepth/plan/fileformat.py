@@ -24,7 +24,7 @@ from ..outcome import Offer
 from ..parameters import PARAMETERS
 from .state import Plan
 
-SCHEMA_VERSION = 7
+SCHEMA_VERSION = 8
 FILE_KIND = "casedepth plan"
 LARGEST_FILE = 5_000_000  # bytes: a plan with 100 stages and long notes is under 100 kB
 HEADER_KEYS = ("kind", "schema_version")
@@ -101,7 +101,14 @@ def _to_7(data: dict, offers: list[Offer], made_with: int) -> None:
                 spread_section_mm=0.0)
 
 
-MIGRATIONS = {1: _to_2, 2: _to_3, 3: _to_4, 4: _to_5, 5: _to_6, 6: _to_7}
+def _to_8(data: dict, offers: list[Offer], made_with: int) -> None:
+    # schema 8 adds low-pressure carburizing; its settings play no part in an older (gas carburizing or nitriding)
+    # plan, which gets a new plan's values for them, written here
+    data.update(hydrocarbon="acetylene", carbon_flux_g_per_m2_h=150.0, surface_limit_pct=None, pulses=None,
+                max_hold_at_limit_s=180.0, hardening_temperature_c=None, load_area_m2=2.5, pulse_schedule="")
+
+
+MIGRATIONS = {1: _to_2, 2: _to_3, 3: _to_4, 4: _to_5, 5: _to_6, 6: _to_7, 7: _to_8}
 
 
 def migrate(data: dict) -> tuple[dict, list[Offer], list[str]]:

@@ -869,13 +869,17 @@ def _timeline(ax, outcome: Outcome, u: DisplayUnits, height: float) -> None:
     ax.set_ylim(min(0.0, float(np.nanmin(shown))), float(np.nanmax(shown)) * 1.3)
     pax = ax.twinx()
     pax.plot(hours, line.potentials, color="#d1495b", ls="--", lw=1.2)
+    if line.limit is not None:
+        pax.axhline(line.limit[0], color="#b5651d", ls=":", lw=1.0)
     ax.set_xlim(0, max(hours[-1], 0.1))
     pax.set_ylabel(_axis_label(line.potential_name, 7.5, height), fontsize=7.5, color="#d1495b")
     pax.tick_params(labelsize=SMALLEST)
     finite = np.isfinite(line.potentials)
     pax.set_ylim(0, max(line.potential_floor, float(np.nanmax(line.potentials)) * 1.3) if finite.any()
                  else line.potential_floor)
-    ax.set_title("The cycle: temperature solid, potential dashed", fontsize=8)
+    ax.set_title("The cycle: temperature solid, " + ("potential dashed" if line.limit is None else
+                                                      f"{line.potential_name.split(' [')[0]} dashed, its limit dotted"),
+                 fontsize=8)
     stages, moments = draw_cycle_words(ax, line, colour="#555", size=SMALLEST)
     FigureCanvasAgg(ax.figure)  # the words are placed as the page will draw them
     place_cycle_words(ax, stages, moments, [*ax.get_lines(), *pax.get_lines()])

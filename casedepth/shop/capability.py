@@ -559,11 +559,11 @@ def capability(values: Mapping[str, Any], spread: Spread = Spread(), soak: float
     (and the surface-carbon window, where the plan has one; each part run at a second time, :func:`_best_soak`)."""
     from ..plan.evaluate import evaluate, forward_many
 
-    values = dict(values)
+    outcome = evaluate(values)
+    values = outcome.frozen_values()  # the cycle planned for the nominal part is what every part of the load runs
     drawn = draw_parts(values, spread)
     spread, bands, ranges, parts, moved = drawn.spread, drawn.bands, drawn.ranges, drawn.parts, drawn.moved
     keys = list(bands)
-    outcome = evaluate(values)
     held = tuple(name for name, _ in outcome.held_stages)
     shares = outcome.held_shares
     if soak is None:
