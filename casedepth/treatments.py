@@ -163,6 +163,9 @@ class Treatment:
     cautions: Callable[[Mapping[str, Any]], list] = lambda values: []  # the cautions a plan's values call for
     forward_options: tuple[Option, ...] = ()  # the command line's extra options for what a soak gives
     forward_many: Callable[..., list] | None = None  # (values list, soaks [s], shares) -> forward of each, marched together
+    #: whether a load's spread in the window also works out the centred time (twice the runs): off where every part is
+    #: a whole run of its own that takes milliseconds (a low-pressure pulse table: 256 parts take seconds already)
+    centres_spread: bool = True
 
     def forward_each(self, values_list: list[Mapping[str, Any]], soaks: list[float],
                      shares: tuple[float, ...] | None = None) -> list:
@@ -212,7 +215,9 @@ TREATMENTS: dict[str, Treatment] = {t.key: t for t in (
         "final surface-carbon window (--surface-target), the surface never above its limit; or what a pulse table "
         "gives (--schedule).",
         {"steel": "8620", "temperature": 950.0 + ZERO_CELSIUS, "case_min": 0.8e-3, "case_max": 1.2e-3,
-         "surface_min": 0.70, "surface_max": 0.80, "quench": "gas-n2-10bar", "quench_temperature": 40.0 + ZERO_CELSIUS},
+         "surface_min": 0.70, "surface_max": 0.80, "quench": "gas-n2-10bar", "quench_temperature": 40.0 + ZERO_CELSIUS,
+         # a load's parts each run a whole pulse table of their own (about 14 ms): 128 keep its spread within 2 s
+         "spread_samples": 128.0},
         _lpc_temperatures,
         _on_first_use(".lpc.outcome", "evaluate"), _on_first_use(".lpc.outcome", "forward"), "d_multiplier",
         "carbon_flux", 0.0, _pulses_only,
@@ -220,7 +225,7 @@ TREATMENTS: dict[str, Treatment] = {t.key: t for t in (
         "Hotter is faster, and low-pressure furnaces run hotter than atmosphere ones, but above about 980 °C steels "
         "without grain-refining additions coarsen their grain (common practice).",
         "effective case depth", "carburizing", _carburizing_steel,
-        lambda values: safety.lpc_cautions(values["temperature"])),
+        lambda values: safety.lpc_cautions(values["temperature"]), centres_spread=False),
 )}
 
 

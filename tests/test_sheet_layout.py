@@ -183,3 +183,23 @@ def test_the_pdf_text_has_the_callout_and_every_setpoint(example, tmp_path):
         for cell in row:
             assert " ".join(cell.split()) in flat, cell
     assert "page 1/1" in flat
+
+
+@pytest.mark.parametrize("paper, units", [("a4", "metric"), ("letter", "imperial")])
+def test_the_low_pressure_example_prints_its_pulse_table_cleanly(paper, units):
+    """A pulse table has a row for every boost and diffuse: the low-pressure example flows to a second page, both
+    numbered and naming the job, nothing clipped, overlapping or too small, every setpoint row on the sheet."""
+    plan = load(EXAMPLES / "pinion-lpc.cdplan.json")
+    outcome = evaluate(plan.values())
+    document = process_sheet(plan, outcome, paper=paper, units=units, shop="Demo shop (invented)")
+    pages = len(document.pages)
+    assert pages <= 2
+    words = _words(document)
+    for n in range(1, pages + 1):
+        assert f"page {n}/{pages}" in words
+    cells = {c.get_text().get_text() for page in document.pages for table in _tables(page) for c in table.get_celld().values()}
+    for row in outcome.sheet(DisplayUnits(units)).setpoints:
+        assert set(row) - {""} <= cells, row
+    assert "Acetylene is flammable and unstable" in words and "Safety" in words
+    for page in document.pages:
+        assert layout_problems(page, 100) == []

@@ -21,7 +21,7 @@ from PySide6.QtWidgets import QComboBox, QLabel, QLineEdit  # noqa: E402
 from casedepth.gui.fields import WIDEST_LINE  # noqa: E402
 
 EXAMPLES = Path(__file__).resolve().parent.parent / "resources" / "examples"
-PLANS = ["pinion-shaft", "piston-rod-nitrided", "ring-gear-boost-diffuse"]
+PLANS = ["pinion-shaft", "piston-rod-nitrided", "ring-gear-boost-diffuse", "pinion-lpc"]
 SIZES = [(1280, 800), (1920, 1080)]
 TOLERANCE = 2.0  # pixels
 

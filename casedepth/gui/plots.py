@@ -436,7 +436,7 @@ class _CyclePage(_Page):
                      else line.potential_floor)
         ax.set_xlim(0, max(hours[-1], 0.1))
         self.title.set_text(f"Temperature (solid) and {line.potential_name.split(' [')[0]} (dashed)"
-                            + ("; its limit dotted" if line.limit is not None else ""))
+                            + ("\nits limit dotted" if line.limit is not None else ""))
         self.fit(ax.get_ylabel(), pax.get_ylabel(), ax.get_xlim(), ax.get_ylim(), pax.get_ylim())
         self._place_texts()
         self.canvas.draw_idle()
@@ -674,7 +674,7 @@ class _SpreadPage(_Page):
     def work_out(self, outcome: Outcome) -> None:
         """Work the spread out here and now (before exporting or printing, when the worker has not)."""
         try:
-            self.take(outcome.values, capability(outcome.values, self.SPREAD, optimize=True), None)
+            self.take(outcome.values, capability(outcome.values, self.SPREAD, optimize=None), None)
         except CasedepthError as error:
             self.take(outcome.values, None, error)
 
@@ -735,7 +735,7 @@ class _SpreadPage(_Page):
         ax.set_ylim(*round_out(ax.yaxis, 0.0, top * 1.1))
         ax.set_xlabel(f"{TREATMENTS[outcome.treatment].depth_name} [{units.length_unit}]")
         ax.set_ylabel("parts")
-        after = (f"the soak of {format_duration(found.soak)}" if len(found.held) == 1 else
+        after = (f"the soak of {format_duration(found.soak)}" if [name for name, _ in found.held] == ["soak"] else
                  found.held_words(found.soak, short=True))
         self.title.set_text(f"The load's parts after {after}")
         self.plot.finish(self.fit)
@@ -933,14 +933,15 @@ class ProfilePlots(QTabWidget):
         self._stale.add(self.pages.index(page))
         self._page_shown(self.currentIndex())
 
-    def draw_all(self) -> None:
-        """Draw every page now (before exporting or printing): a page already drawn for this result is not made
-        again, only rendered; the comparison at other temperatures and a load's spread are worked out here if the
-        worker has not."""
+    def draw_all(self, only: int | None = None) -> None:
+        """Draw every page now (or page ``only``: before exporting it): a page already drawn for this result is not
+        made again, only rendered; the comparison at other temperatures and a load's spread are worked out here if
+        the worker has not, for their own pages."""
         from ..plan import compare_temperatures
 
+        wanted = range(len(self.pages)) if only is None else [only]
         page = self.tradeoff_page
-        if self.outcome is not None and not page.has(self.outcome):
+        if self.outcome is not None and not page.has(self.outcome) and self.pages.index(page) in wanted:
             values = self.outcome.values
             try:
                 page.take(values, compare_temperatures(values, page.temperatures(self.outcome)), None)
@@ -948,10 +949,11 @@ class ProfilePlots(QTabWidget):
                 page.take(values, None, error)
             self._stale.add(self.pages.index(page))
         page = self.spread_page
-        if self.outcome is not None and not page.has(self.outcome):
+        if self.outcome is not None and not page.has(self.outcome) and self.pages.index(page) in wanted:
             page.work_out(self.outcome)
             self._stale.add(self.pages.index(page))
-        for index, page in enumerate(self.pages):
+        for index in wanted:
+            page = self.pages[index]
             page.build()
             if self.outcome is not None and index in self._stale:
                 self._draw_page(index)

@@ -660,7 +660,7 @@ class MainWindow(QMainWindow):
 
     def export_plot(self, path: str | os.PathLike) -> None:
         """Save the plot on show; the format follows the extension (.png, .svg, .pdf)."""
-        self.plots.draw_all()
+        self.plots.draw_all(only=self.plots.currentIndex())
         atomic_write(path, lambda name: self.plots.save_current(name, dpi=200))
 
     def export_plot_dialog(self) -> None:

@@ -24,7 +24,7 @@ from ..shop.capability import capability
 #: work looks its function up when it runs (so a test can stand in for it).
 SIDE_WORK: dict[str, tuple[str, Callable[..., object]]] = {
     "comparison": ("compared", lambda values, temperatures: compare_temperatures(values, temperatures)),
-    "capability": ("capability_known", lambda values, spread: capability(values, spread, optimize=True)),
+    "capability": ("capability_known", lambda values, spread: capability(values, spread, optimize=None)),
 }
 
 

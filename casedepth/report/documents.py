@@ -877,9 +877,8 @@ def _timeline(ax, outcome: Outcome, u: DisplayUnits, height: float) -> None:
     finite = np.isfinite(line.potentials)
     pax.set_ylim(0, max(line.potential_floor, float(np.nanmax(line.potentials)) * 1.3) if finite.any()
                  else line.potential_floor)
-    ax.set_title("The cycle: temperature solid, " + ("potential dashed" if line.limit is None else
-                                                      f"{line.potential_name.split(' [')[0]} dashed, its limit dotted"),
-                 fontsize=8)
+    ax.set_title("The cycle: temperature solid, potential dashed" if line.limit is None else
+                 f"The cycle: temperature, {line.potential_name.split(' [')[0]}, limit", fontsize=8)
     stages, moments = draw_cycle_words(ax, line, colour="#555", size=SMALLEST)
     FigureCanvasAgg(ax.figure)  # the words are placed as the page will draw them
     place_cycle_words(ax, stages, moments, [*ax.get_lines(), *pax.get_lines()])

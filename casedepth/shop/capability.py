@@ -292,8 +292,9 @@ class Capability:
 
     def held_words(self, soak: float, short: bool = False) -> str:
         """The held stages for a time at temperature of ``soak`` [s], in words (``short``: without the total)."""
-        if len(self.held) == 1:
-            return f"{self.held[0][0]} {format_duration(soak)}"
+        if len(self.held) == 1:  # "soak 5 h 59 min"; a counted name apart: "6 pulses, 2 h 26 min"
+            name = self.held[0][0]
+            return f"{name}{',' if any(c.isdigit() for c in name) else ''} {format_duration(soak)}"
         parts = " + ".join(f"{name} {format_duration(share * soak)}" for name, share in self.held)
         return parts if short else f"{parts}, the plan's split of {format_duration(soak)} at temperature"
 
@@ -547,7 +548,7 @@ def draw_parts(values: Mapping[str, Any], spread: Spread = Spread()) -> Draw:
 
 
 def capability(values: Mapping[str, Any], spread: Spread = Spread(), soak: float | None = None,
-               optimize: bool = False) -> Capability:
+               optimize: bool | None = False) -> Capability:
     """Where the depths of a load planned by ``values`` fall with ``spread``, after the plan's aim time at temperature
     (or ``soak`` [s]); what ``spread`` leaves open comes from the plan's Load spread settings (:meth:`Spread.for_plan`).
 
@@ -556,8 +557,13 @@ def capability(values: Mapping[str, Any], spread: Spread = Spread(), soak: float
     its own soaks, two nitriding stages) in the plan's split of the time at temperature
     (:attr:`~casedepth.outcome.Outcome.held_shares`: the load runs the recipe planned for the nominal part). With
     ``optimize``, also the time at temperature, in the same split, that puts most parts inside the drawing's window
-    (and the surface-carbon window, where the plan has one; each part run at a second time, :func:`_best_soak`)."""
+    (and the surface-carbon window, where the plan has one; each part run at a second time, :func:`_best_soak`);
+    ``optimize`` None: as the treatment's row says for the window (:attr:`~casedepth.treatments.Treatment.centres_spread`)."""
     from ..plan.evaluate import evaluate, forward_many
+    from ..treatments import treatment_of
+
+    if optimize is None:
+        optimize = treatment_of(values).centres_spread
 
     outcome = evaluate(values)
     values = outcome.frozen_values()  # the cycle planned for the nominal part is what every part of the load runs
