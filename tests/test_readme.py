@@ -35,3 +35,15 @@ def test_the_contributor_guide_names_every_module():
     assert not missing
     for folder in (p for p in package.iterdir() if p.is_dir() and (p / "__init__.py").exists()):
         assert f"{folder.name}/" in guide, folder.name
+
+
+def test_every_package_is_installed():
+    """pyproject.toml lists the packages an install (not an editable one) copies: every folder of the package with an
+    __init__.py must be among them, or `pip install .` leaves it out."""
+    import tomllib
+
+    root = README.parent
+    listed = set(tomllib.loads((root / "pyproject.toml").read_text(encoding="utf-8"))["tool"]["setuptools"]["packages"])
+    folders = {".".join(path.parent.relative_to(root).parts) for path in (root / "casedepth").rglob("__init__.py")}
+    folders = {"casedepth.resources" if name == "resources" else name for name in folders}
+    assert folders - listed == set()

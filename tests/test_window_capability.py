@@ -104,3 +104,17 @@ def test_the_carbon_profile_gets_the_loads_band_once_it_is_known(window, qtbot):
     qtbot.waitUntil(lambda: plots.carbon_page.spread is not None, timeout=10000)
     assert "5–95 %" in plots.carbon_page.spread.get_label()
     assert plots.carbon_page.spread in plots.carbon_page._handles()  # in the key under the plot
+
+
+def test_a_planned_pulse_table_can_be_taken_into_the_plan(window, qtbot):
+    """Issue 17: the window's "Use the planned table" puts the planned pulse table into the plan, which then runs it
+    as it stands (the forward mode) and gives the numbers it was planned with."""
+    with qtbot.waitSignal(window.result_shown, timeout=20000):
+        assert window.open_plan(EXAMPLES / "pinion-lpc.cdplan.json")
+    planned = window.outcome
+    field = window.form.fields["schedule"]
+    with qtbot.waitSignal(window.result_shown, timeout=20000):
+        field.use.click()
+    assert window.plan.schedule.startswith("boost ") and window.outcome.plan is None
+    assert len(window.outcome.run.pulses) == len(planned.run.pulses)
+    assert abs(window.outcome.depth / planned.depth - 1) < 2e-3

@@ -52,6 +52,8 @@ class Context(QObject):
         self.plan, self.units = plan, units
         #: the cycle the last result ran, as rows of a stage table (:meth:`casedepth.outcome.Outcome.stage_rows`)
         self.planned_stages: list[dict] = []
+        #: the last result's values with what it planned written in (:meth:`casedepth.outcome.Outcome.frozen_values`)
+        self.planned_values: dict = {}
 
     def set(self, key: str, value: Any, coalesce: bool = False) -> None:
         try:
@@ -135,6 +137,35 @@ class TextField(Field):
                 self.widget.setCursorPosition(0)  # the start of a long name, not its end
         if line:
             fit_text(self.widget, value)
+
+
+class PlannedTextField(TextField):
+    """Text the program can also plan (a low-pressure pulse table): the text box, and a button that puts in what the
+    last result planned, to run it as it stands or edit it."""
+
+    def build(self):
+        widget = QWidget()
+        layout = QVBoxLayout(widget)
+        layout.setContentsMargins(0, 0, 0, 0)
+        self.edit = super().build()
+        layout.addWidget(self.edit)
+        self.use = QToolButton()
+        self.use.setText("Use the planned table")
+        self.use.setToolTip("Put the table the last result planned here, to run it as it stands (or edit it)")
+        self.use.clicked.connect(self._use_planned)
+        layout.addWidget(self.use)
+        self.target = self.edit
+        return widget
+
+    def _use_planned(self) -> None:
+        planned = self.context.planned_values.get(self.key)
+        if planned:
+            self.set(planned)
+
+    def display(self, value, values):
+        text = self.edit.toPlainText()
+        if text != value:
+            self.edit.setPlainText(value)
 
 
 class FlagField(Field):
@@ -596,7 +627,8 @@ class StagesField(Field):
 
 #: widgets chosen by key where the kind alone does not say it (a view's choice; binding is still by key)
 SPECIAL: dict[str, type[Field]] = {"steel": SteelField, "aim": AimField, "kn": PotentialField, "beta": EntryField,
-                                   "d0": EntryField, "stages": StagesField, "process": CycleField}
+                                   "d0": EntryField, "stages": StagesField, "process": CycleField,
+                                   "schedule": PlannedTextField}
 
 
 def make_field(key: str, context: Context) -> Field:

@@ -176,10 +176,11 @@ class PlanForm(QWidget):
         except InputError:
             self.steel_facts.setText("")
 
-    def set_planned_stages(self, rows: list[dict]) -> None:
-        """The stages the last result ran: where stages of one's own start, and the stage table's "From last
-        result"."""
-        self.context.planned_stages = rows
+    def set_planned(self, outcome) -> None:
+        """What the last result ran: the stages (where stages of one's own start, and the stage table's "From last
+        result") and the values with what it planned (a pulse table's "Use the planned table")."""
+        self.context.planned_stages = outcome.stage_rows()
+        self.context.planned_values = outcome.frozen_values()
 
     # -- marking bad input --------------------------------------------------------------------------------------------
     def _unreadable(self, key: str, message: str) -> None:

@@ -344,7 +344,7 @@ class MainWindow(QMainWindow):
     # -- results -------------------------------------------------------------------------------------------
     def _show_outcome(self, outcome) -> None:
         self.outcome = outcome
-        self.form.set_planned_stages(outcome.stage_rows())
+        self.form.set_planned(outcome)
         self.form.clear_marks(keep=self.form.unread_entries())
         self.results.show_outcome(outcome, self.units)
         self.cautions.show_cautions(outcome.cautions)
