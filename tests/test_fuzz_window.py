@@ -152,11 +152,12 @@ class Fuzzer:
             return f"{key} toggled"
         if isinstance(field, TextField):
             text = _random_text(rng)
-            if isinstance(field.widget, QPlainTextEdit):
-                field.widget.setPlainText(text)
+            edit = field.target  # the text box (a field that can also be planned holds a button beside it)
+            if isinstance(edit, QPlainTextEdit):
+                edit.setPlainText(text)
             else:
-                field.widget.setText(text)
-                field.widget.editingFinished.emit()
+                edit.setText(text)
+                edit.editingFinished.emit()
             return f"{key} text of {len(text)} characters"
         raise AssertionError(f"the fuzzer does not know the field of {key} ({type(field).__name__})")
 
