@@ -13,6 +13,12 @@ Kula, P., R. Pietrasik, K. Dybowski, "Vacuum carburizing — process optimizatio
 
 A flux of ``math.inf`` holds the surface at the limit from the first instant of every boost (the limit of a
 gas that delivers more than diffusion can ever take).
+
+Valid where the solver's carbon models are (austenite, 880–1050 °C for low-pressure work here, carbon up to the
+saturation of austenite) and where the boost's carbon flux is a property of the gas and furnace that does not
+depend on the surface carbon below the limit — the model's main assumption; calibrate the flux on the shop's
+sections. Checked against Crank's (1975) held-surface erfc solution and the constant-flux solution (Carslaw &
+Jaeger 1959) at constant D, and against an independent method-of-lines solve (tests/test_lpc.py).
 """
 
 from __future__ import annotations
