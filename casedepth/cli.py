@@ -261,6 +261,9 @@ def _plan(args) -> int:
         print("Same case at other temperatures (the plan otherwise unchanged):")
         for T, t in comparison:
             print(f"  {units.format_temperature(T):>8}  {format_duration(t):>12}  ({t / 3600:.2f} h)")
+    left = [T for T in (temperatures if args.compare_temperatures else []) if T not in dict(comparison)]
+    if left:
+        print("  left out: " + ", ".join(units.format_temperature(T) for T in left) + " (the plan cannot run there as it is)")
     if args.save:
         print(f"Plan written to {_shown(args.save)}")
     return 0

@@ -118,3 +118,17 @@ def test_a_planned_pulse_table_can_be_taken_into_the_plan(window, qtbot):
     assert window.plan.schedule.startswith("boost ") and window.outcome.plan is None
     assert len(window.outcome.run.pulses) == len(planned.run.pulses)
     assert abs(window.outcome.depth / planned.depth - 1) < 2e-3
+
+
+def test_the_temperatures_page_names_what_it_left_out(window, qtbot):
+    """A plan that cannot run at some of the compared temperatures (the low-pressure example's 6 pulses put in too
+    much carbon for its depth at 1000 °C and up) says which it left out, not only shows fewer rows."""
+    with qtbot.waitSignal(window.result_shown, timeout=20000):
+        assert window.open_plan(EXAMPLES / "pinion-lpc.cdplan.json")
+    plots = window.plots
+    page = plots.tradeoff_page
+    plots.setCurrentIndex(plots.pages.index(page))
+    qtbot.waitUntil(lambda: page.has(window.outcome) and not plots.waiting, timeout=30000)
+    shown = {T for T, _ in page.pairs}
+    left = [T for T in page.temperatures(window.outcome) if T not in shown]
+    assert left and "Left out:" in page.note.text()

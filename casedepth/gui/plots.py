@@ -578,6 +578,11 @@ class _TradeoffPage(_Page):
         if error is None:
             note = ("This plan as it is (every other value, and how it counts its stages) at other temperatures. "
                     + TREATMENTS[outcome.treatment].comparison_note)
+            shown = {T for T, _ in self.pairs}
+            left = [T for T in self.temperatures(outcome) if T not in shown]
+            if left:  # below the steel's Ac3, outside the treatment's range, or no plan lands there
+                note += (" Left out: " + ", ".join(formats.temperature(T, units) for T in left)
+                         + " (the plan cannot run there as it is).")
         else:
             note = _why(error)
         values, ax = outcome.values, self.axes
