@@ -23,7 +23,7 @@ from functools import cached_property
 from .. import formats
 from ..errors import InputError, NotReachableError, SolverError
 from ..numerics.march import March
-from ..numerics.roots import illinois, secant_on_squares
+from ..numerics.roots import bracket_and_solve, secant_on_squares
 from ..units import both_lengths, format_duration
 from .pulses import Pulse, PulseMarch, PulseRun, check_pulses, finish
 from .setup import LpcSetup
@@ -34,6 +34,8 @@ DEFAULT_HOLD = 180.0
 #: where a diffuse between boosts ends: this share of the way from the limit down to the final surface aim
 REBOOST_SHARE = 0.5
 MAX_PULSES = 40
+#: the longest hold at the limit a search tries, s
+LONGEST_HOLD = 7200.0
 #: the hold falls about as the count to this power (measured on this planner's tables: 1.52–1.58 for 0.5, 1.0 and
 #: 1.6 mm of 8620 at 950 °C; a saturated surface takes carbon as √t, which alone would make it 2)
 HOLD_EXPONENT = 1.55
@@ -194,14 +196,14 @@ def _for_count(lpc: LpcSetup, target: float, window: tuple[float, float], count:
     shortest = 0.0 if math.isfinite(lpc.carbon_flux) else 1.0  # an unlimited flux puts nothing in without a hold
     if guess is None:
         guess = _hold_guess(lpc, target, aim, reboost, count)
-    hold = _root(miss, max(guess, shortest), shortest, 1.0, 5e-4,
-                 lambda: NotReachableError(
-                     "case_max", f"{both_lengths(target)} with the surface at {formats.carbon(aim)} needs boosts of over "
-                     f"2 h at the limit with {count} pulses: plan more pulses"),
-                 lambda: NotReachableError(
-                     "case_max", f"{count} boost{'s' if count > 1 else ''} that only reach the limit already put in more "
-                     f"carbon than {both_lengths(target)} takes with the surface at {formats.carbon(aim)}: plan fewer "
-                     "pulses"))
+    hold = bracket_and_solve(miss, max(guess, shortest), shortest, LONGEST_HOLD, 1.0, 5e-4,
+                             lambda: NotReachableError(
+                                 "case_max", f"{both_lengths(target)} with the surface at {formats.carbon(aim)} needs "
+                                 f"boosts of over 2 h at the limit with {count} pulses: plan more pulses"),
+                             lambda: NotReachableError(
+                                 "case_max", f"{count} boost{'s' if count > 1 else ''} that only reach the limit already "
+                                 f"put in more carbon than {both_lengths(target)} takes with the surface at "
+                                 f"{formats.carbon(aim)}: plan fewer pulses"))
     if hold not in found:
         miss(hold)
     if hold not in found or abs(found[hold][1] - aim) > LANDED:
@@ -209,35 +211,6 @@ def _for_count(lpc: LpcSetup, target: float, window: tuple[float, float], count:
                                 f"{formats.carbon(aim)} with {count} pulses")
     pulses, _ = found[hold]
     return PulsePlan(lpc, pulses, hold, reboost, aim)
-
-
-def _root(miss, x: float, shortest: float, xtol: float, ftol: float, too_long, too_short) -> float:
-    """The hold [s] where ``miss`` (rising with the hold) is zero: from ``x``, secant steps (overshooting a little, so
-    the root is soon bracketed) until it is, then regula falsi (Illinois)."""
-    f = miss(x)
-    if abs(f) <= ftol:
-        return x
-    low = high = None
-    previous = None
-    while True:
-        if f < 0.0:
-            low, f_low = x, f
-        else:
-            high, f_high = x, f
-        if low is not None and high is not None:
-            return illinois(miss, low, f_low, high, f_high, xtol, ftol)
-        if f < 0.0 and x > 7200.0:
-            raise too_long()
-        if f >= 0.0 and x <= shortest:
-            raise too_short()
-        if previous is None or f == previous[1]:
-            step = 0.05 * x if f < 0.0 else -0.05 * x
-        else:
-            step = 1.3 * (x - previous[0]) * -f / (f - previous[1])
-        previous = (x, f)
-        x = min(max(x + step, x / 3.0), 3.0 * x)
-        x = x if x > shortest + 1.0 else shortest
-        f = miss(x)
 
 
 def plan_pulses(lpc: LpcSetup, target: float, window: tuple[float, float], count: int | None = None,

@@ -2,7 +2,8 @@
 
 * :func:`illinois` — a bracketed root of a scalar function (regula falsi, Illinois variant);
 * :func:`secant_on_squares` — where to stop a stage so that the case *at the end of the cycle* lands
-  on a target, when later stages (a drop, an equalize) add depth nearly in quadrature.
+  on a target, when later stages (a drop, an equalize) add depth nearly in quadrature;
+* :func:`bracket_and_solve` — a root of a rising function from a first guess, no bracket known.
 """
 
 from __future__ import annotations
@@ -89,3 +90,41 @@ def secant_on_squares(trial: Callable[[float], tuple[float, float, Any]], goal: 
         x = min(max(used + (goal**2 - final**2) / max(slope, 0.1), floor), ceiling)
     raise SolverError(f"the stop for a final depth of {formats.typed(goal * 1e3, 'mm')} did not converge in {tries} "
                       "trials")
+
+
+def bracket_and_solve(f: Callable[[float], float], x: float, lowest: float, highest: float, xtol: float, ftol: float,
+                      too_high: Callable[[], Exception], too_low: Callable[[], Exception]) -> float:
+    """A root of ``f``, which rises with its argument, from a first guess ``x`` in [``lowest``, ``highest``]: secant
+    steps (overshooting by 30 %, each within a factor of 3, so the root is soon bracketed) until the signs differ, then
+    :func:`illinois`. Raises ``too_high()`` when ``f`` is still negative beyond ``highest``, ``too_low()`` when it is
+    not negative even at ``lowest``.
+
+    Examples
+    --------
+    >>> round(bracket_and_solve(lambda t: t * t - 2.0, 10.0, 0.0, 100.0, 1e-12, 1e-12, ValueError, ValueError), 9)
+    1.414213562
+    """
+    fx = f(x)
+    if abs(fx) <= ftol:
+        return x
+    low = high = previous = None
+    while True:
+        check()
+        if fx < 0.0:
+            low, f_low = x, fx
+        else:
+            high, f_high = x, fx
+        if low is not None and high is not None:
+            return illinois(f, low, f_low, high, f_high, xtol, ftol)
+        if fx < 0.0 and x > highest:
+            raise too_high()
+        if fx >= 0.0 and x <= lowest:
+            raise too_low()
+        if previous is None or fx == previous[1]:
+            step = 0.05 * x if fx < 0.0 else -0.05 * x
+        else:
+            step = 1.3 * (x - previous[0]) * -fx / (fx - previous[1])
+        previous = (x, fx)
+        x = min(max(x + step, x / 3.0), 3.0 * x)
+        x = x if x > lowest + xtol else lowest
+        fx = f(x)
