@@ -197,7 +197,10 @@ class PulseRun:
 
     @property
     def max_surface_carbon(self) -> float:
-        return float(self.surface_carbon_history.max())
+        """The highest surface carbon of the run [wt %]; at the limit where it rose to it (a boost lands on the limit
+        to 1e-6 of it: the round-off above it is not a reading above the limit)."""
+        highest = float(self.surface_carbon_history.max())
+        return min(highest, self.limit) if highest <= self.limit * (1 + 1e-6) else highest
 
     @property
     def time_at_limit(self) -> list[float]:
