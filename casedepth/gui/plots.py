@@ -679,7 +679,7 @@ class _SpreadPage(_Page):
     def work_out(self, outcome: Outcome) -> None:
         """Work the spread out here and now (before exporting or printing, when the worker has not)."""
         try:
-            self.take(outcome.values, capability(outcome.values, self.SPREAD, optimize=None), None)
+            self.take(outcome.values, capability(outcome.values, self.SPREAD, optimize=None, outcome=outcome), None)
         except CasedepthError as error:
             self.take(outcome.values, None, error)
 

@@ -29,7 +29,7 @@ from ..units import DisplayUnits, format_clock, format_duration
 from .planner import PulsePlan, plan_pulses, run_pulses
 from .pulses import Pulse, PulseRun, carbon_mass
 from .schedule import format_schedule, parse_schedule
-from .setup import LpcSetup, lpc_setup
+from .setup import LpcSetup, lpc_setup, saturation_of
 
 
 def lpc_of(values: Mapping[str, Any]) -> LpcSetup:
@@ -39,11 +39,9 @@ def lpc_of(values: Mapping[str, Any]) -> LpcSetup:
     hardening_t = values["hardening_temperature"]
     if hardening_t is None:
         hardening_t = min(shop.drop_temperature_c + ZERO_CELSIUS, T)
-    from ..models.surface import Gunnarson_alloy_factor, steel_saturation_carbon
     from ..models.steels import steel_for
 
-    steel = steel_for(values["steel"], values["composition"])
-    saturation = steel_saturation_carbon(T, Gunnarson_alloy_factor(steel.composition))
+    saturation = saturation_of(steel_for(values["steel"], values["composition"]), T)
     limit = values["surface_limit"]
     # the steel, part, threshold and quench as carburizing reads them, the surface held at the limit
     carbon = carburizing_setup({**values, "treatment": "carburizing", "process": "single",

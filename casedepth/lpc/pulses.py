@@ -208,10 +208,6 @@ class PulseRun:
         return [max(p.boost - sat, 0.0) if math.isfinite(sat) else 0.0 for p, sat in zip(self.pulses, self.saturation)]
 
     @property
-    def boost_time(self) -> float:
-        return sum(p.boost for p in self.pulses)
-
-    @property
     def held_time(self) -> float:
         """Boosts and diffuses together [s] (the time at carburizing temperature)."""
         return sum(p.boost + p.diffuse for p in self.pulses)

@@ -42,11 +42,6 @@ HYDROCARBONS: dict[str, Hydrocarbon] = {h.key: h for h in (
     Hydrocarbon("propane", "Propane", "C₃H₈", 3),
 )}
 
-#: the carbon flux a boost of acetylene delivers to a steel surface at 900–1050 °C, kg/(m²·s): 150 g/(m²·h)
-#: (from memory: published acetylene fluxes run about 100–300 g/(m²·h); calibrate on the shop's sections)
-DEFAULT_CARBON_FLUX = 150e-3 / 3600.0
-FLUX_RANGE = (5e-3 / 3600.0, 5.0 / 3600.0)  # kg/(m²·s): 5 g/(m²·h) to 5 kg/(m²·h), or inf
-AREA_RANGE = (1e-4, 1e3)  # m²
 #: low-pressure carburizing runs hotter than atmosphere furnaces (common practice: 900–1050 °C)
 TEMPERATURE_RANGE = (880.0 + ZERO_CELSIUS, 1050.0 + ZERO_CELSIUS)
 
@@ -116,18 +111,24 @@ class LpcSetup:
         return f"{formats.trimmed(self.carbon_flux * 3600e3, 3)} g/(m²·h)"
 
 
+def saturation_of(steel, temperature: float) -> float:
+    """The carbon saturation [wt %] of the steel's austenite at ``temperature`` [K]: the limit a boost holds unless
+    a lower one is set (:func:`casedepth.models.surface.steel_saturation_carbon` with the Gunnarson alloy factor)."""
+    return steel_saturation_carbon(temperature, Gunnarson_alloy_factor(steel.composition))
+
+
 def lpc_setup(carbon: CarburizingSetup, carbon_flux: float, limit: float | None, hardening_temperature: float,
               drop_time: float, equalize_time: float, area: float, gas: str) -> LpcSetup:
-    """The validated load (``limit`` None: the steel's saturation); :class:`InputError` names the parameter."""
+    """The validated load (``limit`` None: the steel's saturation); :class:`InputError` names the parameter. The plain
+    ranges of the flux and the area are the parameter table's (checked with every evaluation); this checks what
+    depends on the steel and the temperature."""
     T = carbon.temperature
     if not (TEMPERATURE_RANGE[0] <= T <= TEMPERATURE_RANGE[1]):
         raise InputError("temperature", f"{both_temperatures(T)} is outside the low-pressure range "
                                         f"{both_temperatures(TEMPERATURE_RANGE[0])}–{both_temperatures(TEMPERATURE_RANGE[1])}")
-    if not (carbon_flux == math.inf or (math.isfinite(carbon_flux) and FLUX_RANGE[0] <= carbon_flux <= FLUX_RANGE[1])):
-        raise InputError("carbon_flux", f"{formats.typed(carbon_flux * 3600e3, 'g/(m²·h)')} is outside "
-                                        f"{formats.trimmed(FLUX_RANGE[0] * 3600e3, 3)}–{formats.trimmed(FLUX_RANGE[1] * 3600e3, 3)} "
-                                        "g/(m²·h) (or inf)")
-    saturation = steel_saturation_carbon(T, Gunnarson_alloy_factor(carbon.steel.composition))
+    if not carbon_flux > 0.0:
+        raise InputError("carbon_flux", f"{formats.typed(carbon_flux * 3600e3, 'g/(m²·h)')} is not a flux above zero")
+    saturation = saturation_of(carbon.steel, T)
     if limit is None:
         limit = saturation
     elif not (carbon.steel.carbon < limit <= saturation * (1 + 1e-9)):
@@ -140,12 +141,12 @@ def lpc_setup(carbon: CarburizingSetup, carbon_flux: float, limit: float | None,
     if not (hardening_temperature <= T + 1e-9):
         raise InputError("hardening_temperature", f"{both_temperatures(hardening_temperature)} is above the carburizing "
                                                   f"temperature {both_temperatures(T)}")
-    if not (AREA_RANGE[0] <= area <= AREA_RANGE[1]):
-        raise InputError("area", f"{formats.typed(area, 'm²')} is outside {AREA_RANGE[0]:g}–{AREA_RANGE[1]:g} m²")
+    if not area > 0.0:
+        raise InputError("load_area", f"{formats.typed(area, 'm²')} is not an area above zero")
     if gas not in HYDROCARBONS:
         raise InputError("hydrocarbon", f"{gas!r} is not one of {', '.join(HYDROCARBONS)}")
     return LpcSetup(carbon, float(carbon_flux), float(limit), float(saturation), float(hardening_temperature),
                     float(drop_time), float(equalize_time), float(area), HYDROCARBONS[gas])
 
 
-__all__ = ["HYDROCARBONS", "DEFAULT_CARBON_FLUX", "LpcSetup", "lpc_setup", "STEEL_DENSITY"]
+__all__ = ["HYDROCARBONS", "LpcSetup", "lpc_setup", "saturation_of", "STEEL_DENSITY"]

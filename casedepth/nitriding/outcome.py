@@ -24,8 +24,8 @@ from ..shop.quote import Quote, ShopDefaults, quote_lines
 from ..units import DisplayUnits, both_lengths, format_clock, format_duration
 from .cycle import nitriding_cycle, segments_timeline
 from .nitride import NitridingResult, nitride, nitriding_time
-from .schedule import (TwoStageSchedule, compound_layer_advice, second_stage_potential, staged_layer_at,
-                       two_stage_for_depth)
+from .schedule import (TwoStageSchedule, compound_layer_advice, second_stage_potential, staged_layer,
+                       staged_layer_at, two_stage_for_depth)
 from .setup import NitridingSetup, dissociation_for_potential
 from .zone import ZONE_MODELS, SharpFrontZone
 
@@ -107,10 +107,9 @@ def forward(values: Mapping[str, Any], soak: float, probe_depth: float | None = 
     setup = nitriding_setup(values)
     if shares is None or len(shares) == 1 or not values["two_stage"]:
         return nitride(setup, soak)
-    first = shares[0] * soak
-    split = TwoStageSchedule(first, setup.nitriding_potential, soak - first,
-                             second_stage_potential(setup, values["kn_second"]), layer=None)
-    return nitride(setup, soak, layer=staged_layer_at(setup, split, soak))
+    layer = staged_layer(setup, shares[0] * soak, setup.nitriding_potential,
+                         second_stage_potential(setup, values["kn_second"]), soak)
+    return nitride(setup, soak, layer=layer)
 
 
 @dataclass

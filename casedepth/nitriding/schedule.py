@@ -201,8 +201,15 @@ def two_stage_for_depth(setup: NitridingSetup, target_depth: float, window: tupl
 
 def staged_layer_at(setup: NitridingSetup, schedule: TwoStageSchedule, time: float) -> CompoundLayer:
     """The compound layer [m] ``time`` [s] into a two-stage schedule."""
-    first = min(time, schedule.first_time)
-    stages = [(max(first, 1.0), schedule.first_kn)]
-    if time > schedule.first_time + 1.0:
-        stages.append((time - schedule.first_time, schedule.second_kn))
+    return staged_layer(setup, schedule.first_time, schedule.first_kn, schedule.second_kn, time)
+
+
+def staged_layer(setup: NitridingSetup, first_time: float, first_kn: float, second_kn: float,
+                 time: float) -> CompoundLayer:
+    """The compound layer [m] ``time`` [s] into a first stage of ``first_time`` [s] at ``first_kn`` and a second at
+    ``second_kn`` [atm^-1/2]."""
+    first = min(time, first_time)
+    stages = [(max(first, 1.0), first_kn)]
+    if time > first_time + 1.0:
+        stages.append((time - first_time, second_kn))
     return setup.layer.staged(setup.temperature, stages, setup.uptake)

@@ -677,7 +677,7 @@ def _load_spread(outcome: Outcome):
     from ..shop.capability import capability
 
     try:
-        return capability(outcome.values)
+        return capability(outcome.values, outcome=outcome)
     except InputError:  # no single soak (boost and diffuse, stages of one's own, two-stage nitriding)
         return None
 

@@ -548,7 +548,7 @@ def draw_parts(values: Mapping[str, Any], spread: Spread = Spread()) -> Draw:
 
 
 def capability(values: Mapping[str, Any], spread: Spread = Spread(), soak: float | None = None,
-               optimize: bool | None = False) -> Capability:
+               optimize: bool | None = False, outcome=None) -> Capability:
     """Where the depths of a load planned by ``values`` fall with ``spread``, after the plan's aim time at temperature
     (or ``soak`` [s]); what ``spread`` leaves open comes from the plan's Load spread settings (:meth:`Spread.for_plan`).
 
@@ -558,14 +558,16 @@ def capability(values: Mapping[str, Any], spread: Spread = Spread(), soak: float
     (:attr:`~casedepth.outcome.Outcome.held_shares`: the load runs the recipe planned for the nominal part). With
     ``optimize``, also the time at temperature, in the same split, that puts most parts inside the drawing's window
     (and the surface-carbon window, where the plan has one; each part run at a second time, :func:`_best_soak`);
-    ``optimize`` None: as the treatment's row says for the window (:attr:`~casedepth.treatments.Treatment.centres_spread`)."""
+    ``optimize`` None: as the treatment's row says for the window (:attr:`~casedepth.treatments.Treatment.centres_spread`);
+    ``outcome``: the plan's evaluation, where the caller has it (else it is evaluated here)."""
     from ..plan.evaluate import evaluate, forward_many
     from ..treatments import treatment_of
 
     if optimize is None:
         optimize = treatment_of(values).centres_spread
 
-    outcome = evaluate(values)
+    if outcome is None or outcome.values != dict(values):
+        outcome = evaluate(values)
     values = outcome.frozen_values()  # the cycle planned for the nominal part is what every part of the load runs
     drawn = draw_parts(values, spread)
     spread, bands, ranges, parts, moved = drawn.spread, drawn.bands, drawn.ranges, drawn.parts, drawn.moved
