@@ -7,7 +7,7 @@ from what a person would type, and evaluates it the way the window and the comma
 >>> plan = casedepth.plan(steel="8620", temperature="925C", potential=1.0, target="0.8-1.2mm")
 >>> outcome = casedepth.evaluate(plan)
 >>> [round(t / 3600, 2) for t in outcome.soak_window]
-[3.97, 6.17, 8.8]
+[4.0, 6.21, 8.83]
 """
 
 __version__ = "0.1.0"

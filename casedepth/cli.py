@@ -19,7 +19,8 @@ from . import __version__, formats
 from .constants import ZERO_CELSIUS
 from .errors import InputError, SolverError
 from .files import FileWriteError, writable
-from .models.atmosphere import carbon_potential_from_probe, check_carburizing_potential, probe_voltage_for_potential
+from .models.atmosphere import (DEFAULT_CARRIER, DEFAULT_GAS_DATA, GAS_DATA, READINGS, FurnaceGas, carrier_from_text,
+                                check_carrier, convert_reading)
 from .models.steels import library
 from .parameters import PARAMETERS, OptionError, label, option_for, options_for
 from .plan import Plan, compare_temperatures, evaluate, forward, load, plan_from_options, save
@@ -192,15 +193,24 @@ def _build_parser(argv: list[str] | None = None) -> argparse.ArgumentParser:
     _printing(cp)
     cp.set_defaults(handler=_capability)
 
-    pr = commands.add_parser("probe", help="oxygen-probe millivolts <-> carbon potential in endothermic gas",
-                             description="Convert between an oxygen probe's voltage (air reference) and the carbon "
-                                         "potential it means, at a temperature and CO content (ideal probe; trim "
-                                         "with the controller's CO or process factor as the shop does).")
+    pr = commands.add_parser("probe", help="furnace readings <-> carbon potential: oxygen probe, dew point, CO2",
+                             description="Convert one reading of a carburizing gas — an oxygen probe's voltage (air "
+                                         "reference), its dew point, its CO2, or the carbon potential a shim-stock "
+                                         "test measured — into the others, at a temperature and for the carrier gas "
+                                         "(ideal equilibria; trim as the shop trims its controller).")
     pr.add_argument("--temperature", required=True, help="furnace temperature: 925C (800–1100 °C)")
     reading = pr.add_mutually_exclusive_group(required=True)
-    reading.add_argument("--potential", dest="carbon_potential", help="carbon potential, wt %% C: prints the probe voltage")
-    reading.add_argument("--mv", help="probe voltage, mV: prints the carbon potential")
-    pr.add_argument("--carrier-co", default="20", help="CO in the carrier gas, vol %% (default 20)")
+    reading.add_argument("--potential", dest="carbon_potential", help="carbon potential, wt %% C (or a shim-stock "
+                                                                      "result)")
+    reading.add_argument("--mv", help="oxygen-probe voltage, mV")
+    reading.add_argument("--dew-point", help="dew point of the gas: 20F, -7C (a bare number is °C)")
+    reading.add_argument("--co2", help="CO2 of the gas, vol %% (infrared analyser): 0.2")
+    gas = pr.add_mutually_exclusive_group()
+    gas.add_argument("--carrier", help='carrier gas: natural-gas-endo (default), propane-endo, nitrogen-methanol, or '
+                                       'an own mix "CO=20 H2=40" (vol %%)')
+    gas.add_argument("--carrier-co", help="CO in the carrier gas, vol %% (an own mix with 40 %% H2)")
+    pr.add_argument("--gas-data", choices=list(GAS_DATA), default=DEFAULT_GAS_DATA,
+                    help="the Gibbs energies the readings are worked out with (default %(default)s)")
     pr.add_argument("--steel", help="the steel in the furnace, a grade or \"C=0.20 Mn=0.80 …\": a reading or potential "
                                     "that would decarburize its core is refused (without it: below 0.10 %%C)")
     _printing(pr, units=False)
@@ -468,7 +478,12 @@ def _load(args) -> int:
 
 def _probe(args) -> int:
     T = parse_temperature(args.temperature, "temperature")
-    co = parse_number(args.carrier_co.rstrip("%"), "carrier_co") / 100.0
+    if args.carrier_co is not None:
+        carrier, co, h2 = "own", parse_number(args.carrier_co.rstrip("%"), "carrier_co") / 100.0, 0.40
+        check_carrier(co, h2, "carrier_co")
+    else:
+        carrier, co, h2 = carrier_from_text(args.carrier or DEFAULT_CARRIER)
+    gas = FurnaceGas(carrier, co, h2, args.gas_data).at(T)
     core_potential = None
     if args.steel is not None:  # the potential that holds its core carbon: the core carbon over its alloy factor
         from .models.steels import steel_from_text
@@ -477,18 +492,25 @@ def _probe(args) -> int:
         steel = steel_from_text(args.steel)
         core_potential = steel.carbon / Gunnarson_alloy_factor(steel.composition)
     if args.carbon_potential is not None:
-        potential = parse_number(args.carbon_potential, "carbon_potential")
-        check_carburizing_potential(potential, T, co, core_potential)
-        mv = probe_voltage_for_potential(potential, T, co)
+        kind, value = "carbon_potential", parse_number(args.carbon_potential, "carbon_potential")
+    elif args.mv is not None:
+        kind, value = "mv", parse_number(args.mv, "mv")
+    elif args.dew_point is not None:
+        kind, value = "dew_point", parse_temperature(args.dew_point, "dew_point")
     else:
-        mv = parse_number(args.mv, "mv")
-        potential = carbon_potential_from_probe(mv, T, co, core_potential)
+        kind, value = "co2", parse_number(args.co2.rstrip("%"), "co2") / 100.0
+    readings = convert_reading(kind, value, gas, core_potential)
+    described = FurnaceGas(carrier, co, h2, args.gas_data).describe()
     if args.json:
-        print(json.dumps({"temperature_c": round(T - ZERO_CELSIUS, 6), "carbon_potential_pct": potential, "probe_mv": mv,
-                          "carrier_co_pct": co * 100.0}))
+        out = {"temperature_c": round(T - ZERO_CELSIUS, 6), "carrier": carrier, "carrier_co_pct": co * 100.0,
+               "carrier_h2_pct": h2 * 100.0, "gas_data": args.gas_data, "given": READINGS[kind].json_key}
+        out.update({READINGS[k].json_key: READINGS[k].to_json(v) for k, v in readings.items()})
+        print(json.dumps(out))
         return 0
-    print(f"{mv:.0f} mV  <->  carbon potential {formats.carbon(potential)} at {formats.temperature(T)}, "
-          f"{formats.percent(co * 100)} CO (ideal probe, air reference; trim with the controller's CO factor)")
+    print(f"At {formats.temperature(T)} in {described} (ideal equilibria; trim as the controller is trimmed):")
+    for k, v in readings.items():
+        mark = "  (given)" if k == kind else ""
+        print(f"  {READINGS[k].label:<17} {READINGS[k].show(v)}{mark}")
     return 0
 
 

@@ -113,6 +113,32 @@ def percent(value: float) -> str:
     return f"{trimmed(value, 1)} %"
 
 
+def gas_percent(fraction: float) -> str:
+    """A gas content from its fraction, to the 0.001 % an infrared CO2 analyser reads: ``0.00109`` -> ``"0.109 %"``."""
+    return f"{fraction * 100:.3f} %"
+
+
+def gas_percent_range(low: float, high: float) -> str:
+    """Two gas contents from their fractions: ``"0.102–0.117 %"``."""
+    return f"{low * 100:.3f}–{high * 100:.3f} %"
+
+
+def dew_point(kelvin: float) -> str:
+    """A dew point in whole degrees of both systems (shops read it in either): ``"−9 °C / 15 °F"``."""
+    celsius = kelvin - 273.15
+    return f"{celsius:.0f} °C / {celsius * 1.8 + 32.0:.0f} °F".replace("-", "−")
+
+
+def dew_point_range(low: float, high: float) -> str:
+    """Two dew points in whole degrees Celsius: ``"−10 to −8 °C"``."""
+    return f"{low - 273.15:.0f} to {high - 273.15:.0f} °C".replace("-", "−")
+
+
+def millivolts(value: float) -> str:
+    """A probe reading in whole millivolts: ``"1153 mV"``."""
+    return f"{value:.0f} mV"
+
+
 def percent_value(value: float) -> str:
     """A share in per cent without its sign, for table cells under a "%" heading: ``"25"``, ``"12.5"``."""
     return trimmed(value, 1)

@@ -28,11 +28,13 @@ from .units import DisplayUnits, format_duration
 
 @dataclass
 class Fact:
-    """One line of the result: ``key`` (stable, for tests and layout), what it is, and its value as text."""
+    """One line of the result: ``key`` (stable, for tests and layout), what it is, its value as text, and more on it
+    (``detail``: the window shows it on hovering the value)."""
 
     key: str
     label: str
     text: str
+    detail: str = ""
 
 
 @dataclass

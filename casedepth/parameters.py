@@ -426,8 +426,10 @@ def _read_threshold(text: str, values: dict) -> dict:
 
 
 def _read_beta(text: str, values: dict) -> dict:
+    if str(text).strip().lower() == "gas":
+        return {"beta_model": "gas-2026", "beta_held": False}
     beta = parse_velocity(text, "beta")
-    return {"beta_held": True} if math.isinf(beta) else {"beta": beta, "beta_held": False}
+    return {"beta_held": True} if math.isinf(beta) else {"beta": beta, "beta_held": False, "beta_model": "constant"}
 
 
 def _read_size(name: str) -> Callable[[str, dict], dict]:
@@ -580,6 +582,42 @@ def _layer_models() -> dict[str, str]:
     return {key: m.display for key, m in LAYER_MODELS.items()}
 
 
+def _carriers() -> dict[str, str]:
+    from .models.atmosphere import CARRIERS
+    return {key: c.label for key, c in CARRIERS.items()}
+
+
+def _with_carrier(values, key) -> dict:
+    """A carrier brings its nominal CO and H2 (an own mix keeps what is typed)."""
+    from .models.atmosphere import CARRIERS
+    if key == "own":
+        return {}
+    return {"carrier_co": CARRIERS[key].co * 100.0, "carrier_h2": CARRIERS[key].h2 * 100.0}
+
+
+def _read_carrier(text: str, values: dict) -> dict:
+    from .models.atmosphere import carrier_from_text
+    key, co, h2 = carrier_from_text(text, "carrier")
+    return {"carrier": key, "carrier_co": co * 100.0, "carrier_h2": h2 * 100.0}
+
+
+def _gas_data() -> dict[str, str]:
+    from .models.atmosphere import GAS_DATA
+    return {key: d.display for key, d in GAS_DATA.items()}
+
+
+def _gas_data_superseded(key: str) -> str | None:
+    from .models.atmosphere import GAS_DATA
+    return GAS_DATA[key].superseded_by if key in GAS_DATA else None
+
+
+#: the readings a furnace is controlled on (keys of casedepth.models.atmosphere.READINGS)
+CONTROL_READINGS = {"mv": "Oxygen probe (mV)", "dew_point": "Dew point", "co2": "CO2 (infrared analyser)"}
+
+#: how β is had: from the gas (temperature, CO and H2), or one value typed (the ``beta`` row)
+BETA_MODELS = {"gas-2026": "From the gas (CO, H2, temperature)", "constant": "One value (typed below)"}
+
+
 def _layer_superseded(key: str) -> str | None:
     from .nitriding.layer import LAYER_MODELS
     return LAYER_MODELS[key].superseded_by if key in LAYER_MODELS else None
@@ -699,6 +737,23 @@ PARAMETERS: dict[str, Parameter] = {p.key: p for p in (
               applies=lambda v: v.get("process") == "single", when="one soak (boost and diffuse have their own potentials)",
               help="carbon potential of the atmosphere (carbon of plain carbon steel in equilibrium with it)",
               options=(Option("--potential", "carbon potential of the atmosphere, wt %% C (e.g. 1.00)"),)),
+    Parameter("carrier", "Carrier gas", Choice(_carriers), "natural-gas-endo", "carrier_gas", CARBURIZING,
+              group="Furnace step", companions=_with_carrier,
+              help="the gas the furnace runs on: it sets how a probe, dew point or CO2 reading reads and β",
+              options=(Option("--carrier", 'carrier gas: natural-gas-endo (default), propane-endo, nitrogen-methanol, '
+                                           'or an own mix "CO=20 H2=40" (vol %%)', _read_carrier),), since=9),
+    Parameter("carrier_co", "CO in the carrier", Quantity("number"), 20.0, "carrier_co_pct", CARBURIZING,
+              group="Furnace step", unit_label="%", range=(5.0, 50.0), decimals=1,
+              help="CO of the carrier gas, vol % (the carrier's nominal; type the shop's analysis)", since=9),
+    Parameter("carrier_h2", "H2 in the carrier", Quantity("number"), 40.0, "carrier_h2_pct", CARBURIZING,
+              group="Furnace step", unit_label="%", range=(0.0, 80.0), decimals=1,
+              help="H2 of the carrier gas, vol % (the carrier's nominal; type the shop's analysis)", since=9),
+    Parameter("control_reading", "Controlled on", Choice(CONTROL_READINGS), "mv", "controlled_on", CARBURIZING,
+              group="Furnace step", help="the reading the furnace holds the potential by: the floor sheet gives the "
+                                         "setpoints in it",
+              options=(Option("--controlled-on", "the reading the floor sheet's setpoints are in: mv (oxygen probe, "
+                                                 "default), dew_point or co2", choices=lambda: list(CONTROL_READINGS)),),
+              since=9),
     Parameter("kn", "Nitriding potential K_N", Quantity("number"), 3.0, "nitriding_potential", NITRIDING,
               group="Furnace step", unit_label=KN_UNIT, range=(0.05, 30.0),
               help="K_N = p(NH3)/p(H2)^1.5",
@@ -879,13 +934,29 @@ PARAMETERS: dict[str, Parameter] = {p.key: p for p in (
               group="Model settings", range=(50e3, 400e3), decimals=1, applies=lambda v: v.get("diffusivity") == "arrhenius",
               when="the arrhenius diffusivity",
               options=(Option("--q", "arrhenius only: activation energy in kJ/mol (default 148)"),)),
+    Parameter("beta_model", "Mass transfer β", Choice(BETA_MODELS), "gas-2026", "mass_transfer_model", CARBURIZING,
+              group="Model settings", applies=lambda v: not v.get("beta_held"), when="a surface not held at equilibrium",
+              help="β from the carrier gas and the temperature (Grabke's CO·H2 law; 1.5e-5 cm/s at 925 °C in "
+                   "endothermic gas), or one value typed below", since=9),
+    Parameter("beta_multiplier", "β multiplier", Quantity("number"), 1.0, "beta_multiplier", CARBURIZING,
+              group="Model settings", unit_label="×", range=MULTIPLIER, decimals=3,
+              applies=lambda v: not v.get("beta_held") and v.get("beta_model") == "gas-2026",
+              when="β from the gas", help="calibration factor on the β of the gas (1 = the relation as published)",
+              options=(Option("--beta-multiplier", "calibration factor on the β of the gas (default 1)"),), since=9),
     Parameter("beta", "β", Quantity("velocity"), DEFAULT_BETA, "beta_cm_per_s", CARBURIZING, group="Model settings",
-              range=(1e-9, 1e-4), applies=lambda v: not v.get("beta_held"), when="a surface not held at equilibrium",
+              range=(1e-9, 1e-4), applies=lambda v: not v.get("beta_held") and v.get("beta_model") == "constant",
+              when="one β at every temperature (not held, not from the gas)",
               help="mass-transfer coefficient of the atmosphere (about 1–3e-5 cm/s in endothermic gas)",
-              options=(Option("--beta", "mass-transfer coefficient: 1.5e-5cm/s, or inf for a surface held at "
+              options=(Option("--beta", "mass-transfer coefficient: gas (default: from the carrier gas and the "
+                                        "temperature), a value such as 1.5e-5cm/s, or inf for a surface held at "
                                         "equilibrium", _read_beta),)),
     Parameter("beta_held", "Surface held at equilibrium (β = ∞)", Flag(), False, "surface_held_at_equilibrium",
               CARBURIZING, group="Model settings"),
+    Parameter("gas_data", "Gas thermochemistry", Choice(_gas_data, _gas_data_superseded), "nasa-glenn-2002",
+              "gas_thermochemistry", CARBURIZING, group="Model settings",
+              help="the standard Gibbs energies the probe, dew-point and CO2 readings are worked out with",
+              options=(Option("--gas-data", "Gibbs energies for the readings (default nasa-glenn-2002)",
+                              choices=lambda: list(_gas_data())),), since=9),
     Parameter("alloy_factor", "Alloy factor (Gunnarson)", Flag(), True, "alloy_factor", CARBURIZING, group="Model settings",
               options=(Option("--alloy-factor", "apply the Gunnarson alloy factor (default on)",
                               choices=lambda: ["on", "off"]),)),
@@ -917,8 +988,7 @@ PARAMETERS: dict[str, Parameter] = {p.key: p for p in (
               group="Load spread", help="the nominal composition, or a heat anywhere in the grade's range", since=7),
     Parameter("spread_beta_factor", "β known within a factor of", Quantity("number"), 2.0, "spread_beta_factor",
               CARBURIZING, group="Load spread", unit_label="×", range=(1.0, 10.0),
-              applies=lambda v: isinstance(v.get("beta"), float) and math.isfinite(v["beta"]),
-              when="a finite mass-transfer coefficient",
+              applies=lambda v: not v.get("beta_held"), when="a finite mass-transfer coefficient",
               help="the parts' β anywhere from β ÷ factor to β × factor (2: common practice)", since=7),
     Parameter("spread_section", "Section varies by ±", Quantity("length"), 0.0, "spread_section_mm", group="Load spread",
               range=lambda v: (0.0, 0.25 * (v.get("size") or 0.0)), decimals=3,

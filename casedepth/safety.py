@@ -83,8 +83,15 @@ def lpc_cautions(temperature: float | None = None) -> list[Caution]:
     return pressing + list(LOW_PRESSURE)
 
 
+METHANOL = Caution(
+    "methanol", "Methanol is toxic and flammable",
+    "Methanol poisons through the skin and by its vapour, and burns with an almost invisible flame: keep it in a "
+    "closed, grounded supply line, drip or inject it only with the furnace above about 760 °C (1400 °F) and the "
+    "nitrogen flowing, and keep the flow interlocked with the furnace temperature.")
+
+
 def cautions(temperature: float | None = None, equilibrium_carbon: float | None = None,
-             saturation_carbon: float | None = None, ammonia: bool = False) -> list[Caution]:
+             saturation_carbon: float | None = None, ammonia: bool = False, gas=None) -> list[Caution]:
     """The standing cautions, with those the inputs make pressing first.
 
     Parameters
@@ -93,11 +100,21 @@ def cautions(temperature: float | None = None, equilibrium_carbon: float | None 
         Furnace temperature, [K].
     equilibrium_carbon, saturation_carbon : float, optional
         Surface carbon the atmosphere gives and the austenite's saturation, [wt %].
+    gas : casedepth.models.atmosphere.FurnaceGas, optional
+        The carrier gas: the caution states its CO and H2, and a nitrogen–methanol carrier adds methanol's.
     """
     pressing = []
     if ammonia:  # nitriding runs below 760 °C by design: purging, not admission temperature, is the rule
         return list(AMMONIA)
     standing = list(STANDING)
+    if gas is not None:
+        co, h2 = round(gas.co * 100), round(gas.h2 * 100)
+        standing[0] = Caution(
+            "flammable-toxic", "Flammable and toxic atmosphere",
+            f"Carrier gas of about {co} % CO, {h2} % H2 and {100 - co - h2} % N2: flammable, explosive when mixed with "
+            "air, and carbon monoxide is toxic and odourless. Keep CO detectors working and ventilation running.")
+        if gas.carrier == "nitrogen-methanol":
+            standing.insert(1, METHANOL)
     if temperature is not None and temperature < SAFE_ADMISSION_TEMPERATURE:
         pressing.append(Caution(
             "below-admission", "Below the safe admission temperature",

@@ -93,6 +93,11 @@ def _pulses_only(values: Mapping[str, Any]) -> None:
                                   "plans")
 
 
+def _furnace_gas(values):
+    from .models.atmosphere import FurnaceGas
+    return FurnaceGas.of(values)
+
+
 def _carburizing_steel(steel, units) -> str:
     from .models.surface import Gunnarson_alloy_factor
 
@@ -194,7 +199,7 @@ TREATMENTS: dict[str, Treatment] = {t.key: t for t in (
         "Hotter is faster but coarsens grain (above about 980 °C for most carburizing grades) and distorts more; the "
         "furnace, fixtures and the steel's grain-size control set the limit (common practice).",
         "effective case depth", "carburizing", _carburizing_steel,
-        lambda values: safety.cautions(values["temperature"]),
+        lambda values: safety.cautions(values["temperature"], gas=_furnace_gas(values)),
         (Option("--carbon-at", "with --time: also report the carbon at this depth (0.5mm)"),),
         _on_first_use(".carburizing.outcome", "forward_many")),
     Treatment(

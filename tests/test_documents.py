@@ -178,10 +178,10 @@ def test_the_floor_sheet_carries_the_job_callout_setpoints_inspection_and_no_mon
     tables = " ".join(cell.get_text().get_text() for page in sheet.pages for ax in page.axes for table in ax.tables
                       for cell in table.get_celld().values())
     for words in ("Load no.: L-0042", "Furnace:", "Drawing callout", "0.80 mm–1.20 mm at 0.40 %C",
-                  "Surface hardness 58–63 HRC", "Inspection", "Prepared", "Approved", "Whole cycle 10:59"):
+                  "Surface hardness 58–63 HRC", "Inspection", "Prepared", "Approved", "Whole cycle 11:01"):
         assert words in texts, words
     assert "per load" not in texts and "cost" not in texts.lower()
-    for words in ("925 °C ±8", "1.00 ±0.05 %C", "mV", "actual", "initials", "5:59"):
+    for words in ("925 °C ±8", "1.00 ±0.05 %C", "mV", "actual", "initials", "6:01"):
         assert words in tables, words
     quote = quote_sheet(plan, outcome)
     quoted = " ".join(t.get_text() for page in quote.pages for t in page.texts)

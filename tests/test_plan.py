@@ -40,6 +40,8 @@ def changed_plan() -> Plan:
                 spread_samples=512.0, spread_section=1e-3)
     plan.update(hydrocarbon="propane", carbon_flux=200e-3 / 3600.0, surface_limit=1.2, pulse_count=5.0, max_hold=120.0,
                 hardening_temperature=850 + 273.15, load_area=4.0, schedule="boost 2min, diffuse 8min")
+    plan.update(carrier="propane-endo", carrier_co=23.5, carrier_h2=31.5, beta_model="constant", beta_multiplier=1.3,
+                gas_data="linear-first-release", control_reading="dew_point")
     return plan
 
 
@@ -141,6 +143,9 @@ def test_old_files_give_the_numbers_they_gave_when_written(path):
                 "surface_hardness_hrc", "core_hardness_hrc"):
         if key in expected:
             assert got[key] == pytest.approx(expected[key], rel=1e-3), key
+    if "probe_mv" in expected:  # the floor's set points (schema 8: the first releases' Gibbs energy, kept)
+        assert [[row["stage"], row["mv"]] for row in got["probe_mv"]] == [
+            [stage, pytest.approx(mv, abs=0.05)] for stage, mv in expected["probe_mv"]]
     if "stages" in expected:
         flat = [number for stage in got["stages"] for number in (stage["time_h"], stage["kn"])]
         assert flat == pytest.approx([number for stage in expected["stages"] for number in stage], rel=1e-3)
@@ -153,12 +158,15 @@ def test_migration_writes_the_models_and_policies_explicitly_and_offers_the_newe
     old = load(PLANS / "schema-1.cdplan.json")
     assert old.count_shop_stages is False
     assert to_dict(old)["shop_stages_counted"] is False
-    offer, relation = old.offers()  # and the carbon → hardness relation from the quench (schema 6)
+    # and β from the gas (schema 9), the readings' newer Gibbs energies, the carbon → hardness relation (schema 6)
+    offer, gas_beta, gas_data, relation = old.offers()
     assert (relation.key, relation.value) == ("hardness_relation", "structure-2026")
     assert (offer.key, offer.value) == ("count_shop_stages", True) and "schema 4" in offer.text
+    assert (gas_beta.key, gas_beta.value, gas_data.key, gas_data.value) == ("beta_model", "gas-2026", "gas_data",
+                                                                            "nasa-glenn-2002")
     before = evaluate(old).soak_time
     old.accept(offer)
-    assert old.count_shop_stages and [o.key for o in old.offers()] == ["hardness_relation"]
+    assert old.count_shop_stages and [o.key for o in old.offers()] == ["beta_model", "gas_data", "hardness_relation"]
     assert evaluate(old).soak_time < before  # the heat-up and drop now add case
     old.undo()
     assert evaluate(old).soak_time == before

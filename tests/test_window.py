@@ -223,8 +223,8 @@ def test_old_files_open_with_their_own_numbers_and_the_newer_choice_offered(wind
     with qtbot.waitSignal(window.result_shown, timeout=20000):
         window.offers.take.click()
     assert window.plan.count_shop_stages and window.outcome.soak_time < old
-    # the next newer choice: hardness from the quench (schema 6)
-    assert window.offers.isVisibleTo(window) and "Carbon → hardness" in window.offers.text.text()
+    # the next newer choice: β from the gas (schema 9)
+    assert window.offers.isVisibleTo(window) and "β from the carrier gas" in window.offers.text.text()
     with qtbot.waitSignal(window.result_shown, timeout=20000):
         window.undo_action.trigger()
     assert window.outcome.soak_time == old and "schema 4" in window.offers.text.text()
@@ -452,18 +452,20 @@ def test_the_shop_menu_opens_the_plan_s_shop_and_applies_it(window, qtbot, monke
 
 
 def test_the_shop_dialog_takes_only_what_the_shop_accepts(window, monkeypatch):
-    """Its spin boxes have the ranges of the shop's own entries (carrier CO 5–50 %), and OK on a value the shop
-    refuses says which entry and keeps the dialog open."""
+    """Its spin boxes have the ranges of the shop's own entries (hardening temperature 700–1000 °C), and OK on a
+    value the shop refuses says which entry and keeps the dialog open; retired entries (the carrier's CO is the
+    plan's since schema 9) are not shown."""
     from casedepth.gui.window import ShopDialog
     from casedepth.shop.quote import ShopDefaults
 
     dialog = ShopDialog(ShopDefaults(), window)
-    assert (dialog.spins["carrier_co_pct"].minimum(), dialog.spins["carrier_co_pct"].maximum()) == (5.0, 50.0)
+    spin = dialog.spins["drop_temperature_c"]
+    assert (spin.minimum(), spin.maximum()) == (700.0, 1000.0) and "carrier_co_pct" not in dialog.spins
     told = []
     monkeypatch.setattr(QMessageBox, "warning", lambda parent, title, text: told.append(text))
-    monkeypatch.setattr(ShopDialog, "values", lambda self: ShopDefaults(carrier_co_pct=80.0))
+    monkeypatch.setattr(ShopDialog, "values", lambda self: ShopDefaults(drop_temperature_c=1200.0))
     dialog.accept()
-    assert told and "carrier_co_pct" in told[0] and "5–50" in told[0]
+    assert told and "drop_temperature_c" in told[0] and "700–1000" in told[0]
     assert dialog.result() != ShopDialog.Accepted
 
 

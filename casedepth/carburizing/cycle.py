@@ -208,8 +208,8 @@ def _conditions(setup: CarburizingSetup, stage: Stage, t_from: float):
     p_to = stage.carbon_potential
     p_from = stage.start_potential if stage.start_potential is not None else p_to
     if t_from == t_to and p_from == p_to:
-        return SurfaceCondition(t_to, p_to * af, setup.beta)
-    return Ramp(t_from, t_to, p_from, p_to, af, setup.beta, max(stage.duration, 1e-30))
+        return SurfaceCondition(t_to, p_to * af, setup.beta_at(t_to))
+    return Ramp(t_from, t_to, p_from, p_to, af, setup.beta_at(t_to), max(stage.duration, 1e-30), setup.beta_activation)
 
 
 def recipe_program(setup: CarburizingSetup, stages: list[Stage], start_temperature: float | None = None) -> Program:

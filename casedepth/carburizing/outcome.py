@@ -20,7 +20,8 @@ import numpy as np
 from .. import formats, safety
 from ..constants import ZERO_CELSIUS
 from ..errors import InputError
-from ..models.atmosphere import ENDO_CO_FRACTION, probe_setpoints
+from ..models.atmosphere import READINGS, FurnaceGas, StageReadings, stage_readings
+from ..models.surface import BETA_ACTIVATION, beta_from_gas
 from ..models.diffusivity import Diffusivity
 from ..models.hardness import HARDNESS_RELATIONS, HV_RANGE, ASTM_E140_hrc_to_hv, ASTM_E140_hv_to_hrc
 from ..models.steels import steel_for
@@ -61,7 +62,8 @@ def carburizing_setup(values: Mapping[str, Any]) -> CarburizingSetup:
             carbon_potential=potential,
             threshold=Threshold(values["threshold_value"], values["threshold_kind"]),
             diffusivity=Diffusivity(values["diffusivity"], values["d_multiplier"], values["d0"], values["q"]),
-            beta=math.inf if values["beta_held"] else values["beta"],
+            beta=_beta(values, temperature),
+            beta_activation=BETA_ACTIVATION if _gas_beta(values) else 0.0,
             alloy_factor_on=values["alloy_factor"],
             geometry=Geometry(values["shape"], values["size"]),
             hardness_relation=values["hardness_relation"],
@@ -71,6 +73,20 @@ def carburizing_setup(values: Mapping[str, Any]) -> CarburizingSetup:
     except InputError as error:
         renamed = {"carbon_potential": key, "temperature": temperature_key}.get(error.field, error.field)
         raise error.renamed(renamed) from None
+
+
+def _gas_beta(values: Mapping[str, Any]) -> bool:
+    return not values["beta_held"] and values["beta_model"] == "gas-2026"
+
+
+def _beta(values: Mapping[str, Any], temperature: float) -> float:
+    """β [m/s] at ``temperature`` [K] as the plan takes it: held (inf), one value, or from the carrier gas."""
+    if values["beta_held"]:
+        return math.inf
+    if values["beta_model"] == "gas-2026":
+        return values["beta_multiplier"] * beta_from_gas(temperature, values["carrier_co"] / 100.0,
+                                                         values["carrier_h2"] / 100.0)
+    return values["beta"]
 
 
 def shop_of(values: Mapping[str, Any]) -> ShopDefaults:
@@ -258,16 +274,12 @@ def evaluate(values: Mapping[str, Any]) -> "CarburizingOutcome":
         if error.field == "stages" and cycle.key != "stages":
             raise InputError("shop", f"a stage from the shop's times: {error.message}") from None
         raise (error.renamed(_PLANNER_FIELDS[error.field]) if error.field in _PLANNER_FIELDS else error) from None
-    carrier_co = shop.carrier_co_pct / 100.0
-    try:
-        probe = probe_setpoints(planned.stages, carrier_co)
-    except InputError:  # a stage outside the probe relation's range: no setpoint rather than no plan
-        probe = []
+    gas = FurnaceGas.of(values)
     outcome = CarburizingOutcome(
         values=dict(values), setup=setup, cycle_kind=cycle.key, planned=planned, targets=targets,
         quote=quote_lines(stage_lines(planned.stages), shop), warnings=list(planned.warnings),
-        cautions=safety.cautions(setup.temperature, setup.equilibrium_carbon, setup.saturation_carbon),
-        probe=probe, carrier_co=carrier_co)
+        cautions=safety.cautions(setup.temperature, setup.equilibrium_carbon, setup.saturation_carbon, gas=gas),
+        readings=stage_readings(planned.stages, gas.at, shop.potential_tolerance_pct), gas=gas)
     if outcome.hardened is not None:
         outcome.warnings += outcome.hardened.warnings(values)
     return outcome
@@ -519,13 +531,28 @@ class CarburizingOutcome(Outcome):
     quote: Quote
     warnings: list[str]
     cautions: list
-    probe: list[tuple[str, float]]  # ideal oxygen-probe voltage [mV] of each held stage
-    carrier_co: float = ENDO_CO_FRACTION
+    readings: list[StageReadings]  # every reading of each held stage, with the shop's band
+    gas: FurnaceGas = FurnaceGas()
     treatment: str = "carburizing"
     potential_name = "carbon potential [%C]"
     profile_name = "Carbon profile"
 
     # -- the numbers ------------------------------------------------------------------------------------
+    @property
+    def probe(self) -> list[tuple[str, float]]:
+        """The ideal oxygen-probe voltage [mV] of each held stage: ``[(stage label, mV), …]``."""
+        return [(r.label, r.values["mv"]) for r in self.readings]
+
+    @property
+    def control(self):
+        """The reading the furnace is run on (a :class:`casedepth.models.atmosphere.Reading`)."""
+        return READINGS[self.gas.control]
+
+    def _control_text(self) -> str:
+        """``soak 1153 mV, equalize 1121 mV``: each held stage's setpoint in the reading the furnace is run on."""
+        return ", ".join(f"{r.label.lower()} {self.control.show(r.values[self.gas.control])}" for r in self.readings
+                         if self.gas.control in r.values)
+
     @property
     def stages(self) -> list[Stage]:
         return self.planned.stages
@@ -647,8 +674,9 @@ class CarburizingOutcome(Outcome):
                  f"{formats.carbon(s.equilibrium_carbon)} (alloy factor {s.alloy_factor:.3f})"),
             Fact("saturation", "Saturation (Acm)", formats.carbon(s.saturation_carbon)),
             *self._hardness_facts(),
-            Fact("probe", "Oxygen probe (ideal)", (", ".join(f"{label.lower()} {mv:.0f} mV" for label, mv in self.probe)
-                                                   or "—") + f"  ({formats.percent(100 * self.carrier_co)} CO carrier)"),
+            Fact("probe", f"{self.control.title} setpoints (ideal)",
+                 (self._control_text() or "—") + f"  ({self.gas.describe()})",
+                 "\n".join(r.text() for r in self.readings)),
             quote_fact(self.quote),
         ]
         return Summary(self._headline(), self._how(units), facts)
@@ -738,7 +766,8 @@ class CarburizingOutcome(Outcome):
             "warnings": list(self.warnings), "cautions": [c.title for c in self.cautions],
             "profile": self.profile.to_dict(),
             "probe_mv": [{"stage": label, "mv": mv} for label, mv in self.probe],
-            "carrier_co_pct": self.carrier_co * 100.0,
+            "atmosphere_readings": [r.to_dict() for r in self.readings],
+            **self.gas.to_dict(),
         })
         if self.cycle_kind == "single":
             low, _, high = self.soak_window
@@ -787,10 +816,10 @@ class CarburizingOutcome(Outcome):
         if self.cycle_kind == "boost-diffuse":
             lines[-3] += f"; window {formats.carbon_range(self.values['surface_min'], self.values['surface_max'])}"
         lines += self._hardness_lines(units)
-        if self.probe:
-            lines.append("  oxygen probe          " + ", ".join(f"{label.lower()} {mv:.0f} mV" for label, mv in self.probe)
-                         + f" ({formats.percent(100 * self.carrier_co)} CO carrier; ideal probe, trim with the "
-                           f"controller's CO factor)")
+        if self.readings:
+            lines.append(f"  furnace readings      ideal, {self.gas.describe()}; the shop's potential band in brackets; "
+                         f"trim as the controller is trimmed:")
+            lines += [f"    {r.text()}" for r in self.readings]
         lines += ["Cycle quote:", self.quote.text()]
         lines += [f"Warning: {w}" for w in self.warnings]
         lines.append(safety.caution_line(self.cautions))
@@ -817,24 +846,32 @@ class CarburizingOutcome(Outcome):
         lines.append(f"Models: {s.models_text()}; alloy factor "
                      + (f"{s.alloy_factor:.3f} (Gunnarson)" if s.alloy_factor_on else "off")
                      + (f"; {HARDNESS_RELATIONS[s.hardness_relation].display.lower()}" if s.threshold.is_hardness else ""))
-        if self.probe:
-            lines.append(f"Oxygen probe (ideal, {formats.percent(100 * self.carrier_co)} CO carrier; trim with the "
-                         f"controller's CO factor): " + ", ".join(f"{label.lower()} {mv:.0f} mV" for label, mv in self.probe))
         rows = [[stage.label, f"{stage.duration / 3600:.2f}",
                  "" if stage.temperature is None else units.format_temperature(stage.temperature),
                  "" if stage.carbon_potential is None else formats.carbon_value(stage.carbon_potential),
-                 _probe_cell(stage, self.carrier_co)] for stage in self.stages]
+                 self._reading_cell(stage)] for stage in self.stages]
         shop = shop_of(self.values)
         notes = [f"* The carburizing atmosphere goes in only with the furnace at or above "
                  f"{units.format_temperature(safety.SAFE_ADMISSION_TEMPERATURE)}, after the purge (NFPA 86 practice). "
                  f"Bands: temperature ±{shop.temperature_tolerance_c * (1.8 if units.imperial else 1.0):.0f}"
                  f"{units.temperature_unit.replace('°', ' °')}, potential ±{formats.carbon(shop.potential_tolerance_pct)} "
-                 f"(the shop's, Edit → Shop times and rates); probe band for {formats.percent(100 * self.carrier_co)} "
-                 f"CO carrier."]
-        return SheetContent(lines, ["stage", "hours", "temperature", "potential %C", "probe mV"], rows,
+                 f"(the shop's), and the {self.control.label} band it gives (ideal; {self.gas.describe()})."]
+        column = {"mv": "probe mV", "dew_point": "dew point", "co2": "CO2 %"}[self.gas.control]
+        return SheetContent(lines, ["stage", "hours", "temperature", "potential %C", column], rows,
                             self._callout(units), ["stage", "h:min", "temperature", "carbon potential",
-                                                   "probe (ideal)"], self._setpoints(units), self._inspection(units),
-                            notes)
+                                                   f"{self.control.label} (ideal)"], self._setpoints(units),
+                            self._inspection(units), notes)
+
+    def _reading_cell(self, stage: Stage, shift: float = 0.0) -> str:
+        """A held stage's setpoint in the reading the furnace is run on (its potential moved by ``shift`` [wt % C]),
+        or blank."""
+        if stage.carbon_potential is None:
+            return ""
+        found = stage_readings([replace(stage, carbon_potential=stage.carbon_potential + shift)], self.gas.at)
+        if not found or self.gas.control not in found[0].values:
+            return ""
+        value = found[0].values[self.gas.control]
+        return {"mv": f"{value:.0f}", "co2": f"{value * 100:.3f}"}.get(self.gas.control) or self.control.show(value)
 
     # -- the floor's sheet ----------------------------------------------------------------------------------
     def _callout(self, units: DisplayUnits) -> list[str]:
@@ -865,12 +902,13 @@ class CarburizingOutcome(Outcome):
                          f"{formats.carbon_value(stage.carbon_potential)} ±{formats.carbon(band_p)}")
             if potential and stage.kind == "heat-up":  # the atmosphere goes in hot, after the purge
                 potential += " *"
-            probe = ""
+            reading = ""
             if stage.carbon_potential is not None:
-                low, high = (_probe_cell(replace(stage, carbon_potential=stage.carbon_potential + d), self.carrier_co)
-                             for d in (-band_p, band_p))
-                probe = f"{low}–{high} mV" if low and high else ""
-            rows.append([stage.label, format_clock(stage.duration), temperature, potential, probe])
+                low, high = (self._reading_cell(stage, d) for d in (-band_p, band_p))
+                if low and high:
+                    reading = {"mv": f"{low}–{high} mV", "co2": f"{high}–{low} %"}.get(self.gas.control,
+                                                                                        f"{high} to {low}")
+            rows.append([stage.label, format_clock(stage.duration), temperature, potential, reading])
         return rows
 
     def _inspection(self, units: DisplayUnits) -> list[str]:
@@ -892,11 +930,3 @@ class CarburizingOutcome(Outcome):
                        f"{_window(v['core_hrc_min'], v['core_hrc_max'])}.")
         return out
 
-
-def _probe_cell(stage: Stage, carrier_co: float) -> str:
-    """The ideal probe voltage of a held stage for the stage table, or blank."""
-    try:
-        setpoints = probe_setpoints([stage], carrier_co)
-    except InputError:
-        return ""
-    return f"{setpoints[0][1]:.0f}" if setpoints else ""

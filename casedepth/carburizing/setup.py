@@ -8,7 +8,7 @@ warnings about the step. The forward and inverse soaks are in :mod:`casedepth.ca
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from functools import cached_property
 
 import numpy as np
@@ -20,7 +20,7 @@ from ..models.austenite import Andrews_1965_Ac3
 from ..models.diffusivity import Diffusivity
 from ..models.hardness import DEFAULT_HARDNESS_RELATION, HARDNESS_RELATIONS, Quenched, threshold_carbon
 from ..models.steels import Steel
-from ..models.surface import DEFAULT_BETA, Gunnarson_alloy_factor, equilibrium_surface_carbon, steel_saturation_carbon
+from ..models.surface import DEFAULT_BETA, Gunnarson_alloy_factor, beta_at, equilibrium_surface_carbon, steel_saturation_carbon
 from ..numerics.geometry import Geometry
 from ..numerics.solver import Accuracy, CarbonSolver, SurfaceCondition
 from ..numerics.special import erfcx
@@ -52,7 +52,10 @@ class CarburizingSetup:
     diffusivity : Diffusivity
         Model of D(C, T).
     beta : float
-        Mass-transfer coefficient, [m/s]; ``math.inf`` for a surface held at equilibrium.
+        Mass-transfer coefficient at ``temperature``, [m/s]; ``math.inf`` for a surface held at equilibrium.
+    beta_activation : float
+        How β changes with the temperature of other stages (heat-up, drop, stages of one's own), an Arrhenius
+        activation energy [J/mol]; 0 keeps β the same at every temperature (see :func:`beta_from_gas`).
     alloy_factor_on : bool
         Apply the Gunnarson alloy factor between the carbon potential and the steel's surface carbon.
     geometry : Geometry
@@ -73,6 +76,7 @@ class CarburizingSetup:
     threshold: Threshold = Threshold(0.40, "carbon")
     diffusivity: Diffusivity = field(default_factory=Diffusivity)
     beta: float = DEFAULT_BETA
+    beta_activation: float = 0.0
     alloy_factor_on: bool = True
     geometry: Geometry = field(default_factory=Geometry)
     hardness_relation: str = DEFAULT_HARDNESS_RELATION
@@ -150,6 +154,14 @@ class CarburizingSetup:
         """How ``depth`` [m] of this part is quenched and tempered (for the structure relation)."""
         return quenched_at(self.steel.composition, self.geometry, self.hardening, depth)
 
+    def at_temperature(self, T: float) -> "CarburizingSetup":
+        """The same step at another temperature T [K] (β follows the temperature as the setup's gas β does)."""
+        return replace(self, temperature=T, beta=self.beta_at(T))
+
+    def beta_at(self, T: float) -> float:
+        """β [m/s] at the temperature T [K] of a stage (``beta`` at the setup's own temperature)."""
+        return beta_at(self.beta, self.beta_activation, self.temperature, T)
+
     @property
     def surface_condition(self) -> SurfaceCondition:
         return SurfaceCondition(self.temperature, self.equilibrium_carbon, self.beta)
@@ -193,7 +205,8 @@ class CarburizingSetup:
 
     def models_text(self) -> str:
         """The models of the step, in one line."""
-        beta = "inf (surface held at equilibrium)" if math.isinf(self.beta) else f"{self.beta * 100:.3g} cm/s"
+        beta = ("inf (surface held at equilibrium)" if math.isinf(self.beta) else f"{self.beta * 100:.3g} cm/s"
+                + (" (gas)" if self.beta_activation else ""))
         multiplier = "" if self.diffusivity.multiplier == 1.0 else f" × {self.diffusivity.multiplier:g}"
         return f"D: {self.diffusivity.display}{multiplier}; β = {beta}; {self.geometry.describe()}"
 

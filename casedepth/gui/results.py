@@ -69,7 +69,7 @@ class ResultPanel(QFrame):
         layout.addWidget(self.status)
         self.stale = False
 
-    def _fact(self, index: int, key: str, name: str, value: str) -> None:
+    def _fact(self, index: int, key: str, name: str, value: str, detail: str = "") -> None:
         if key not in self.facts:
             label, text = QLabel(), QLabel()
             label.setStyleSheet("color: #555;")
@@ -82,6 +82,7 @@ class ResultPanel(QFrame):
         self.grid.addWidget(text, index // 2, (index % 2) * 2 + 1)
         label.setText(name)
         text.setText(unbroken(value))
+        text.setToolTip(detail)
         label.show()
         text.show()
 
@@ -91,7 +92,7 @@ class ResultPanel(QFrame):
         self.subline.setText(summary.subline)
         shown = set()
         for index, fact in enumerate(summary.facts):
-            self._fact(index, fact.key, fact.label, fact.text)
+            self._fact(index, fact.key, fact.label, fact.text, fact.detail)
             shown.add(fact.key)
         for key in set(self.facts) - shown:
             self.facts[key].hide()

@@ -268,6 +268,8 @@ class MainWindow(QMainWindow):
         self.redo_action = self._action(edit_menu, "&Redo", self.redo, QKeySequence.Redo)
         edit_menu.addSeparator()
         self._action(edit_menu, "Calibrate from a measured &section…", self.calibrate_dialog)
+        self._action(edit_menu, "Convert a furnace &reading…", self.reading_dialog, None,
+                     "Probe mV, dew point, CO2 and carbon potential of the carburizing gas, each from any other")
         self._action(edit_menu, "&Shop times and rates…", self.edit_shop, "Ctrl+J",
                      "Load, heat-up, drop, quench, wash and temper times, furnace rate and parts per load")
         view_menu = bar.addMenu("&View")
@@ -425,6 +427,13 @@ class MainWindow(QMainWindow):
         if self.outcome is None:
             return 6 * 3600.0, self.plan.case_min
         return self.outcome.soak_time, self.outcome.targets[1]
+
+    def reading_dialog(self) -> None:
+        """The furnace-reading converter, starting from the plan's temperature and gas."""
+        from .readings import ReadingConverter
+
+        self.reading_converter = ReadingConverter(self.plan.values(), self.units, self)
+        self.reading_converter.show()
 
     def calibrate_dialog(self) -> None:
         """Ask for the soak a load had and what was measured on its section (a depth, or for nitriding a hardness

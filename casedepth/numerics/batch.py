@@ -36,6 +36,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from ..constants import GAS_CONSTANT
 from ..models.diffusivity import ExponentialForms
 from .budget import MAX_STEPS, check
 from ..errors import SolverError
@@ -285,8 +286,9 @@ class BatchMarch:
         p1 = np.array([r.potential_to for r in ramps])
         factor = np.array([r.alloy_factor for r in ramps])
         span = np.array([r.span for r in ramps])
-        beta = np.array([r.beta for r in ramps])
-        held_rows = ~np.isfinite(beta)
+        beta_end = np.array([r.beta for r in ramps])
+        activation = np.array([r.beta_activation for r in ramps])
+        held_rows = ~np.isfinite(beta_end)
         changing = (T0 != T1) | (p0 != p1)
         start = self.time.copy()
         end = self.time + durations
@@ -317,11 +319,14 @@ class BatchMarch:
                 w = np.where(changing[idx], w, 0.0)
                 T = T0[idx] + w * (T1[idx] - T0[idx])
                 ceq = (p0[idx] + w * (p1[idx] - p0[idx])) * factor[idx]
+                beta = beta_end[idx]
+                if not held and activation[idx].any():  # β at the step's temperature (Ramp.__call__)
+                    beta = beta * np.exp(-activation[idx] / GAS_CONSTANT * (1.0 / T - 1.0 / T1[idx]))
                 c0 = self.carbon[idx]
                 before = c0.copy() if until is not None else None
                 t_before = self.time[idx]
                 try:
-                    carbon, flux = self._step(idx, c0, h, T, ceq, beta[idx], held, smoothing > 0)
+                    carbon, flux = self._step(idx, c0, h, T, ceq, beta, held, smoothing > 0)
                 except SolverError:
                     self.failed[idx] = True
                     continue
@@ -346,7 +351,7 @@ class BatchMarch:
                 high[ok] = np.maximum(high[ok], new_high[good])
                 if until is not None and len(ok):
                     self._check_reached(ok, good, until, threshold, shallower, reached, before, t_before, h, T, ceq,
-                                        beta[idx], smoothing > 0)
+                                        beta, smoothing > 0)
             smoothing -= 1
             if record is not None:
                 self.recorded.append((self.time.copy(), self.depths(record)))

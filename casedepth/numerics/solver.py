@@ -41,6 +41,7 @@ import numpy as np
 
 from ..errors import SolverError
 from ..models.diffusivity import Diffusivity
+from ..models.surface import beta_at
 from .budget import MAX_STEPS, check
 from .geometry import Geometry, extend_nodes, graded_nodes
 
@@ -77,7 +78,8 @@ class SurfaceCondition:
 class Ramp:
     """A surface condition that moves linearly in time: temperature [K] and carbon potential [wt %] from their
     values at the start to those at ``span`` [s], the equilibrium surface carbon the potential times
-    ``alloy_factor``; ``beta`` [m/s] as in :class:`SurfaceCondition`. Called with a time [s] since the start
+    ``alloy_factor``; ``beta`` [m/s] as in :class:`SurfaceCondition`, at ``temperature_to``, and changing with the
+    temperature by ``beta_activation`` [J/mol] (Arrhenius; 0: constant). Called with a time [s] since the start
     it gives the condition then (held at the ends outside 0–span)."""
 
     temperature_from: float
@@ -87,6 +89,7 @@ class Ramp:
     alloy_factor: float
     beta: float
     span: float
+    beta_activation: float = 0.0
 
     @classmethod
     def constant(cls, condition: SurfaceCondition) -> Ramp:
@@ -99,9 +102,9 @@ class Ramp:
 
     def __call__(self, t: float) -> SurfaceCondition:
         w = min(max(t / self.span, 0.0), 1.0)
-        return SurfaceCondition(self.temperature_from + w * (self.temperature_to - self.temperature_from),
-                                (self.potential_from + w * (self.potential_to - self.potential_from)) * self.alloy_factor,
-                                self.beta)
+        T = self.temperature_from + w * (self.temperature_to - self.temperature_from)
+        return SurfaceCondition(T, (self.potential_from + w * (self.potential_to - self.potential_from)) * self.alloy_factor,
+                                beta_at(self.beta, self.beta_activation, self.temperature_to, T))
 
 
 @dataclass(frozen=True)

@@ -24,7 +24,7 @@ from ..outcome import Offer
 from ..parameters import PARAMETERS
 from .state import Plan
 
-SCHEMA_VERSION = 8
+SCHEMA_VERSION = 9
 FILE_KIND = "casedepth plan"
 LARGEST_FILE = 5_000_000  # bytes: a plan with 100 stages and long notes is under 100 kB
 HEADER_KEYS = ("kind", "schema_version")
@@ -108,7 +108,28 @@ def _to_8(data: dict, offers: list[Offer], made_with: int) -> None:
                 max_hold_at_limit_s=180.0, hardening_temperature_c=None, load_area_m2=2.5, pulse_schedule="")
 
 
-MIGRATIONS = {1: _to_2, 2: _to_3, 3: _to_4, 4: _to_5, 5: _to_6, 6: _to_7, 7: _to_8}
+def _to_9(data: dict, offers: list[Offer], made_with: int) -> None:
+    # schema 9 names the carrier gas (its CO moves from the shop's table to the plan, with the nominal 40 % H2 of
+    # endothermic gas), takes β from the gas by default and names the Gibbs energies the readings are worked out
+    # with. An older plan keeps its one β and the first releases' Gibbs energy of C + ½O2 = CO, so its soak and its
+    # probe set points read as they did; the gas β is offered, the newer Gibbs energies too (a superseded choice)
+    shop = data.get("shop") if isinstance(data.get("shop"), dict) else {}
+    co = shop.get("carrier_co_pct", 20.0)
+    if not (isinstance(co, (int, float)) and not isinstance(co, bool) and 5.0 <= co <= 50.0):
+        co = 20.0  # the shop table's own check names a bad value when the plan is read
+    data.update(carrier_gas="natural-gas-endo" if co == 20.0 else "own", carrier_co_pct=float(co), carrier_h2_pct=40.0)
+    if data.get("treatment", "carburizing") != "carburizing":  # none of it plays a part: a new plan's values
+        data.update(mass_transfer_model="gas-2026", gas_thermochemistry="nasa-glenn-2002")
+        return
+    data.update(mass_transfer_model="constant", gas_thermochemistry="linear-first-release")
+    if not data.get("surface_held_at_equilibrium"):
+        offers.append(Offer("beta_model", "gas-2026",
+                            "Plans made since schema 9 take β from the carrier gas and the temperature (1.5e-5 cm/s "
+                            "at 925 °C in endothermic gas, rising with CO·H2 and with temperature); this plan keeps "
+                            "its one β at every temperature, as it did when it was made."))
+
+
+MIGRATIONS = {1: _to_2, 2: _to_3, 3: _to_4, 4: _to_5, 5: _to_6, 6: _to_7, 7: _to_8, 8: _to_9}
 
 
 def migrate(data: dict) -> tuple[dict, list[Offer], list[str]]:

@@ -164,7 +164,7 @@ def case_depth_chart(setup: CarburizingSetup, temperatures: list[float] | None =
     if bool(temperatures) == bool(potentials):
         raise InputError("temperatures", "give several temperatures or several potentials (not both)")
     u = DisplayUnits(units)
-    variants = ([replace(setup, temperature=T) for T in temperatures] if temperatures
+    variants = ([setup.at_temperature(T) for T in temperatures] if temperatures
                 else [replace(setup, carbon_potential=p) for p in potentials])
     labels = ([formats.temperature(T, u) for T in temperatures] if temperatures
               else [formats.carbon(p) for p in potentials])

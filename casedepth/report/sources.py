@@ -11,15 +11,19 @@ from ..nitriding.layer import LAYER_MODELS
 from ..nitriding.zone import ZONE_MODELS
 
 FIXED = (
-    ("Surface mass transfer", "J = β (C_eq − C_s) — EN 10052 definition; default β 1.5e-5 cm/s for endothermic gas "
-                              "after Ruck, Monceau & Grabke (1996) and Karabelchtchikova (2007), from memory"),
+    ("Surface mass transfer", "J = β (C_eq − C_s) — EN 10052 definition; β from the gas by default: 1.5e-5 cm/s at "
+                              "925 °C in endothermic gas (mid-range of Ruck, Monceau & Grabke 1996 and Karabelchtchikova "
+                              "2007), ∝ p_CO·p_H2 (Grabke's kinetics), 110 kJ/mol in temperature (from memory); "
+                              "uncertain about ×/÷1.5"),
     ("Alloy factor", "Gunnarson (1967), as quoted in ASM Handbook Vol. 4 (1991), from memory"),
     ("Carbon saturation (Acm)", "Fe–C diagram; CALPHAD points after Gustafson (1985) and Hallstedt et al. (2010)"),
     ("Ac3", "Andrews, J. Iron Steel Inst. 203 (1965) 721"),
     ("HV ↔ HRC", "ASTM E140, Table 1"),
     ("Time stepping", "ROS2 Rosenbrock method, Verwer et al., SIAM J. Sci. Comput. 20 (1999) 1456"),
-    ("Oxygen probe", "Nernst equation (air reference); C + ½O2 = CO thermochemistry and the activity of carbon in "
-                     "austenite from handbook relations (from memory); ideal probe, trim as the shop does"),
+    ("Furnace readings", "probe (Nernst, air reference; C + ½O2 = CO), dew point (C + H2O = CO + H2; Buck 1981 "
+                         "vapour pressure), CO2 (C + CO2 = 2CO): Gibbs energies fitted to the NASA Glenn polynomials "
+                         "(McBride, Zehe & Gordon 2002); carbon activity in austenite from a handbook relation (from "
+                         "memory); ideal equilibria, trim as the shop does"),
     ("Nitriding potential", "K_N = p(NH3)/p(H2)^1.5 — Lehrer, Z. Elektrochem. 36 (1930) 383; surface phase from the "
                             "Lehrer-diagram boundaries (read from the diagram, from memory, ±30 %)"),
     ("Nitrogen in ferrite", "saturation against γ′ fitted to the Fe–N diagram of Wriedt, Gokcen & Nafziger (1987)"),

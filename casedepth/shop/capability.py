@@ -72,7 +72,15 @@ def _used(key: str, values: Mapping[str, Any]) -> bool:
 
 
 def _beta_applies(values) -> bool:
-    return _used("beta", values) and math.isfinite(values["beta"])
+    """Whether the plan has a finite β to spread (one value, or from the gas)."""
+    return _used("beta", values) and math.isfinite(values["beta"]) or _used("beta_multiplier", values)
+
+
+def _shift_beta(values, factor: float) -> dict:
+    """β times ``factor``: the one value, or the calibration factor on the gas's β."""
+    if _used("beta_multiplier", values):
+        return {"beta_multiplier": values["beta_multiplier"] * factor}
+    return {"beta": values["beta"] * factor}
 
 
 #: the plan's carbon potentials a controller's band moves alike (those the plan's cycle uses)
@@ -162,7 +170,7 @@ SPREAD_INPUTS: dict[str, SpreadInput] = {row.key: row for row in (
                 "the plan's section tolerance (Load spread; none unless set)"),
     SpreadInput("beta", "mass-transfer coefficient",
                 lambda v: float(v.get("spread_beta_factor", BETA_FACTOR)) if _beta_applies(v) else None,
-                lambda v, x: {"beta": v["beta"] * x},
+                _shift_beta,
                 lambda b, u: f"from β/{formats.trimmed(b, 2)} to β×{formats.trimmed(b, 2)}",
                 "the plan's factor (Load spread; 2 by default: β is rarely known better, common practice)"),
 )}
@@ -529,8 +537,9 @@ def draw_parts(values: Mapping[str, Any], spread: Spread = Spread()) -> Draw:
     if spread.beta_range is not None:
         if not _beta_applies(values):
             raise InputError("beta_range", "the plan has no finite mass-transfer coefficient to spread")
-        low, high = spread.beta_range
+        low, high = spread.beta_range  # β itself, at every temperature: one value about which the parts spread
         base["beta"], bands["beta"] = math.sqrt(low * high), math.sqrt(high / low)
+        base["beta_model"] = "constant"
     ranges = _composition_range(values, spread)
     keys = list(bands)
     rng = np.random.default_rng(spread.seed)

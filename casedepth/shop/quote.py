@@ -47,8 +47,9 @@ class ShopDefaults:
     temper_h: float = field(default=2.0, metadata={"label": "Temper", "unit": "h", "range": HOURS, "retired": True})
     temper_temperature_c: float = field(default=180.0, metadata={"label": "Temper temperature", "unit": "°C",
                                                                  "range": (100.0, 700.0), "retired": True})
-    # CO in the endothermic carrier gas, vol % (common practice: 20 from natural gas)
-    carrier_co_pct: float = _item(20.0, "CO in the carrier gas (for probe mV)", "%", (5.0, 50.0))
+    # CO in the carrier gas, vol %: the plan's own since schema 9 (carrier_co); kept so older files read as they were
+    carrier_co_pct: float = field(default=20.0, metadata={"label": "CO in the carrier gas", "unit": "%",
+                                                          "range": (5.0, 50.0), "retired": True})
     # gas nitriding in a retort: nitrogen purges before ammonia goes in and after the load has cooled
     nitriding_purge_h: float = _item(0.5, "Nitriding: nitrogen purge", "h", HOURS)
     nitriding_heat_up_h: float = _item(3.0, "Nitriding: heat-up", "h", HOURS)
