@@ -601,6 +601,18 @@ def _read_carrier(text: str, values: dict) -> dict:
     return {"carrier": key, "carrier_co": co * 100.0, "carrier_h2": h2 * 100.0}
 
 
+def _read_potential_reading(text: str, values: dict) -> dict:
+    """``--potential-as 1150mV``: the potential the reading means at the plan's temperature in its carrier (the
+    options before it in the table — temperature, carrier — already read)."""
+    from .models.atmosphere import FurnaceGas, potential_from_reading, reading_from_text
+    kind, value = reading_from_text(text)
+    potential = potential_from_reading(kind, value, FurnaceGas.of(values).at(values["temperature"]))
+    out = {"carbon_potential": potential}
+    if kind != "carbon_potential":
+        out["control_reading"] = kind
+    return out
+
+
 def _gas_data() -> dict[str, str]:
     from .models.atmosphere import GAS_DATA
     return {key: d.display for key, d in GAS_DATA.items()}
@@ -752,7 +764,10 @@ PARAMETERS: dict[str, Parameter] = {p.key: p for p in (
               group="Furnace step", help="the reading the furnace holds the potential by: the floor sheet gives the "
                                          "setpoints in it",
               options=(Option("--controlled-on", "the reading the floor sheet's setpoints are in: mv (oxygen probe, "
-                                                 "default), dew_point or co2", choices=lambda: list(CONTROL_READINGS)),),
+                                                 "default), dew_point or co2", choices=lambda: list(CONTROL_READINGS)),
+                       Option("--potential-as", 'one soak\'s carbon potential as the furnace reads it, at its temperature '
+                                                'and carrier: 1150mV, "dew point 20F" or "CO2 0.15%%" (also sets '
+                                                '--controlled-on)', _read_potential_reading)),
               since=9),
     Parameter("kn", "Nitriding potential K_N", Quantity("number"), 3.0, "nitriding_potential", NITRIDING,
               group="Furnace step", unit_label=KN_UNIT, range=(0.05, 30.0),

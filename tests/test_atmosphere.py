@@ -206,7 +206,7 @@ def test_a_carrier_that_cannot_be_is_refused(text, field):
     (lambda: A.carbon_potential_from_probe(math.nan, 1198.15), "mv"),
     (lambda: A.carbon_potential_from_probe(1e9, 1198.15), "mv"),
     (lambda: A.carbon_potential_from_probe(1150.0, 1198.15, core_potential=-1.0), "core_potential"),
-    (lambda: A.check_carburizing_potential(math.nan, 1198.15), "carbon_potential"),
+    (lambda: A.potential_from_reading("carbon_potential", math.nan, A.Gas(1198.15)), "carbon_potential"),
     (lambda: A.carbon_potential_from_probe(1150.0, 1198.15, 0.9), "carrier_co"),
     (lambda: A.probe_voltage_for_potential(1.0, 600 + K), "temperature"),
     (lambda: A.probe_voltage_for_potential(3.0, 1198.15), "carbon_potential"),
@@ -258,14 +258,16 @@ def test_a_reading_that_decarburizes_the_steel_is_refused_naming_its_floor():
     core; Gunnarson's alloy factor 1.027 (this program's value) makes that a potential of 0.205 / 1.027 ≈ 0.20 %C."""
     T = 925 + K
     core_potential = 0.205 / 1.027
-    window = A.probe_window(T, core_potential=core_potential)
-    assert window.least == pytest.approx(core_potential) and window.least_mv > A.probe_window(T).least_mv
+    gas = A.Gas(T)
+    window = A.reading_window(gas, core_potential)
+    floor_mv = window.at("mv", window.least)
+    assert window.least == pytest.approx(core_potential) and floor_mv > A.reading_window(gas).at("mv", 0.10)
     reading = A.probe_voltage_for_potential(0.15, T)  # carburizes a 0.10 %C steel, decarburizes 8620
     assert A.carbon_potential_from_probe(reading, T) == pytest.approx(0.15, rel=1e-9)
     with pytest.raises(InputError, match="steel's core carbon") as error:
         A.carbon_potential_from_probe(reading, T, core_potential=core_potential)
-    assert f"{window.least_mv:.0f} mV" in error.value.message and "0.20 %C" in error.value.message
-    assert A.probe_window(T, core_potential=0.05).least == 0.10
+    assert f"{floor_mv:.0f} mV" in error.value.message and "0.20 %C" in error.value.message
+    assert A.reading_window(gas, 0.05).least == 0.10
 
 
 # -- β from the gas ------------------------------------------------------------------------------------------------
@@ -408,3 +410,22 @@ def test_the_cautions_state_the_carrier_and_methanol():
     assert "methanol" in keys and "methanol" not in [c.key for c in endo.cautions]
     richer = evaluate(Plan(carrier="own", carrier_co=30.0, carrier_h2=60.0))
     assert any("30 % CO, 60 % H2 and 10 % N2" in c.text for c in richer.cautions)
+
+
+@pytest.mark.parametrize("text,kind", [("1150mV", "mv"), ("dew point 20F", "dew_point"), ("dp -7C", "dew_point"),
+                                       ("CO2 0.15%", "co2"), ("1.0%C", "carbon_potential")])
+def test_a_plan_takes_its_potential_as_the_furnace_reads_it(text, kind, capsys):
+    """``--potential-as``: the potential the reading means at the plan's temperature in its carrier, and the plan
+    controlled on that reading; the same as converting first and typing the potential."""
+    assert main(["carburize", "--steel", "8620", "--temperature", "925C", "--carrier", "propane-endo",
+                 "--potential-as", text, "--target", "1mm", "--json"]) == 0
+    data = json.loads(capsys.readouterr().out)
+    read, value = A.reading_from_text(text)
+    expected = A.potential_from_reading(read, value, A.Gas(925 + K, 0.235, 0.315))
+    assert read == kind and data["carbon_potential_pct"] == pytest.approx(expected, rel=1e-12)
+    assert data["controlled_on"] == A.READINGS[kind if kind != "carbon_potential" else "mv"].json_key
+
+
+def test_a_reading_that_is_not_one_is_refused_naming_the_option(capsys):
+    assert main(["carburize", "--temperature", "925C", "--potential-as", "twenty", "--target", "1mm"]) == 2
+    assert "--potential-as" in capsys.readouterr().err

@@ -25,9 +25,23 @@ def test_the_converter_gives_what_the_library_gives(window):
     dialog.kind.setCurrentIndex(dialog.kind.findData("mv"))
     dialog.value.setText("1250")
     assert dialog.answers["carbon_potential"].text() == "–" and "graphite saturation" in dialog.message.text()
+    assert not dialog.use.isEnabled()
     # another carrier brings its CO and H2
     dialog.carrier.setCurrentIndex(dialog.carrier.findData("natural-gas-endo"))
     assert (dialog.co.value(), dialog.h2.value()) == (20.0, 40.0)
+    # a reading taken as the plan's potential: one undoable edit, the carrier and the reading with it
+    dialog.kind.setCurrentIndex(dialog.kind.findData("co2"))
+    dialog.value.setText("0.15")
+    assert dialog.use.isEnabled()
+    potential = A.potential_from_reading("co2", 0.0015, A.Gas(930 + K, 0.20, 0.40))
+    dialog.use.click()
+    plan = window.plan
+    assert plan.carbon_potential == pytest.approx(potential, abs=5e-4)
+    assert (plan.carrier, plan.carrier_co, plan.control_reading) == ("natural-gas-endo", 20.0, "co2")
+    plan.undo()
+    assert plan.carrier == "propane-endo" and plan.control_reading == "mv"
+    dialog.temperature.setValue(950)
+    assert not dialog.use.isEnabled()  # a reading at another temperature is another potential
     dialog.close()
 
 

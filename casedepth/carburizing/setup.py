@@ -228,6 +228,7 @@ class CarburizingSetup:
             "steel": self.steel.name, "composition_pct": dict(self.steel.composition),
             "geometry": self.geometry.describe(), "diffusivity_model": self.diffusivity.method,
             "beta_cm_per_s": None if math.isinf(self.beta) else self.beta * 100.0,
+            "beta_from_gas": bool(self.beta_activation),
         }
 
     # -- helpers for the solver ----------------------------------------------------------------

@@ -25,8 +25,10 @@ _ASK = {"carbon_potential": ("Carbon potential (or shim stock)", "%C, e.g. 1.00"
 class ReadingConverter(QDialog):
     """Enter any reading; see the others and the potential, live."""
 
-    def __init__(self, values: dict, units: DisplayUnits, parent=None):
+    def __init__(self, values: dict, units: DisplayUnits, parent=None, plan=None):
         super().__init__(parent)
+        self.plan = plan  # the plan "Use as the plan's potential" edits (None: no button effect)
+        self.found: tuple[str, float] | None = None  # (reading given, potential) of the last good answer
         self.setWindowTitle("Convert a furnace reading")
         self.units = units
         outer = QVBoxLayout(self)
@@ -73,6 +75,12 @@ class ReadingConverter(QDialog):
         outer.addWidget(self.message)
         buttons = QDialogButtonBox(QDialogButtonBox.Close)
         buttons.rejected.connect(self.reject)
+        self.use = buttons.addButton("Use as the plan's potential", QDialogButtonBox.ApplyRole)
+        self.use.setToolTip("At the plan's temperature: set the plan's carbon potential (one soak) to this one, its "
+                            "carrier gas to this one and the reading it is controlled on to the one given (one "
+                            "undoable edit)")
+        self.use.clicked.connect(self._use)
+        self.use.setEnabled(False)
         outer.addWidget(buttons)
         self.carrier.currentIndexChanged.connect(self._carrier_picked)
         for signal in (self.temperature.valueChanged, self.co.valueChanged, self.h2.valueChanged,
@@ -104,6 +112,8 @@ class ReadingConverter(QDialog):
         for label in self.answers.values():
             label.setText("–")
         self.message.setText("")
+        self.found = None
+        self.use.setEnabled(False)
         if not text:
             return
         try:
@@ -116,6 +126,20 @@ class ReadingConverter(QDialog):
             return
         for key, value in readings.items():
             self.answers[key].setText(READINGS[key].show(value) + ("  (given)" if key == kind else ""))
+        self.found = (kind, readings["carbon_potential"])
+        values = self.plan.values() if self.plan is not None else None
+        self.use.setEnabled(values is not None and PARAMETERS["carbon_potential"].used_by(values)
+                            and abs(T - values["temperature"]) < 0.5)
+
+    def _use(self) -> None:
+        if self.found is None or self.plan is None:
+            return
+        kind, potential = self.found
+        changes = {"carbon_potential": round(potential, 3), "carrier": self.carrier.currentData(),
+                   "carrier_co": self.co.value(), "carrier_h2": self.h2.value()}
+        if kind != "carbon_potential":
+            changes["control_reading"] = kind
+        self.plan.update(**changes)
 
     def units_to_kelvin(self, shown: float) -> float:
         return (shown - 32.0) / 1.8 + 273.15 if self.units.imperial else shown + 273.15

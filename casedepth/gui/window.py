@@ -432,7 +432,7 @@ class MainWindow(QMainWindow):
         """The furnace-reading converter, starting from the plan's temperature and gas."""
         from .readings import ReadingConverter
 
-        self.reading_converter = ReadingConverter(self.plan.values(), self.units, self)
+        self.reading_converter = ReadingConverter(self.plan.values(), self.units, self, self.plan)
         self.reading_converter.show()
 
     def calibrate_dialog(self) -> None:

@@ -107,6 +107,28 @@ def carrier_from_text(text: str, field: str = "carrier") -> tuple[str, float, fl
     return "own", co, h2
 
 
+def reading_from_text(text: str, field: str = "potential_as") -> tuple[str, float]:
+    """A reading as a person writes it: ``1150mV`` (probe), ``dew point 20F`` / ``dp -7C`` (a bare number °C),
+    ``CO2 0.15%`` (vol %), or ``1.0%C`` (a potential): (reading key, value in SI)."""
+    from ..units import parse_number, parse_temperature
+
+    words = " ".join(str(text).split()).strip()
+    low = words.lower()
+    try:
+        if low.endswith("mv"):
+            return "mv", parse_number(words[:-2].strip(), field)
+        for prefix in ("dew point", "dewpoint", "dp"):
+            if low.startswith(prefix):
+                return "dew_point", parse_temperature(words[len(prefix):].strip(), field)
+        if low.startswith("co2"):
+            return "co2", parse_number(words[3:].strip().rstrip("%").strip(), field) / 100.0
+        if low.endswith("%c"):
+            return "carbon_potential", parse_number(words[:-2].strip(), field)
+    except InputError:
+        pass
+    raise InputError(field, f"{words[:60]!r} is not a reading: write 1150mV, \"dew point 20F\", \"CO2 0.15%\" or 1.0%C")
+
+
 def check_carrier(co: float, h2: float, field: str = "carrier_co") -> None:
     """Refuse a CO or H2 fraction outside what the relations here cover, or more than the whole gas."""
     if not (math.isfinite(co) and CO_RANGE[0] <= co <= CO_RANGE[1]):
@@ -333,8 +355,7 @@ class Gas:
         raise KeyError(kind)
 
     def where(self) -> str:
-        return (f"at {formats.temperature(self.T)} with {formats.percent(self.co * 100)} CO"
-                + (f", {formats.percent(self.h2 * 100)} H2" if self.data == DEFAULT_GAS_DATA else ""))
+        return f"at {formats.temperature(self.T)} with {formats.percent(self.co * 100)} CO, {formats.percent(self.h2 * 100)} H2"
 
 
 @dataclass(frozen=True)
@@ -506,14 +527,6 @@ def convert_reading(kind: str, value: float, gas: Gas, core_potential: float | N
     return readings
 
 
-def check_carburizing_potential(carbon_potential: float, T: float, CO: float = 0.20,
-                                core_potential: float | None = None, h2: float = 0.40,
-                                data: str = DEFAULT_GAS_DATA) -> None:
-    """Refuse a carbon potential [wt % C] a controller would not hold in a carburizing gas at T [K] (see
-    :func:`potential_from_reading`). Plans allow such potentials with a warning; a setting is refused."""
-    potential_from_reading("carbon_potential", carbon_potential, Gas(T, CO, h2, data), core_potential)
-
-
 # -- the probe, as before: the functions the plan and the command line called --------------------------------------------
 def carbon_potential_from_probe(E: float, T: float, CO: float = 0.20, core_potential: float | None = None,
                                 h2: float = 0.40, data: str = DEFAULT_GAS_DATA) -> float:
@@ -538,38 +551,6 @@ def probe_voltage_for_potential(carbon_potential: float, T: float, CO: float = 0
     1153
     """
     return reading_for_potential("mv", carbon_potential, Gas(T, CO, 0.40, data))
-
-
-@dataclass(frozen=True)
-class ProbeWindow:
-    """The probe readings of a carburizing gas (kept for callers of the first releases): see :class:`ReadingWindow`."""
-
-    least: float
-    least_mv: float
-    graphite: float
-    graphite_mv: float
-    T: float
-    CO: float
-
-    def text(self, potentials_first: bool = False) -> str:
-        mv, pct = f"{self.least_mv:.0f}–{self.graphite_mv:.0f} mV", formats.carbon_range(self.least, self.graphite)
-        where = f"at {formats.temperature(self.T)} with {formats.percent(self.CO * 100)} CO"
-        return f"{pct} ({mv}) {where}" if potentials_first else f"{mv} ({pct}) {where}"
-
-
-def probe_window(T: float, CO: float = 0.20, core_potential: float | None = None,
-                 data: str = DEFAULT_GAS_DATA) -> ProbeWindow:
-    """The probe readings of a carburizing gas at T [K] and CO fraction [-], lean end and graphite.
-
-    Examples
-    --------
-    >>> window = probe_window(1198.15)
-    >>> round(window.least_mv), round(window.graphite_mv), round(window.graphite, 2)
-    (1019, 1170, 1.26)
-    """
-    window = reading_window(Gas(T, CO, 0.40, data), core_potential)
-    return ProbeWindow(window.least, window.at("mv", window.least), window.graphite, window.at("mv", window.graphite),
-                       T, CO)
 
 
 @dataclass(frozen=True)
@@ -662,8 +643,3 @@ def stage_readings(stages, gas_of: Callable[[float], Gas], band: float = 0.0) ->
             except InputError:
                 continue
     return out
-
-
-def probe_setpoints(stages, CO: float = 0.20, data: str = DEFAULT_GAS_DATA) -> list[tuple[str, float]]:
-    """Probe voltages [mV] for the held carburizing stages of a cycle: ``[(stage label, mV), …]`` (ideal probe)."""
-    return [(r.label, r.values["mv"]) for r in stage_readings(stages, lambda T: Gas(T, CO, 0.40, data))]
