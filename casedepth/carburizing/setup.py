@@ -206,7 +206,7 @@ class CarburizingSetup:
     def models_text(self) -> str:
         """The models of the step, in one line."""
         beta = ("inf (surface held at equilibrium)" if math.isinf(self.beta) else f"{self.beta * 100:.3g} cm/s"
-                + (" (gas)" if self.beta_activation else ""))
+                + (" (gas, ×/÷1.5)" if self.beta_activation else ""))
         multiplier = "" if self.diffusivity.multiplier == 1.0 else f" × {self.diffusivity.multiplier:g}"
         return f"D: {self.diffusivity.display}{multiplier}; β = {beta}; {self.geometry.describe()}"
 
