@@ -219,9 +219,15 @@ def main(argv: list[str] | None = None) -> int:
     from ..plan import PlanFileError, load
     from .window import MainWindow
 
+    from PySide6.QtGui import QIcon
+
+    from .places import DESKTOP_ID, first_run, icon_path
+
     app = QApplication.instance() or QApplication(sys.argv[:1])
     app.setApplicationName("casedepth")
     app.setOrganizationName("casedepth")
+    app.setDesktopFileName(DESKTOP_ID)  # the desktop entry (and its icon) the window belongs to
+    app.setWindowIcon(QIcon(str(icon_path())))
     plan = None
     if args.plan:
         try:
@@ -235,7 +241,10 @@ def main(argv: list[str] | None = None) -> int:
         settings = QSettings(os.path.join(scratch.name, "settings.ini"), QSettings.IniFormat)
     if args.units:
         settings.setValue("units", args.units)
+    examples = [] if args.screenshot or args.plan else first_run(settings)
     window = MainWindow(plan, settings, args.plan)
+    if examples:  # the first run: the examples in Open recent, the first of them open
+        window.welcome(examples)
     if args.screenshot:
         window.resize(1320, 860)
         outcome = {"code": 1}

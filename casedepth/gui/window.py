@@ -543,8 +543,7 @@ class MainWindow(QMainWindow):
 
     def load_dialog(self) -> None:
         """Pick saved plans that share a furnace step and show the soak they can share."""
-        start = str(self.path.parent) if self.path else str(self.settings.value("last_folder", str(Path.home())))
-        paths, _ = QFileDialog.getOpenFileNames(self, "Plans for one load", start, PLAN_FILTER)
+        paths, _ = QFileDialog.getOpenFileNames(self, "Plans for one load", self._start_folder(), PLAN_FILTER)
         if paths:
             self.show_load(paths)
 
@@ -574,10 +573,26 @@ class MainWindow(QMainWindow):
         dialog.show()
         return text
 
+    def welcome(self, examples: list[Path]) -> None:
+        """The first run: the example plans (copied to the data folder) in Open recent, the first of them open, and a
+        word on where they are."""
+        for example in reversed(examples):
+            self._remember(example)
+        if examples and self.open_plan(examples[0]):
+            self.statusBar().showMessage(f"Welcome: example plans are in {examples[0].parent} (File → Open recent)",
+                                         20000)
+
+    def _start_folder(self) -> str:
+        """Where Open and Save as start: the plan's folder, the last one used, at first the documents folder."""
+        if self.path:
+            return str(self.path.parent)
+        from .places import documents_folder
+        return str(self.settings.value("last_folder", str(documents_folder())))
+
     def open_dialog(self) -> None:
         if not self._may_discard():
             return
-        start = str(self.path.parent) if self.path else str(self.settings.value("last_folder", str(Path.home())))
+        start = self._start_folder()
         path, _ = QFileDialog.getOpenFileName(self, "Open plan", start, PLAN_FILTER)
         if path:
             self.open_plan(path)
@@ -602,8 +617,7 @@ class MainWindow(QMainWindow):
         return self.save_plan(self.path)
 
     def save_as_dialog(self) -> bool:
-        start = str(self.path) if self.path else str(Path(str(self.settings.value("last_folder", str(Path.home())))) /
-                                                        f"{self.plan.title}.cdplan.json")
+        start = str(self.path) if self.path else str(Path(self._start_folder()) / f"{self.plan.title}.cdplan.json")
         path, _ = QFileDialog.getSaveFileName(self, "Save plan as", start, PLAN_FILTER)
         return self.save_plan(path) if path else False
 
