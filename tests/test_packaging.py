@@ -130,3 +130,26 @@ def test_the_packaging_scripts_parse(script):
     shell = "sh" if script.read_text().startswith("#!/usr/bin/env sh") else "bash"
     done = subprocess.run([shell, "-n", str(script)], capture_output=True, text=True, timeout=30)
     assert done.returncode == 0, done.stderr
+
+
+def test_the_installed_desktop_entry_opens_the_plan_it_is_given(tmp_path):
+    """What a double-click runs: the installed entry's Exec with %f replaced by the plan's path. Run offscreen with
+    --screenshot (the window exits after its first result): exit 0 and a picture of the window."""
+    import sys
+
+    launcher = Path(sys.executable).parent / "casedepth-gui"
+    if not launcher.exists():
+        pytest.skip("casedepth-gui is not installed beside this Python")
+    env = {**os.environ, "XDG_DATA_HOME": str(tmp_path / "share"), "BIN": str(launcher)}
+    subprocess.run(["sh", str(LINUX / "install-desktop-files.sh")], env=env, check=True, capture_output=True, timeout=120)
+    parser = configparser.ConfigParser(interpolation=None)
+    parser.optionxform = str
+    parser.read(tmp_path / "share" / "applications" / "org.casedepth.casedepth.desktop", encoding="utf-8")
+    import shlex
+    plan = ROOT / "resources" / "examples" / "pinion-shaft.cdplan.json"
+    command = [str(plan) if word == "%f" else word for word in shlex.split(parser["Desktop Entry"]["Exec"])]
+    picture = tmp_path / "opened.png"
+    done = subprocess.run([*command, "--screenshot", str(picture)], env={**os.environ, "HOME": str(tmp_path)},
+                          capture_output=True, text=True, timeout=120)
+    assert done.returncode == 0, done.stderr
+    assert picture.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n" and picture.stat().st_size > 20000
