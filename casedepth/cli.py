@@ -14,6 +14,7 @@ import json
 import os
 import sys
 from contextlib import contextmanager
+from pathlib import Path
 
 from . import __version__, formats
 from .constants import ZERO_CELSIUS
@@ -23,6 +24,7 @@ from .models.atmosphere import (DEFAULT_CARRIER, DEFAULT_GAS_DATA, GAS_DATA, REA
                                 check_carrier, convert_reading)
 from .models.steels import library
 from .parameters import PARAMETERS, OptionError, label, option_for, options_for
+from .shop.record import SCALES
 from .plan import Plan, compare_temperatures, evaluate, forward, load, plan_from_options, save
 from .treatments import TREATMENTS
 from .units import DisplayUnits, check_text, format_duration, parse_length, parse_number, parse_temperature, parse_time
@@ -215,6 +217,39 @@ def _build_parser(argv: list[str] | None = None) -> argparse.ArgumentParser:
                                     "that would decarburize its core is refused (without it: below 0.10 %%C)")
     _printing(pr, units=False)
     pr.set_defaults(handler=_probe)
+
+    rc = commands.add_parser("record", help="the shop's furnace record: loads, measured coupons, a furnace's fit",
+                             description="Keep every load's plan and its measured coupons in one database (SQLite; "
+                                         "default in the platform's data folder, or --db / CASEDEPTH_RECORD), and fit "
+                                         "a furnace's multipliers to all its traverses at once.")
+    actions = rc.add_subparsers(dest="record_action", metavar="{add,measure,fit,list}")
+    add = actions.add_parser("add", help="record a load run from a plan")
+    add.add_argument("plan", metavar="PLAN", help="the plan the load was run from (stored whole)")
+    add.add_argument("--furnace", required=True, help='the furnace: "Pit 2"')
+    add.add_argument("--load", required=True, help="the load's number: 2026-118")
+    add.add_argument("--date", help="the day it ran, YYYY-MM-DD (default today)")
+    add.add_argument("--soak", help="the soak actually run, where it differed from the plan's: 6h30min")
+    add.add_argument("--parts", help="parts in the load")
+    measure = actions.add_parser("measure", help="record a coupon's traverse of a recorded load (CSV)")
+    measure.add_argument("load", metavar="LOAD", help="the load's number")
+    kind = measure.add_mutually_exclusive_group(required=True)
+    kind.add_argument("--carbon", metavar="FILE.csv", help="carbon profile: a header row, then depth mm and wt %% C")
+    kind.add_argument("--hardness", metavar="FILE.csv", help="hardness traverse: a header row, then depth mm and "
+                                                             "hardness")
+    measure.add_argument("--scale", choices=SCALES, default="HV1", help="the hardness method (HRC is turned into HV "
+                                                                        "by ASTM E140; default HV1)")
+    measure.add_argument("--furnace", help="the furnace, where two furnaces have a load of this number")
+    measure.add_argument("--coupon", default="", help="which coupon of the load")
+    measure.add_argument("--by", default="", help="who measured")
+    fit = actions.add_parser("fit", help="a furnace's multipliers fitted to all its recorded traverses")
+    fit.add_argument("--furnace", required=True)
+    listing = actions.add_parser("list", help="the recorded loads")
+    listing.add_argument("--furnace")
+    for sub in (add, measure, fit, listing):
+        sub.add_argument("--db", help="the record's file (default: the platform's data folder, or CASEDEPTH_RECORD)")
+    for sub in (fit, listing):
+        sub.add_argument("--json", action="store_true", help="print one JSON object instead of text")
+    rc.set_defaults(handler=_record)
 
     st = commands.add_parser("steels", help="list the steel library")
     st.set_defaults(handler=_steels)
@@ -514,6 +549,52 @@ def _probe(args) -> int:
     return 0
 
 
+def _record(args) -> int:
+    from .plan.fileformat import to_dict
+    from .shop.record import Measurement, Record, read_csv
+
+    if args.record_action is None:
+        raise _UsageError("record: say what to do: add, measure, fit or list (casedepth record --help)")
+    with Record(args.db) as record:
+        if args.record_action == "add":
+            plan = load(args.plan)
+            soak = None if args.soak is None else parse_time(args.soak, "soak")
+            parts = None if args.parts is None else int(parse_number(args.parts, "parts"))
+            record.add_load(args.furnace, args.load, to_dict(plan), args.date, soak, parts)
+            print(f"recorded load {args.load} of {' '.join(args.furnace.split())} ({plan.title}) in {record.path}")
+            return 0
+        if args.record_action == "measure":
+            kind, path = ("carbon", args.carbon) if args.carbon else ("hardness", args.hardness)
+            field = kind  # errors name the option that gave the file
+            try:
+                text = Path(path).read_text(encoding="utf-8-sig")
+            except OSError as error:
+                raise InputError(field, f"{path}: {error.strerror or error}") from None
+            points = read_csv(text, kind, args.scale if kind == "hardness" else "", field)
+            record.add_measurement(args.load, Measurement(kind, points, args.coupon,
+                                                          args.scale if kind == "hardness" else "", args.by),
+                                   args.furnace)
+            print(f"recorded {len(points)} {kind} readings of load {args.load}")
+            return 0
+        if args.record_action == "fit":
+            from .shop.furnace_fit import fit_furnace
+
+            fitted = fit_furnace(record.loads(args.furnace), " ".join(args.furnace.split()))
+            print(json.dumps(fitted.to_dict()) if args.json else fitted.text())
+            return 0
+        loads = record.loads(args.furnace)
+        if args.json:
+            print(json.dumps({"record": str(record.path), "loads": [entry.to_dict() for entry in loads]}))
+            return 0
+        for entry in loads:
+            kinds = ", ".join(f"{m.kind} ({len(m.points)})" for m in entry.measurements) or "no measurements"
+            soak = "" if entry.soak is None else f", soak run {format_duration(entry.soak)}"
+            print(f"{entry.date}  {entry.furnace:<12} {entry.number:<12} {entry.plan.get('title', '')}{soak}: {kinds}")
+        if not loads:
+            print(f"no loads recorded in {record.path}")
+        return 0
+
+
 def _steels(_args) -> int:
     for steel in library("all"):
         print(f"{steel.name:<13} {steel.process:<12} {steel.standard:<34} {steel.composition_text()}")
@@ -529,17 +610,26 @@ def _flag_for(error: InputError, args, parser) -> str:
     treatment = getattr(args, "treatment", None) if args is not None else None
     if not isinstance(error, OptionError) and treatment is not None and field in PARAMETERS:
         field = option_for(treatment, field, getattr(args, "set_by", {})) or field
-    for action in _all_actions(parser, getattr(args, "command", None)):
+    actions = _all_actions(parser, getattr(args, "command", None), getattr(args, "record_action", None))
+    for action in actions:
         if action.dest == field and action.option_strings:
             return action.option_strings[0]
+    for action in actions:  # a positional argument: its name as the usage line shows it
+        if action.dest == field and not action.option_strings and action.metavar:
+            return action.metavar
     return label(field)
 
 
-def _all_actions(parser, command):
+def _all_actions(parser, command, action_name=None):
+    """The actions of the parser, of the command given and of that command's own action (``record add`` …)."""
     actions = list(parser._actions)
     for action in parser._actions:
         if isinstance(action, argparse._SubParsersAction) and command in action.choices:
-            actions += action.choices[command]._actions
+            sub = action.choices[command]
+            actions += sub._actions
+            for inner in sub._actions:
+                if isinstance(inner, argparse._SubParsersAction) and action_name in inner.choices:
+                    actions += inner.choices[action_name]._actions
     return actions
 
 

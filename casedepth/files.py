@@ -200,3 +200,14 @@ def atomic_write(path: str | os.PathLike, content: str | bytes | Callable[[str],
         raise
     _sync_folder(target.parent)
     return path
+
+
+def resource_path(*parts: str) -> Path:
+    """A file shipped in ``casedepth.resources`` (the repository's ``resources/``: the steel library, the example
+    plans, the icon), from an installed package or from a source tree that was not installed."""
+    try:
+        from importlib.resources import files
+
+        return Path(str(files("casedepth.resources").joinpath(*parts)))
+    except ModuleNotFoundError:  # running from a source tree that was not installed
+        return Path(__file__).resolve().parents[1].joinpath("resources", *parts)

@@ -38,7 +38,7 @@ from casedepth.parameters import PARAMETERS, Text  # noqa: E402
 from casedepth.shop.quote import ShopDefaults  # noqa: E402
 
 SCALE = float(os.environ.get("CASEDEPTH_FUZZ_SCALE", "1"))
-ACTIONS = int(os.environ.get("CASEDEPTH_FUZZ_ACTIONS", str(int(200 * SCALE))))
+ACTIONS = int(os.environ.get("CASEDEPTH_FUZZ_ACTIONS", str(int(150 * SCALE))))
 SEEDS = [int(os.environ["CASEDEPTH_FUZZ_SEED"])] if "CASEDEPTH_FUZZ_SEED" in os.environ else [11, 29]
 #: the longest the window may take to answer one action [s] (the issue's bound)
 STALL = 5.0

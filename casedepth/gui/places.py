@@ -15,10 +15,11 @@ them.
 from __future__ import annotations
 
 import shutil
-from importlib.resources import files
 from pathlib import Path
 
 from PySide6.QtCore import QSettings, QStandardPaths
+
+from ..files import resource_path
 
 #: the example opened on the first run (the others are beside it in the data folder and in Open recent)
 FIRST_EXAMPLE = "pinion-shaft.cdplan.json"
@@ -27,7 +28,7 @@ DESKTOP_ID = "org.casedepth.casedepth"  # the .desktop file's name (packaging/li
 
 def resource(*parts: str) -> Path:
     """A file shipped in ``casedepth.resources`` (the repository's ``resources/``)."""
-    return Path(str(files("casedepth.resources").joinpath(*parts)))
+    return resource_path(*parts)
 
 
 def icon_path() -> Path:

@@ -56,12 +56,9 @@ class Steel:
 
 
 def _data_file() -> Path:
-    try:
-        from importlib.resources import files
+    from ..files import resource_path
 
-        return Path(str(files("casedepth.resources") / "steels.json"))
-    except ModuleNotFoundError:  # running from a source tree that was not installed
-        return Path(__file__).resolve().parents[2] / "resources" / "steels.json"
+    return resource_path("steels.json")
 
 
 @lru_cache(maxsize=1)

@@ -1,0 +1,247 @@
+"""Calibration of one furnace from its whole record: the multipliers that make the plan's model reproduce every
+recorded traverse of that furnace at once, with their confidence intervals.
+
+For each recorded load the model is the load's own plan as run (:func:`casedepth.plan.forward`, the same path as
+every other surface): the recipe the plan gave for its nominal values — its soak, or its held stages in the plan's
+split — run for the soak actually recorded, with the fitted multipliers in place. The readings of its coupons
+(carbon by turned layers or spectrometer, or a hardness traverse) are compared with the model's profile
+interpolated at their depths.
+
+Fitted (in log space, bounded to 0.1–10):
+
+* carburizing: the diffusivity multiplier ``d_multiplier`` and a factor on β (on the plan's one β, or its gas β's
+  ``beta_multiplier``); a plan with its surface held at equilibrium fits the diffusivity alone;
+* nitriding: the nitrogen-diffusivity multiplier ``n_multiplier``.
+
+Method: nonlinear least squares (``scipy.optimize.least_squares``, trust-region reflective) on the readings
+weighted by the usual scatter of their method — 0.03 %C for carbon, 25 HV for a hardness traverse (common practice,
+from memory) — and the covariance s²(JᵀJ)⁻¹ at the optimum with s² the weighted residual variance (Bates & Watts,
+Nonlinear Regression Analysis and Its Applications, 1988, ch. 2), giving 95 % intervals exp(θ ± 1.96 σ_θ). A coupon
+whose readings miss by more than 2.5 robust scatters on average (root mean square; the robust scatter is 1.4826 ×
+the median absolute weighted miss, at least the readings' usual) is flagged as an outlier, and so is a reading that
+misses by more than 3.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+from typing import Any, Mapping
+
+import numpy as np
+
+from .. import formats
+from ..errors import InputError, NotReachableError
+from .record import Load
+
+#: the usual scatter of a reading, by kind (common practice, from memory): weights of the least squares
+SCATTER = {"carbon": 0.03, "hardness": 25.0}
+OUTLIER_LOAD = 2.5  # a load's rms weighted residual over s beyond this is flagged
+OUTLIER_READING = 3.0
+BOUNDS = (math.log(0.1), math.log(10.0))
+Z95 = 1.959963984540054  # two-sided 95 % normal quantile
+
+
+@dataclass
+class LoadFit:
+    """How one measured coupon of a load sits against the fitted model: mean and rms miss in its readings' unit (%C or
+    HV), and whether it or some of its readings are outliers."""
+
+    number: str
+    date: str
+    kind: str
+    mean_miss: float
+    rms_miss: float
+    outlier: bool
+    outlying_readings: list[float] = field(default_factory=list)  # depths [m]
+
+    def to_dict(self) -> dict:
+        return {"load": self.number, "date": self.date, "kind": self.kind, "mean_miss": self.mean_miss,
+                "rms_miss": self.rms_miss, "outlier": self.outlier,
+                "outlying_depths_mm": [d * 1e3 for d in self.outlying_readings]}
+
+
+@dataclass
+class FurnaceFit:
+    """The fitted multipliers of a furnace, their 95 % intervals, and each load's misfit."""
+
+    furnace: str
+    treatment: str
+    multipliers: dict[str, float]  # parameter key -> fitted value (d_multiplier, beta factor, n_multiplier)
+    intervals: dict[str, tuple[float, float]]
+    scatter: float  # s: the weighted residual standard deviation (1 = the readings' usual scatter)
+    readings: int
+    loads: list[LoadFit]
+    beta: float | None = None  # m/s: β of the first load at its temperature, fitted factor applied
+    beta_interval: tuple[float, float] | None = None
+
+    def to_dict(self) -> dict:
+        out: dict[str, Any] = {"furnace": self.furnace, "treatment": self.treatment, "readings": self.readings,
+                               "scatter": self.scatter, "loads": [load.to_dict() for load in self.loads]}
+        for key, value in self.multipliers.items():
+            name = {"d_multiplier": "diffusivity_multiplier", "n_multiplier": "nitrogen_diffusivity_multiplier",
+                    "beta": "beta_factor"}[key]
+            out[name] = value
+            out[f"{name}_ci"] = list(self.intervals[key])
+        if self.beta is not None:
+            out["beta_cm_per_s"] = self.beta * 100.0
+            out["beta_ci"] = [b * 100.0 for b in self.beta_interval]
+        return out
+
+    def text(self) -> str:
+        lines = [f"Furnace {self.furnace}: {len(self.loads)} loads, {self.readings} readings fitted at once "
+                 f"(scatter {self.scatter:.2f} × the readings' usual)"]
+        names = {"d_multiplier": "D multiplier", "n_multiplier": "D_N multiplier", "beta": "β factor"}
+        for key, value in self.multipliers.items():
+            low, high = self.intervals[key]
+            lines.append(f"  {names[key]:<15} {value:.3f}  (95 % interval {low:.3f}–{high:.3f})")
+        if self.beta is not None:
+            low, high = self.beta_interval
+            lines.append(f"  β                {self.beta * 100:.3g} cm/s at the first load's temperature "
+                         f"({low * 100:.3g}–{high * 100:.3g})")
+        for load in self.loads:
+            show = formats.carbon if load.kind == "carbon" else formats.hv
+            flag = "  OUTLIER" if load.outlier else ""
+            sign = "+" if load.mean_miss >= 0 else "−"
+            lines.append(f"  load {load.number} ({load.date}), {load.kind}: misses by {sign}{show(abs(load.mean_miss))} on "
+                         f"average, rms {show(load.rms_miss)}{flag}")
+        return "\n".join(lines)
+
+
+def _shift_beta(values: Mapping[str, Any], factor: float) -> dict:
+    """β times ``factor``: the gas β's calibration factor, or the plan's one β."""
+    if values["beta_model"] == "gas-2026":
+        return {"beta_multiplier": values["beta_multiplier"] * factor}
+    return {"beta": values["beta"] * factor}
+
+
+class _Model:
+    """The recorded loads of one furnace as a function of the fitted parameters (log multipliers)."""
+
+    def __init__(self, loads: list[Load]):
+        from ..plan import evaluate
+        from ..plan.fileformat import from_dict
+
+        self.loads, self.plans, self.soaks, self.shares = [], [], [], []
+        for load in loads:
+            if not load.measurements:
+                continue
+            try:
+                values = from_dict(load.plan).values()
+            except InputError as error:
+                raise InputError("record", f"load {load.number}: its plan cannot be read ({error.message})") from None
+            outcome = evaluate(values)  # the recipe the plan gave: its soak and split, held fixed
+            held = outcome.held_shares
+            self.loads.append(load)
+            self.plans.append(values)
+            self.soaks.append(load.soak if load.soak is not None else outcome.soak_time)
+            self.shares.append(held if len(held) > 1 else None)
+        if not self.loads:
+            raise InputError("furnace", "no load of this furnace has measurements to fit")
+        treatments = {v["treatment"] for v in self.plans}
+        if len(treatments) > 1:
+            raise InputError("furnace", f"the furnace's loads are of several treatments ({', '.join(sorted(treatments))})"
+                                        f": fit each on its own")
+        self.treatment = treatments.pop()
+        if self.treatment == "carburizing":
+            self.keys = ["d_multiplier"] + (["beta"] if all(not v["beta_held"] for v in self.plans) else [])
+        elif self.treatment == "nitriding":
+            self.keys = ["n_multiplier"]
+        else:
+            raise InputError("furnace", f"the furnace fit takes carburizing and nitriding loads, not {self.treatment}")
+        for load in self.loads:
+            if self.treatment == "nitriding" and any(m.kind != "hardness" for m in load.measurements):
+                raise InputError("record", f"load {load.number}: a nitriding load is fitted on hardness traverses")
+
+    def values_at(self, values: Mapping[str, Any], theta: np.ndarray) -> dict:
+        out = dict(values)
+        for key, x in zip(self.keys, theta):
+            if key == "beta":
+                out.update(_shift_beta(out, math.exp(x)))
+            else:
+                out[key] = math.exp(x)
+        return out
+
+    def predictions(self, theta: np.ndarray) -> list[list[np.ndarray]]:
+        """The model's value at every reading, load by load and measurement by measurement."""
+        from ..plan import forward
+
+        out = []
+        for load, values, soak, shares in zip(self.loads, self.plans, self.soaks, self.shares):
+            result = forward(self.values_at(values, theta), soak, shares=shares)
+            depth, carbon, hardness = _profiles(result)
+            out.append([np.interp([d for d, _ in m.points], depth, carbon if m.kind == "carbon" else hardness)
+                        for m in load.measurements])
+        return out
+
+    def residuals(self, theta: np.ndarray) -> np.ndarray:
+        parts = []
+        for load, predicted in zip(self.loads, self.predictions(theta)):
+            for m, p in zip(load.measurements, predicted):
+                parts.append((p - np.array([v for _, v in m.points])) / SCATTER[m.kind])
+        return np.concatenate(parts)
+
+
+def _profiles(result) -> tuple[np.ndarray, np.ndarray | None, np.ndarray]:
+    """(depth [m], carbon [wt %] or None, hardness [HV]) along a forward result's profile."""
+    if hasattr(result, "profile"):  # carburizing
+        from ..carburizing.outcome import hardness_along
+        return result.profile.depth, result.profile.carbon, hardness_along(result.setup, result.profile)
+    return np.asarray(result.depth), None, np.asarray(result.hardness)
+
+
+def fit_furnace(loads: list[Load], furnace: str = "") -> FurnaceFit:
+    """The multipliers that fit all of ``loads`` (one furnace's) at once; see the module notes.
+
+    :class:`InputError` naming ``furnace`` or ``record`` for loads that cannot be fitted together (no
+    measurements, several treatments, too few readings for the parameters); :class:`NotReachableError` naming
+    ``furnace`` when a multiplier ends at the edge of 0.1–10 (the model cannot reproduce the readings)."""
+    from scipy.optimize import least_squares  # imported on first use: it is slow to import
+
+    model = _Model(loads)
+    p = len(model.keys)
+    start = np.zeros(p)
+    n = len(model.residuals(start))
+    if n <= p + 1:
+        raise InputError("furnace", f"{n} readings cannot fit {p} multipliers with an uncertainty: record more")
+    found = least_squares(model.residuals, start, bounds=([BOUNDS[0]] * p, [BOUNDS[1]] * p), diff_step=1e-3,
+                          x_scale=1.0, method="trf")
+    theta = found.x
+    for key, x in zip(model.keys, theta):
+        if x - BOUNDS[0] < 1e-3 or BOUNDS[1] - x < 1e-3:
+            raise NotReachableError("furnace", f"the {key.replace('_', ' ')} that fits the record is at the edge of "
+                                               f"0.1–10: the plan's model cannot reproduce these readings; check the "
+                                               f"loads' soaks and the readings' depths")
+    r = found.fun
+    s2 = float(r @ r) / (n - p)
+    J = found.jac
+    try:
+        covariance = s2 * np.linalg.inv(J.T @ J)
+    except np.linalg.LinAlgError:
+        raise InputError("furnace", "the readings cannot tell the multipliers apart (add traverses that reach "
+                                    "the core and points near the surface)") from None
+    sigma = np.sqrt(np.maximum(np.diag(covariance), 0.0))
+    multipliers = {key: math.exp(x) for key, x in zip(model.keys, theta)}
+    intervals = {key: (math.exp(x - Z95 * s), math.exp(x + Z95 * s)) for key, x, s in zip(model.keys, theta, sigma)}
+    s = math.sqrt(s2)
+    # outliers are judged against a robust scatter (1.4826 × the median absolute weighted miss, which a few bad
+    # coupons do not inflate as they inflate s), never below the readings' usual scatter
+    robust = max(1.4826 * float(np.median(np.abs(r))), 1.0)
+    fits = []  # one per measured coupon: a carbon profile and a hardness traverse of a load are judged apart
+    for load, values in zip(model.loads, model.predictions(theta)):
+        for m, p_values in zip(load.measurements, values):
+            miss = p_values - np.array([v for _, v in m.points])
+            w = miss / SCATTER[m.kind]
+            outlying = [d for (d, _), x in zip(m.points, w) if abs(x) > OUTLIER_READING * robust]
+            fits.append(LoadFit(load.number, load.date, m.kind, float(np.mean(miss)), float(np.sqrt(np.mean(miss ** 2))),
+                                float(np.sqrt(np.mean(w ** 2))) > OUTLIER_LOAD * robust, outlying))
+    beta = beta_interval = None
+    if "beta" in multipliers:
+        from ..carburizing.outcome import carburizing_setup
+
+        first = model.values_at(model.plans[0], theta)
+        beta = carburizing_setup(first).beta
+        low, high = intervals["beta"]
+        beta_interval = (beta * low / multipliers["beta"], beta * high / multipliers["beta"])
+    return FurnaceFit(furnace, model.treatment, multipliers, intervals, s, n, fits, beta, beta_interval)
+

@@ -1,0 +1,350 @@
+"""The shop's furnace record: every load's plan and its measured coupons in one SQLite database.
+
+One file (standard library :mod:`sqlite3`), in WAL mode so the window and the command line can read while one of
+them writes; every write is one transaction, so a program killed in the middle of it leaves the database as it was
+before that write (``tests/test_record.py`` kills writers at random moments). The schema has a version
+(:data:`SCHEMA_VERSION`, the ``schema_version`` table); an older database is brought up to date by
+:data:`MIGRATIONS`, one step per version, when it is opened.
+
+Tables (SI inside: depths in m, soak in s; carbon in wt %, hardness in HV):
+
+``furnaces``      name (unique), kind (pit, integral quench, vacuum, …), survey class, notes
+``loads``         furnace, load number (unique per furnace), date, the plan as run (the whole plan file), the soak
+                  actually run where it differed from the plan's (NULL: the plan's), parts, notes
+``measurements``  per load and coupon: kind (``carbon`` profile by spectrometer or turned layers, ``hardness``
+                  traverse), the hardness method and load (HV0.5, HV1, HRC, …), who measured, when
+``points``        depth and value of each reading of a measurement
+
+CSV files as labs export them (:func:`read_csv`): a header row, then depth in mm and the value per row; commas,
+semicolons (with decimal commas) or tabs; a bad row is refused with its row number.
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import json
+import math
+import os
+import sqlite3
+import sys
+from dataclasses import dataclass, field
+from datetime import date as _date
+from pathlib import Path
+from typing import Iterable
+
+from .. import formats
+from ..errors import InputError
+
+SCHEMA_VERSION = 1
+#: the kinds of measurement, with the range of their values (carbon wt %, hardness HV)
+KINDS = {"carbon": (0.0, 2.5), "hardness": (50.0, 1500.0)}
+#: hardness methods a traverse is read with; HRC readings are turned into HV (ASTM E140) when stored
+SCALES = ("HV0.1", "HV0.3", "HV0.5", "HV1", "HV5", "HV10", "HRC")
+DEPTH_RANGE = (0.0, 20e-3)  # m from the surface
+
+SCHEMA_1 = """
+CREATE TABLE schema_version (version INTEGER NOT NULL);
+CREATE TABLE furnaces (
+    id INTEGER PRIMARY KEY,
+    name TEXT NOT NULL UNIQUE,
+    kind TEXT NOT NULL DEFAULT '',
+    survey_class TEXT NOT NULL DEFAULT '',
+    notes TEXT NOT NULL DEFAULT ''
+);
+CREATE TABLE loads (
+    id INTEGER PRIMARY KEY,
+    furnace_id INTEGER NOT NULL REFERENCES furnaces(id),
+    number TEXT NOT NULL,
+    date TEXT NOT NULL,
+    plan_json TEXT NOT NULL,
+    soak_s REAL,
+    parts INTEGER,
+    notes TEXT NOT NULL DEFAULT '',
+    UNIQUE (furnace_id, number)
+);
+CREATE TABLE measurements (
+    id INTEGER PRIMARY KEY,
+    load_id INTEGER NOT NULL REFERENCES loads(id) ON DELETE CASCADE,
+    coupon TEXT NOT NULL DEFAULT '',
+    kind TEXT NOT NULL CHECK (kind IN ('carbon', 'hardness')),
+    scale TEXT NOT NULL DEFAULT '',
+    measured_by TEXT NOT NULL DEFAULT '',
+    taken TEXT NOT NULL DEFAULT ''
+);
+CREATE TABLE points (
+    measurement_id INTEGER NOT NULL REFERENCES measurements(id) ON DELETE CASCADE,
+    depth_m REAL NOT NULL,
+    value REAL NOT NULL
+);
+CREATE INDEX points_of_measurement ON points (measurement_id);
+INSERT INTO schema_version (version) VALUES (1);
+"""
+
+#: version -> the step that brings a database of that version to the next (none yet: schema 1 is the first)
+MIGRATIONS: dict[int, str] = {}
+
+
+def default_database() -> Path:
+    """Where the record lives unless the settings say otherwise: the platform's application data folder (the same
+    folder Qt's ``QStandardPaths.AppDataLocation`` names), or ``CASEDEPTH_RECORD`` if set."""
+    if os.environ.get("CASEDEPTH_RECORD"):
+        return Path(os.environ["CASEDEPTH_RECORD"])
+    if sys.platform.startswith("win"):
+        base = Path(os.environ.get("APPDATA", Path.home() / "AppData" / "Roaming"))
+    elif sys.platform == "darwin":
+        base = Path.home() / "Library" / "Application Support"
+    else:
+        base = Path(os.environ.get("XDG_DATA_HOME") or Path.home() / ".local" / "share")
+    return base / "casedepth" / "record.sqlite"
+
+
+# -- the records ------------------------------------------------------------------------------------------------------
+@dataclass
+class Measurement:
+    """One measured coupon: its kind, method, who, and the readings (depth [m], value)."""
+
+    kind: str
+    points: list[tuple[float, float]]
+    coupon: str = ""
+    scale: str = ""
+    measured_by: str = ""
+    taken: str = ""
+    id: int | None = None
+
+    def to_dict(self) -> dict:
+        return {"kind": self.kind, "coupon": self.coupon, "scale": self.scale, "measured_by": self.measured_by,
+                "taken": self.taken, "points": [{"depth_mm": d * 1e3, "value": v} for d, v in self.points]}
+
+
+@dataclass
+class Load:
+    """A load as recorded: its furnace, number, date, the plan as run, the soak run (None: the plan's), measurements."""
+
+    furnace: str
+    number: str
+    date: str
+    plan: dict
+    soak: float | None = None
+    parts: int | None = None
+    notes: str = ""
+    measurements: list[Measurement] = field(default_factory=list)
+    id: int | None = None
+
+    def to_dict(self) -> dict:
+        return {"furnace": self.furnace, "load": self.number, "date": self.date, "plan_title": self.plan.get("title", ""),
+                "soak_h": None if self.soak is None else self.soak / 3600.0, "parts": self.parts, "notes": self.notes,
+                "measurements": [m.to_dict() for m in self.measurements]}
+
+
+def check_points(kind: str, points: Iterable[tuple[float, float]], field: str = "points") -> list[tuple[float, float]]:
+    """Readings as stored: at least three, depths increasing from the surface within 0–20 mm, values in the kind's
+    range; :class:`InputError` naming ``field`` otherwise."""
+    if kind not in KINDS:
+        raise InputError("kind", f"{kind!r} is not one of {', '.join(KINDS)}")
+    low, high = KINDS[kind]
+    out = []
+    for number, (depth, value) in enumerate(points, 1):
+        if not (math.isfinite(depth) and DEPTH_RANGE[0] <= depth <= DEPTH_RANGE[1]):
+            raise InputError(field, f"reading {number}: depth {formats.typed(depth * 1e3, 'mm')} is outside 0–20 mm")
+        if not (math.isfinite(value) and low <= value <= high):
+            unit = "%C" if kind == "carbon" else "HV"
+            raise InputError(field, f"reading {number}: {formats.typed(value, unit)} is outside "
+                                    f"{formats.typed_range(low, high, unit)}")
+        if out and depth <= out[-1][0]:
+            raise InputError(field, f"reading {number}: depths must increase from the surface "
+                                    f"({formats.typed(depth * 1e3, 'mm')} after {formats.typed(out[-1][0] * 1e3, 'mm')})")
+        out.append((float(depth), float(value)))
+    if len(out) < 3:
+        raise InputError(field, f"{len(out)} readings: a traverse needs at least 3")
+    return out
+
+
+def read_csv(text: str, kind: str, scale: str = "", field: str = "csv") -> list[tuple[float, float]]:
+    """Readings from a lab's CSV: a header row, then depth [mm] and value per row (carbon wt %, or hardness in
+    ``scale``: HV, or HRC turned into HV by ASTM E140). Commas, semicolons (decimal commas allowed) or tabs.
+    A bad row is refused naming its row number (the header is row 1)."""
+    from ..models.hardness import ASTM_E140_hrc_to_hv
+
+    lines = [line for line in text.splitlines()]
+    if not lines or not lines[0].strip():
+        raise InputError(field, "the file is empty: a header row, then depth in mm and the value per row")
+    try:
+        dialect = csv.Sniffer().sniff(lines[0] + "\n" + "\n".join(lines[1:3]), delimiters=",;\t")
+        delimiter = dialect.delimiter
+    except csv.Error:
+        delimiter = ";" if ";" in lines[0] else ("\t" if "\t" in lines[0] else ",")
+    rows = list(csv.reader(io.StringIO(text), delimiter=delimiter))
+    points = []
+    for number, row in enumerate(rows[1:], 2):
+        cells = [c.strip() for c in row]
+        if not any(cells):
+            continue
+        if len([c for c in cells if c]) != 2:
+            raise InputError(field, f"row {number}: {len([c for c in cells if c])} values, expected 2 (depth in mm, "
+                                    f"{'carbon in wt %' if kind == 'carbon' else 'hardness'})")
+        depth_text, value_text = (c for c in cells if c)
+        try:
+            depth = float(depth_text.replace(",", ".") if delimiter != "," else depth_text) * 1e-3
+        except ValueError:
+            raise InputError(field, f"row {number}: depth {depth_text!r} is not a number (mm)") from None
+        try:
+            value = float(value_text.replace(",", ".") if delimiter != "," else value_text)
+        except ValueError:
+            raise InputError(field, f"row {number}: value {value_text!r} is not a number") from None
+        if kind == "hardness" and scale == "HRC":
+            if not 20.0 <= value <= 68.0:
+                raise InputError(field, f"row {number}: {formats.typed(value, 'HRC')} is outside 20–68 HRC")
+            value = float(ASTM_E140_hrc_to_hv(value))
+        points.append((depth, value))
+    try:
+        return check_points(kind, points, field)
+    except InputError as error:  # name the file's row, not the reading's number
+        message = error.message
+        if message.startswith("reading "):
+            n = int(message.split()[1].rstrip(":"))
+            message = f"row {n + 1}:" + message.split(":", 1)[1]
+        raise InputError(field, message) from None
+
+
+# -- the database -----------------------------------------------------------------------------------------------------
+class Record:
+    """An open furnace record. Use as a context manager, or call :meth:`close`."""
+
+    def __init__(self, path: str | os.PathLike | None = None):
+        self.path = Path(path) if path is not None else default_database()
+        self.path.parent.mkdir(parents=True, exist_ok=True)
+        try:
+            self.db = sqlite3.connect(self.path, timeout=10.0)
+            self.db.execute("PRAGMA foreign_keys = ON")
+            self.db.execute("PRAGMA journal_mode = WAL")
+            self.db.execute("PRAGMA synchronous = FULL")
+            self._migrate()
+        except sqlite3.DatabaseError as error:
+            raise InputError("db", f"{self.path}: not a furnace record ({error})") from None
+
+    def __enter__(self) -> Record:
+        return self
+
+    def __exit__(self, *exc) -> None:
+        self.close()
+
+    def close(self) -> None:
+        self.db.close()
+
+    @property
+    def version(self) -> int:
+        return int(self.db.execute("SELECT version FROM schema_version").fetchone()[0])
+
+    def _migrate(self) -> None:
+        tables = {row[0] for row in self.db.execute("SELECT name FROM sqlite_master WHERE type = 'table'")}
+        if not tables:
+            with self.db:
+                self.db.executescript("BEGIN;" + SCHEMA_1 + "COMMIT;")
+            return
+        if "schema_version" not in tables:
+            raise InputError("db", f"{self.path}: an SQLite database, but not a furnace record")
+        version = self.version
+        if version > SCHEMA_VERSION:
+            raise InputError("db", f"{self.path}: made by a newer casedepth (record schema {version}; this one reads "
+                                   f"up to {SCHEMA_VERSION})")
+        while version < SCHEMA_VERSION:  # one step per version, each in its own transaction
+            self.db.executescript(f"BEGIN;{MIGRATIONS[version]}UPDATE schema_version SET version = {version + 1};COMMIT;")
+            version += 1
+
+    # -- writing (each call one transaction) --------------------------------------------------------------------
+    def furnace_id(self, name: str, create: bool = False, kind: str = "") -> int:
+        name = " ".join(str(name).split())
+        if not name:
+            raise InputError("furnace", "give the furnace's name")
+        row = self.db.execute("SELECT id FROM furnaces WHERE name = ?", (name,)).fetchone()
+        if row is not None:
+            return int(row[0])
+        if not create:
+            known = [r[0] for r in self.db.execute("SELECT name FROM furnaces ORDER BY name")]
+            raise InputError("furnace", f"no furnace {name!r} in the record; known: {', '.join(known) or 'none yet'}")
+        return int(self.db.execute("INSERT INTO furnaces (name, kind) VALUES (?, ?)", (name, kind)).lastrowid)
+
+    def add_load(self, furnace: str, number: str, plan: dict, day: str | None = None, soak: float | None = None,
+                 parts: int | None = None, notes: str = "", measurements: Iterable[Measurement] = ()) -> int:
+        """Record a load (and any measurements of it) in one transaction; returns its id."""
+        number = str(number).strip()
+        if not number:
+            raise InputError("load", "give the load's number")
+        day = day or _date.today().isoformat()
+        try:
+            _date.fromisoformat(day)
+        except ValueError:
+            raise InputError("date", f"{day!r} is not a date (YYYY-MM-DD)") from None
+        if soak is not None and not (math.isfinite(soak) and 60.0 <= soak <= 500 * 3600.0):
+            raise InputError("soak", f"{soak / 3600:g} h is outside 1 min–500 h")
+        with self.db:
+            furnace_id = self.furnace_id(furnace, create=True)
+            try:
+                load_id = int(self.db.execute(
+                    "INSERT INTO loads (furnace_id, number, date, plan_json, soak_s, parts, notes) VALUES (?, ?, ?, ?, ?, ?, ?)",
+                    (furnace_id, number, day, json.dumps(plan), soak, parts, notes)).lastrowid)
+            except sqlite3.IntegrityError:
+                raise InputError("load", f"load {number!r} of {furnace!r} is already in the record") from None
+            for measurement in measurements:
+                self._insert_measurement(load_id, measurement)
+        return load_id
+
+    def add_measurement(self, load_number: str, measurement: Measurement, furnace: str | None = None) -> int:
+        """Record a measured coupon of a recorded load (one transaction); returns its id."""
+        load_id = self._load_id(load_number, furnace)
+        with self.db:
+            return self._insert_measurement(load_id, measurement)
+
+    def _insert_measurement(self, load_id: int, m: Measurement) -> int:
+        points = check_points(m.kind, m.points)
+        if m.kind == "hardness" and m.scale and m.scale not in SCALES:
+            raise InputError("scale", f"{m.scale!r} is not one of {', '.join(SCALES)}")
+        measurement_id = int(self.db.execute(
+            "INSERT INTO measurements (load_id, coupon, kind, scale, measured_by, taken) VALUES (?, ?, ?, ?, ?, ?)",
+            (load_id, m.coupon, m.kind, m.scale, m.measured_by, m.taken)).lastrowid)
+        self.db.executemany("INSERT INTO points (measurement_id, depth_m, value) VALUES (?, ?, ?)",
+                            [(measurement_id, d, v) for d, v in points])
+        return measurement_id
+
+    def _load_id(self, number: str, furnace: str | None) -> int:
+        query = "SELECT loads.id, furnaces.name FROM loads JOIN furnaces ON furnaces.id = loads.furnace_id WHERE number = ?"
+        rows = self.db.execute(query + ("" if furnace is None else " AND furnaces.name = ?"),
+                               (number,) if furnace is None else (number, " ".join(furnace.split()))).fetchall()
+        if not rows:
+            raise InputError("load", f"no load {number!r} in the record" + ("" if furnace is None else f" for {furnace!r}"))
+        if len(rows) > 1:
+            raise InputError("load", f"load {number!r} is in the record of {', '.join(r[1] for r in rows)}: name the "
+                                     f"furnace")
+        return int(rows[0][0])
+
+    # -- reading ---------------------------------------------------------------------------------------------------
+    def furnaces(self) -> list[str]:
+        return [r[0] for r in self.db.execute("SELECT name FROM furnaces ORDER BY name")]
+
+    def loads(self, furnace: str | None = None) -> list[Load]:
+        """The recorded loads (of one furnace), oldest first, with their measurements."""
+        query = ("SELECT loads.id, furnaces.name, number, date, plan_json, soak_s, parts, loads.notes FROM loads "
+                 "JOIN furnaces ON furnaces.id = loads.furnace_id")
+        args: tuple = ()
+        if furnace is not None:
+            self.furnace_id(furnace)  # refuses an unknown furnace, naming the known ones
+            query += " WHERE furnaces.name = ?"
+            args = (" ".join(furnace.split()),)
+        out = []
+        for load_id, name, number, day, plan, soak, parts, notes in self.db.execute(query + " ORDER BY date, loads.id",
+                                                                                      args).fetchall():
+            load = Load(name, number, day, json.loads(plan), soak, parts, notes, id=load_id)
+            for m_id, coupon, kind, scale, by, taken in self.db.execute(
+                    "SELECT id, coupon, kind, scale, measured_by, taken FROM measurements WHERE load_id = ? ORDER BY id",
+                    (load_id,)).fetchall():
+                points = [(d, v) for d, v in self.db.execute(
+                    "SELECT depth_m, value FROM points WHERE measurement_id = ? ORDER BY depth_m", (m_id,))]
+                load.measurements.append(Measurement(kind, points, coupon, scale, by, taken, id=m_id))
+            out.append(load)
+        return out
+
+
+def open_record(path: str | os.PathLike | None = None) -> Record:
+    """The record at ``path`` (default: :func:`default_database`), created empty if it does not exist."""
+    return Record(path)

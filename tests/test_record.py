@@ -1,0 +1,256 @@
+"""The shop's furnace record (casedepth.shop.record) and a furnace's calibration from it
+(casedepth.shop.furnace_fit).
+
+Sources: Crank, The Mathematics of Diffusion (1975), §3.3, the surface-evaporation solution (tests/analytic.py) —
+an independent solve that makes synthetic carbon traverses with known multipliers; Bates & Watts, Nonlinear
+Regression Analysis and Its Applications (1988), ch. 2, for what a 95 % interval of a least-squares fit must do
+(contain the truth in most repetitions); SQLite's documented atomic commit (a killed writer loses only its
+unfinished transaction) — the kill test checks it here.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+import sqlite3
+import subprocess
+import sys
+import time
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+from analytic import evaporation_plane
+from casedepth.cli import main
+from casedepth.errors import InputError, NotReachableError
+from casedepth.models.diffusivity import Arrhenius
+from casedepth.plan import Plan, evaluate
+from casedepth.plan.fileformat import to_dict
+from casedepth.shop.furnace_fit import fit_furnace
+from casedepth.shop.record import SCHEMA_VERSION, Measurement, Record, read_csv
+
+K = 273.15
+DATA = Path(__file__).parent / "data" / "record"
+EXAMPLE = Path(__file__).resolve().parents[1] / "resources" / "examples" / "pinion-shaft.cdplan.json"
+
+
+def synthetic_furnace(record: Record, furnace: str, m: float, f: float, noise: float, seed: int) -> None:
+    """Four loads of constant-D, mass-transfer carburizing (no shop stages, flat surface) whose carbon traverses come
+    from Crank's surface-evaporation solution with D × ``m`` and β × ``f``, plus normal noise of ``noise`` %C."""
+    rng = np.random.default_rng(seed)
+    for i, (celsius, potential, hours) in enumerate([(915, 0.9, 4), (925, 1.0, 6), (940, 1.1, 8), (930, 0.95, 5)]):
+        plan = Plan(temperature=celsius + K, carbon_potential=potential, diffusivity="arrhenius", count_shop_stages=False,
+                    beta_model="constant", beta=1.5e-7, alloy_factor=False)
+        core = evaluate(plan).setup.steel.carbon
+        x = np.arange(0.1, 2.01, 0.1) * 1e-3
+        F = evaporation_plane(x, hours * 3600, float(Arrhenius(0.5, celsius + K)) * m, 1.5e-7 * f)
+        carbon = core + (potential - core) * F + rng.normal(0.0, noise, len(x))
+        record.add_load(furnace, f"L-{i}", to_dict(plan), f"2026-11-{10 + i:02d}", hours * 3600.0,
+                        measurements=[Measurement("carbon", list(zip(x, carbon)))])
+
+
+def test_a_furnace_fitted_to_synthetic_traverses_recovers_its_multipliers(tmp_path):
+    """Made with D × 1.3 and β × 0.6 by Crank's solution, noise 0.02 %C: the fit's 95 % intervals hold both, and the
+    scatter it reports is the noise over the weights' 0.03 %C (about 0.67)."""
+    with Record(tmp_path / "r.sqlite") as record:
+        synthetic_furnace(record, "Pit 2", 1.3, 0.6, 0.02, seed=3)
+        fit = fit_furnace(record.loads("Pit 2"), "Pit 2")
+    low, high = fit.intervals["d_multiplier"]
+    assert low < 1.3 < high and high / low < 1.3
+    low, high = fit.intervals["beta"]
+    assert low < 0.6 < high
+    assert fit.scatter == pytest.approx(0.02 / 0.03, rel=0.3)
+    assert fit.readings == 80 and not any(load.outlier for load in fit.loads)
+    data = fit.to_dict()
+    assert {"diffusivity_multiplier", "diffusivity_multiplier_ci", "beta_cm_per_s", "beta_ci", "loads"} <= set(data)
+    assert data["beta_cm_per_s"] == pytest.approx(1.5e-5 * fit.multipliers["beta"])
+
+
+def test_the_intervals_cover_the_truth_in_most_repetitions(tmp_path):
+    """Five noisy records of the same furnace (fixed seeds): a 95 % interval may miss once in twenty; at most one
+    miss of five."""
+    misses = 0
+    for seed in range(5):
+        with Record(tmp_path / f"r{seed}.sqlite") as record:
+            synthetic_furnace(record, "Pit", 0.8, 1.5, 0.03, seed=seed)
+            fit = fit_furnace(record.loads("Pit"), "Pit")
+        low, high = fit.intervals["d_multiplier"]
+        misses += not (low < 0.8 < high)
+    assert misses <= 1
+
+
+def test_an_outlying_load_is_flagged(tmp_path):
+    with Record(tmp_path / "r.sqlite") as record:
+        synthetic_furnace(record, "Pit", 1.0, 1.0, 0.01, seed=1)
+        plan = Plan(diffusivity="arrhenius", count_shop_stages=False, beta_model="constant", alloy_factor=False)
+        x = np.arange(0.1, 1.6, 0.1) * 1e-3
+        record.add_load("Pit", "L-bad", to_dict(plan), "2026-11-20", 6 * 3600.0,
+                        measurements=[Measurement("carbon", list(zip(x, np.full(len(x), 0.9))))])  # a mixed-up coupon
+        fit = fit_furnace(record.loads("Pit"), "Pit")
+    flagged = [load.number for load in fit.loads if load.outlier]
+    assert flagged == ["L-bad"]
+
+
+def test_an_impossible_record_is_refused(tmp_path):
+    with Record(tmp_path / "r.sqlite") as record:
+        plan = Plan(diffusivity="arrhenius", count_shop_stages=False, beta_model="constant", alloy_factor=False)
+        x = np.arange(0.1, 1.1, 0.1) * 1e-3
+        record.add_load("Pit", "L-1", to_dict(plan), "2026-11-20", 6 * 3600.0,
+                        measurements=[Measurement("carbon", list(zip(x, np.linspace(2.4, 2.3, len(x)))))])
+        with pytest.raises((NotReachableError, InputError)) as error:
+            fit_furnace(record.loads("Pit"), "Pit")
+        assert error.value.field == "furnace"
+        record.add_load("Empty", "E-1", to_dict(plan), "2026-11-21")
+        with pytest.raises(InputError, match="no load of this furnace has measurements"):
+            fit_furnace(record.loads("Empty"), "Empty")
+
+
+def test_loads_and_measurements_round_trip_and_are_refused_with_their_field(tmp_path):
+    plan = to_dict(Plan())
+    with Record(tmp_path / "r.sqlite") as record:
+        record.add_load("Pit 2", "2026-118", plan, "2026-11-30", 6.5 * 3600, parts=40)
+        record.add_measurement("2026-118", Measurement("hardness", [(1e-4, 700.0), (5e-4, 620.0), (1e-3, 480.0)],
+                                                       "C1", "HV1", "inspector A"))
+        (load,) = record.loads("Pit 2")
+        assert (load.number, load.date, load.soak, load.parts, load.plan) == ("2026-118", "2026-11-30", 6.5 * 3600, 40,
+                                                                             plan)
+        assert load.measurements[0].points == [(1e-4, 700.0), (5e-4, 620.0), (1e-3, 480.0)]
+        for call, field in [(lambda: record.add_load("Pit 2", "2026-118", plan), "load"),
+                            (lambda: record.add_load("Pit 2", "X", plan, "30.11.2026"), "date"),
+                            (lambda: record.add_measurement("nope", Measurement("carbon", [(0, 1), (1e-4, 1), (2e-4, 1)])),
+                             "load"),
+                            (lambda: record.add_measurement("2026-118", Measurement("carbon", [(0, 1), (1e-4, 1)])),
+                             "points"),
+                            (lambda: record.loads("Pit 9"), "furnace")]:
+            with pytest.raises(InputError) as error:
+                call()
+            assert error.value.field == field
+        assert len(record.loads()) == 1  # nothing half-written by the refusals
+
+
+@pytest.mark.parametrize("text,words", [
+    ("", "the file is empty"),
+    ("depth,C\n0.1,0.9\n0.2\n0.3,0.7\n", "row 3: 1 values"),
+    ("depth,C\n0.1,0.9\n0.x,0.8\n0.3,0.7\n", "row 3: depth '0.x' is not a number"),
+    ("depth,C\n0.1,0.9\n0.2,high\n0.3,0.7\n", "row 3: value 'high' is not a number"),
+    ("depth,C\n0.1,0.9\n0.3,0.8\n0.2,0.7\n", "row 4: depths must increase"),
+    ("depth,C\n0.1,0.9\n0.2,3.5\n0.3,0.7\n", "row 3: 3.5 %C is outside 0–2.5 %C"),
+    ("depth,C\n0.1,0.9\n0.2,0.8\n", "2 readings: a traverse needs at least 3"),
+])
+def test_a_malformed_csv_is_refused_with_its_row(text, words):
+    with pytest.raises(InputError) as error:
+        read_csv(text, "carbon")
+    assert words in error.value.message
+
+
+def test_csv_as_labs_export_it():
+    """Commas; semicolons with decimal commas; tabs; HRC turned into HV by ASTM E140 (50 HRC ≈ 513 HV)."""
+    assert read_csv("depth_mm,C\n0.1,0.95\n0.3,0.80\n0.5,0.62\n", "carbon") == [(1e-4, 0.95), (3e-4, 0.80), (5e-4, 0.62)]
+    assert read_csv("Tiefe;HV1\n0,1;720\n0,3;690\n0,6;560\n", "hardness")[1] == pytest.approx((3e-4, 690.0))
+    assert read_csv("d\tHV\n0.1\t700\n0.2\t650\n0.3\t600\n", "hardness")[2] == pytest.approx((3e-4, 600.0))
+    assert read_csv("d,HRC\n0.1,60\n0.5,50\n1.0,40\n", "hardness", "HRC")[1][1] == pytest.approx(513, abs=3)
+
+
+def test_the_first_schema_opens(tmp_path):
+    """A record made by schema 1 (its SQL as released, tests/data/record/schema-1.sql) opens with its load."""
+    path = tmp_path / "old.sqlite"
+    with sqlite3.connect(path) as db:
+        db.executescript((DATA / "schema-1.sql").read_text())
+    with Record(path) as record:
+        assert record.version == SCHEMA_VERSION
+        (load,) = record.loads()
+        assert (load.furnace, load.number, load.soak) == ("Pit 1 (demo)", "D-001", 21600.0)
+        assert [v for _, v in load.measurements[0].points] == [700, 600, 480]
+
+
+def test_a_file_that_is_no_record_is_refused(tmp_path):
+    bad = tmp_path / "notes.sqlite"
+    bad.write_text("not a database at all, just words " * 50)
+    with pytest.raises(InputError) as error:
+        Record(bad)
+    assert error.value.field == "db"
+    other = tmp_path / "other.sqlite"
+    with sqlite3.connect(other) as db:
+        db.execute("CREATE TABLE t (x)")
+    with pytest.raises(InputError, match="not a furnace record"):
+        Record(other)
+
+
+def test_a_reader_reads_while_a_writer_writes(tmp_path):
+    """WAL: a second connection reads the committed loads while the first holds a write open."""
+    path = tmp_path / "r.sqlite"
+    with Record(path) as writer, Record(path) as reader:
+        writer.add_load("Pit", "A", {"title": "a"}, "2026-11-01")
+        writer.db.execute("BEGIN IMMEDIATE")
+        writer.db.execute("INSERT INTO furnaces (name) VALUES ('half-way')")
+        assert [load.number for load in reader.loads()] == ["A"] and "half-way" not in reader.furnaces()
+        writer.db.rollback()
+
+
+WRITER = """
+import sys
+from casedepth.shop.record import Measurement, Record
+record = Record(sys.argv[1])
+start = int(sys.argv[2])
+print("ready", flush=True)
+for n in range(start, start + 1000):
+    record.add_load("Pit", f"L{n}", {"title": str(n)}, "2026-11-01",
+                    measurements=[Measurement("hardness", [(k * 1e-4, 700.0 - k) for k in range(1, 41)])])
+"""
+
+
+def test_a_writer_killed_at_any_moment_loses_only_its_unfinished_load(tmp_path):
+    """200 writers, four at a time: each records loads (each with its 40-point traverse, one transaction) and is killed at a random
+    moment; the database stays consistent (SQLite's integrity check) and every load in it has its whole traverse."""
+    path = tmp_path / "r.sqlite"
+    Record(path).close()
+    script = tmp_path / "writer.py"
+    script.write_text(WRITER)
+    rng = np.random.default_rng(7)
+    for batch in range(50):  # four writers at a time, as two programs and two windows might share a record
+        writers = [subprocess.Popen([sys.executable, str(script), str(path), str((4 * batch + k) * 1000)],
+                                    stdout=subprocess.PIPE, text=True) for k in range(4)]
+        for writer in writers:
+            writer.stdout.readline()  # "ready": imports done, writing now
+        for writer in writers:
+            time.sleep(float(rng.uniform(0.0, 0.01)))
+            writer.kill()
+        for writer in writers:
+            writer.wait()
+            writer.stdout.close()
+    with sqlite3.connect(path) as db:
+        assert db.execute("PRAGMA integrity_check").fetchone()[0] == "ok"
+        counts = db.execute("SELECT COUNT(points.value) FROM loads JOIN measurements ON measurements.load_id = loads.id "
+                            "JOIN points ON points.measurement_id = measurements.id GROUP BY loads.id").fetchall()
+        total = db.execute("SELECT COUNT(*) FROM loads").fetchone()[0]
+    assert total > 0 and len(counts) == total and all(c == 40 for (c,) in counts)
+
+
+def test_the_record_command(tmp_path, capsys):
+    db = str(tmp_path / "r.sqlite")
+    carbon = tmp_path / "c.csv"
+    carbon.write_text("depth_mm,carbon\n0.1,0.80\n0.3,0.74\n0.6,0.58\n0.9,0.44\n1.2,0.33\n1.6,0.24\n")
+    hardness = tmp_path / "h.csv"
+    hardness.write_text("depth;HV1\n0,1;720\n0,3;700\n0,6;620\n0,9;540\n1,2;450\n1,6;360\n")
+    assert main(["record", "add", str(EXAMPLE), "--furnace", "Pit 2", "--load", "2026-118", "--date", "2026-11-30",
+                 "--db", db]) == 0
+    assert main(["record", "add", str(EXAMPLE), "--furnace", "Pit 2", "--load", "2026-119", "--soak", "6h30min",
+                 "--db", db]) == 0
+    assert main(["record", "measure", "2026-118", "--carbon", str(carbon), "--db", db]) == 0
+    assert main(["record", "measure", "2026-119", "--hardness", str(hardness), "--scale", "HV1", "--db", db]) == 0
+    capsys.readouterr()
+    assert main(["record", "list", "--json", "--db", db]) == 0
+    listed = json.loads(capsys.readouterr().out)["loads"]
+    assert [(x["load"], x["soak_h"]) for x in listed] == [("2026-118", None), ("2026-119", 6.5)]
+    assert main(["record", "fit", "--furnace", "Pit 2", "--json", "--db", db]) == 0
+    fitted = json.loads(capsys.readouterr().out)
+    assert len(fitted["diffusivity_multiplier_ci"]) == 2 and len(fitted["beta_ci"]) == 2 and len(fitted["loads"]) == 2
+    assert main(["record", "measure", "2026-120", "--carbon", str(carbon), "--db", db]) == 2
+    assert capsys.readouterr().err.startswith("casedepth: error: LOAD: no load '2026-120'")
+    carbon.write_text("depth,C\n0.1,0.9\n0.x,0.8\n0.3,0.7\n")
+    assert main(["record", "measure", "2026-118", "--carbon", str(carbon), "--db", db]) == 2
+    assert "casedepth: error: --carbon: row 3" in capsys.readouterr().err
+    assert main(["record", "fit", "--furnace", "Pit 9", "--db", db]) == 2
+    assert "--furnace" in capsys.readouterr().err
+    assert math.isfinite(fitted["scatter"])
