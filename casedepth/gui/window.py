@@ -253,6 +253,10 @@ class MainWindow(QMainWindow):
         self._action(file_menu, "Export case-depth chart…", lambda: self.export_document_dialog("chart"))
         file_menu.addSeparator()
         self._action(file_menu, "Plan a &load from saved plans…", self.load_dialog)
+        self._action(file_menu, "Record this load in the furnace record…", self.record_load_dialog, None,
+                     "The plan as run, its furnace, load number, date and soak, into the shop's furnace record")
+        self._action(file_menu, "Furnace record…", self.record_dialog, None,
+                     "Recorded loads, their measured coupons and each furnace's fit")
         paper_menu = file_menu.addMenu("Paper")
         paper_group = QActionGroup(self)
         for key, text in (("a4", "A4"), ("letter", "US Letter")):
@@ -427,6 +431,23 @@ class MainWindow(QMainWindow):
         if self.outcome is None:
             return 6 * 3600.0, self.plan.case_min
         return self.outcome.soak_time, self.outcome.targets[1]
+
+    def record_load_dialog(self) -> None:
+        """Record the plan on screen as a load run (File → Record this load)."""
+        from .record import RecordLoadDialog
+
+        if self.outcome is None:
+            QMessageBox.information(self, "Record this load", "The plan has no result yet to record.")
+            return
+        self.record_load = RecordLoadDialog(self.plan, self.outcome.soak_time, self.settings, self)
+        self.record_load.show()
+
+    def record_dialog(self) -> None:
+        """The furnace record: loads, coupons, a furnace's fit (File → Furnace record)."""
+        from .record import RecordDialog
+
+        self.record_view = RecordDialog(self.settings, self)
+        self.record_view.show()
 
     def reading_dialog(self) -> None:
         """The furnace-reading converter, starting from the plan's temperature and gas."""

@@ -40,6 +40,7 @@ OUTLIER_LOAD = 2.5  # a load's rms weighted residual over s beyond this is flagg
 OUTLIER_READING = 3.0
 BOUNDS = (math.log(0.1), math.log(10.0))
 Z95 = 1.959963984540054  # two-sided 95 % normal quantile
+UNDETERMINED = 100.0  # an interval wider than this factor says the readings do not determine the multiplier
 
 
 @dataclass
@@ -89,13 +90,19 @@ class FurnaceFit:
         return out
 
     def text(self) -> str:
-        lines = [f"Furnace {self.furnace}: {len(self.loads)} loads, {self.readings} readings fitted at once "
-                 f"(scatter {self.scatter:.2f} × the readings' usual)"]
+        loads = len({(load.number, load.date) for load in self.loads})
+        lines = [f"Furnace {self.furnace}: {loads} loads, {len(self.loads)} coupons, {self.readings} readings fitted at "
+                 f"once (scatter {self.scatter:.2f} × the readings' usual)"]
         names = {"d_multiplier": "D multiplier", "n_multiplier": "D_N multiplier", "beta": "β factor"}
         for key, value in self.multipliers.items():
             low, high = self.intervals[key]
+            if high / low > UNDETERMINED:
+                lines.append(f"  {names[key]:<15} {value:.3f}  (not determined by these readings: its 95 % interval "
+                             f"spans more than a factor of {UNDETERMINED:g}; "
+                             + ("record readings near the surface)" if key == "beta" else "record more traverses)"))
+                continue
             lines.append(f"  {names[key]:<15} {value:.3f}  (95 % interval {low:.3f}–{high:.3f})")
-        if self.beta is not None:
+        if self.beta is not None and self.intervals["beta"][1] / self.intervals["beta"][0] <= UNDETERMINED:
             low, high = self.beta_interval
             lines.append(f"  β                {self.beta * 100:.3g} cm/s at the first load's temperature "
                          f"({low * 100:.3g}–{high * 100:.3g})")

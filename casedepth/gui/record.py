@@ -1,0 +1,205 @@
+"""The furnace record in the window: File → Record this load, and File → Furnace record (the loads, their
+measured coupons, a furnace's fit). Thin views over :mod:`casedepth.shop.record` and
+:mod:`casedepth.shop.furnace_fit`, the same calls ``casedepth record`` makes.
+
+The record's file is the settings' ``record_path`` (default :func:`casedepth.shop.record.default_database`).
+"""
+
+from __future__ import annotations
+
+from datetime import date
+from pathlib import Path
+
+from PySide6.QtGui import QTextCursor
+from PySide6.QtWidgets import (QComboBox, QDialog, QDialogButtonBox, QDoubleSpinBox, QFileDialog, QFormLayout,
+                               QHBoxLayout, QLabel, QLineEdit, QMessageBox, QPlainTextEdit, QPushButton, QTableWidget,
+                               QTableWidgetItem, QVBoxLayout)
+
+from ..errors import CasedepthError, InputError
+from ..plan.fileformat import to_dict
+from ..shop.record import KINDS, SCALES, Measurement, Record, default_database, read_csv
+from ..units import format_duration
+
+
+def record_path(settings) -> Path:
+    return Path(str(settings.value("record_path", str(default_database()))))
+
+
+class RecordLoadDialog(QDialog):
+    """Record the load the plan on screen was run as: furnace, load number, date, the soak actually run."""
+
+    def __init__(self, plan, soak: float, settings, parent=None):
+        super().__init__(parent)
+        self.setWindowTitle("Record this load")
+        self.plan, self.settings = plan, settings
+        form = QFormLayout(self)
+        form.addRow(QLabel(f"The plan “{plan.title}” goes into the furnace record as run:\n{record_path(settings)}"))
+        self.furnace = QComboBox()
+        self.furnace.setEditable(True)
+        try:
+            with Record(record_path(settings)) as record:
+                self.furnace.addItems(record.furnaces())
+        except InputError:
+            pass
+        self.furnace.setCurrentText(plan.furnace or self.furnace.currentText())
+        form.addRow("Furnace", self.furnace)
+        self.number = QLineEdit(plan.load_number)
+        form.addRow("Load number", self.number)
+        self.day = QLineEdit(date.today().isoformat())
+        form.addRow("Date (YYYY-MM-DD)", self.day)
+        self.soak = QDoubleSpinBox()
+        self.soak.setRange(0.02, 500.0)
+        self.soak.setDecimals(2)
+        self.soak.setSuffix(" h")
+        self.soak.setValue(round(soak / 3600.0, 2))
+        self.planned = round(soak / 3600.0, 2)
+        form.addRow("Soak actually run", self.soak)
+        self.message = QLabel("")
+        self.message.setStyleSheet("color: #9a3412;")
+        form.addRow(self.message)
+        buttons = QDialogButtonBox(QDialogButtonBox.Ok | QDialogButtonBox.Cancel)
+        buttons.accepted.connect(self.accept)
+        buttons.rejected.connect(self.reject)
+        form.addRow(buttons)
+
+    def accept(self) -> None:
+        soak = None if abs(self.soak.value() - self.planned) < 1e-9 else self.soak.value() * 3600.0
+        try:
+            with Record(record_path(self.settings)) as record:
+                record.add_load(self.furnace.currentText(), self.number.text(), to_dict(self.plan), self.day.text().strip(),
+                                soak)
+        except InputError as error:
+            self.message.setText(error.message)
+            return
+        super().accept()
+
+
+class RecordDialog(QDialog):
+    """The furnace record: its loads (date, furnace, number, plan, soak run, coupons), a coupon's readings added from a
+    lab's CSV, and a furnace's fit."""
+
+    def __init__(self, settings, parent=None):
+        super().__init__(parent)
+        self.setWindowTitle("Furnace record")
+        self.settings = settings
+        self.resize(860, 560)
+        layout = QVBoxLayout(self)
+        self.where = QLabel()
+        layout.addWidget(self.where)
+        top = QHBoxLayout()
+        self.furnace = QComboBox()
+        self.furnace.currentIndexChanged.connect(self.show_loads)
+        top.addWidget(QLabel("Furnace"))
+        top.addWidget(self.furnace, 1)
+        self.choose = QPushButton("Another record file…")
+        self.choose.clicked.connect(self.choose_file)
+        top.addWidget(self.choose)
+        layout.addLayout(top)
+        self.table = QTableWidget(0, 5)
+        self.table.setHorizontalHeaderLabels(["Date", "Load", "Plan", "Soak run", "Coupons"])
+        self.table.horizontalHeader().setStretchLastSection(True)
+        self.table.setSelectionBehavior(QTableWidget.SelectRows)
+        self.table.setEditTriggers(QTableWidget.NoEditTriggers)
+        layout.addWidget(self.table, 1)
+        row = QHBoxLayout()
+        self.kind = QComboBox()
+        for kind in KINDS:
+            self.kind.addItem({"carbon": "Carbon profile (wt %)", "hardness": "Hardness traverse"}[kind], kind)
+        self.scale = QComboBox()
+        self.scale.addItems(SCALES)
+        self.scale.setCurrentText("HV1")
+        self.add_csv = QPushButton("Add a coupon from CSV…")
+        self.add_csv.clicked.connect(self.add_coupon)
+        self.fit_button = QPushButton("Fit this furnace")
+        self.fit_button.clicked.connect(self.fit)
+        for widget in (self.kind, self.scale, self.add_csv, self.fit_button):
+            row.addWidget(widget)
+        layout.addLayout(row)
+        self.result = QPlainTextEdit()
+        self.result.setReadOnly(True)
+        self.result.setObjectName("fit_result")
+        layout.addWidget(self.result, 1)
+        buttons = QDialogButtonBox(QDialogButtonBox.Close)
+        buttons.rejected.connect(self.reject)
+        layout.addWidget(buttons)
+        self.loads = []
+        self.refresh()
+
+    def refresh(self) -> None:
+        path = record_path(self.settings)
+        self.where.setText(f"Record: {path}")
+        try:
+            with Record(path) as record:
+                furnaces = record.furnaces()
+        except InputError as error:
+            self.result.setPlainText(error.message)
+            furnaces = []
+        current = self.furnace.currentText()
+        self.furnace.blockSignals(True)
+        self.furnace.clear()
+        self.furnace.addItems(furnaces)
+        if current in furnaces:
+            self.furnace.setCurrentText(current)
+        self.furnace.blockSignals(False)
+        self.show_loads()
+
+    def show_loads(self) -> None:
+        name = self.furnace.currentText()
+        self.loads = []
+        if name:
+            with Record(record_path(self.settings)) as record:
+                self.loads = record.loads(name)
+        self.table.setRowCount(len(self.loads))
+        for r, load in enumerate(self.loads):
+            coupons = ", ".join(f"{m.kind} ({len(m.points)})" for m in load.measurements) or "none yet"
+            cells = (load.date, load.number, load.plan.get("title", ""),
+                     "as planned" if load.soak is None else format_duration(load.soak), coupons)
+            for c, text in enumerate(cells):
+                self.table.setItem(r, c, QTableWidgetItem(text))
+        self.fit_button.setEnabled(any(load.measurements for load in self.loads))
+        self.add_csv.setEnabled(bool(self.loads))
+
+    def choose_file(self) -> None:
+        path, _ = QFileDialog.getSaveFileName(self, "Furnace record", str(record_path(self.settings)),
+                                              "Furnace records (*.sqlite);;All files (*)",
+                                              options=QFileDialog.DontConfirmOverwrite)
+        if path:
+            self.settings.setValue("record_path", path)
+            self.refresh()
+
+    def add_coupon(self, path: str | None = None) -> bool:
+        """Add a coupon's readings to the selected load from a lab's CSV (a header row, depth mm and value per row)."""
+        row = self.table.currentRow()
+        if row < 0:
+            row = len(self.loads) - 1
+        if not path:
+            path, _ = QFileDialog.getOpenFileName(self, "Coupon readings", "", "CSV (*.csv *.txt);;All files (*)")
+        if not path:
+            return False
+        kind = self.kind.currentData()
+        scale = self.scale.currentText() if kind == "hardness" else ""
+        load = self.loads[row]
+        try:
+            points = read_csv(Path(path).read_text(encoding="utf-8-sig"), kind, scale)
+            with Record(record_path(self.settings)) as record:
+                record.add_measurement(load.number, Measurement(kind, points, scale=scale), load.furnace)
+        except (InputError, OSError) as error:
+            QMessageBox.warning(self, "Cannot add the readings", getattr(error, "message", str(error)))
+            return False
+        self.show_loads()
+        return True
+
+    def fit(self) -> None:
+        from ..shop.furnace_fit import fit_furnace
+
+        name = self.furnace.currentText()
+        self.result.setPlainText(f"Fitting {name} to {len(self.loads)} loads…")
+        self.repaint()
+        try:
+            found = fit_furnace(self.loads, name)
+        except CasedepthError as error:
+            self.result.setPlainText(getattr(error, "message", str(error)))
+            return
+        self.result.setPlainText(found.text())
+        self.result.moveCursor(QTextCursor.Start)
+
