@@ -243,6 +243,7 @@ def _build_parser(argv: list[str] | None = None) -> argparse.ArgumentParser:
     measure.add_argument("--by", default="", help="who measured")
     fit = actions.add_parser("fit", help="a furnace's multipliers fitted to all its recorded traverses")
     fit.add_argument("--furnace", required=True)
+    fit.add_argument("--save", action="store_true", help="keep the fit: new plans that name this furnace take it")
     listing = actions.add_parser("list", help="the recorded loads")
     listing.add_argument("--furnace")
     for sub in (add, measure, fit, listing):
@@ -264,9 +265,31 @@ def _given(args, treatment) -> dict[str, str]:
             if getattr(args, option.dest, None) is not None}
 
 
+def _calibrated(plan: Plan, set_by: dict) -> str | None:
+    """A new plan that names a furnace takes that furnace's latest saved fit from the record (the file of
+    ``CASEDEPTH_RECORD``, or the platform's data folder), except the values given on the command line; what the plan
+    then records as its calibration, or None."""
+    from .shop.record import Record, default_database
+
+    if not plan.furnace or not default_database().exists():
+        return None
+    from .shop.furnace_fit import apply_calibration
+
+    with Record(default_database()) as record:
+        saved = record.calibration(plan.furnace, plan.treatment)
+    if saved is None:
+        return None
+    values = apply_calibration(plan.values(), saved, keep=tuple(set_by))
+    if not values["calibration"]:
+        return None
+    plan.update(**{key: value for key, value in values.items() if value != plan.values().get(key)})
+    return values["calibration"]
+
+
 def _plan(args) -> int:
     treatment = TREATMENTS[args.treatment]
     plan, args.set_by = plan_from_options(treatment.key, _given(args, treatment.key))
+    calibrated = _calibrated(plan, args.set_by)
     units = DisplayUnits(args.units)
     if args.save:
         with _writing("save"):
@@ -281,6 +304,8 @@ def _plan(args) -> int:
             with _writing("save"):
                 save(plan, args.save)
         print(json.dumps(result.to_dict()) if args.json else result.text(units))
+        if calibrated and not args.json:
+            print(f"Calibrated on {calibrated}")
         return 0
     for option in treatment.forward_options:
         if getattr(args, option.dest, None) is not None:
@@ -296,12 +321,15 @@ def _plan(args) -> int:
             save(plan, args.save)
     if args.json:
         out = outcome.to_dict()
+        out["calibration"] = plan.calibration
         if comparison:
             out["temperature_tradeoff"] = [{"temperature_c": T - ZERO_CELSIUS, "soak_time_h": t / 3600.0}
                                            for T, t in comparison]
         print(json.dumps(out))
         return 0
     print(outcome.text(units))
+    if calibrated:
+        print(f"Calibrated on {calibrated}")
     if comparison:
         print("Same case at other temperatures (the plan otherwise unchanged):")
         for T, t in comparison:
@@ -580,7 +608,16 @@ def _record(args) -> int:
             from .shop.furnace_fit import fit_furnace
 
             fitted = fit_furnace(record.loads(args.furnace), " ".join(args.furnace.split()))
-            print(json.dumps(fitted.to_dict()) if args.json else fitted.text())
+            saved = None
+            if args.save:
+                number = record.save_calibration(args.furnace, fitted.treatment, fitted.to_dict())
+                saved = record.calibration(args.furnace, fitted.treatment)
+                assert saved is not None and saved.id == number
+            if args.json:
+                print(json.dumps({**fitted.to_dict(), "saved": None if saved is None else saved.label()}))
+            else:
+                print(fitted.text() + ("" if saved is None else f"\nSaved: new plans for {saved.furnace} take it "
+                                                                f"({saved.label()})"))
             return 0
         loads = record.loads(args.furnace)
         if args.json:

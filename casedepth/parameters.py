@@ -933,6 +933,9 @@ PARAMETERS: dict[str, Parameter] = {p.key: p for p in (
               "core_hardness_max_hrc", CARBURIZED, group="Drawing callout", unit_label="HRC", range=(10.0, 68.0),
               decimals=1, since=6),
     # model settings (carburizing)
+    Parameter("calibration", "Calibration", Text(), "", "calibration", group="Model settings", affects_result=False,
+              help="the furnace record's fit the multipliers came from (casedepth record fit --save; set when a new "
+                   "plan names a furnace that has one)", since=10),
     Parameter("diffusivity", "Carbon diffusivity", Choice({k: m.display for k, m in METHODS.items()}), "tibbetts",
               "diffusivity_model", CARBURIZED, group="Model settings",
               options=(Option("--diffusivity", "carbon diffusivity model", choices=lambda: list(METHODS)),)),

@@ -8,6 +8,14 @@ os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
 sys.path.insert(0, str(Path(__file__).resolve().parent))
 
 
+@pytest.fixture(autouse=True)
+def scratch_record(tmp_path_factory, monkeypatch):
+    """Every test's furnace record is a scratch file (CASEDEPTH_RECORD), never the user's own."""
+    path = tmp_path_factory.mktemp("record") / "record.sqlite"
+    monkeypatch.setenv("CASEDEPTH_RECORD", str(path))
+    return path
+
+
 @pytest.fixture
 def window(qtbot, tmp_path, monkeypatch):
     """The planning window on a new plan, its first result shown; settings in a scratch file, message boxes

@@ -254,3 +254,52 @@ def test_the_record_command(tmp_path, capsys):
     assert main(["record", "fit", "--furnace", "Pit 9", "--db", db]) == 2
     assert "--furnace" in capsys.readouterr().err
     assert math.isfinite(fitted["scatter"])
+
+
+def test_a_saved_fit_is_what_new_plans_for_the_furnace_take(tmp_path, capsys, scratch_record):
+    """``record fit --save`` keeps the fit (record schema 2); a new plan naming the furnace then runs with its
+    multipliers and says so (the plan's ``calibration``), unless its multipliers are given; another furnace's plans,
+    and an old record of schema 1, are untouched."""
+    with Record(scratch_record) as record:
+        synthetic_furnace(record, "Pit 2", 1.3, 0.6, 0.02, seed=3)
+    assert main(["record", "fit", "--furnace", "Pit 2", "--save", "--json"]) == 0
+    saved = json.loads(capsys.readouterr().out)
+    assert saved["saved"].startswith("Pit 2: record fit #1 of ")
+    args = ["carburize", "--temperature", "925C", "--potential", "1.0", "--target", "1mm", "--diffusivity", "arrhenius",
+            "--beta", "1.5e-5cm/s", "--json"]
+    assert main([*args, "--furnace", "Pit 2"]) == 0
+    calibrated = json.loads(capsys.readouterr().out)
+    assert calibrated["calibration"] == saved["saved"].replace("(D × 1.3, β × 0.597)", "(D × 1.3)")  # β was given
+    assert main([*args, "--furnace", "Pit 9"]) == 0
+    plain = json.loads(capsys.readouterr().out)
+    assert plain["calibration"] == "" and calibrated["soak_time_h"] != pytest.approx(plain["soak_time_h"], rel=1e-3)
+    # the plan the fit gives is the plan with its multiplier typed in
+    assert main([*args, "--d-multiplier", f"{saved['diffusivity_multiplier']!r}"]) == 0
+    typed = json.loads(capsys.readouterr().out)
+    assert typed["soak_time_h"] == pytest.approx(calibrated["soak_time_h"], rel=1e-9)
+    assert main([*args, "--furnace", "Pit 2", "--d-multiplier", "1.0"]) == 0  # given: the plan keeps it
+    assert json.loads(capsys.readouterr().out)["calibration"] == ""
+    # a plan that takes β as the fitted loads did takes the fit's β too
+    assert main(["carburize", "--temperature", "925C", "--target", "1mm", "--diffusivity", "arrhenius", "--furnace",
+                 "Pit 2", "--json", "--beta-multiplier", "1"]) == 0  # (gas β given: the loads' one β does not apply)
+    assert json.loads(capsys.readouterr().out)["calibration"].endswith("(D × 1.3)")
+    with Record(scratch_record) as record:
+        assert record.version == 2 and record.calibration("Pit 2", "nitriding") is None
+
+
+def test_a_plan_that_takes_beta_as_the_loads_did_takes_the_fitted_beta(scratch_record):
+    from casedepth.shop.furnace_fit import apply_calibration
+
+    with Record(scratch_record) as record:
+        synthetic_furnace(record, "Pit 2", 1.3, 0.6, 0.02, seed=3)
+        fit = fit_furnace(record.loads("Pit 2"), "Pit 2")
+        record.save_calibration("Pit 2", "carburizing", fit.to_dict(), "2026-12-01")
+        saved = record.calibration("Pit 2", "carburizing")
+    one_beta = apply_calibration(Plan(beta_model="constant", beta=2e-7).values(), saved)
+    assert one_beta["beta"] == pytest.approx(1.5e-7 * fit.multipliers["beta"], rel=1e-12)
+    assert one_beta["d_multiplier"] == pytest.approx(fit.multipliers["d_multiplier"], rel=1e-12)
+    assert "β ×" in one_beta["calibration"] and "of 2026-12-01" in one_beta["calibration"]
+    gas = apply_calibration(Plan().values(), saved)  # the gas β: another model than the loads' — left alone
+    assert gas["beta_multiplier"] == 1.0 and "β" not in gas["calibration"]
+    with pytest.raises(InputError):
+        apply_calibration(Plan(treatment="nitriding").values(), saved)

@@ -24,7 +24,7 @@ from ..outcome import Offer
 from ..parameters import PARAMETERS
 from .state import Plan
 
-SCHEMA_VERSION = 9
+SCHEMA_VERSION = 10
 FILE_KIND = "casedepth plan"
 LARGEST_FILE = 5_000_000  # bytes: a plan with 100 stages and long notes is under 100 kB
 HEADER_KEYS = ("kind", "schema_version")
@@ -129,7 +129,12 @@ def _to_9(data: dict, offers: list[Offer], made_with: int) -> None:
                             "its one β at every temperature, as it did when it was made."))
 
 
-MIGRATIONS = {1: _to_2, 2: _to_3, 3: _to_4, 4: _to_5, 5: _to_6, 6: _to_7, 7: _to_8, 8: _to_9}
+def _to_10(data: dict, offers: list[Offer], made_with: int) -> None:
+    # schema 10 names the furnace-record fit a plan's multipliers came from; an older plan's came from none
+    data.update(calibration="")
+
+
+MIGRATIONS = {1: _to_2, 2: _to_3, 3: _to_4, 4: _to_5, 5: _to_6, 6: _to_7, 7: _to_8, 8: _to_9, 9: _to_10}
 
 
 def migrate(data: dict) -> tuple[dict, list[Offer], list[str]]:

@@ -75,6 +75,9 @@ class FurnaceFit:
     loads: list[LoadFit]
     beta: float | None = None  # m/s: β of the first load at its temperature, fitted factor applied
     beta_interval: tuple[float, float] | None = None
+    #: how the loads took β (the first load's model and its β multiplier or β), for plans that take this fit
+    beta_model: str | None = None
+    beta_base: float | None = None
 
     def to_dict(self) -> dict:
         out: dict[str, Any] = {"furnace": self.furnace, "treatment": self.treatment, "readings": self.readings,
@@ -87,6 +90,7 @@ class FurnaceFit:
         if self.beta is not None:
             out["beta_cm_per_s"] = self.beta * 100.0
             out["beta_ci"] = [b * 100.0 for b in self.beta_interval]
+            out["beta_model"], out["beta_base"] = self.beta_model, self.beta_base
         return out
 
     def text(self) -> str:
@@ -250,5 +254,32 @@ def fit_furnace(loads: list[Load], furnace: str = "") -> FurnaceFit:
         beta = carburizing_setup(first).beta
         low, high = intervals["beta"]
         beta_interval = (beta * low / multipliers["beta"], beta * high / multipliers["beta"])
-    return FurnaceFit(furnace, model.treatment, multipliers, intervals, s, n, fits, beta, beta_interval)
+        plan = model.plans[0]
+        base = (plan["beta_model"], plan["beta_multiplier"] if plan["beta_model"] == "gas-2026" else plan["beta"])
+    else:
+        base = (None, None)
+    return FurnaceFit(furnace, model.treatment, multipliers, intervals, s, n, fits, beta, beta_interval, *base)
 
+
+def apply_calibration(values: Mapping[str, Any], saved, keep: tuple[str, ...] = ()) -> dict:
+    """A plan's values taking a furnace's saved fit (:class:`casedepth.shop.record.SavedCalibration`): its diffusivity
+    multiplier, and its β where the plan takes β as the fitted loads did (from the gas, or one value), each unless its
+    key is in ``keep`` (values a person gave); the plan's ``calibration`` names the fit and what was taken (empty if
+    nothing was). A fit of another treatment is refused."""
+    values = dict(values)
+    fit = saved.fit
+    if saved.treatment != values["treatment"]:
+        raise InputError("calibration", f"{saved.label()} is a fit of {saved.treatment} loads, not {values['treatment']}")
+    taken = []
+    for fit_key, key, name in (("diffusivity_multiplier", "d_multiplier", "D"),
+                               ("nitrogen_diffusivity_multiplier", "n_multiplier", "D_N")):
+        if fit_key in fit and key not in keep:
+            values[key] = fit[fit_key]
+            taken.append(f"{name} × {fit[fit_key]:.3g}")
+    if "beta_factor" in fit and not values.get("beta_held") and fit.get("beta_model") == values.get("beta_model"):
+        key = "beta_multiplier" if fit["beta_model"] == "gas-2026" else "beta"
+        if key not in keep:
+            values[key] = fit["beta_base"] * fit["beta_factor"]
+            taken.append(f"β × {fit['beta_factor']:.3g}")
+    values["calibration"] = f"{saved.furnace}: record fit #{saved.id} of {saved.made} ({', '.join(taken)})" if taken else ""
+    return values

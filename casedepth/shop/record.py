@@ -14,6 +14,8 @@ Tables (SI inside: depths in m, soak in s; carbon in wt %, hardness in HV):
 ``measurements``  per load and coupon: kind (``carbon`` profile by spectrometer or turned layers, ``hardness``
                   traverse), the hardness method and load (HV0.5, HV1, HRC, …), who measured, when
 ``points``        depth and value of each reading of a measurement
+``calibrations``  (schema 2) each fit of a furnace saved: when, the treatment, the fit (multipliers, intervals, the
+                  β model of its loads); new plans for that furnace take the latest (:meth:`Record.calibration`)
 
 CSV files as labs export them (:func:`read_csv`): a header row, then depth in mm and the value per row; commas,
 semicolons (with decimal commas) or tabs; a bad row is refused with its row number.
@@ -36,7 +38,7 @@ from typing import Iterable
 from .. import formats
 from ..errors import InputError
 
-SCHEMA_VERSION = 1
+SCHEMA_VERSION = 2
 #: the kinds of measurement, with the range of their values (carbon wt %, hardness HV)
 KINDS = {"carbon": (0.0, 2.5), "hardness": (50.0, 1500.0)}
 #: hardness methods a traverse is read with; HRC readings are turned into HV (ASTM E140) when stored
@@ -81,8 +83,20 @@ CREATE INDEX points_of_measurement ON points (measurement_id);
 INSERT INTO schema_version (version) VALUES (1);
 """
 
-#: version -> the step that brings a database of that version to the next (none yet: schema 1 is the first)
-MIGRATIONS: dict[int, str] = {}
+#: version -> the step that brings a database of that version to the next (run in one transaction with the
+#: version's update)
+MIGRATIONS: dict[int, str] = {
+    # schema 2 keeps each furnace's fits (what new plans for that furnace take): when, of which treatment, the fit
+    1: """
+CREATE TABLE calibrations (
+    id INTEGER PRIMARY KEY,
+    furnace_id INTEGER NOT NULL REFERENCES furnaces(id),
+    made TEXT NOT NULL,
+    treatment TEXT NOT NULL,
+    fit_json TEXT NOT NULL
+);
+""",
+}
 
 
 def default_database() -> Path:
@@ -238,10 +252,9 @@ class Record:
 
     def _migrate(self) -> None:
         tables = {row[0] for row in self.db.execute("SELECT name FROM sqlite_master WHERE type = 'table'")}
-        if not tables:
-            with self.db:
-                self.db.executescript("BEGIN;" + SCHEMA_1 + "COMMIT;")
-            return
+        if not tables:  # a new record: the first schema, then every step (as an old record would take them)
+            self.db.executescript("BEGIN;" + SCHEMA_1 + "COMMIT;")
+            tables = {"schema_version"}
         if "schema_version" not in tables:
             raise InputError("db", f"{self.path}: an SQLite database, but not a furnace record")
         version = self.version
@@ -318,6 +331,25 @@ class Record:
                                      f"furnace")
         return int(rows[0][0])
 
+    def save_calibration(self, furnace: str, treatment: str, fit: dict, made: str | None = None) -> int:
+        """Keep a furnace's fit (:meth:`casedepth.shop.furnace_fit.FurnaceFit.to_dict` and the β model of its loads)
+        as the one new plans for the furnace take; one transaction."""
+        made = made or _date.today().isoformat()
+        with self.db:
+            furnace_id = self.furnace_id(furnace)
+            return int(self.db.execute("INSERT INTO calibrations (furnace_id, made, treatment, fit_json) VALUES "
+                                       "(?, ?, ?, ?)", (furnace_id, made, treatment, json.dumps(fit))).lastrowid)
+
+    def calibration(self, furnace: str, treatment: str) -> "SavedCalibration | None":
+        """The latest saved fit of ``furnace`` for ``treatment`` (None if there is none, or no such furnace)."""
+        row = self.db.execute(
+            "SELECT calibrations.id, made, fit_json FROM calibrations JOIN furnaces ON furnaces.id = furnace_id "
+            "WHERE furnaces.name = ? AND treatment = ? ORDER BY made DESC, calibrations.id DESC LIMIT 1",
+            (" ".join(str(furnace).split()), treatment)).fetchone()
+        if row is None:
+            return None
+        return SavedCalibration(" ".join(str(furnace).split()), treatment, row[1], json.loads(row[2]), int(row[0]))
+
     # -- reading ---------------------------------------------------------------------------------------------------
     def furnaces(self) -> list[str]:
         return [r[0] for r in self.db.execute("SELECT name FROM furnaces ORDER BY name")]
@@ -343,6 +375,25 @@ class Record:
                 load.measurements.append(Measurement(kind, points, coupon, scale, by, taken, id=m_id))
             out.append(load)
         return out
+
+
+@dataclass(frozen=True)
+class SavedCalibration:
+    """A furnace's saved fit: when it was made, of which treatment, and the fit's JSON."""
+
+    furnace: str
+    treatment: str
+    made: str
+    fit: dict
+    id: int
+
+    def label(self) -> str:
+        """What a plan records of it: ``Pit 2: record fit #3 of 2026-12-04 (D × 0.951, β × 1.18)``."""
+        parts = [f"{name} × {self.fit[key]:.3g}" for key, name in (("diffusivity_multiplier", "D"),
+                                                                    ("beta_factor", "β"),
+                                                                    ("nitrogen_diffusivity_multiplier", "D_N"))
+                 if key in self.fit]
+        return f"{self.furnace}: record fit #{self.id} of {self.made} ({', '.join(parts)})"
 
 
 def open_record(path: str | os.PathLike | None = None) -> Record:
