@@ -288,6 +288,8 @@ def _calibrated(plan: Plan, set_by: dict) -> str | None:
 
 def _plan(args) -> int:
     treatment = TREATMENTS[args.treatment]
+    if getattr(args, "potential_as", None) is not None and getattr(args, "potential", None) is not None:
+        raise InputError("potential_as", "give the potential once: --potential (wt % C) or --potential-as (a reading)")
     plan, args.set_by = plan_from_options(treatment.key, _given(args, treatment.key))
     calibrated = _calibrated(plan, args.set_by)
     units = DisplayUnits(args.units)

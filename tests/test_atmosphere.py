@@ -429,3 +429,6 @@ def test_a_plan_takes_its_potential_as_the_furnace_reads_it(text, kind, capsys):
 def test_a_reading_that_is_not_one_is_refused_naming_the_option(capsys):
     assert main(["carburize", "--temperature", "925C", "--potential-as", "twenty", "--target", "1mm"]) == 2
     assert "--potential-as" in capsys.readouterr().err
+    assert main(["carburize", "--temperature", "925C", "--potential", "0.9", "--potential-as", "1150mV", "--target",
+                 "1mm"]) == 2
+    assert "give the potential once" in capsys.readouterr().err
