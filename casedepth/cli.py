@@ -266,24 +266,17 @@ def _given(args, treatment) -> dict[str, str]:
 
 
 def _calibrated(plan: Plan, set_by: dict) -> str | None:
-    """A new plan that names a furnace takes that furnace's latest saved fit from the record (the file of
-    ``CASEDEPTH_RECORD``, or the platform's data folder), except the values given on the command line; what the plan
-    then records as its calibration, or None."""
-    from .shop.record import Record, default_database
+    """A new plan that names a furnace takes that furnace's latest saved fit from the record, except the values given
+    on the command line (:func:`casedepth.shop.furnace_fit.calibration_changes`, as the window's furnace field
+    does); what the plan then records as its calibration, or None."""
+    if not plan.furnace:
+        return None
+    from .shop.furnace_fit import calibration_changes
 
-    if not plan.furnace or not default_database().exists():
-        return None
-    from .shop.furnace_fit import apply_calibration
-
-    with Record(default_database()) as record:
-        saved = record.calibration(plan.furnace, plan.treatment)
-    if saved is None:
-        return None
-    values = apply_calibration(plan.values(), saved, keep=tuple(set_by))
-    if not values["calibration"]:
-        return None
-    plan.update(**{key: value for key, value in values.items() if value != plan.values().get(key)})
-    return values["calibration"]
+    changes = calibration_changes(plan.values(), plan.furnace, keep=tuple(set_by))
+    if changes:
+        plan.update(**changes)
+    return plan.calibration or None
 
 
 def _plan(args) -> int:

@@ -582,6 +582,12 @@ def _layer_models() -> dict[str, str]:
     return {key: m.display for key, m in LAYER_MODELS.items()}
 
 
+def _with_furnace(values, name) -> dict:
+    """A furnace picked brings its saved fit from the furnace record (or, without one, takes back another's)."""
+    from .shop.furnace_fit import calibration_changes
+    return calibration_changes(values, name)
+
+
 def _carriers() -> dict[str, str]:
     from .models.atmosphere import CARRIERS
     return {key: c.label for key, c in CARRIERS.items()}
@@ -707,7 +713,7 @@ PARAMETERS: dict[str, Parameter] = {p.key: p for p in (
     Parameter("treatment", "Treatment", Choice(_treatments), "carburizing", "treatment", group="Plan",
               companions=_with_treatment, since=3),
     # the job on the floor (printed on the process sheet; no part in the numbers)
-    Parameter("furnace", "Furnace", Text(), "", "furnace", group="Plan", affects_result=False,
+    Parameter("furnace", "Furnace", Text(), "", "furnace", group="Plan", affects_result=False, companions=_with_furnace,
               help="the furnace the load runs in (printed on the process sheet)",
               options=(Option("--furnace", "furnace the load runs in (printed on the sheet)"),), since=6),
     Parameter("load_number", "Load number", Text(), "", "load_number", group="Plan", affects_result=False,

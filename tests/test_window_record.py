@@ -59,3 +59,27 @@ def test_record_a_load_add_a_coupon_and_fit_the_furnace(window, qtbot, tmp_path,
     assert told and "row 3" in told[0]
     assert module.record_path(window.settings) == path
     view.close()
+
+
+def test_a_furnace_picked_in_the_window_brings_its_saved_fit(window, qtbot, scratch_record):
+    """The same rule as the command line's --furnace: the furnace's latest saved fit, one undoable edit with the
+    furnace; a furnace without one takes the multipliers back."""
+    from casedepth.plan.fileformat import to_dict
+    from casedepth.shop.record import Measurement
+
+    with Record(scratch_record) as record:
+        record.add_load("Pit 2", "L-1", to_dict(window.plan), "2026-11-01",
+                        measurements=[Measurement("carbon", [(1e-4, 0.9), (5e-4, 0.7), (1e-3, 0.4), (1.5e-3, 0.25)])])
+        record.save_calibration("Pit 2", "carburizing", {"diffusivity_multiplier": 0.9, "beta_factor": 1.2,
+                                                         "beta_model": "gas-2026", "beta_base": 1.0}, "2026-12-01")
+    with qtbot.waitSignal(window.result_shown, timeout=20000):
+        window.plan.set("furnace", "Pit 2")
+    plan = window.plan
+    assert (plan.d_multiplier, plan.beta_multiplier) == (0.9, pytest.approx(1.2))
+    assert plan.calibration == "Pit 2: record fit #1 of 2026-12-01 (D × 0.9, β × 1.2)"
+    assert window.outcome.values["d_multiplier"] == 0.9  # the result is of the calibrated plan
+    with qtbot.waitSignal(window.result_shown, timeout=20000):
+        window.plan.set("furnace", "Pit 3")
+    assert (plan.d_multiplier, plan.beta_multiplier, plan.calibration) == (1.0, 1.0, "")
+    plan.undo()
+    assert plan.furnace == "Pit 2" and plan.d_multiplier == 0.9

@@ -283,3 +283,32 @@ def apply_calibration(values: Mapping[str, Any], saved, keep: tuple[str, ...] = 
             taken.append(f"β × {fit['beta_factor']:.3g}")
     values["calibration"] = f"{saved.furnace}: record fit #{saved.id} of {saved.made} ({', '.join(taken)})" if taken else ""
     return values
+
+
+#: what a furnace's fit may set in a plan, and what a plan goes back to when its furnace has no fit
+_CALIBRATED_BACK = {"d_multiplier": 1.0, "n_multiplier": 1.0, "beta_multiplier": 1.0}
+
+
+def calibration_changes(values: Mapping[str, Any], furnace: str, keep: tuple[str, ...] = ()) -> dict:
+    """The changes a plan takes when it names ``furnace``: that furnace's latest saved fit from the record (the file
+    of :func:`casedepth.shop.record.default_database`) applied by :func:`apply_calibration`, except the keys in
+    ``keep``; or, if the furnace has none and the plan's multipliers came from another furnace's fit, the multipliers
+    back to 1 and no calibration. What the window (the furnace field's companion) and the command line both use."""
+    from .record import Record, default_database
+
+    values = dict(values)
+    saved = None
+    furnace = " ".join(str(furnace).split())
+    if furnace and default_database().exists():
+        try:
+            with Record(default_database()) as record:
+                saved = record.calibration(furnace, values["treatment"])
+        except InputError:
+            saved = None  # a file that is no record: plans are not calibrated from it
+    if saved is None:
+        if not values.get("calibration"):
+            return {}
+        back = {key: value for key, value in _CALIBRATED_BACK.items() if key not in keep}
+        return {**back, "calibration": ""}
+    applied = apply_calibration(values, saved, keep)
+    return {key: value for key, value in applied.items() if value != values.get(key)}
