@@ -236,6 +236,11 @@ def _build_parser(argv: list[str] | None = None) -> argparse.ArgumentParser:
     kind.add_argument("--carbon", metavar="FILE.csv", help="carbon profile: a header row, then depth mm and wt %% C")
     kind.add_argument("--hardness", metavar="FILE.csv", help="hardness traverse: a header row, then depth mm and "
                                                              "hardness")
+    kind.add_argument("--case-depth", help="the effective case depth measured (at the plan's threshold): 0.95mm")
+    kind.add_argument("--nitrided-depth", help="the nitrided hardness depth measured: 0.42mm")
+    kind.add_argument("--compound-layer", help="the compound layer measured: 8um")
+    kind.add_argument("--surface-hardness", help="the surface hardness measured: 60HRC or 720HV")
+    kind.add_argument("--core-hardness", help="the core hardness measured: 32HRC or 320HV")
     measure.add_argument("--scale", choices=SCALES, default="HV1", help="the hardness method (HRC is turned into HV "
                                                                         "by ASTM E140; default HV1)")
     measure.add_argument("--furnace", help="the furnace, where two furnaces have a load of this number")
@@ -572,6 +577,23 @@ def _probe(args) -> int:
     return 0
 
 
+def _measured_value(kind: str, text: str) -> float:
+    """A single measured value as typed: a depth (0.95mm, 0.037in), a layer (8um) or a hardness (60HRC, 720HV)."""
+    if kind in ("case_depth", "nitrided_depth"):
+        return parse_length(text, kind)
+    if kind == "compound_layer":
+        return parse_length(text, kind, default_unit="um")
+    from .models.hardness import ASTM_E140_hrc_to_hv
+
+    words = str(text).strip().upper().replace(" ", "")
+    if words.endswith("HRC"):
+        hrc = parse_number(words[:-3], kind)
+        if not 20.0 <= hrc <= 68.0:
+            raise InputError(kind, f"{formats.typed(hrc, 'HRC')} is outside 20–68 HRC")
+        return float(ASTM_E140_hrc_to_hv(hrc))
+    return parse_number(words.removesuffix("HV"), kind)
+
+
 def _record(args) -> int:
     from .plan.fileformat import to_dict
     from .shop.record import Measurement, Record, read_csv
@@ -587,6 +609,13 @@ def _record(args) -> int:
             print(f"recorded load {args.load} of {' '.join(args.furnace.split())} ({plan.title}) in {record.path}")
             return 0
         if args.record_action == "measure":
+            single = next((key for key in ("case_depth", "nitrided_depth", "compound_layer", "surface_hardness",
+                                           "core_hardness") if getattr(args, key) is not None), None)
+            if single is not None:
+                points = [(0.0, _measured_value(single, getattr(args, single)))]
+                record.add_measurement(args.load, Measurement(single, points, args.coupon, "", args.by), args.furnace)
+                print(f"recorded the {single.replace('_', ' ')} of load {args.load}")
+                return 0
             kind, path = ("carbon", args.carbon) if args.carbon else ("hardness", args.hardness)
             field = kind  # errors name the option that gave the file
             try:

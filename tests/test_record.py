@@ -284,7 +284,7 @@ def test_a_saved_fit_is_what_new_plans_for_the_furnace_take(tmp_path, capsys, sc
                  "Pit 2", "--json", "--beta-multiplier", "1"]) == 0  # (gas β given: the loads' one β does not apply)
     assert json.loads(capsys.readouterr().out)["calibration"].endswith("(D × 1.3)")
     with Record(scratch_record) as record:
-        assert record.version == 2 and record.calibration("Pit 2", "nitriding") is None
+        assert record.version == SCHEMA_VERSION and record.calibration("Pit 2", "nitriding") is None
 
 
 def test_a_plan_that_takes_beta_as_the_loads_did_takes_the_fitted_beta(scratch_record):
@@ -303,3 +303,41 @@ def test_a_plan_that_takes_beta_as_the_loads_did_takes_the_fitted_beta(scratch_r
     assert gas["beta_multiplier"] == 1.0 and "β" not in gas["calibration"]
     with pytest.raises(InputError):
         apply_calibration(Plan(treatment="nitriding").values(), saved)
+
+
+def test_single_values_are_recorded_and_measured_depths_fit_the_diffusivity(tmp_path, capsys, scratch_record):
+    """Record schema 3: a load's measured case depth, compound layer, surface and core hardness are one value each.
+    Effective case depths alone fit the diffusivity of a surface held at equilibrium: made by Crank's erfc solution
+    (1975, §3.3) with D × 1.25 and 0.02 mm of scatter, four loads give the multiplier back within its interval."""
+    from scipy.special import erfcinv
+
+    rng = np.random.default_rng(5)
+    with Record(scratch_record) as record:
+        for i, (celsius, potential, hours) in enumerate([(900, 0.9, 4), (925, 1.0, 6), (950, 1.1, 8), (930, 1.0, 5)]):
+            plan = Plan(temperature=celsius + K, carbon_potential=potential, diffusivity="arrhenius",
+                        count_shop_stages=False, beta_held=True, alloy_factor=False)
+            setup = evaluate(plan).setup
+            D = float(Arrhenius(0.5, celsius + K)) * 1.25
+            share = (setup.threshold_carbon - setup.steel.carbon) / (potential - setup.steel.carbon)
+            depth = 2.0 * math.sqrt(D * hours * 3600) * float(erfcinv(share)) + rng.normal(0.0, 0.02e-3)
+            record.add_load("Pit 4", f"D-{i}", to_dict(plan), f"2026-10-0{i + 1}", hours * 3600.0,
+                            measurements=[Measurement("case_depth", [(0.0, depth)])])
+        fit = fit_furnace(record.loads("Pit 4"), "Pit 4")
+    assert list(fit.multipliers) == ["d_multiplier"]  # held surfaces: D alone
+    low, high = fit.intervals["d_multiplier"]
+    assert low < 1.25 < high and high / low < 1.2
+    assert "D-0 (2026-10-01), effective case depth: misses by" in fit.text()
+    # the command line records single values, in the units people type
+    assert main(["record", "measure", "D-1", "--surface-hardness", "60HRC"]) == 0
+    assert main(["record", "measure", "D-1", "--compound-layer", "8um"]) == 0
+    assert main(["record", "measure", "D-1", "--case-depth", "0.040in"]) == 0
+    assert main(["record", "measure", "D-1", "--core-hardness", "1400HV"]) == 2
+    assert "--core-hardness" in capsys.readouterr().err
+    with Record(scratch_record) as record:
+        load = next(x for x in record.loads("Pit 4") if x.number == "D-1")
+    kinds = {m.kind: m.points[0][1] for m in load.measurements}
+    assert kinds["surface_hardness"] == pytest.approx(697, abs=3)  # 60 HRC by ASTM E140
+    assert kinds["compound_layer"] == pytest.approx(8e-6) and kinds["case_depth"] == pytest.approx(1.016e-3)
+    with pytest.raises(InputError, match="one value"):
+        with Record(scratch_record) as record:
+            record.add_measurement("D-1", Measurement("case_depth", [(0.0, 1e-3), (1e-4, 1e-3)]))

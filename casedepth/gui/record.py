@@ -103,8 +103,8 @@ class RecordDialog(QDialog):
         layout.addWidget(self.table, 1)
         row = QHBoxLayout()
         self.kind = QComboBox()
-        for kind in KINDS:
-            self.kind.addItem({"carbon": "Carbon profile (wt %)", "hardness": "Hardness traverse"}[kind], kind)
+        for kind in (k for k in KINDS.values() if k.traverse):  # a lab's CSV is a traverse
+            self.kind.addItem(f"{kind.label.capitalize()} ({kind.unit})", kind.key)
         self.scale = QComboBox()
         self.scale.addItems(SCALES)
         self.scale.setCurrentText("HV1")

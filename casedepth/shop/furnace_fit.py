@@ -32,10 +32,13 @@ import numpy as np
 
 from .. import formats
 from ..errors import InputError, NotReachableError
-from .record import Load
+from .record import KINDS, Load
 
-#: the usual scatter of a reading, by kind (common practice, from memory): weights of the least squares
-SCATTER = {"carbon": 0.03, "hardness": 25.0}
+#: the usual scatter of a reading, by kind (common practice, from memory): weights of the least squares; a measured
+#: depth is compared with the model's depth of the drawing's kind (effective case depth, nitrided hardness depth)
+SCATTER = {"carbon": 0.03, "hardness": 25.0, "case_depth": 0.05e-3, "nitrided_depth": 0.03e-3}
+#: the kinds a treatment's fit reads (the others — surface and core hardness, compound layer — are kept, not fitted)
+FITTED = {"carburizing": ("carbon", "hardness", "case_depth"), "nitriding": ("hardness", "nitrided_depth")}
 OUTLIER_LOAD = 2.5  # a load's rms weighted residual over s beyond this is flagged
 OUTLIER_READING = 3.0
 BOUNDS = (math.log(0.1), math.log(10.0))
@@ -111,10 +114,11 @@ class FurnaceFit:
             lines.append(f"  β                {self.beta * 100:.3g} cm/s at the first load's temperature "
                          f"({low * 100:.3g}–{high * 100:.3g})")
         for load in self.loads:
-            show = formats.carbon if load.kind == "carbon" else formats.hv
+            show = {"carbon": formats.carbon, "hardness": formats.hv}.get(load.kind, formats.length)
             flag = "  OUTLIER" if load.outlier else ""
             sign = "+" if load.mean_miss >= 0 else "−"
-            lines.append(f"  load {load.number} ({load.date}), {load.kind}: misses by {sign}{show(abs(load.mean_miss))} on "
+            lines.append(f"  load {load.number} ({load.date}), {KINDS[load.kind].label}: misses by "
+                         f"{sign}{show(abs(load.mean_miss))} on "
                          f"average, rms {show(load.rms_miss)}{flag}")
         return "\n".join(lines)
 
@@ -135,6 +139,9 @@ class _Model:
 
         self.loads, self.plans, self.soaks, self.shares = [], [], [], []
         for load in loads:
+            kinds = FITTED.get(str(load.plan.get("treatment", "carburizing")), ())
+            load = Load(load.furnace, load.number, load.date, load.plan, load.soak, load.parts, load.notes,
+                        [m for m in load.measurements if m.kind in kinds], load.id)
             if not load.measurements:
                 continue
             try:
@@ -160,9 +167,6 @@ class _Model:
             self.keys = ["n_multiplier"]
         else:
             raise InputError("furnace", f"the furnace fit takes carburizing and nitriding loads, not {self.treatment}")
-        for load in self.loads:
-            if self.treatment == "nitriding" and any(m.kind != "hardness" for m in load.measurements):
-                raise InputError("record", f"load {load.number}: a nitriding load is fitted on hardness traverses")
 
     def values_at(self, values: Mapping[str, Any], theta: np.ndarray) -> dict:
         out = dict(values)
@@ -181,7 +185,8 @@ class _Model:
         for load, values, soak, shares in zip(self.loads, self.plans, self.soaks, self.shares):
             result = forward(self.values_at(values, theta), soak, shares=shares)
             depth, carbon, hardness = _profiles(result)
-            out.append([np.interp([d for d, _ in m.points], depth, carbon if m.kind == "carbon" else hardness)
+            out.append([np.array([result.window_depth]) if m.kind in ("case_depth", "nitrided_depth") else
+                        np.interp([d for d, _ in m.points], depth, carbon if m.kind == "carbon" else hardness)
                         for m in load.measurements])
         return out
 

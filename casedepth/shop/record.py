@@ -12,7 +12,9 @@ Tables (SI inside: depths in m, soak in s; carbon in wt %, hardness in HV):
 ``loads``         furnace, load number (unique per furnace), date, the plan as run (the whole plan file), the soak
                   actually run where it differed from the plan's (NULL: the plan's), parts, notes
 ``measurements``  per load and coupon: kind (``carbon`` profile by spectrometer or turned layers, ``hardness``
-                  traverse), the hardness method and load (HV0.5, HV1, HRC, …), who measured, when
+                  traverse; from schema 3 also one value: ``case_depth``, ``nitrided_depth``, ``compound_layer``,
+                  ``surface_hardness``, ``core_hardness``, :data:`KINDS`), the hardness method and load (HV0.5, HV1,
+                  HRC, …), who measured, when
 ``points``        depth and value of each reading of a measurement
 ``calibrations``  (schema 2) each fit of a furnace saved: when, the treatment, the fit (multipliers, intervals, the
                   β model of its loads); new plans for that furnace take the latest (:meth:`Record.calibration`)
@@ -38,9 +40,33 @@ from typing import Iterable
 from .. import formats
 from ..errors import InputError
 
-SCHEMA_VERSION = 2
-#: the kinds of measurement, with the range of their values (carbon wt %, hardness HV)
-KINDS = {"carbon": (0.0, 2.5), "hardness": (50.0, 1500.0)}
+SCHEMA_VERSION = 3
+
+
+@dataclass(frozen=True)
+class Kind:
+    """A kind of measurement: a traverse (depth, value readings) or one value (its depth 0), the value's unit as
+    shown and stored (SI for lengths: m), the range it may take (stored units) and the CLI option that gives it."""
+
+    key: str
+    label: str
+    traverse: bool
+    unit: str  # shown
+    scale: float  # shown value = stored × scale
+    low: float
+    high: float
+
+
+#: the kinds of measurement a record holds (schema 3 added the single values)
+KINDS: dict[str, Kind] = {k.key: k for k in (
+    Kind("carbon", "carbon profile", True, "%C", 1.0, 0.0, 2.5),
+    Kind("hardness", "hardness traverse", True, "HV", 1.0, 50.0, 1500.0),
+    Kind("case_depth", "effective case depth", False, "mm", 1e3, 0.01e-3, 10e-3),
+    Kind("nitrided_depth", "nitrided hardness depth", False, "mm", 1e3, 0.01e-3, 2e-3),
+    Kind("compound_layer", "compound layer", False, "µm", 1e6, 0.0, 100e-6),
+    Kind("surface_hardness", "surface hardness", False, "HV", 1.0, 100.0, 1500.0),
+    Kind("core_hardness", "core hardness", False, "HV", 1.0, 100.0, 1000.0),
+)}
 #: hardness methods a traverse is read with; HRC readings are turned into HV (ASTM E140) when stored
 SCALES = ("HV0.1", "HV0.3", "HV0.5", "HV1", "HV5", "HV10", "HRC")
 DEPTH_RANGE = (0.0, 20e-3)  # m from the surface
@@ -96,6 +122,23 @@ CREATE TABLE calibrations (
     fit_json TEXT NOT NULL
 );
 """,
+    # schema 3 takes single values as well as traverses (a case depth, a compound layer, surface and core hardness):
+    # the kinds' CHECK is widened by rebuilding the table (SQLite cannot alter a CHECK), its rows kept as they are
+    2: """
+CREATE TABLE measurements_3 (
+    id INTEGER PRIMARY KEY,
+    load_id INTEGER NOT NULL REFERENCES loads(id) ON DELETE CASCADE,
+    coupon TEXT NOT NULL DEFAULT '',
+    kind TEXT NOT NULL CHECK (kind IN ('carbon', 'hardness', 'case_depth', 'nitrided_depth', 'compound_layer',
+                                       'surface_hardness', 'core_hardness')),
+    scale TEXT NOT NULL DEFAULT '',
+    measured_by TEXT NOT NULL DEFAULT '',
+    taken TEXT NOT NULL DEFAULT ''
+);
+INSERT INTO measurements_3 SELECT id, load_id, coupon, kind, scale, measured_by, taken FROM measurements;
+DROP TABLE measurements;
+ALTER TABLE measurements_3 RENAME TO measurements;
+""",
 }
 
 
@@ -127,8 +170,10 @@ class Measurement:
     id: int | None = None
 
     def to_dict(self) -> dict:
+        k = KINDS[self.kind]
         return {"kind": self.kind, "coupon": self.coupon, "scale": self.scale, "measured_by": self.measured_by,
-                "taken": self.taken, "points": [{"depth_mm": d * 1e3, "value": v} for d, v in self.points]}
+                "taken": self.taken, "unit": k.unit,
+                "points": [{"depth_mm": d * 1e3, "value": v * k.scale} for d, v in self.points]}
 
 
 @dataclass
@@ -152,25 +197,27 @@ class Load:
 
 
 def check_points(kind: str, points: Iterable[tuple[float, float]], field: str = "points") -> list[tuple[float, float]]:
-    """Readings as stored: at least three, depths increasing from the surface within 0–20 mm, values in the kind's
-    range; :class:`InputError` naming ``field`` otherwise."""
+    """Readings as stored: a traverse has at least three, depths increasing from the surface within 0–20 mm; a single
+    value is one reading at depth 0; values in the kind's range; :class:`InputError` naming ``field`` otherwise."""
     if kind not in KINDS:
         raise InputError("kind", f"{kind!r} is not one of {', '.join(KINDS)}")
-    low, high = KINDS[kind]
+    k = KINDS[kind]
     out = []
     for number, (depth, value) in enumerate(points, 1):
         if not (math.isfinite(depth) and DEPTH_RANGE[0] <= depth <= DEPTH_RANGE[1]):
             raise InputError(field, f"reading {number}: depth {formats.typed(depth * 1e3, 'mm')} is outside 0–20 mm")
-        if not (math.isfinite(value) and low <= value <= high):
-            unit = "%C" if kind == "carbon" else "HV"
-            raise InputError(field, f"reading {number}: {formats.typed(value, unit)} is outside "
-                                    f"{formats.typed_range(low, high, unit)}")
+        if not (math.isfinite(value) and k.low <= value <= k.high):
+            where = f"reading {number}: " if k.traverse else f"a {k.label} of "
+            raise InputError(field, f"{where}{formats.typed(value * k.scale, k.unit)} is outside "
+                                    f"{formats.typed_range(k.low * k.scale, k.high * k.scale, k.unit)}")
         if out and depth <= out[-1][0]:
             raise InputError(field, f"reading {number}: depths must increase from the surface "
                                     f"({formats.typed(depth * 1e3, 'mm')} after {formats.typed(out[-1][0] * 1e3, 'mm')})")
         out.append((float(depth), float(value)))
-    if len(out) < 3:
+    if k.traverse and len(out) < 3:
         raise InputError(field, f"{len(out)} readings: a traverse needs at least 3")
+    if not k.traverse and len(out) != 1:
+        raise InputError(field, f"a {k.label} is one value, not {len(out)}")
     return out
 
 
@@ -261,9 +308,14 @@ class Record:
         if version > SCHEMA_VERSION:
             raise InputError("db", f"{self.path}: made by a newer casedepth (record schema {version}; this one reads "
                                    f"up to {SCHEMA_VERSION})")
-        while version < SCHEMA_VERSION:  # one step per version, each in its own transaction
+        while version < SCHEMA_VERSION:  # one step per version, each in its own transaction, foreign keys off while a
+            # step rebuilds a table (dropping it would otherwise cascade into the rows that refer to it)
+            self.db.execute("PRAGMA foreign_keys = OFF")
             self.db.executescript(f"BEGIN;{MIGRATIONS[version]}UPDATE schema_version SET version = {version + 1};COMMIT;")
+            self.db.execute("PRAGMA foreign_keys = ON")
             version += 1
+        if self.db.execute("PRAGMA foreign_key_check").fetchall():
+            raise InputError("db", f"{self.path}: its rows refer to rows that are not there")
 
     # -- writing (each call one transaction) --------------------------------------------------------------------
     def furnace_id(self, name: str, create: bool = False, kind: str = "") -> int:
@@ -310,7 +362,7 @@ class Record:
             return self._insert_measurement(load_id, measurement)
 
     def _insert_measurement(self, load_id: int, m: Measurement) -> int:
-        points = check_points(m.kind, m.points)
+        points = check_points(m.kind, m.points, "points" if m.kind not in KINDS or KINDS[m.kind].traverse else m.kind)
         if m.kind == "hardness" and m.scale and m.scale not in SCALES:
             raise InputError("scale", f"{m.scale!r} is not one of {', '.join(SCALES)}")
         measurement_id = int(self.db.execute(
