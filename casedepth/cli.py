@@ -577,26 +577,9 @@ def _probe(args) -> int:
     return 0
 
 
-def _measured_value(kind: str, text: str) -> float:
-    """A single measured value as typed: a depth (0.95mm, 0.037in), a layer (8um) or a hardness (60HRC, 720HV)."""
-    if kind in ("case_depth", "nitrided_depth"):
-        return parse_length(text, kind)
-    if kind == "compound_layer":
-        return parse_length(text, kind, default_unit="um")
-    from .models.hardness import ASTM_E140_hrc_to_hv
-
-    words = str(text).strip().upper().replace(" ", "")
-    if words.endswith("HRC"):
-        hrc = parse_number(words[:-3], kind)
-        if not 20.0 <= hrc <= 68.0:
-            raise InputError(kind, f"{formats.typed(hrc, 'HRC')} is outside 20–68 HRC")
-        return float(ASTM_E140_hrc_to_hv(hrc))
-    return parse_number(words.removesuffix("HV"), kind)
-
-
 def _record(args) -> int:
     from .plan.fileformat import to_dict
-    from .shop.record import Measurement, Record, read_csv
+    from .shop.record import Measurement, Record, parse_measured, read_csv
 
     if args.record_action is None:
         raise _UsageError("record: say what to do: add, measure, fit or list (casedepth record --help)")
@@ -612,7 +595,7 @@ def _record(args) -> int:
             single = next((key for key in ("case_depth", "nitrided_depth", "compound_layer", "surface_hardness",
                                            "core_hardness") if getattr(args, key) is not None), None)
             if single is not None:
-                points = [(0.0, _measured_value(single, getattr(args, single)))]
+                points = [(0.0, parse_measured(single, getattr(args, single)))]
                 record.add_measurement(args.load, Measurement(single, points, args.coupon, "", args.by), args.furnace)
                 print(f"recorded the {single.replace('_', ' ')} of load {args.load}")
                 return 0

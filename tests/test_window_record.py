@@ -83,3 +83,43 @@ def test_a_furnace_picked_in_the_window_brings_its_saved_fit(window, qtbot, scra
     assert (plan.d_multiplier, plan.beta_multiplier, plan.calibration) == (1.0, 1.0, "")
     plan.undo()
     assert plan.furnace == "Pit 2" and plan.d_multiplier == 0.9
+
+
+def test_the_record_view_takes_single_values_keeps_a_fit_and_plots_the_misses(window, qtbot, scratch_record,
+                                                                               monkeypatch):
+    from casedepth.plan.fileformat import to_dict
+    from casedepth.shop.record import Measurement
+
+    import numpy as np
+
+    from casedepth.plan import forward
+
+    # readings as the plan's own model gives them after a soak 10 % longer, a little scattered
+    soak = window.outcome.soak_time * 1.1
+    profile = forward(window.plan.values(), soak).profile
+    depths = [1e-4, 3e-4, 6e-4, 9e-4, 1.2e-3, 1.6e-3]
+    with Record(scratch_record) as record:
+        for number, (day, shift) in enumerate((("2026-11-01", 0.01), ("2026-11-08", -0.01)), 1):
+            carbon = np.interp(depths, profile.depth, profile.carbon) + shift
+            record.add_load("Pit 5", f"P-{number}", to_dict(window.plan), day, soak,
+                            measurements=[Measurement("carbon", list(zip(depths, carbon)))])
+    window.settings.setValue("record_path", str(scratch_record))
+    window.record_dialog()
+    view = window.record_view
+    view.table.selectRow(1)
+    view.single_kind.setCurrentIndex(view.single_kind.findData("case_depth"))
+    view.single_value.setText(f"{forward(window.plan.values(), soak).case_depth * 1e3:.3f}mm")
+    assert view.add_value()
+    assert view.table.item(1, 4).text() == "carbon (6), case_depth (1)"
+    from PySide6.QtWidgets import QMessageBox
+    told = []
+    monkeypatch.setattr(QMessageBox, "warning", lambda parent, title, text: told.append(text))
+    view.single_value.setText("95mm")
+    assert not view.add_value() and told and "outside" in told[0]
+    view.fit()
+    assert view.save_fit.isEnabled() and view.figure.axes and view.figure.axes[0].collections
+    view.keep_fit()
+    with Record(scratch_record) as record:
+        saved = record.calibration("Pit 5", "carburizing")
+    assert saved is not None and saved.label() in view.result.toPlainText()
+    view.close()

@@ -17,7 +17,7 @@ from PySide6.QtWidgets import (QComboBox, QDialog, QDialogButtonBox, QDoubleSpin
 
 from ..errors import CasedepthError, InputError
 from ..plan.fileformat import to_dict
-from ..shop.record import KINDS, SCALES, Measurement, Record, default_database, read_csv
+from ..shop.record import KINDS, SCALES, Measurement, Record, default_database, parse_measured, read_csv
 from ..units import format_duration
 
 
@@ -112,13 +112,39 @@ class RecordDialog(QDialog):
         self.add_csv.clicked.connect(self.add_coupon)
         self.fit_button = QPushButton("Fit this furnace")
         self.fit_button.clicked.connect(self.fit)
-        for widget in (self.kind, self.scale, self.add_csv, self.fit_button):
+        self.save_fit = QPushButton("Keep this fit for new plans")
+        self.save_fit.setToolTip("Plans that name this furnace take the fitted multipliers (as record fit --save)")
+        self.save_fit.clicked.connect(self.keep_fit)
+        self.save_fit.setEnabled(False)
+        for widget in (self.kind, self.scale, self.add_csv, self.fit_button, self.save_fit):
             row.addWidget(widget)
         layout.addLayout(row)
+        single = QHBoxLayout()
+        self.single_kind = QComboBox()
+        for kind in (k for k in KINDS.values() if not k.traverse):
+            self.single_kind.addItem(f"{kind.label.capitalize()} ({kind.unit})", kind.key)
+        self.single_value = QLineEdit()
+        self.single_value.setPlaceholderText("0.95mm, 8um, 60HRC or 720HV")
+        self.add_single = QPushButton("Add to the selected load")
+        self.add_single.clicked.connect(self.add_value)
+        single.addWidget(QLabel("One value:"))
+        for widget in (self.single_kind, self.single_value, self.add_single):
+            single.addWidget(widget)
+        layout.addLayout(single)
+        below = QHBoxLayout()
         self.result = QPlainTextEdit()
         self.result.setReadOnly(True)
         self.result.setObjectName("fit_result")
-        layout.addWidget(self.result, 1)
+        below.addWidget(self.result, 3)
+        from matplotlib.backends.backend_qtagg import FigureCanvasQTAgg
+        from matplotlib.figure import Figure
+
+        self.figure = Figure(figsize=(4, 2.6))
+        self.canvas = FigureCanvasQTAgg(self.figure)
+        self.canvas.setMinimumWidth(320)
+        below.addWidget(self.canvas, 2)
+        layout.addLayout(below, 1)
+        self.found = None
         buttons = QDialogButtonBox(QDialogButtonBox.Close)
         buttons.rejected.connect(self.reject)
         layout.addWidget(buttons)
@@ -202,4 +228,62 @@ class RecordDialog(QDialog):
             return
         self.result.setPlainText(found.text())
         self.result.moveCursor(QTextCursor.Start)
+        self.found = found
+        self.save_fit.setEnabled(True)
+        self.plot_misses(found)
+
+    def plot_misses(self, found) -> None:
+        """Each coupon's mean miss, in its readings' usual scatters, against the load's date: the furnace's drift and
+        its outliers at a glance."""
+        from datetime import date as _day
+
+        from ..shop.furnace_fit import SCATTER
+
+        self.figure.clear()
+        ax = self.figure.add_subplot()
+        for kind, marker in (("carbon", "o"), ("hardness", "s"), ("case_depth", "^"), ("nitrided_depth", "v")):
+            rows = [load for load in found.loads if load.kind == kind]
+            if not rows:
+                continue
+            days = [_day.fromisoformat(load.date) for load in rows]
+            misses = [load.mean_miss / SCATTER[kind] for load in rows]
+            colours = ["#b42318" if load.outlier else "#1e3550" for load in rows]
+            ax.scatter(days, misses, marker=marker, c=colours, label=KINDS[kind].label)
+        ax.axhline(0.0, color="#888", lw=0.8)
+        ax.set_ylabel("mean miss [usual scatters]", fontsize=8)
+        ax.set_title("Model − measured, per coupon (red: outlier)", fontsize=9)
+        ax.tick_params(labelsize=7)
+        ax.legend(fontsize=7, loc="best")
+        self.figure.autofmt_xdate()
+        self.figure.tight_layout()
+        self.canvas.draw_idle()
+
+    def keep_fit(self) -> None:
+        """Keep the last fit as the one new plans for this furnace take (as ``casedepth record fit --save``)."""
+        if self.found is None:
+            return
+        with Record(record_path(self.settings)) as record:
+            record.save_calibration(self.found.furnace, self.found.treatment, self.found.to_dict())
+            saved = record.calibration(self.found.furnace, self.found.treatment)
+        self.result.appendPlainText(f"\nKept: plans that name {saved.furnace} take it ({saved.label()}).")
+        self.save_fit.setEnabled(False)
+
+    def add_value(self) -> bool:
+        """Add one measured value (a depth, a layer, a hardness) to the selected load."""
+        row = self.table.currentRow()
+        if row < 0 or not self.loads:
+            QMessageBox.warning(self, "Cannot add the value", "Select the load it was measured on.")
+            return False
+        kind = self.single_kind.currentData()
+        load = self.loads[row]
+        try:
+            value = parse_measured(kind, self.single_value.text())
+            with Record(record_path(self.settings)) as record:
+                record.add_measurement(load.number, Measurement(kind, [(0.0, value)]), load.furnace)
+        except InputError as error:
+            QMessageBox.warning(self, "Cannot add the value", error.message)
+            return False
+        self.single_value.clear()
+        self.show_loads()
+        return True
 

@@ -221,6 +221,25 @@ def check_points(kind: str, points: Iterable[tuple[float, float]], field: str = 
     return out
 
 
+def parse_measured(kind: str, text: str) -> float:
+    """A single measured value as typed, in the stored units: a depth (0.95mm, 0.037in) [m], a layer (8um) [m] or a
+    hardness (60HRC by ASTM E140, or 720HV) [HV]; :class:`InputError` naming ``kind``."""
+    from ..models.hardness import ASTM_E140_hrc_to_hv
+    from ..units import parse_length, parse_number
+
+    if kind in ("case_depth", "nitrided_depth"):
+        return parse_length(text, kind)
+    if kind == "compound_layer":
+        return parse_length(text, kind, default_unit="um")
+    words = str(text).strip().upper().replace(" ", "")
+    if words.endswith("HRC"):
+        hrc = parse_number(words[:-3], kind)
+        if not 20.0 <= hrc <= 68.0:
+            raise InputError(kind, f"{formats.typed(hrc, 'HRC')} is outside 20–68 HRC")
+        return float(ASTM_E140_hrc_to_hv(hrc))
+    return parse_number(words.removesuffix("HV"), kind)
+
+
 def read_csv(text: str, kind: str, scale: str = "", field: str = "csv") -> list[tuple[float, float]]:
     """Readings from a lab's CSV: a header row, then depth [mm] and value per row (carbon wt %, or hardness in
     ``scale``: HV, or HRC turned into HV by ASTM E140). Commas, semicolons (decimal commas allowed) or tabs.
