@@ -299,6 +299,8 @@ def test_a_plan_that_takes_beta_as_the_loads_did_takes_the_fitted_beta(scratch_r
     assert one_beta["beta"] == pytest.approx(1.5e-7 * fit.multipliers["beta"], rel=1e-12)
     assert one_beta["d_multiplier"] == pytest.approx(fit.multipliers["d_multiplier"], rel=1e-12)
     assert "β ×" in one_beta["calibration"] and "of 2026-12-01" in one_beta["calibration"]
+    low, high = fit.intervals["beta"]  # the load spread's β band is the fit's interval
+    assert one_beta["spread_beta_factor"] == pytest.approx(math.sqrt(high / low), rel=1e-12)
     gas = apply_calibration(Plan().values(), saved)  # the gas β: another model than the loads' — left alone
     assert gas["beta_multiplier"] == 1.0 and "β" not in gas["calibration"]
     with pytest.raises(InputError):

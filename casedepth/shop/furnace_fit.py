@@ -268,9 +268,10 @@ def fit_furnace(loads: list[Load], furnace: str = "") -> FurnaceFit:
 
 def apply_calibration(values: Mapping[str, Any], saved, keep: tuple[str, ...] = ()) -> dict:
     """A plan's values taking a furnace's saved fit (:class:`casedepth.shop.record.SavedCalibration`): its diffusivity
-    multiplier, and its β where the plan takes β as the fitted loads did (from the gas, or one value), each unless its
-    key is in ``keep`` (values a person gave); the plan's ``calibration`` names the fit and what was taken (empty if
-    nothing was). A fit of another treatment is refused."""
+    multiplier, and its β where the plan takes β as the fitted loads did (from the gas, or one value) with the load
+    spread's β band set to the fit's 95 % interval, each unless its key is in ``keep`` (values a person gave); the
+    plan's ``calibration`` names the fit and what was taken (empty if nothing was). A fit of another treatment is
+    refused."""
     values = dict(values)
     fit = saved.fit
     if saved.treatment != values["treatment"]:
@@ -286,12 +287,17 @@ def apply_calibration(values: Mapping[str, Any], saved, keep: tuple[str, ...] = 
         if key not in keep:
             values[key] = fit["beta_base"] * fit["beta_factor"]
             taken.append(f"β × {fit['beta_factor']:.3g}")
+            low, high = fit.get("beta_factor_ci", (None, None))
+            if low and high and "spread_beta_factor" not in keep:
+                # the load spread's β band becomes the fit's 95 % interval (its half-width as a factor, 1–10):
+                # β is known as well as the furnace's record says
+                values["spread_beta_factor"] = min(max(math.sqrt(high / low), 1.0), 10.0)
     values["calibration"] = f"{saved.furnace}: record fit #{saved.id} of {saved.made} ({', '.join(taken)})" if taken else ""
     return values
 
 
 #: what a furnace's fit may set in a plan, and what a plan goes back to when its furnace has no fit
-_CALIBRATED_BACK = {"d_multiplier": 1.0, "n_multiplier": 1.0, "beta_multiplier": 1.0}
+_CALIBRATED_BACK = {"d_multiplier": 1.0, "n_multiplier": 1.0, "beta_multiplier": 1.0, "spread_beta_factor": 2.0}
 
 
 def calibration_changes(values: Mapping[str, Any], furnace: str, keep: tuple[str, ...] = ()) -> dict:
