@@ -546,7 +546,8 @@ def _probe(args) -> int:
         check_carrier(co, h2, "carrier_co")
     else:
         carrier, co, h2 = carrier_from_text(args.carrier or DEFAULT_CARRIER)
-    gas = FurnaceGas(carrier, co, h2, args.gas_data).at(T)
+    furnace_gas = FurnaceGas(carrier, co, h2, args.gas_data)
+    gas = furnace_gas.at(T)
     core_potential = None
     if args.steel is not None:  # the potential that holds its core carbon: the core carbon over its alloy factor
         from .models.steels import steel_from_text
@@ -563,7 +564,7 @@ def _probe(args) -> int:
     else:
         kind, value = "co2", parse_number(args.co2.rstrip("%"), "co2") / 100.0
     readings = convert_reading(kind, value, gas, core_potential)
-    described = FurnaceGas(carrier, co, h2, args.gas_data).describe()
+    described = furnace_gas.describe()
     if args.json:
         out = {"temperature_c": round(T - ZERO_CELSIUS, 6), "carrier": carrier, "carrier_co_pct": co * 100.0,
                "carrier_h2_pct": h2 * 100.0, "gas_data": args.gas_data, "given": READINGS[kind].json_key}
@@ -617,9 +618,8 @@ def _record(args) -> int:
             fitted = fit_furnace(record.loads(args.furnace), " ".join(args.furnace.split()))
             saved = None
             if args.save:
-                number = record.save_calibration(args.furnace, fitted.treatment, fitted.to_dict())
+                record.save_calibration(args.furnace, fitted.treatment, fitted.to_dict())
                 saved = record.calibration(args.furnace, fitted.treatment)
-                assert saved is not None and saved.id == number
             if args.json:
                 print(json.dumps({**fitted.to_dict(), "saved": None if saved is None else saved.label()}))
             else:

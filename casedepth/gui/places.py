@@ -26,18 +26,13 @@ FIRST_EXAMPLE = "pinion-shaft.cdplan.json"
 DESKTOP_ID = "org.casedepth.casedepth"  # the .desktop file's name (packaging/linux) without its extension
 
 
-def resource(*parts: str) -> Path:
-    """A file shipped in ``casedepth.resources`` (the repository's ``resources/``)."""
-    return resource_path(*parts)
-
-
 def icon_path() -> Path:
-    return resource("icons", "casedepth.svg")
+    return resource_path("icons", "casedepth.svg")
 
 
 def shipped_examples() -> list[Path]:
     """The example plans that ship with the program."""
-    return sorted(resource("examples").glob("*.cdplan.json"))
+    return sorted(resource_path("examples").glob("*.cdplan.json"))
 
 
 def data_folder() -> Path:

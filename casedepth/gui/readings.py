@@ -117,7 +117,7 @@ class ReadingConverter(QDialog):
         if not text:
             return
         try:
-            T = self.units_to_kelvin(self.temperature.value())
+            T = self.units.read("temperature", f"{self.temperature.value():.0f}", "temperature")
             gas = FurnaceGas(self.carrier.currentData(), self.co.value() / 100.0, self.h2.value() / 100.0,
                              self.gas_data).at(T)
             readings = convert_reading(kind, self._read(kind, text), gas)
@@ -140,6 +140,3 @@ class ReadingConverter(QDialog):
         if kind != "carbon_potential":
             changes["control_reading"] = kind
         self.plan.update(**changes)
-
-    def units_to_kelvin(self, shown: float) -> float:
-        return (shown - 32.0) / 1.8 + 273.15 if self.units.imperial else shown + 273.15

@@ -76,7 +76,7 @@ def _beta_applies(values) -> bool:
     return _used("beta", values) and math.isfinite(values["beta"]) or _used("beta_multiplier", values)
 
 
-def _shift_beta(values, factor: float) -> dict:
+def shift_beta(values, factor: float) -> dict:
     """β times ``factor``: the one value, or the calibration factor on the gas's β."""
     if _used("beta_multiplier", values):
         return {"beta_multiplier": values["beta_multiplier"] * factor}
@@ -170,7 +170,7 @@ SPREAD_INPUTS: dict[str, SpreadInput] = {row.key: row for row in (
                 "the plan's section tolerance (Load spread; none unless set)"),
     SpreadInput("beta", "mass-transfer coefficient",
                 lambda v: float(v.get("spread_beta_factor", BETA_FACTOR)) if _beta_applies(v) else None,
-                _shift_beta,
+                shift_beta,
                 lambda b, u: f"from β/{formats.trimmed(b, 2)} to β×{formats.trimmed(b, 2)}",
                 "the plan's factor (Load spread; 2 by default: β is rarely known better, common practice)"),
 )}

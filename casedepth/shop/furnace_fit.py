@@ -32,6 +32,7 @@ import numpy as np
 
 from .. import formats
 from ..errors import InputError, NotReachableError
+from .capability import shift_beta
 from .record import KINDS, Load
 
 #: the usual scatter of a reading, by kind (common practice, from memory): weights of the least squares; a measured
@@ -123,13 +124,6 @@ class FurnaceFit:
         return "\n".join(lines)
 
 
-def _shift_beta(values: Mapping[str, Any], factor: float) -> dict:
-    """β times ``factor``: the gas β's calibration factor, or the plan's one β."""
-    if values["beta_model"] == "gas-2026":
-        return {"beta_multiplier": values["beta_multiplier"] * factor}
-    return {"beta": values["beta"] * factor}
-
-
 class _Model:
     """The recorded loads of one furnace as a function of the fitted parameters (log multipliers)."""
 
@@ -172,7 +166,7 @@ class _Model:
         out = dict(values)
         for key, x in zip(self.keys, theta):
             if key == "beta":
-                out.update(_shift_beta(out, math.exp(x)))
+                out.update(shift_beta(out, math.exp(x)))
             else:
                 out[key] = math.exp(x)
         return out
@@ -292,7 +286,7 @@ def apply_calibration(values: Mapping[str, Any], saved, keep: tuple[str, ...] = 
                 # the load spread's β band becomes the fit's 95 % interval (its half-width as a factor, 1–10):
                 # β is known as well as the furnace's record says
                 values["spread_beta_factor"] = min(max(math.sqrt(high / low), 1.0), 10.0)
-    values["calibration"] = f"{saved.furnace}: record fit #{saved.id} of {saved.made} ({', '.join(taken)})" if taken else ""
+    values["calibration"] = saved.label(taken) if taken else ""
     return values
 
 

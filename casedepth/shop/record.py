@@ -458,15 +458,12 @@ class SavedCalibration:
     fit: dict
     id: int
 
-    def label(self) -> str:
-        """What a plan records of it: ``Pit 2: record fit #3 of 2026-12-04 (D × 0.951, β × 1.18)``."""
-        parts = [f"{name} × {self.fit[key]:.3g}" for key, name in (("diffusivity_multiplier", "D"),
-                                                                    ("beta_factor", "β"),
-                                                                    ("nitrogen_diffusivity_multiplier", "D_N"))
-                 if key in self.fit]
-        return f"{self.furnace}: record fit #{self.id} of {self.made} ({', '.join(parts)})"
-
-
-def open_record(path: str | os.PathLike | None = None) -> Record:
-    """The record at ``path`` (default: :func:`default_database`), created empty if it does not exist."""
-    return Record(path)
+    def label(self, taken: list[str] | None = None) -> str:
+        """What a plan records of it: ``Pit 2: record fit #3 of 2026-12-04 (D × 0.951, β × 1.18)``; ``taken``: the
+        parts a plan took (default: every multiplier of the fit)."""
+        if taken is None:
+            taken = [f"{name} × {self.fit[key]:.3g}" for key, name in (("diffusivity_multiplier", "D"),
+                                                                       ("beta_factor", "β"),
+                                                                       ("nitrogen_diffusivity_multiplier", "D_N"))
+                     if key in self.fit]
+        return f"{self.furnace}: record fit #{self.id} of {self.made} ({', '.join(taken)})"
