@@ -194,17 +194,6 @@ GAS_DATA: dict[str, GasData] = {d.key: d for d in (
 DEFAULT_GAS_DATA = "nasa-glenn-2002"
 
 
-def CO_formation_constant(T: float, data: str = DEFAULT_GAS_DATA) -> float:
-    r"""Equilibrium constant of C(graphite) + ½ O2 = CO, K = p_CO / (a_C p_O2^½), at T [K] [bar^½].
-
-    Examples
-    --------
-    >>> f"{CO_formation_constant(1198.15):.3g}"
-    '3.08e+09'
-    """
-    return GAS_DATA[data].constant("probe", T)
-
-
 def austenite_carbon_activity(carbon: float, T: float) -> float:
     r"""Activity of carbon (graphite reference) in plain-carbon austenite.
 
