@@ -25,6 +25,8 @@ _EXPORTS = {
     "soak_time_for_case_depth": ".carburizing.soak", "soak_times_for_case_depths": ".carburizing.soak",
     "CasedepthError": ".errors", "InputError": ".errors", "NotReachableError": ".errors", "SolverError": ".errors",
     "Plan": ".plan", "evaluate": ".plan", "load": ".plan", "save": ".plan",
+    "Record": ".shop.record", "Measurement": ".shop.record", "read_csv": ".shop.record",
+    "fit_furnace": ".shop.furnace_fit", "apply_calibration": ".shop.furnace_fit", "depth_check": ".shop.furnace_fit",
     "parse_length": ".units", "parse_temperature": ".units", "parse_threshold": ".units", "parse_time": ".units",
 }
 __all__ = list(_EXPORTS)

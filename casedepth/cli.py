@@ -222,7 +222,7 @@ def _build_parser(argv: list[str] | None = None) -> argparse.ArgumentParser:
                              description="Keep every load's plan and its measured coupons in one database (SQLite; "
                                          "default in the platform's data folder, or --db / CASEDEPTH_RECORD), and fit "
                                          "a furnace's multipliers to all its traverses at once.")
-    actions = rc.add_subparsers(dest="record_action", metavar="{add,measure,fit,list}")
+    actions = rc.add_subparsers(dest="record_action", metavar="{add,measure,fit,fits,list}")
     add = actions.add_parser("add", help="record a load run from a plan")
     add.add_argument("plan", metavar="PLAN", help="the plan the load was run from (stored whole)")
     add.add_argument("--furnace", required=True, help='the furnace: "Pit 2"')
@@ -248,12 +248,15 @@ def _build_parser(argv: list[str] | None = None) -> argparse.ArgumentParser:
     measure.add_argument("--by", default="", help="who measured")
     fit = actions.add_parser("fit", help="a furnace's multipliers fitted to all its recorded traverses")
     fit.add_argument("--furnace", required=True)
+    fit.add_argument("--grade", help="fit only the loads of this steel grade (new plans of the grade take it)")
     fit.add_argument("--save", action="store_true", help="keep the fit: new plans that name this furnace take it")
-    listing = actions.add_parser("list", help="the recorded loads")
+    fits = actions.add_parser("fits", help="a furnace's saved fits over time (its trend)")
+    fits.add_argument("--furnace", required=True)
+    listing = actions.add_parser("list", help="the recorded loads, with each load's planned and measured depth")
     listing.add_argument("--furnace")
-    for sub in (add, measure, fit, listing):
+    for sub in (add, measure, fit, fits, listing):
         sub.add_argument("--db", help="the record's file (default: the platform's data folder, or CASEDEPTH_RECORD)")
-    for sub in (fit, listing):
+    for sub in (fit, fits, listing):
         sub.add_argument("--json", action="store_true", help="print one JSON object instead of text")
     rc.set_defaults(handler=_record)
 
@@ -583,7 +586,7 @@ def _record(args) -> int:
     from .shop.record import Measurement, Record, parse_measured, read_csv
 
     if args.record_action is None:
-        raise _UsageError("record: say what to do: add, measure, fit or list (casedepth record --help)")
+        raise _UsageError("record: say what to do: add, measure, fit, fits or list (casedepth record --help)")
     with Record(args.db) as record:
         if args.record_action == "add":
             plan = load(args.plan)
@@ -615,28 +618,63 @@ def _record(args) -> int:
         if args.record_action == "fit":
             from .shop.furnace_fit import fit_furnace
 
-            fitted = fit_furnace(record.loads(args.furnace), " ".join(args.furnace.split()))
+            fitted = fit_furnace(record.loads(args.furnace), " ".join(args.furnace.split()), args.grade)
             saved = None
             if args.save:
                 record.save_calibration(args.furnace, fitted.treatment, fitted.to_dict())
-                saved = record.calibration(args.furnace, fitted.treatment)
+                saved = record.calibration(args.furnace, fitted.treatment, fitted.grade)
             if args.json:
                 print(json.dumps({**fitted.to_dict(), "saved": None if saved is None else saved.label()}))
             else:
                 print(fitted.text() + ("" if saved is None else f"\nSaved: new plans for {saved.furnace} take it "
                                                                 f"({saved.label()})"))
             return 0
-        loads = record.loads(args.furnace)
-        if args.json:
-            print(json.dumps({"record": str(record.path), "loads": [entry.to_dict() for entry in loads]}))
+        if args.record_action == "fits":
+            record.furnace_id(args.furnace)  # refuses an unknown furnace, naming the known ones
+            trend = record.calibrations(args.furnace)
+            if args.json:
+                print(json.dumps({"furnace": " ".join(args.furnace.split()),
+                                  "fits": [{"id": f.id, "made": f.made, "treatment": f.treatment, **f.fit} for f in trend]}))
+            else:
+                print("\n".join(_trend_line(f) for f in trend) or f"no fit of {args.furnace} saved (record fit --save)")
             return 0
-        for entry in loads:
+        from .shop.furnace_fit import depth_check
+
+        loads = record.loads(args.furnace)
+        checks = [depth_check(entry) if entry.measurements else None for entry in loads]
+        if args.json:
+            print(json.dumps({"record": str(record.path), "loads": [
+                {**entry.to_dict(), "depth": None if check is None else check.to_dict()}
+                for entry, check in zip(loads, checks)]}))
+            return 0
+        units = DisplayUnits()
+        for entry, check in zip(loads, checks):
             kinds = ", ".join(f"{m.kind} ({len(m.points)})" for m in entry.measurements) or "no measurements"
             soak = "" if entry.soak is None else f", soak run {format_duration(entry.soak)}"
-            print(f"{entry.date}  {entry.furnace:<12} {entry.number:<12} {entry.plan.get('title', '')}{soak}: {kinds}")
+            depths = ""
+            if check is not None:
+                measured = "not measured" if check.measured is None else \
+                    f"measured {formats.length(check.measured, units)} ({check.how})"
+                depths = f"; depth planned {formats.length(check.predicted, units)}, {measured}"
+            print(f"{entry.date}  {entry.furnace:<12} {entry.number:<12} {entry.plan.get('title', '')}{soak}: "
+                  f"{kinds}{depths}")
         if not loads:
             print(f"no loads recorded in {record.path}")
         return 0
+
+
+def _trend_line(saved) -> str:
+    """One saved fit of a furnace in a line: when, of what, each multiplier with its 95 % interval."""
+    from .shop.furnace_fit import NAMES
+
+    parts = []
+    for json_name, name in NAMES.values():
+        if json_name in saved.fit:
+            low, high = saved.fit[f"{json_name}_ci"]
+            parts.append(f"{name} {saved.fit[json_name]:.3f} ({low:.3f}–{high:.3f})")
+    grade = "every grade" if saved.grade is None else f"grade {saved.grade}"
+    loads = len({(row["load"], row["date"]) for row in saved.fit.get("loads", [])})
+    return f"#{saved.id}  {saved.made}  {saved.treatment}, {grade}, {loads} loads: " + "; ".join(parts)
 
 
 def _steels(_args) -> int:

@@ -817,6 +817,12 @@ PARAMETERS: dict[str, Parameter] = {p.key: p for p in (
               group="Furnace step", unit_label="×", range=MULTIPLIER, decimals=3,
               help="calibration factor on the nitrogen diffusivity: fit it to the shop's own sections",
               options=(Option("--d-multiplier", "calibration factor on the nitrogen diffusivity (default 1)"),), since=4),
+    Parameter("strength_multiplier", "Nitrides' hardness multiplier", Quantity("number"), 1.0,
+              "nitriding_strength_multiplier", NITRIDING, group="Furnace step", unit_label="×", range=MULTIPLIER,
+              decimals=3, help="calibration factor on the hardness the nitrides add over the core (the zone's "
+                               "strength): fit it with the D_N multiplier to the shop's own traverses",
+              options=(Option("--strength-multiplier", "calibration factor on the hardness the nitrides add over the "
+                                                       "core (default 1)"),), since=11),
     # the cycle (carburizing)
     Parameter("process", "Cycle", Choice(_cycles, notes=_cycle_note), "single", "process", CARBURIZING, group="Cycle", since=2),
     Parameter("boost_potential", "Boost potential", Quantity("number"), 1.15, "boost_potential_pct", CARBURIZING,
@@ -1014,6 +1020,10 @@ PARAMETERS: dict[str, Parameter] = {p.key: p for p in (
               CARBURIZING, group="Load spread", unit_label="×", range=(1.0, 10.0),
               applies=lambda v: not v.get("beta_held"), when="a finite mass-transfer coefficient",
               help="the parts' β anywhere from β ÷ factor to β × factor (2: common practice)", since=7),
+    Parameter("spread_d_factor", "Diffusivity known within a factor of", Quantity("number"), 1.0, "spread_d_factor",
+              group="Load spread", unit_label="×", range=(1.0, 10.0), decimals=3,
+              help="the parts' diffusivity anywhere from D ÷ factor to D × factor (1: the model's D for every part; a "
+                   "furnace fit sets its 95 % interval)", since=11),
     Parameter("spread_section", "Section varies by ±", Quantity("length"), 0.0, "spread_section_mm", group="Load spread",
               range=lambda v: (0.0, 0.25 * (v.get("size") or 0.0)), decimals=3,
               applies=lambda v: isinstance(v.get("size"), float) and v["size"] > 0,

@@ -42,7 +42,8 @@ def changed_plan() -> Plan:
                 hardening_temperature=850 + 273.15, load_area=4.0, schedule="boost 2min, diffuse 8min")
     plan.update(carrier="propane-endo", carrier_co=23.5, carrier_h2=31.5, beta_model="constant", beta_multiplier=1.3,
                 gas_data="linear-first-release", control_reading="dew_point",
-                calibration="Pit 2: record fit #1 of 2026-12-01 (D × 1.1)")
+                calibration="Pit 2: record fit #1 of 2026-12-01 (D × 1.1)", strength_multiplier=0.9,
+                spread_d_factor=1.2)
     return plan
 
 

@@ -343,3 +343,129 @@ def test_single_values_are_recorded_and_measured_depths_fit_the_diffusivity(tmp_
     with pytest.raises(InputError, match="one value"):
         with Record(scratch_record) as record:
             record.add_measurement("D-1", Measurement("case_depth", [(0.0, 1e-3), (1e-4, 1e-3)]))
+
+
+NITRIDED = Path(__file__).resolve().parents[1] / "resources" / "examples" / "piston-rod-nitrided.cdplan.json"
+
+
+def test_a_nitriding_furnace_fits_its_diffusivity_and_the_nitrides_hardness(scratch_record):
+    """Nitriding loads fit D_N and the nitrides' hardness multiplier at once: a traverse's level fixes the one, its
+    depth the other. The traverses are the model's own (D_N × 0.8, hardness × 1.15, 12 HV of noise): this checks the
+    fit, not the model (the carburizing fit-back above uses Crank's independent solution)."""
+    from casedepth.plan import forward, load
+
+    rng = np.random.default_rng(11)
+    base = load(NITRIDED)
+    x = np.arange(0.05, 0.61, 0.05) * 1e-3
+    with Record(scratch_record) as record:
+        for i, hours in enumerate((24, 30, 36, 40)):
+            truth = forward({**base.values(), "n_multiplier": 0.8, "strength_multiplier": 1.15}, hours * 3600.0)
+            hv = np.interp(x, truth.depth, truth.hardness) + rng.normal(0.0, 12.0, len(x))
+            record.add_load("Nitriding pit 1", f"N-{i}", to_dict(base), f"2026-09-{10 + i}", hours * 3600.0,
+                            measurements=[Measurement("hardness", list(zip(x, hv)), scale="HV0.5")])
+        fit = fit_furnace(record.loads("Nitriding pit 1"), "Nitriding pit 1")
+        record.save_calibration("Nitriding pit 1", "nitriding", fit.to_dict(), "2026-12-01")
+        saved = record.calibration("Nitriding pit 1", "nitriding", "31CrMoV9")
+    assert list(fit.multipliers) == ["n_multiplier", "strength_multiplier"]
+    for key, truth in (("n_multiplier", 0.8), ("strength_multiplier", 1.15)):
+        low, high = fit.intervals[key]
+        assert low < truth < high and high / low < 1.25, key
+    assert "Nitrides' HV ×" in fit.text() and "strength_multiplier_ci" in fit.to_dict()
+    from casedepth.shop.furnace_fit import apply_calibration
+
+    taken = apply_calibration(base.values(), saved)
+    assert taken["strength_multiplier"] == pytest.approx(fit.multipliers["strength_multiplier"])
+    low, high = fit.intervals["n_multiplier"]  # the load spread's D band is the fit's interval
+    assert taken["spread_d_factor"] == pytest.approx(math.sqrt(high / low))
+    assert "nitrides' HV ×" in taken["calibration"]
+
+
+def test_a_grade_has_its_own_fit_and_plans_of_the_grade_take_it(scratch_record, capsys):
+    """Two grades in one furnace, made (Crank's solution) with D × 1.3 and D × 0.8: the furnace's fit lands between,
+    each grade's fit holds its own; a plan of a fitted grade takes that grade's fit, a plan of another grade the
+    furnace's; the saved fits, oldest first, are the furnace's trend (``record fits``)."""
+    with Record(scratch_record) as record:
+        synthetic_furnace(record, "Pit 3", 1.3, 1.0, 0.02, seed=4)
+        other = Plan(temperature=925 + K, carbon_potential=1.0, diffusivity="arrhenius", count_shop_stages=False,
+                     beta_model="constant", beta=1.5e-7, alloy_factor=False)
+        other.choose_steel("4320")
+        core = evaluate(other).setup.steel.carbon
+        x = np.arange(0.1, 2.01, 0.1) * 1e-3
+        rng = np.random.default_rng(8)
+        for i, hours in enumerate((5, 7)):
+            F = evaporation_plane(x, hours * 3600, float(Arrhenius(0.5, 925 + K)) * 0.8, 1.5e-7)
+            carbon = core + (1.0 - core) * F + rng.normal(0.0, 0.02, len(x))
+            record.add_load("Pit 3", f"G-{i}", to_dict(other), f"2026-11-2{i}", hours * 3600.0,
+                            measurements=[Measurement("carbon", list(zip(x, carbon)))])
+    assert main(["record", "fit", "--furnace", "Pit 3", "--save", "--json"]) == 0
+    every = json.loads(capsys.readouterr().out)
+    assert every["grade"] is None and every["grades"] == {"8620": 4, "4320": 2}
+    assert 0.8 < every["diffusivity_multiplier"] < 1.3
+    assert main(["record", "fit", "--furnace", "Pit 3", "--grade", "4320", "--save", "--json"]) == 0
+    own = json.loads(capsys.readouterr().out)
+    low, high = own["diffusivity_multiplier_ci"]
+    assert own["grade"] == "4320" and low < 0.8 < high and own["saved"].startswith("Pit 3, grade 4320: record fit #2")
+    assert main(["record", "fit", "--furnace", "Pit 3", "--grade", "9310"]) == 2
+    assert "--grade" in capsys.readouterr().err
+    args = ["carburize", "--temperature", "925C", "--potential", "1.0", "--target", "1mm", "--furnace", "Pit 3", "--json"]
+    assert main([*args, "--steel", "4320"]) == 0
+    assert "grade 4320" in json.loads(capsys.readouterr().out)["calibration"]
+    assert main([*args, "--steel", "8620"]) == 0
+    assert json.loads(capsys.readouterr().out)["calibration"].startswith("Pit 3: record fit #1")
+    assert main(["record", "fits", "--furnace", "Pit 3", "--json"]) == 0
+    trend = json.loads(capsys.readouterr().out)["fits"]
+    assert [(f["id"], f["grade"]) for f in trend] == [(1, None), (2, "4320")]
+    assert main(["record", "fits", "--furnace", "Pit 3"]) == 0
+    lines = capsys.readouterr().out.splitlines()
+    assert lines[0].startswith("#1") and "every grade, 6 loads: D multiplier" in lines[0] and "grade 4320" in lines[1]
+
+
+def test_each_load_lists_its_planned_and_measured_depth(scratch_record, capsys):
+    """``record list`` gives each measured load's depth as planned (its plan's model for the soak run) and as
+    measured: a measured depth as recorded, or where a carbon traverse crosses the drawing's 0.40 %C (between
+    readings, linearly)."""
+    from casedepth.plan import forward
+    from casedepth.shop.furnace_fit import depth_check
+
+    plan = Plan(temperature=925 + K, carbon_potential=1.0, count_shop_stages=False)
+    with Record(scratch_record) as record:
+        record.add_load("Pit 5", "A", to_dict(plan), "2026-11-01", 6 * 3600.0,
+                        measurements=[Measurement("carbon", [(0.2e-3, 0.80), (0.8e-3, 0.50), (1.2e-3, 0.30)])])
+        record.add_load("Pit 5", "B", to_dict(plan), "2026-11-02", 6 * 3600.0,
+                        measurements=[Measurement("case_depth", [(0.0, 1.05e-3)])])
+        record.add_load("Pit 5", "C", to_dict(plan), "2026-11-03")
+        a, b, _ = record.loads("Pit 5")
+    check = depth_check(a)
+    # 0.40 %C halfway from 0.50 to 0.30 (within 1 µm: the level is the model's profile read at its depth)
+    assert check.measured == pytest.approx(0.8e-3 + 0.10 / 0.20 * 0.4e-3, abs=1e-6)
+    assert check.predicted == pytest.approx(forward(plan, 6 * 3600.0).case_depth, rel=1e-12)
+    assert depth_check(b).measured == 1.05e-3
+    assert main(["record", "list", "--furnace", "Pit 5", "--json"]) == 0
+    listed = json.loads(capsys.readouterr().out)["loads"]
+    assert listed[1]["depth"]["measured_mm"] == pytest.approx(1.05) and listed[2]["depth"] is None
+    assert main(["record", "list", "--furnace", "Pit 5"]) == 0
+    assert "measured 1.05 mm (effective case depth)" in capsys.readouterr().out
+
+
+def test_a_diffusivity_band_widens_the_load_spread():
+    """The load spread's D factor (a furnace fit sets it from its interval): the parts' depths spread wider with D
+    anywhere in D/1.3–D×1.3 (depth ∝ √D for a held surface, Crank 1975 §3.3: ±14 % at the ends); 1 spreads nothing."""
+    from casedepth.shop.capability import Spread, capability
+
+    plan = Plan(temperature=925 + K, carbon_potential=1.0, count_shop_stages=False, beta_held=True)
+    values = {**plan.values(), "spread_samples": 64}
+    none = capability(values, Spread())
+    wide = capability({**values, "spread_d_factor": 1.3}, Spread())
+    assert "d_multiplier" not in none.bands and wide.bands["d_multiplier"] == 1.3
+    assert np.ptp(wide.depths) > 1.5 * np.ptp(none.depths)
+    low, high = wide.sensitivity["d_multiplier"]
+    assert low / wide.nominal == pytest.approx(1 / math.sqrt(1.3), rel=0.02)
+    assert high / wide.nominal == pytest.approx(math.sqrt(1.3), rel=0.02)
+
+
+def test_the_python_api_reaches_the_same_record_and_fit():
+    import casedepth
+    from casedepth.shop import furnace_fit, record
+
+    assert casedepth.Record is record.Record and casedepth.Measurement is record.Measurement
+    assert casedepth.fit_furnace is furnace_fit.fit_furnace and casedepth.depth_check is furnace_fit.depth_check

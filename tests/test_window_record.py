@@ -108,7 +108,8 @@ def test_the_record_view_takes_single_values_keeps_a_fit_and_plots_the_misses(wi
     view = window.record_view
     view.table.selectRow(1)
     view.single_kind.setCurrentIndex(view.single_kind.findData("case_depth"))
-    view.single_value.setText(f"{forward(window.plan.values(), soak).case_depth * 1e3:.3f}mm")
+    depth = forward(window.plan.values(), soak).case_depth
+    view.single_value.setText(f"{depth * 1e3:.3f}mm")
     assert view.add_value()
     assert view.table.item(1, 4).text() == "carbon (6), case_depth (1)"
     from PySide6.QtWidgets import QMessageBox
@@ -117,9 +118,16 @@ def test_the_record_view_takes_single_values_keeps_a_fit_and_plots_the_misses(wi
     view.single_value.setText("95mm")
     assert not view.add_value() and told and "outside" in told[0]
     view.fit()
-    assert view.save_fit.isEnabled() and view.figure.axes and view.figure.axes[0].collections
+    trend, misses = view.figure.axes
+    assert view.save_fit.isEnabled() and misses.collections and not trend.lines
+    # each measured load's depth as planned and as measured (the value added above)
+    from casedepth import formats
+    assert view.table.item(1, 5).text() == formats.length(depth)
+    assert view.table.item(1, 6).text() == formats.length(round(depth, 6))
     view.keep_fit()
     with Record(scratch_record) as record:
         saved = record.calibration("Pit 5", "carburizing")
     assert saved is not None and saved.label() in view.result.toPlainText()
+    trend, misses = view.figure.axes  # the kept fit is on the furnace's trend
+    assert trend.get_legend_handles_labels()[1] == ["every grade"] and misses.collections
     view.close()

@@ -753,13 +753,13 @@ class _SpreadPage(_Page):
 
 def _bands_note(bands: dict[str, float]) -> str:
     """Where the bands of a load's spread come from (``bands``: :meth:`Spread.resolved`, by input)."""
-    shop = [SPREAD_INPUTS[key].label for key in bands if key not in ("beta", "size")]
+    shop = [SPREAD_INPUTS[key].label for key in bands if key != "size" and not SPREAD_INPUTS[key].factor]
     if not shop:
         return ""
     note = f"Each part has its {' and '.join(shop)} anywhere in the shop's tolerances (Edit → Shop times and rates)"
-    if "beta" in bands:
-        factor = formats.trimmed(bands["beta"], 2)
-        note += f", its mass-transfer coefficient anywhere from β ÷ {factor} to β × {factor}"
+    for key in bands:
+        if SPREAD_INPUTS[key].factor:
+            note += f", its {SPREAD_INPUTS[key].label} {SPREAD_INPUTS[key].describe(bands[key], None)}"
     if "size" in bands:
         note += ", its section within the plan's tolerance"
     return note + "; how they are drawn is the plan's (Load spread in the form)."

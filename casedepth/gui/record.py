@@ -15,6 +15,7 @@ from PySide6.QtWidgets import (QComboBox, QDialog, QDialogButtonBox, QDoubleSpin
                                QHBoxLayout, QLabel, QLineEdit, QMessageBox, QPlainTextEdit, QPushButton, QTableWidget,
                                QTableWidgetItem, QVBoxLayout)
 
+from .. import formats
 from ..errors import CasedepthError, InputError
 from ..plan.fileformat import to_dict
 from ..shop.record import KINDS, SCALES, Measurement, Record, default_database, parse_measured, read_csv
@@ -23,6 +24,15 @@ from ..units import format_duration
 
 def record_path(settings) -> Path:
     return Path(str(settings.value("record_path", str(default_database()))))
+
+
+def _dates(ax) -> None:
+    """A few concise dates along the x axis (a record spans days to years)."""
+    from matplotlib.dates import AutoDateLocator, ConciseDateFormatter
+
+    locator = AutoDateLocator(minticks=2, maxticks=5)
+    ax.xaxis.set_major_locator(locator)
+    ax.xaxis.set_major_formatter(ConciseDateFormatter(locator))
 
 
 class RecordLoadDialog(QDialog):
@@ -82,7 +92,7 @@ class RecordDialog(QDialog):
         super().__init__(parent)
         self.setWindowTitle("Furnace record")
         self.settings = settings
-        self.resize(860, 560)
+        self.resize(940, 680)
         layout = QVBoxLayout(self)
         self.where = QLabel()
         layout.addWidget(self.where)
@@ -95,12 +105,16 @@ class RecordDialog(QDialog):
         self.choose.clicked.connect(self.choose_file)
         top.addWidget(self.choose)
         layout.addLayout(top)
-        self.table = QTableWidget(0, 5)
-        self.table.setHorizontalHeaderLabels(["Date", "Load", "Plan", "Soak run", "Coupons"])
+        self.table = QTableWidget(0, 7)
+        self.table.setHorizontalHeaderLabels(["Date", "Load", "Plan", "Soak run", "Coupons", "Depth planned",
+                                              "Depth measured"])
+        self.table.horizontalHeaderItem(5).setToolTip("The plan's model (as calibrated when planned) for the soak run")
+        self.table.horizontalHeaderItem(6).setToolTip("A measured depth, or where a coupon's traverse crosses the "
+                                                      "drawing's threshold")
         self.table.horizontalHeader().setStretchLastSection(True)
         self.table.setSelectionBehavior(QTableWidget.SelectRows)
         self.table.setEditTriggers(QTableWidget.NoEditTriggers)
-        layout.addWidget(self.table, 1)
+        layout.addWidget(self.table, 2)
         row = QHBoxLayout()
         self.kind = QComboBox()
         for kind in (k for k in KINDS.values() if k.traverse):  # a lab's CSV is a traverse
@@ -110,13 +124,15 @@ class RecordDialog(QDialog):
         self.scale.setCurrentText("HV1")
         self.add_csv = QPushButton("Add a coupon from CSV…")
         self.add_csv.clicked.connect(self.add_coupon)
+        self.grade = QComboBox()
+        self.grade.setToolTip("Fit every load of the furnace, or one steel grade's (plans of that grade take it)")
         self.fit_button = QPushButton("Fit this furnace")
         self.fit_button.clicked.connect(self.fit)
         self.save_fit = QPushButton("Keep this fit for new plans")
         self.save_fit.setToolTip("Plans that name this furnace take the fitted multipliers (as record fit --save)")
         self.save_fit.clicked.connect(self.keep_fit)
         self.save_fit.setEnabled(False)
-        for widget in (self.kind, self.scale, self.add_csv, self.fit_button, self.save_fit):
+        for widget in (self.kind, self.scale, self.add_csv, self.grade, self.fit_button, self.save_fit):
             row.addWidget(widget)
         layout.addLayout(row)
         single = QHBoxLayout()
@@ -139,11 +155,11 @@ class RecordDialog(QDialog):
         from matplotlib.backends.backend_qtagg import FigureCanvasQTAgg
         from matplotlib.figure import Figure
 
-        self.figure = Figure(figsize=(4, 2.6))
+        self.figure = Figure(figsize=(4, 4.4))
         self.canvas = FigureCanvasQTAgg(self.figure)
-        self.canvas.setMinimumWidth(320)
-        below.addWidget(self.canvas, 2)
-        layout.addLayout(below, 1)
+        self.canvas.setMinimumWidth(420)
+        below.addWidget(self.canvas, 3)
+        layout.addLayout(below, 3)
         self.found = None
         buttons = QDialogButtonBox(QDialogButtonBox.Close)
         buttons.rejected.connect(self.reject)
@@ -175,15 +191,31 @@ class RecordDialog(QDialog):
         if name:
             with Record(record_path(self.settings)) as record:
                 self.loads = record.loads(name)
+        from ..shop.furnace_fit import depth_check, grade_of
+
         self.table.setRowCount(len(self.loads))
         for r, load in enumerate(self.loads):
             coupons = ", ".join(f"{m.kind} ({len(m.points)})" for m in load.measurements) or "none yet"
+            planned = measured = ""
+            if load.measurements:
+                try:
+                    check = depth_check(load)
+                    planned = formats.length(check.predicted)
+                    measured = "—" if check.measured is None else formats.length(check.measured)
+                except CasedepthError as error:
+                    planned = getattr(error, "message", str(error))
             cells = (load.date, load.number, load.plan.get("title", ""),
-                     "as planned" if load.soak is None else format_duration(load.soak), coupons)
+                     "as planned" if load.soak is None else format_duration(load.soak), coupons, planned, measured)
             for c, text in enumerate(cells):
                 self.table.setItem(r, c, QTableWidgetItem(text))
+        grades = sorted({grade_of(load) for load in self.loads})
+        self.grade.clear()
+        self.grade.addItem("Every grade", None)
+        for grade in grades:
+            self.grade.addItem(f"Grade {grade}", grade)
         self.fit_button.setEnabled(any(load.measurements for load in self.loads))
         self.add_csv.setEnabled(bool(self.loads))
+        self.plot(None)
 
     def choose_file(self) -> None:
         path, _ = QFileDialog.getSaveFileName(self, "Furnace record", str(record_path(self.settings)),
@@ -222,7 +254,7 @@ class RecordDialog(QDialog):
         self.result.setPlainText(f"Fitting {name} to {len(self.loads)} loads…")
         self.repaint()
         try:
-            found = fit_furnace(self.loads, name)
+            found = fit_furnace(self.loads, name, self.grade.currentData())
         except CasedepthError as error:
             self.result.setPlainText(getattr(error, "message", str(error)))
             return
@@ -230,18 +262,69 @@ class RecordDialog(QDialog):
         self.result.moveCursor(QTextCursor.Start)
         self.found = found
         self.save_fit.setEnabled(True)
-        self.plot_misses(found)
+        self.plot(found)
 
-    def plot_misses(self, found) -> None:
+    def plot(self, found) -> None:
+        """The furnace's saved fits over time (its trend), and under them each coupon's miss against the last fit."""
+        self.figure.clear()
+        trend = self.figure.add_subplot(2, 1, 1)
+        self.plot_trend(trend)
+        ax = self.figure.add_subplot(2, 1, 2)
+        if found is None:
+            ax.text(0.5, 0.5, "Fit the furnace to see each coupon's miss", ha="center", va="center", fontsize=8,
+                    transform=ax.transAxes)
+            ax.set_axis_off()
+        else:
+            self.plot_misses(found, ax)
+        self.figure.tight_layout()
+        self.canvas.draw_idle()
+
+    def plot_trend(self, ax) -> None:
+        """The diffusivity multiplier of each saved fit of the furnace with its 95 % interval, against the day it was
+        made (one colour per grade; every grade in dark blue)."""
+        from datetime import date as _day
+
+        name = self.furnace.currentText()
+        saved = []
+        if name:
+            with Record(record_path(self.settings)) as record:
+                saved = record.calibrations(name)
+        ax.set_title("Saved fits: diffusivity multiplier, 95 % interval", fontsize=9)
+        ax.tick_params(labelsize=7)
+        if not saved:
+            ax.text(0.5, 0.5, "No fit kept yet", ha="center", va="center", fontsize=8, transform=ax.transAxes)
+            return
+        colours = ["#1e3550", "#b45309", "#15803d", "#7c3aed", "#0e7490"]
+        grades = [None] + sorted({f.grade for f in saved if f.grade is not None})
+        for i, grade in enumerate(grades):
+            rows = [f for f in saved if f.grade == grade]
+            points = []
+            for f in rows:
+                key = next((k for k in ("diffusivity_multiplier", "nitrogen_diffusivity_multiplier") if k in f.fit), None)
+                if key is not None:
+                    low, high = f.fit[f"{key}_ci"]
+                    points.append((_day.fromisoformat(f.made), f.fit[key], low, high))
+            if not points:
+                continue
+            days, values, lows, highs = zip(*points)
+            ax.errorbar(days, values, yerr=[[v - lo for v, lo in zip(values, lows)],
+                                           [hi - v for v, hi in zip(values, highs)]],
+                        fmt="o-", ms=4, capsize=3, color=colours[i % len(colours)],
+                        label="every grade" if grade is None else f"grade {grade}")
+        ax.axhline(1.0, color="#888", lw=0.8)
+        ax.set_ylabel("D ×", fontsize=8)
+        ax.legend(fontsize=7, loc="best")
+        _dates(ax)
+
+    def plot_misses(self, found, ax) -> None:
         """Each coupon's mean miss, in its readings' usual scatters, against the load's date: the furnace's drift and
         its outliers at a glance."""
         from datetime import date as _day
 
         from ..shop.furnace_fit import SCATTER
 
-        self.figure.clear()
-        ax = self.figure.add_subplot()
-        for kind, marker in (("carbon", "o"), ("hardness", "s"), ("case_depth", "^"), ("nitrided_depth", "v")):
+        for kind, marker in (("carbon", "o"), ("hardness", "s"), ("case_depth", "^"), ("nitrided_depth", "v"),
+                             ("surface_hardness", "D")):
             rows = [load for load in found.loads if load.kind == kind]
             if not rows:
                 continue
@@ -250,13 +333,11 @@ class RecordDialog(QDialog):
             colours = ["#b42318" if load.outlier else "#1e3550" for load in rows]
             ax.scatter(days, misses, marker=marker, c=colours, label=KINDS[kind].label)
         ax.axhline(0.0, color="#888", lw=0.8)
-        ax.set_ylabel("mean miss [usual scatters]", fontsize=8)
+        ax.set_ylabel("miss [scatters]", fontsize=8)
         ax.set_title("Model − measured, per coupon (red: outlier)", fontsize=9)
         ax.tick_params(labelsize=7)
         ax.legend(fontsize=7, loc="best")
-        self.figure.autofmt_xdate()
-        self.figure.tight_layout()
-        self.canvas.draw_idle()
+        _dates(ax)
 
     def keep_fit(self) -> None:
         """Keep the last fit as the one new plans for this furnace take (as ``casedepth record fit --save``)."""
@@ -264,9 +345,11 @@ class RecordDialog(QDialog):
             return
         with Record(record_path(self.settings)) as record:
             record.save_calibration(self.found.furnace, self.found.treatment, self.found.to_dict())
-            saved = record.calibration(self.found.furnace, self.found.treatment)
-        self.result.appendPlainText(f"\nKept: plans that name {saved.furnace} take it ({saved.label()}).")
+            saved = record.calibration(self.found.furnace, self.found.treatment, self.found.grade)
+        which = saved.furnace if saved.grade is None else f"{saved.furnace} and grade {saved.grade}"
+        self.result.appendPlainText(f"\nKept: plans that name {which} take it ({saved.label()}).")
         self.save_fit.setEnabled(False)
+        self.plot(self.found)
 
     def add_value(self) -> bool:
         """Add one measured value (a depth, a layer, a hardness) to the selected load."""

@@ -34,7 +34,8 @@ def nitriding_setup(values: Mapping[str, Any]) -> NitridingSetup:
     """The validated setup of a plan's values; an :class:`InputError` names the parameter at fault."""
     return NitridingSetup(steel_for(values["steel"], values["composition"]), values["temperature"], values["kn"],
                           values["core_hardness"], values["surface_hardness"], values["n_multiplier"],
-                          values["layer_model"], values["zone_model"], values["n_diffusivity"], values["nitrided_limit"])
+                          values["layer_model"], values["zone_model"], values["n_diffusivity"], values["nitrided_limit"],
+                          values["strength_multiplier"])
 
 
 def _curvature_warnings(values: Mapping[str, Any], depth: float) -> list[str]:

@@ -112,7 +112,7 @@ def _check_kn(K_N: float) -> None:
 @dataclass(frozen=True)
 class NitridingSetup:
     """A gas-nitriding step: steel, temperature [K], nitriding potential [atm^-1/2], core and nitrided
-    hardness [HV], the calibration on D_N, and the models: compound layer, diffusion zone, D_N; the
+    hardness [HV], the calibrations on D_N and on the hardness the nitrides add, and the models: compound layer, diffusion zone, D_N; the
     hardness limit of the nitrided depth [HV] (None: core + 50 HV, DIN 50190-3 / ISO 18203)."""
 
     steel: Steel
@@ -125,6 +125,9 @@ class NitridingSetup:
     zone_model: str = DEFAULT_ZONE_MODEL
     nitrogen_diffusivity: str = DEFAULT_NITROGEN_DIFFUSIVITY
     hardness_limit_hv: float | None = None
+    #: calibration factor on the hardness the nitrides add over the core (the zone's strength; 1 = the grade's
+    #: constant, or the set surface hardness)
+    strength_multiplier: float = 1.0
 
     min_capacity = MIN_CAPACITY
 
@@ -160,6 +163,9 @@ class NitridingSetup:
                              f"({formats.typed(limit, 'HV')}) for a nitrided hardness depth to exist")
         if not (math.isfinite(as_number(self.diffusivity_multiplier, "n_multiplier")) and 0.1 <= self.diffusivity_multiplier <= 10.0):
             raise InputError("n_multiplier", f"{self.diffusivity_multiplier:g} is outside 0.1–10")
+        if not (math.isfinite(as_number(self.strength_multiplier, "strength_multiplier"))
+                and 0.1 <= self.strength_multiplier <= 10.0):
+            raise InputError("strength_multiplier", f"{self.strength_multiplier:g} is outside 0.1–10")
         if self.layer_model not in LAYER_MODELS:
             raise InputError("layer_model", f"unknown model {self.layer_model!r}; choose one of {', '.join(LAYER_MODELS)}")
         if self.nitrogen_diffusivity not in NITROGEN_DIFFUSIVITIES:
@@ -254,12 +260,13 @@ class NitridingSetup:
     def models_text(self) -> str:
         """The models of the step, in one line."""
         multiplier = "" if self.diffusivity_multiplier == 1.0 else f" × {self.diffusivity_multiplier:g}"
+        strength = "" if self.strength_multiplier == 1.0 else f", nitrides' hardness × {self.strength_multiplier:g}"
         diffusivity = NITROGEN_DIFFUSIVITIES[self.nitrogen_diffusivity].short
         zone = ZONE_MODELS[self.zone_model]
         if zone.key == "sharp-front-2026":
             return (f"{self.layer.display}; nitrogen in ferrite after {diffusivity}{multiplier}; internal-nitriding "
-                    f"front after Wagner (1959)")
-        return f"{self.layer.display}; nitrogen in ferrite after {diffusivity}{multiplier}; {zone.display.lower()}"
+                    f"front after Wagner (1959){strength}")
+        return f"{self.layer.display}; nitrogen in ferrite after {diffusivity}{multiplier}; {zone.display.lower()}{strength}"
 
     @property
     def uncertainty(self) -> str:

@@ -251,7 +251,7 @@ class SharpFrontZone(Zone):
         D, c_s = self.diffusivity, self.surface_nitrogen
         self.capacity = setup.capacity
         self.gamma = setup.front_factor
-        self.surface_hardness = setup.typical_surface
+        self.surface_hardness = setup.core + setup.strength_multiplier * (setup.typical_surface - setup.core)
         from .layer import substrate_uptake_coefficient
 
         self.uptake = substrate_uptake_coefficient(c_s, D, 1.0 if self.gamma is None else math.erf(self.gamma))
@@ -292,6 +292,7 @@ class PrecipitationZone(Zone):
             self.strength = max(setup.surface_hardness - core - self.solution_hardening * c_s, 0.0) / bound_top
         else:
             self.strength = setup.constants.strength
+        self.strength *= setup.strength_multiplier  # the furnace record's calibration (1: none)
         self.surface_hardness = float(self.hardness(c_s))
         self.at_limit = self.nitrogen_at_hardness(setup.hardness_limit)
         self.solution = solve_similarity(c_s, self.precipitates, marks=(self.at_limit,))

@@ -24,7 +24,7 @@ from ..outcome import Offer
 from ..parameters import PARAMETERS
 from .state import Plan
 
-SCHEMA_VERSION = 10
+SCHEMA_VERSION = 11
 FILE_KIND = "casedepth plan"
 LARGEST_FILE = 5_000_000  # bytes: a plan with 100 stages and long notes is under 100 kB
 HEADER_KEYS = ("kind", "schema_version")
@@ -134,7 +134,13 @@ def _to_10(data: dict, offers: list[Offer], made_with: int) -> None:
     data.update(calibration="")
 
 
-MIGRATIONS = {1: _to_2, 2: _to_3, 3: _to_4, 4: _to_5, 5: _to_6, 6: _to_7, 7: _to_8, 8: _to_9, 9: _to_10}
+def _to_11(data: dict, offers: list[Offer], made_with: int) -> None:
+    # schema 11 adds the nitrides' hardness multiplier and the load spread's diffusivity factor, both filled with
+    # what an older plan had without them (1: no calibration, no spread of D)
+    pass
+
+
+MIGRATIONS = {1: _to_2, 2: _to_3, 3: _to_4, 4: _to_5, 5: _to_6, 6: _to_7, 7: _to_8, 8: _to_9, 9: _to_10, 10: _to_11}
 
 
 def migrate(data: dict) -> tuple[dict, list[Offer], list[str]]:

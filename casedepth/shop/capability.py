@@ -59,6 +59,7 @@ class SpreadInput:
     apply: Callable[[Mapping[str, Any], float], dict]  # (values, offset in the band's own unit) -> changed values
     describe: Callable[[float, DisplayUnits], str]  # the band in words, in the display units
     note: str  # where the default comes from
+    factor: bool = False  # the band is a factor (the input from x/f to x·f, drawn on a log scale), not a ± offset
 
 
 def _shop(values: Mapping[str, Any]) -> ShopDefaults:
@@ -172,7 +173,14 @@ SPREAD_INPUTS: dict[str, SpreadInput] = {row.key: row for row in (
                 lambda v: float(v.get("spread_beta_factor", BETA_FACTOR)) if _beta_applies(v) else None,
                 shift_beta,
                 lambda b, u: f"from β/{formats.trimmed(b, 2)} to β×{formats.trimmed(b, 2)}",
-                "the plan's factor (Load spread; 2 by default: β is rarely known better, common practice)"),
+                "the plan's factor (Load spread; 2 by default: β is rarely known better, common practice)", True),
+    *(SpreadInput(key, label, (lambda v, key=key: float(v["spread_d_factor"])
+                               if _used(key, v) and _used("spread_d_factor", v) and v["spread_d_factor"] > 1.0 else None),
+                  (lambda v, x, key=key: {key: v[key] * x}),
+                  (lambda b, u, name=name: f"from {name}/{formats.trimmed(b, 2)} to {name}×{formats.trimmed(b, 2)}"),
+                  "the plan's factor (Load spread; a furnace fit sets its 95 % interval; 1, no spread, unless set)", True)
+      for key, label, name in (("d_multiplier", "carbon diffusivity", "D"),
+                               ("n_multiplier", "nitrogen diffusivity", "D_N"))),
 )}
 
 
@@ -208,9 +216,9 @@ class Spread:
         for key, band in self.bands.items():
             if key not in SPREAD_INPUTS:
                 raise InputError(key, f"no spread of {key!r}; choose among {', '.join(SPREAD_INPUTS)}")
-            low = 1.0 if key == "beta" else 0.0
-            if not (math.isfinite(band) and band >= low):
-                raise InputError(key, f"the band {band!r} must be {'a factor ≥ 1' if key == 'beta' else '≥ 0'}")
+            factor = SPREAD_INPUTS[key].factor
+            if not (math.isfinite(band) and band >= (1.0 if factor else 0.0)):
+                raise InputError(key, f"the band {band!r} must be {'a factor ≥ 1' if factor else '≥ 0'}")
 
     def resolved(self, values: Mapping[str, Any]) -> dict[str, float]:
         """The band of every input the plan uses: given, or the table's default."""
@@ -544,7 +552,7 @@ def draw_parts(values: Mapping[str, Any], spread: Spread = Spread()) -> Draw:
     keys = list(bands)
     rng = np.random.default_rng(spread.seed)
     u = _unit_samples(spread.samples, len(keys) + len(ranges), rng)
-    columns = {key: _offset(u[:, i], bands[key], spread.distribution, log=key == "beta")
+    columns = {key: _offset(u[:, i], bands[key], spread.distribution, log=SPREAD_INPUTS[key].factor)
                for i, key in enumerate(keys)}
     for j, element in enumerate(ranges):
         low, high = ranges[element]
@@ -596,7 +604,7 @@ def capability(values: Mapping[str, Any], spread: Spread = Spread(), soak: float
     ends = {}
     for key in keys:
         if bands[key] not in (0.0, 1.0):
-            ends[key] = (1.0 / bands[key], bands[key]) if key == "beta" else (-bands[key], bands[key])
+            ends[key] = (1.0 / bands[key], bands[key]) if SPREAD_INPUTS[key].factor else (-bands[key], bands[key])
             cases += [({key: ends[key][0]}, soak), ({key: ends[key][1]}, soak)]
     if ranges:
         # the grade's whole range at once, each element at the end that deepens the case and the end that does not

@@ -11,7 +11,12 @@ Fitted (in log space, bounded to 0.1–10):
 
 * carburizing: the diffusivity multiplier ``d_multiplier`` and a factor on β (on the plan's one β, or its gas β's
   ``beta_multiplier``); a plan with its surface held at equilibrium fits the diffusivity alone;
-* nitriding: the nitrogen-diffusivity multiplier ``n_multiplier``.
+* nitriding: the nitrogen-diffusivity multiplier ``n_multiplier`` and, where there are hardness readings (a
+  traverse or the surface hardness), the nitrides' hardness multiplier ``strength_multiplier`` (the zone's strength:
+  the traverse's level fixes it, its depth fixes D_N).
+
+A fit is of one furnace, or of one furnace and one steel grade (``grade``, where a shop has enough loads of it: heats
+of one grade stray together); a plan takes the fit of its own grade where one is saved, else the furnace's.
 
 Method: nonlinear least squares (``scipy.optimize.least_squares``, trust-region reflective) on the readings
 weighted by the usual scatter of their method — 0.03 %C for carbon, 25 HV for a hardness traverse (common practice,
@@ -37,9 +42,17 @@ from .record import KINDS, Load
 
 #: the usual scatter of a reading, by kind (common practice, from memory): weights of the least squares; a measured
 #: depth is compared with the model's depth of the drawing's kind (effective case depth, nitrided hardness depth)
-SCATTER = {"carbon": 0.03, "hardness": 25.0, "case_depth": 0.05e-3, "nitrided_depth": 0.03e-3}
-#: the kinds a treatment's fit reads (the others — surface and core hardness, compound layer — are kept, not fitted)
-FITTED = {"carburizing": ("carbon", "hardness", "case_depth"), "nitriding": ("hardness", "nitrided_depth")}
+SCATTER = {"carbon": 0.03, "hardness": 25.0, "case_depth": 0.05e-3, "nitrided_depth": 0.03e-3,
+           "surface_hardness": 25.0}
+#: the kinds a treatment's fit reads (the others — core hardness, compound layer, a carburized surface hardness that
+#: the quench sets more than the furnace — are kept, not fitted)
+FITTED = {"carburizing": ("carbon", "hardness", "case_depth"),
+          "nitriding": ("hardness", "nitrided_depth", "surface_hardness")}
+#: the fitted multipliers: plan key -> (the fit's JSON name, its name in words)
+NAMES = {"d_multiplier": ("diffusivity_multiplier", "D multiplier"),
+         "n_multiplier": ("nitrogen_diffusivity_multiplier", "D_N multiplier"),
+         "strength_multiplier": ("strength_multiplier", "Nitrides' HV ×"),
+         "beta": ("beta_factor", "β factor")}
 OUTLIER_LOAD = 2.5  # a load's rms weighted residual over s beyond this is flagged
 OUTLIER_READING = 3.0
 BOUNDS = (math.log(0.1), math.log(10.0))
@@ -82,13 +95,15 @@ class FurnaceFit:
     #: how the loads took β (the first load's model and its β multiplier or β), for plans that take this fit
     beta_model: str | None = None
     beta_base: float | None = None
+    grade: str | None = None  # the steel grade the fit is of (None: every grade the furnace ran)
+    grades: dict[str, int] = field(default_factory=dict)  # grade -> loads fitted
 
     def to_dict(self) -> dict:
         out: dict[str, Any] = {"furnace": self.furnace, "treatment": self.treatment, "readings": self.readings,
-                               "scatter": self.scatter, "loads": [load.to_dict() for load in self.loads]}
+                               "scatter": self.scatter, "grade": self.grade, "grades": dict(self.grades),
+                               "loads": [load.to_dict() for load in self.loads]}
         for key, value in self.multipliers.items():
-            name = {"d_multiplier": "diffusivity_multiplier", "n_multiplier": "nitrogen_diffusivity_multiplier",
-                    "beta": "beta_factor"}[key]
+            name = NAMES[key][0]
             out[name] = value
             out[f"{name}_ci"] = list(self.intervals[key])
         if self.beta is not None:
@@ -99,17 +114,21 @@ class FurnaceFit:
 
     def text(self) -> str:
         loads = len({(load.number, load.date) for load in self.loads})
-        lines = [f"Furnace {self.furnace}: {loads} loads, {len(self.loads)} coupons, {self.readings} readings fitted at "
+        which = f"Furnace {self.furnace}" + ("" if self.grade is None else f", grade {self.grade}")
+        lines = [f"{which}: {loads} loads, {len(self.loads)} coupons, {self.readings} readings fitted at "
                  f"once (scatter {self.scatter:.2f} × the readings' usual)"]
-        names = {"d_multiplier": "D multiplier", "n_multiplier": "D_N multiplier", "beta": "β factor"}
+        if self.grade is None and len(self.grades) > 1:
+            lines.append("  grades: " + ", ".join(f"{g} ({n} load{'s' * (n != 1)})" for g, n in self.grades.items())
+                         + "; a grade's own fit: --grade")
         for key, value in self.multipliers.items():
             low, high = self.intervals[key]
+            name = NAMES[key][1]
             if high / low > UNDETERMINED:
-                lines.append(f"  {names[key]:<15} {value:.3f}  (not determined by these readings: its 95 % interval "
+                lines.append(f"  {name:<15} {value:.3f}  (not determined by these readings: its 95 % interval "
                              f"spans more than a factor of {UNDETERMINED:g}; "
                              + ("record readings near the surface)" if key == "beta" else "record more traverses)"))
                 continue
-            lines.append(f"  {names[key]:<15} {value:.3f}  (95 % interval {low:.3f}–{high:.3f})")
+            lines.append(f"  {name:<15} {value:.3f}  (95 % interval {low:.3f}–{high:.3f})")
         if self.beta is not None and self.intervals["beta"][1] / self.intervals["beta"][0] <= UNDETERMINED:
             low, high = self.beta_interval
             lines.append(f"  β                {self.beta * 100:.3g} cm/s at the first load's temperature "
@@ -117,7 +136,7 @@ class FurnaceFit:
         for load in self.loads:
             show = {"carbon": formats.carbon, "hardness": formats.hv}.get(load.kind, formats.length)
             flag = "  OUTLIER" if load.outlier else ""
-            sign = "+" if load.mean_miss >= 0 else "−"
+            sign = "" if show(abs(load.mean_miss)) == show(0.0) else "+" if load.mean_miss > 0 else "−"
             lines.append(f"  load {load.number} ({load.date}), {KINDS[load.kind].label}: misses by "
                          f"{sign}{show(abs(load.mean_miss))} on "
                          f"average, rms {show(load.rms_miss)}{flag}")
@@ -128,9 +147,6 @@ class _Model:
     """The recorded loads of one furnace as a function of the fitted parameters (log multipliers)."""
 
     def __init__(self, loads: list[Load]):
-        from ..plan import evaluate
-        from ..plan.fileformat import from_dict
-
         self.loads, self.plans, self.soaks, self.shares = [], [], [], []
         for load in loads:
             kinds = FITTED.get(str(load.plan.get("treatment", "carburizing")), ())
@@ -138,16 +154,11 @@ class _Model:
                         [m for m in load.measurements if m.kind in kinds], load.id)
             if not load.measurements:
                 continue
-            try:
-                values = from_dict(load.plan).values()
-            except InputError as error:
-                raise InputError("record", f"load {load.number}: its plan cannot be read ({error.message})") from None
-            outcome = evaluate(values)  # the recipe the plan gave: its soak and split, held fixed
-            held = outcome.held_shares
+            values, soak, shares = as_run(load)
             self.loads.append(load)
             self.plans.append(values)
-            self.soaks.append(load.soak if load.soak is not None else outcome.soak_time)
-            self.shares.append(held if len(held) > 1 else None)
+            self.soaks.append(soak)
+            self.shares.append(shares)
         if not self.loads:
             raise InputError("furnace", "no load of this furnace has measurements to fit")
         treatments = {v["treatment"] for v in self.plans}
@@ -158,7 +169,8 @@ class _Model:
         if self.treatment == "carburizing":
             self.keys = ["d_multiplier"] + (["beta"] if all(not v["beta_held"] for v in self.plans) else [])
         elif self.treatment == "nitriding":
-            self.keys = ["n_multiplier"]
+            levels = any(m.kind in ("hardness", "surface_hardness") for load in self.loads for m in load.measurements)
+            self.keys = ["n_multiplier"] + (["strength_multiplier"] if levels else [])
         else:
             raise InputError("furnace", f"the furnace fit takes carburizing and nitriding loads, not {self.treatment}")
 
@@ -180,6 +192,7 @@ class _Model:
             result = forward(self.values_at(values, theta), soak, shares=shares)
             depth, carbon, hardness = _profiles(result)
             out.append([np.array([result.window_depth]) if m.kind in ("case_depth", "nitrided_depth") else
+                        hardness[:1] if m.kind == "surface_hardness" else
                         np.interp([d for d, _ in m.points], depth, carbon if m.kind == "carbon" else hardness)
                         for m in load.measurements])
         return out
@@ -192,6 +205,79 @@ class _Model:
         return np.concatenate(parts)
 
 
+def as_run(load: Load) -> tuple[dict, float, tuple[float, ...] | None]:
+    """A recorded load as it ran: its plan's values, the soak [s] (as recorded, else the plan's) and the split of its
+    held stages the plan gave (None for one soak): the recipe the plan gave for its nominal values, held fixed."""
+    from ..plan import evaluate
+    from ..plan.fileformat import from_dict
+
+    try:
+        values = from_dict(load.plan).values()
+    except InputError as error:
+        raise InputError("record", f"load {load.number}: its plan cannot be read ({error.message})") from None
+    outcome = evaluate(values)
+    held = outcome.held_shares
+    return values, (load.soak if load.soak is not None else outcome.soak_time), (held if len(held) > 1 else None)
+
+
+def grade_of(load: Load) -> str:
+    """The steel grade a load's plan names (as typed in the plan: a library grade or a composition)."""
+    return " ".join(str(load.plan.get("steel", "")).split())
+
+
+def same_grade(a: str | None, b: str | None) -> bool:
+    return a is not None and b is not None and " ".join(a.split()).casefold() == " ".join(b.split()).casefold()
+
+
+@dataclass
+class DepthCheck:
+    """A recorded load's depth as its plan predicted it (the plan's model, as calibrated when it was planned, run for
+    the soak recorded) and as measured: a measured depth, or where a coupon's traverse reads what the model reads at
+    its depth (a carbon profile or hardness traverse crossing the drawing's threshold); None where nothing says."""
+
+    number: str
+    date: str
+    predicted: float  # m
+    measured: float | None  # m
+    how: str  # which coupon gave the measured depth
+
+    @property
+    def miss(self) -> float | None:
+        return None if self.measured is None else self.predicted - self.measured
+
+    def to_dict(self) -> dict:
+        return {"load": self.number, "date": self.date, "predicted_mm": self.predicted * 1e3,
+                "measured_mm": None if self.measured is None else self.measured * 1e3, "measured_from": self.how}
+
+
+def _crossing(points: list[tuple[float, float]], level: float) -> float | None:
+    """The first depth [m] where readings falling inward pass below ``level`` (linear between readings)."""
+    for (d0, v0), (d1, v1) in zip(points, points[1:]):
+        if v0 >= level > v1:
+            return d0 + (v0 - level) / (v0 - v1) * (d1 - d0)
+    return None
+
+
+def depth_check(load: Load) -> DepthCheck:
+    """:class:`DepthCheck` of one recorded load (``InputError`` naming ``record`` for a plan that cannot be read)."""
+    from ..plan import forward
+
+    values, soak, shares = as_run(load)
+    result = forward(values, soak, shares=shares)
+    predicted = result.window_depth
+    depth, carbon, hardness = _profiles(result)
+    found, how = None, ""
+    for m in load.measurements:
+        if m.kind in ("case_depth", "nitrided_depth"):
+            return DepthCheck(load.number, load.date, predicted, m.points[0][1], KINDS[m.kind].label)
+        if found is None and m.kind in ("carbon", "hardness") and len(m.points) > 1:
+            curve = carbon if m.kind == "carbon" else hardness
+            if curve is not None:
+                found = _crossing(sorted(m.points), float(np.interp(predicted, depth, curve)))
+                how = f"{KINDS[m.kind].label} at the threshold"
+    return DepthCheck(load.number, load.date, predicted, found, how if found is not None else "")
+
+
 def _profiles(result) -> tuple[np.ndarray, np.ndarray | None, np.ndarray]:
     """(depth [m], carbon [wt %] or None, hardness [HV]) along a forward result's profile."""
     if hasattr(result, "profile"):  # carburizing
@@ -200,15 +286,26 @@ def _profiles(result) -> tuple[np.ndarray, np.ndarray | None, np.ndarray]:
     return np.asarray(result.depth), None, np.asarray(result.hardness)
 
 
-def fit_furnace(loads: list[Load], furnace: str = "") -> FurnaceFit:
-    """The multipliers that fit all of ``loads`` (one furnace's) at once; see the module notes.
+def fit_furnace(loads: list[Load], furnace: str = "", grade: str | None = None) -> FurnaceFit:
+    """The multipliers that fit all of ``loads`` (one furnace's; with ``grade``, those of that steel grade) at once;
+    see the module notes.
 
     :class:`InputError` naming ``furnace`` or ``record`` for loads that cannot be fitted together (no
     measurements, several treatments, too few readings for the parameters); :class:`NotReachableError` naming
     ``furnace`` when a multiplier ends at the edge of 0.1–10 (the model cannot reproduce the readings)."""
     from scipy.optimize import least_squares  # imported on first use: it is slow to import
 
+    if grade is not None:
+        grade = " ".join(str(grade).split())
+        ran = sorted({grade_of(load) for load in loads})
+        loads = [load for load in loads if same_grade(grade_of(load), grade)]
+        if not loads:
+            raise InputError("grade", f"no load of {furnace or 'these'} is of {grade}; its loads are of "
+                                      f"{', '.join(ran) or 'no grade'}")
     model = _Model(loads)
+    grades: dict[str, int] = {}
+    for load in model.loads:
+        grades[grade_of(load)] = grades.get(grade_of(load), 0) + 1
     p = len(model.keys)
     start = np.zeros(p)
     n = len(model.residuals(start))
@@ -257,7 +354,8 @@ def fit_furnace(loads: list[Load], furnace: str = "") -> FurnaceFit:
         base = (plan["beta_model"], plan["beta_multiplier"] if plan["beta_model"] == "gas-2026" else plan["beta"])
     else:
         base = (None, None)
-    return FurnaceFit(furnace, model.treatment, multipliers, intervals, s, n, fits, beta, beta_interval, *base)
+    return FurnaceFit(furnace, model.treatment, multipliers, intervals, s, n, fits, beta, beta_interval, *base,
+                      grade=grade, grades=grades)
 
 
 def apply_calibration(values: Mapping[str, Any], saved, keep: tuple[str, ...] = ()) -> dict:
@@ -272,10 +370,16 @@ def apply_calibration(values: Mapping[str, Any], saved, keep: tuple[str, ...] = 
         raise InputError("calibration", f"{saved.label()} is a fit of {saved.treatment} loads, not {values['treatment']}")
     taken = []
     for fit_key, key, name in (("diffusivity_multiplier", "d_multiplier", "D"),
-                               ("nitrogen_diffusivity_multiplier", "n_multiplier", "D_N")):
+                               ("nitrogen_diffusivity_multiplier", "n_multiplier", "D_N"),
+                               ("strength_multiplier", "strength_multiplier", "nitrides' HV")):
         if fit_key in fit and key not in keep:
             values[key] = fit[fit_key]
             taken.append(f"{name} × {fit[fit_key]:.3g}")
+            low, high = fit.get(f"{fit_key}_ci", (None, None))
+            if key != "strength_multiplier" and low and high and "spread_d_factor" not in keep:
+                # the load spread's diffusivity band becomes the fit's 95 % interval: D is known as well as the
+                # furnace's record says
+                values["spread_d_factor"] = min(max(math.sqrt(high / low), 1.0), 10.0)
     if "beta_factor" in fit and not values.get("beta_held") and fit.get("beta_model") == values.get("beta_model"):
         key = "beta_multiplier" if fit["beta_model"] == "gas-2026" else "beta"
         if key not in keep:
@@ -291,7 +395,8 @@ def apply_calibration(values: Mapping[str, Any], saved, keep: tuple[str, ...] = 
 
 
 #: what a furnace's fit may set in a plan, and what a plan goes back to when its furnace has no fit
-_CALIBRATED_BACK = {"d_multiplier": 1.0, "n_multiplier": 1.0, "beta_multiplier": 1.0, "spread_beta_factor": 2.0}
+_CALIBRATED_BACK = {"d_multiplier": 1.0, "n_multiplier": 1.0, "strength_multiplier": 1.0, "beta_multiplier": 1.0,
+                    "spread_beta_factor": 2.0, "spread_d_factor": 1.0}
 
 
 def calibration_changes(values: Mapping[str, Any], furnace: str, keep: tuple[str, ...] = ()) -> dict:
@@ -307,7 +412,7 @@ def calibration_changes(values: Mapping[str, Any], furnace: str, keep: tuple[str
     if furnace and default_database().exists():
         try:
             with Record(default_database()) as record:
-                saved = record.calibration(furnace, values["treatment"])
+                saved = record.calibration(furnace, values["treatment"], values.get("steel"))
         except InputError:
             saved = None  # a file that is no record: plans are not calibrated from it
     if saved is None:

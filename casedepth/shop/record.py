@@ -17,7 +17,9 @@ Tables (SI inside: depths in m, soak in s; carbon in wt %, hardness in HV):
                   HRC, …), who measured, when
 ``points``        depth and value of each reading of a measurement
 ``calibrations``  (schema 2) each fit of a furnace saved: when, the treatment, the fit (multipliers, intervals, the
-                  β model of its loads); new plans for that furnace take the latest (:meth:`Record.calibration`)
+                  β model of its loads, the grade it is of if one); new plans for that furnace take the latest of
+                  their grade, else the latest of every grade (:meth:`Record.calibration`); all of them are the
+                  furnace's trend (:meth:`Record.calibrations`)
 
 CSV files as labs export them (:func:`read_csv`): a header row, then depth in mm and the value per row; commas,
 semicolons (with decimal commas) or tabs; a bad row is refused with its row number.
@@ -411,15 +413,26 @@ class Record:
             return int(self.db.execute("INSERT INTO calibrations (furnace_id, made, treatment, fit_json) VALUES "
                                        "(?, ?, ?, ?)", (furnace_id, made, treatment, json.dumps(fit))).lastrowid)
 
-    def calibration(self, furnace: str, treatment: str) -> "SavedCalibration | None":
-        """The latest saved fit of ``furnace`` for ``treatment`` (None if there is none, or no such furnace)."""
-        row = self.db.execute(
-            "SELECT calibrations.id, made, fit_json FROM calibrations JOIN furnaces ON furnaces.id = furnace_id "
-            "WHERE furnaces.name = ? AND treatment = ? ORDER BY made DESC, calibrations.id DESC LIMIT 1",
-            (" ".join(str(furnace).split()), treatment)).fetchone()
-        if row is None:
-            return None
-        return SavedCalibration(" ".join(str(furnace).split()), treatment, row[1], json.loads(row[2]), int(row[0]))
+    def calibration(self, furnace: str, treatment: str, grade: str | None = None) -> "SavedCalibration | None":
+        """The fit new plans of ``treatment`` for ``furnace`` take: the latest saved fit of the plan's steel ``grade``
+        where there is one, else the latest of the furnace's every grade (None if neither, or no such furnace)."""
+        from .furnace_fit import same_grade
+
+        fits = self.calibrations(furnace, treatment)[::-1]
+        return (next((saved for saved in fits if same_grade(saved.grade, grade)), None)
+                or next((saved for saved in fits if saved.grade is None), None))
+
+    def calibrations(self, furnace: str, treatment: str | None = None) -> "list[SavedCalibration]":
+        """Every saved fit of ``furnace`` (of ``treatment``), oldest first: the furnace's trend."""
+        name = " ".join(str(furnace).split())
+        query = ("SELECT calibrations.id, made, fit_json, treatment FROM calibrations JOIN furnaces ON "
+                 "furnaces.id = furnace_id WHERE furnaces.name = ?")
+        args: tuple = (name,)
+        if treatment is not None:
+            query += " AND treatment = ?"
+            args += (treatment,)
+        return [SavedCalibration(name, row[3], row[1], json.loads(row[2]), int(row[0]))
+                for row in self.db.execute(query + " ORDER BY made, calibrations.id", args).fetchall()]
 
     # -- reading ---------------------------------------------------------------------------------------------------
     def furnaces(self) -> list[str]:
@@ -458,12 +471,19 @@ class SavedCalibration:
     fit: dict
     id: int
 
+    @property
+    def grade(self) -> str | None:
+        """The steel grade the fit is of (None: every grade the furnace ran)."""
+        return self.fit.get("grade")
+
     def label(self, taken: list[str] | None = None) -> str:
-        """What a plan records of it: ``Pit 2: record fit #3 of 2026-12-04 (D × 0.951, β × 1.18)``; ``taken``: the
-        parts a plan took (default: every multiplier of the fit)."""
+        """What a plan records of it: ``Pit 2: record fit #3 of 2026-12-04 (D × 0.951, β × 1.18)``, with ``, grade
+        8620`` after the furnace for a grade's fit; ``taken``: the parts a plan took (default: every multiplier)."""
         if taken is None:
             taken = [f"{name} × {self.fit[key]:.3g}" for key, name in (("diffusivity_multiplier", "D"),
                                                                        ("beta_factor", "β"),
-                                                                       ("nitrogen_diffusivity_multiplier", "D_N"))
+                                                                       ("nitrogen_diffusivity_multiplier", "D_N"),
+                                                                       ("strength_multiplier", "nitrides' HV"))
                      if key in self.fit]
-        return f"{self.furnace}: record fit #{self.id} of {self.made} ({', '.join(taken)})"
+        which = self.furnace if self.grade is None else f"{self.furnace}, grade {self.grade}"
+        return f"{which}: record fit #{self.id} of {self.made} ({', '.join(taken)})"
