@@ -222,7 +222,7 @@ def _build_parser(argv: list[str] | None = None) -> argparse.ArgumentParser:
                              description="Keep every load's plan and its measured coupons in one database (SQLite; "
                                          "default in the platform's data folder, or --db / CASEDEPTH_RECORD), and fit "
                                          "a furnace's multipliers to all its traverses at once.")
-    actions = rc.add_subparsers(dest="record_action", metavar="{add,measure,fit,fits,list}")
+    actions = rc.add_subparsers(dest="record_action", metavar="{add,measure,fit,fits,list,furnace}")
     add = actions.add_parser("add", help="record a load run from a plan")
     add.add_argument("plan", metavar="PLAN", help="the plan the load was run from (stored whole)")
     add.add_argument("--furnace", required=True, help='the furnace: "Pit 2"')
@@ -254,9 +254,14 @@ def _build_parser(argv: list[str] | None = None) -> argparse.ArgumentParser:
     fits.add_argument("--furnace", required=True)
     listing = actions.add_parser("list", help="the recorded loads, with each load's planned and measured depth")
     listing.add_argument("--furnace")
-    for sub in (add, measure, fit, fits, listing):
+    oven = actions.add_parser("furnace", help="a furnace: its type, survey class and notes, its loads and kept fit")
+    oven.add_argument("name", metavar="NAME", help='the furnace: "Pit 2" (new names are added)')
+    oven.add_argument("--kind", help='its type: "pit", "integral quench", "vacuum" …')
+    oven.add_argument("--survey-class", help="its AMS 2750 furnace class, 1–6")
+    oven.add_argument("--notes", help="anything about it")
+    for sub in (add, measure, fit, fits, listing, oven):
         sub.add_argument("--db", help="the record's file (default: the platform's data folder, or CASEDEPTH_RECORD)")
-    for sub in (fit, fits, listing):
+    for sub in (fit, fits, listing, oven):
         sub.add_argument("--json", action="store_true", help="print one JSON object instead of text")
     rc.set_defaults(handler=_record)
 
@@ -586,7 +591,7 @@ def _record(args) -> int:
     from .shop.record import Measurement, Record, parse_measured, read_csv
 
     if args.record_action is None:
-        raise _UsageError("record: say what to do: add, measure, fit, fits or list (casedepth record --help)")
+        raise _UsageError("record: say what to do: add, measure, fit, fits, list or furnace (casedepth record --help)")
     with Record(args.db) as record:
         if args.record_action == "add":
             plan = load(args.plan)
@@ -628,6 +633,24 @@ def _record(args) -> int:
             else:
                 print(fitted.text() + ("" if saved is None else f"\nSaved: new plans for {saved.furnace} take it "
                                                                 f"({saved.label()})"))
+            return 0
+        if args.record_action == "furnace":
+            if any(value is not None for value in (args.kind, args.survey_class, args.notes)):
+                oven = record.describe_furnace(args.name, args.kind, args.survey_class, args.notes)
+            else:
+                oven = record.furnace(args.name)
+            loads = record.loads(oven.name)
+            kept = {treatment: record.calibration(oven.name, treatment) for treatment in ("carburizing", "nitriding")}
+            if args.json:
+                print(json.dumps({**oven.to_dict(), "loads": len(loads),
+                                  "measured_loads": sum(1 for entry in loads if entry.measurements),
+                                  "kept_fits": {t: f.label() for t, f in kept.items() if f is not None}}))
+            else:
+                print(oven.text())
+                print(f"  {len(loads)} loads, {sum(1 for entry in loads if entry.measurements)} with measurements")
+                for f in kept.values():
+                    if f is not None:
+                        print(f"  new plans take {f.label()}")
             return 0
         if args.record_action == "fits":
             record.furnace_id(args.furnace)  # refuses an unknown furnace, naming the known ones

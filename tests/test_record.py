@@ -469,3 +469,19 @@ def test_the_python_api_reaches_the_same_record_and_fit():
 
     assert casedepth.Record is record.Record and casedepth.Measurement is record.Measurement
     assert casedepth.fit_furnace is furnace_fit.fit_furnace and casedepth.depth_check is furnace_fit.depth_check
+
+
+def test_a_furnace_has_a_type_a_survey_class_and_notes(scratch_record, capsys):
+    """``record furnace NAME`` sets and shows a furnace's details (the survey class one of AMS 2750's six furnace
+    classes), its loads and the fit new plans take."""
+    assert main(["record", "furnace", "IQ 1", "--kind", "integral quench", "--survey-class", "class 2",
+                 "--notes", "rebuilt 2025"]) == 0
+    assert capsys.readouterr().out.startswith("IQ 1: integral quench, AMS 2750 class 2; rebuilt 2025")
+    assert main(["record", "furnace", "IQ 1", "--json"]) == 0
+    shown = json.loads(capsys.readouterr().out)
+    assert (shown["kind"], shown["survey_class"], shown["loads"], shown["kept_fits"]) == ("integral quench", "2", 0, {})
+    assert main(["record", "furnace", "IQ 1", "--survey-class", "7"]) == 2
+    assert capsys.readouterr().err.startswith("casedepth: error: --survey-class: '7' is not an AMS 2750")
+    assert main(["record", "furnace", "Pit 9", "--json"]) == 2  # shown only if it is there
+    with Record(scratch_record) as record:
+        assert record.furnace("IQ 1").notes == "rebuilt 2025"

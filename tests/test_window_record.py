@@ -131,3 +131,23 @@ def test_the_record_view_takes_single_values_keeps_a_fit_and_plots_the_misses(wi
     trend, misses = view.figure.axes  # the kept fit is on the furnace's trend
     assert trend.get_legend_handles_labels()[1] == ["every grade"] and misses.collections
     view.close()
+
+
+def test_the_record_view_keeps_a_furnaces_details(window, qtbot, scratch_record):
+    """The furnace's type, survey class and notes, as ``casedepth record furnace NAME --kind …`` keeps them."""
+    from casedepth.plan.fileformat import to_dict
+
+    with Record(scratch_record) as record:
+        record.add_load("Pit 6", "Q-1", to_dict(window.plan), "2026-11-01")
+    window.settings.setValue("record_path", str(scratch_record))
+    window.record_dialog()
+    view = window.record_view
+    view.oven_kind.setText("pit")
+    view.survey.setCurrentIndex(view.survey.findData("3"))
+    view.oven_notes.setText("retort replaced")
+    assert view.describe_furnace()
+    with Record(scratch_record) as record:
+        assert record.furnace("Pit 6").text() == "Pit 6: pit, AMS 2750 class 3; retort replaced"
+    view.show_loads()
+    assert (view.oven_kind.text(), view.survey.currentData()) == ("pit", "3")
+    view.close()

@@ -105,6 +105,23 @@ class RecordDialog(QDialog):
         self.choose.clicked.connect(self.choose_file)
         top.addWidget(self.choose)
         layout.addLayout(top)
+        about = QHBoxLayout()  # the furnace's own details (record furnace NAME --kind … --survey-class … --notes …)
+        self.oven_kind = QLineEdit()
+        self.oven_kind.setPlaceholderText("pit, integral quench, vacuum …")
+        self.survey = QComboBox()
+        self.survey.addItem("not said", "")
+        for number in range(1, 7):
+            self.survey.addItem(f"AMS 2750 class {number}", str(number))
+        self.oven_notes = QLineEdit()
+        self.oven_notes.setPlaceholderText("notes")
+        self.save_oven = QPushButton("Save furnace details")
+        self.save_oven.clicked.connect(self.describe_furnace)
+        for text, widget, stretch in (("Type", self.oven_kind, 2), ("Survey", self.survey, 0),
+                                      ("Notes", self.oven_notes, 3)):
+            about.addWidget(QLabel(text))
+            about.addWidget(widget, stretch)
+        about.addWidget(self.save_oven)
+        layout.addLayout(about)
         self.table = QTableWidget(0, 7)
         self.table.setHorizontalHeaderLabels(["Date", "Load", "Plan", "Soak run", "Coupons", "Depth planned",
                                               "Depth measured"])
@@ -188,9 +205,15 @@ class RecordDialog(QDialog):
     def show_loads(self) -> None:
         name = self.furnace.currentText()
         self.loads = []
+        oven = None
         if name:
             with Record(record_path(self.settings)) as record:
                 self.loads = record.loads(name)
+                oven = record.furnace(name)
+        self.oven_kind.setText(oven.kind if oven else "")
+        self.survey.setCurrentIndex(max(self.survey.findData(oven.survey_class if oven else ""), 0))
+        self.oven_notes.setText(oven.notes if oven else "")
+        self.save_oven.setEnabled(oven is not None)
         from ..shop.furnace_fit import depth_check, grade_of
 
         self.table.setRowCount(len(self.loads))
@@ -216,6 +239,17 @@ class RecordDialog(QDialog):
         self.fit_button.setEnabled(any(load.measurements for load in self.loads))
         self.add_csv.setEnabled(bool(self.loads))
         self.plot(None)
+
+    def describe_furnace(self) -> bool:
+        """Keep the furnace's type, survey class and notes (as ``casedepth record furnace NAME --kind …``)."""
+        try:
+            with Record(record_path(self.settings)) as record:
+                record.describe_furnace(self.furnace.currentText(), self.oven_kind.text(), self.survey.currentData(),
+                                        self.oven_notes.text())
+        except InputError as error:
+            QMessageBox.warning(self, "Cannot keep the furnace's details", error.message)
+            return False
+        return True
 
     def choose_file(self) -> None:
         path, _ = QFileDialog.getSaveFileName(self, "Furnace record", str(record_path(self.settings)),
@@ -333,6 +367,7 @@ class RecordDialog(QDialog):
             colours = ["#b42318" if load.outlier else "#1e3550" for load in rows]
             ax.scatter(days, misses, marker=marker, c=colours, label=KINDS[kind].label)
         ax.axhline(0.0, color="#888", lw=0.8)
+        ax.margins(x=0.06, y=0.25)  # room for the markers at the ends
         ax.set_ylabel("miss [scatters]", fontsize=8)
         ax.set_title("Model − measured, per coupon (red: outlier)", fontsize=9)
         ax.tick_params(labelsize=7)

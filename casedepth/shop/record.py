@@ -351,6 +351,30 @@ class Record:
             raise InputError("furnace", f"no furnace {name!r} in the record; known: {', '.join(known) or 'none yet'}")
         return int(self.db.execute("INSERT INTO furnaces (name, kind) VALUES (?, ?)", (name, kind)).lastrowid)
 
+    def describe_furnace(self, name: str, kind: str | None = None, survey_class: str | None = None,
+                         notes: str | None = None) -> "Furnace":
+        """Set a furnace's type (pit, integral quench, vacuum …), its AMS 2750 survey class (1–6, or empty) and notes,
+        creating it if it is new; what is None is left as it was. One transaction."""
+        if survey_class is not None:
+            survey_class = str(survey_class).strip().lower().removeprefix("class").strip()
+            if survey_class not in ("", "1", "2", "3", "4", "5", "6"):
+                raise InputError("survey_class", f"{survey_class!r} is not an AMS 2750 furnace class (1–6)")
+        for field_name, text, limit in (("kind", kind, 100), ("notes", notes, 2000)):
+            if text is not None and len(str(text)) > limit:
+                raise InputError(field_name, f"{len(str(text))} characters; at most {limit}")
+        with self.db:
+            furnace_id = self.furnace_id(name, create=True)
+            for column, value in (("kind", kind), ("survey_class", survey_class), ("notes", notes)):
+                if value is not None:
+                    self.db.execute(f"UPDATE furnaces SET {column} = ? WHERE id = ?", (str(value).strip(), furnace_id))
+        return self.furnace(name)
+
+    def furnace(self, name: str) -> "Furnace":
+        """A furnace of the record (refused, naming the known ones, if there is none of that name)."""
+        furnace_id = self.furnace_id(name)
+        row = self.db.execute("SELECT name, kind, survey_class, notes FROM furnaces WHERE id = ?", (furnace_id,)).fetchone()
+        return Furnace(*row)
+
     def add_load(self, furnace: str, number: str, plan: dict, day: str | None = None, soak: float | None = None,
                  parts: int | None = None, notes: str = "", measurements: Iterable[Measurement] = ()) -> int:
         """Record a load (and any measurements of it) in one transaction; returns its id."""
@@ -459,6 +483,24 @@ class Record:
                 load.measurements.append(Measurement(kind, points, coupon, scale, by, taken, id=m_id))
             out.append(load)
         return out
+
+
+@dataclass(frozen=True)
+class Furnace:
+    """A furnace of the record: its name, type, AMS 2750 survey class (1–6, empty if not said) and notes."""
+
+    name: str
+    kind: str = ""
+    survey_class: str = ""
+    notes: str = ""
+
+    def text(self) -> str:
+        parts = [self.kind or "type not said",
+                 f"AMS 2750 class {self.survey_class}" if self.survey_class else "survey class not said"]
+        return f"{self.name}: {', '.join(parts)}" + (f"; {self.notes}" if self.notes else "")
+
+    def to_dict(self) -> dict:
+        return {"furnace": self.name, "kind": self.kind, "survey_class": self.survey_class, "notes": self.notes}
 
 
 @dataclass(frozen=True)
