@@ -364,3 +364,13 @@ def test_cautions_depend_on_the_inputs():
     assert sooty[0].key == "soot"
     assert "NFPA 86" in safety.DEFERENCE and "licensed practice" in safety.DEFERENCE
     assert math.isclose(safety.SAFE_ADMISSION_TEMPERATURE - 273.15, 760.0)
+
+
+def test_every_default_passes_its_own_check():
+    """A plan that keeps a choice's default is not checked against the choice's table (its module is not loaded
+    for it: start-up); so every row's default must be one its table allows."""
+    from casedepth.parameters import Choice
+
+    for key, row in PARAMETERS.items():
+        if isinstance(row.kind, Choice):
+            assert row.kind.check(key, row.default) == row.default, key
