@@ -169,3 +169,38 @@ def test_depth_histories_batched_as_alone():
         history = carburize(setup, 10 * 3600.0).history
         assert np.allclose(times, history.times, rtol=ROUND_OFF, atol=0)
         assert np.allclose(depths, history.threshold_depths(setup.threshold_carbon), rtol=ROUND_OFF, atol=1e-18)
+
+
+def test_rows_of_different_lengths_are_padded_and_give_what_each_gives_alone():
+    """A shaft's grid runs to its centre, so its node count depends on the soak it was sized for: shafts of
+    different soaks (and a plate) march in one batch, the shorter rows padded with nodes no carbon reaches; each
+    row's numbers are its own to round-off, and its profile comes back on its own nodes."""
+    from casedepth.numerics.batch import BatchMarch, batch_rows
+
+    setups = [casedepth.setup("8620", "925C", "1.0", geometry="cylinder", diameter=f"{d}mm") for d in (12, 16, 20)]
+    setups.append(casedepth.setup("8620", "925C", "1.0", geometry="plate", thickness="10mm"))
+    soaks = [3600.0 * h for h in (3, 5, 7, 9)]
+    solvers = [s.solver(soak_time=t) for s, t in zip(setups, soaks)]
+    sizes = [len(s.nodes) for s in solvers]
+    assert len(set(sizes)) > 1 and max(sizes) <= batch.PADDING * min(sizes)
+    assert batch_rows(solvers) == [[0, 1, 2, 3]]
+    marched = BatchMarch(solvers)
+    assert marched.padded
+    for setup, soak, result in zip(setups, soaks, carburize_many(setups, soaks)):
+        alone = carburize(setup, soak)
+        assert len(result.profile.carbon) == len(alone.profile.carbon)
+        assert same(result.case_depth, alone.case_depth) and same(result.carbon_uptake, alone.carbon_uptake)
+        assert np.max(np.abs(result.profile.carbon - alone.profile.carbon)) <= ROUND_OFF
+
+
+def test_threshold_depths_read_only_a_padded_rows_own_nodes():
+    """Through-carburized rows (never below the threshold on their own nodes) padded with core carbon beyond
+    their centre still read their centre, as the single reading does."""
+    nodes = np.array([[0.0, 1e-4, 2e-4, 3e-4], [0.0, 1e-4, 2e-4, 3e-4]])
+    carbon = np.array([[0.9, 0.8, 0.7, 0.6], [0.9, 0.6, 0.3, 0.2]])
+    padded_nodes = np.concatenate((nodes, np.full((2, 2), np.inf)), axis=1)
+    padded_carbon = np.concatenate((carbon, np.full((2, 2), 0.2)), axis=1)
+    threshold, half = np.array([0.4, 0.4]), np.array([3e-4, 3e-4])
+    got = batch.threshold_depths(padded_nodes, padded_carbon, threshold, half)
+    want = [threshold_depth(nodes[k], carbon[k], 0.4, 3e-4) for k in range(2)]
+    assert got[0] == pytest.approx(3e-4) and all(same(g, w) for g, w in zip(got, want))

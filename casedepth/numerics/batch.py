@@ -55,6 +55,10 @@ def _solve(below: np.ndarray, diagonal: np.ndarray, above: np.ndarray, rhs: np.n
     return _tridiagonal(dl.ravel()[:-1], diagonal.reshape(-1), du.ravel()[:-1], rhs.reshape(-1), keep).reshape(m, n)
 
 
+#: the most nodes a batch's longest row may have over its shortest's (the rest is padding)
+PADDING = 1.25
+
+
 def batchable(solver: CarbonSolver) -> bool:
     """Whether ``solver`` can be marched in a batch: its diffusivity has the exponential form."""
     return solver.diffusivity.method in ("tibbetts", "arrhenius")
@@ -62,26 +66,44 @@ def batchable(solver: CarbonSolver) -> bool:
 
 def batch_rows(solvers: Sequence[CarbonSolver], shape=lambda k: ()) -> list[list[int]]:
     """The solvers that can be marched together, as lists of their indices: batchable ones (:func:`batchable`)
-    with the same number of nodes and the same ``shape(index)`` (e.g. the shape of their programs)."""
+    with the same ``shape(index)`` (e.g. the shape of their programs) and node counts within a factor of
+    :data:`PADDING` of each other (a batch pads the shorter rows, :class:`BatchMarch`; wider groups would spend
+    more on padding than the batch saves)."""
     groups: dict[tuple, list[int]] = {}
-    for k, solver in enumerate(solvers):
-        if batchable(solver):
-            groups.setdefault((len(solver.nodes), shape(k)), []).append(k)
-    return list(groups.values())
+    for k in sorted((k for k, solver in enumerate(solvers) if batchable(solver)), key=lambda k: len(solvers[k].nodes)):
+        n = len(solvers[k].nodes)
+        key = shape(k)
+        group = groups.get(key)
+        if group is not None and n > PADDING * len(solvers[group[0]].nodes):
+            groups[(key, k)] = groups.pop(key)  # that group is closed; a new one starts here
+            group = None
+        if group is None:
+            groups[key] = group = []
+        group.append(k)
+    return [sorted(rows) for rows in groups.values()]
 
 
 def threshold_depths(nodes: np.ndarray, carbon: np.ndarray, threshold: np.ndarray, half_section: np.ndarray) -> np.ndarray:
     """Each row's depth [m] where its profile first falls to its ``threshold`` [wt %]: row by row what
-    :func:`casedepth.numerics.solver.threshold_depth` gives (the same quadratic, same fall-backs)."""
+    :func:`casedepth.numerics.solver.threshold_depth` gives (the same quadratic, same fall-backs). Nodes at
+    infinite depth are a padded row's padding (:class:`BatchMarch`) and are not read."""
     m, n = carbon.shape
     rows = np.arange(m)
     under = carbon < threshold[:, None]
+    if np.isinf(nodes[:, -1]).any():  # padded rows: each row's own nodes only
+        real = np.isfinite(nodes)
+        under &= real
+        size = np.sum(real, axis=1)
+        ends = nodes[rows, size - 1]
+    else:
+        size = np.full(m, n)
+        ends = nodes[:, -1]
     i = np.argmax(under, axis=1)
-    out = np.where(carbon[:, 0] < threshold, 0.0, np.minimum(nodes[:, -1], half_section))
+    out = np.where(carbon[:, 0] < threshold, 0.0, np.minimum(ends, half_section))
     inside = i > 0
     if not inside.any():
         return out
-    r, i = rows[inside], i[inside]
+    r, i, n = rows[inside], i[inside], size[inside]
     thr = threshold[inside]
     x0, x1 = nodes[r, i - 1], nodes[r, i]
     c0, c1 = carbon[r, i - 1], carbon[r, i]
@@ -125,7 +147,14 @@ class Crossing:
 
 
 class BatchMarch:
-    """Solvers with the same number of nodes, marched together; each row's numbers are those it gets alone.
+    """Solvers marched together; each row's numbers are those it gets alone.
+
+    Rows with fewer nodes than the longest (a finite section's grid runs to its centre, so its node count depends
+    on the soak it was sized for) are padded: nodes at infinite depth, of unit volume, joined to the row and to
+    each other by faces of zero conductance, at the core's carbon. No carbon flows to or from them, their rows of
+    the tridiagonal system are the identity and their stage values zero, so the row's own nodes follow the very
+    steps they take alone; the ranges, the far end and the threshold depths read the row's own nodes
+    (:attr:`size`), and :meth:`row` gives a row's profile without its padding.
 
     The solvers' present states are read once; the batch then holds the rows' carbon [wt %], times [s] and
     carbon through the surface [wt % · m] (:attr:`carbon`, :attr:`time`, :attr:`flux_integral`) and does
@@ -134,16 +163,23 @@ class BatchMarch:
 
     def __init__(self, solvers: Sequence[CarbonSolver]):
         self.solvers = list(solvers)
-        n = {len(s.nodes) for s in self.solvers}
-        if len(n) != 1:
-            raise ValueError("the solvers of a batch must have the same number of nodes")
-        self.nodes = np.stack([s.nodes for s in self.solvers])
-        self.volume = np.stack([s.volume for s in self.solvers])
+        self.size = np.array([len(s.nodes) for s in self.solvers])
+        n = int(self.size.max())
+        self.padded = bool((self.size != n).any())
+
+        def stacked(arrays, length: int, fill: float) -> np.ndarray:  # rows padded to ``length`` with ``fill``
+            return np.stack([np.concatenate((a, np.full(length - len(a), fill))) for a in arrays]).astype(float)
+
+        self.nodes = stacked([s.nodes for s in self.solvers], n, math.inf)
+        self.volume = stacked([s.volume for s in self.solvers], n, 1.0)
         self._twice_volume = 2.0 * self.volume
-        self.conductance = np.stack([s.conductance for s in self.solvers])
+        self.conductance = stacked([s.conductance for s in self.solvers], n - 1, 0.0)
         self.area = np.array([s.surface_area for s in self.solvers])
-        self.carbon = np.stack([s.carbon for s in self.solvers]).astype(float)
         self.core = np.array([s.core_carbon for s in self.solvers])
+        self.carbon = np.stack([np.concatenate((s.carbon, np.full(n - len(s.carbon), s.core_carbon)))
+                                for s in self.solvers]).astype(float)
+        #: each row's own nodes (False: its padding)
+        self.real = np.arange(n)[None, :] < self.size[:, None]
         self.time = np.array([s.time for s in self.solvers], dtype=float)
         self.flux_integral = np.array([s.flux_integral for s in self.solvers], dtype=float)
         self.time_scale = np.array([s.time_scale for s in self.solvers])
@@ -158,6 +194,19 @@ class BatchMarch:
 
     def __len__(self) -> int:
         return len(self.solvers)
+
+    def row(self, position: int, carbon: np.ndarray | None = None) -> np.ndarray:
+        """Row ``position``'s profile [wt %] on its own nodes (``carbon``: a full row of this batch, default its
+        present carbon)."""
+        carbon = self.carbon[position] if carbon is None else carbon
+        return carbon[:self.size[position]]
+
+    def _range(self, idx: np.ndarray, carbon: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        """Each row's lowest and highest carbon [wt %] on its own nodes."""
+        if not self.padded:
+            return np.minimum.reduce(carbon, axis=1), np.maximum.reduce(carbon, axis=1)
+        real = self.real[idx]
+        return (np.min(np.where(real, carbon, math.inf), axis=1), np.max(np.where(real, carbon, -math.inf), axis=1))
 
     def carbon_uptake(self) -> np.ndarray:
         """Carbon added to each row's part since its start, [wt % · m] per unit surface."""
@@ -293,8 +342,7 @@ class BatchMarch:
         start = self.time.copy()
         end = self.time + durations
         dt = np.minimum(self.first_step * self.time_scale, max_steps)
-        low = np.minimum.reduce(self.carbon, axis=1)
-        high = np.maximum.reduce(self.carbon, axis=1)
+        low, high = self._range(np.arange(N), self.carbon)
         reached = np.zeros(N, dtype=bool)
         if until is not None:
             reached = ~self.failed & (self.depths(threshold) >= until)
@@ -330,8 +378,7 @@ class BatchMarch:
                 except SolverError:
                     self.failed[idx] = True
                     continue
-                new_low = np.minimum.reduce(carbon, axis=1)
-                new_high = np.maximum.reduce(carbon, axis=1)
+                new_low, new_high = self._range(idx, carbon)
                 lo = np.minimum(low[idx], ceq)
                 hi = np.maximum(high[idx], ceq)
                 slack = 1e-3 * np.maximum(hi - lo, 1e-3)
@@ -340,7 +387,8 @@ class BatchMarch:
                 if far.any():
                     core = self.core[idx]
                     scale = np.maximum(np.maximum(np.abs(ceq - core), np.abs(carbon[:, 0] - core)), 1e-12)
-                    touched = far & (np.abs(carbon[:, -1] - core) > CarbonSolver.FAR_FIELD_TOLERANCE * scale)
+                    last = carbon[np.arange(len(idx)), self.size[idx] - 1]
+                    touched = far & (np.abs(last - core) > CarbonSolver.FAR_FIELD_TOLERANCE * scale)
                     good &= ~touched
                 self.failed[idx[~good]] = True
                 ok = idx[good]
@@ -535,7 +583,7 @@ def run_programs(solvers: Sequence[CarbonSolver], programs: Sequence[Program]) -
             uptake.append(batch.carbon_uptake() - before)
         for position, k in enumerate(rows):
             if not batch.failed[position]:
-                out[k] = Marched(batch.carbon[position], float(batch.time[position]),
+                out[k] = Marched(batch.row(position), float(batch.time[position]),
                                  [float(s[position]) for s in starts], [float(u[position]) for u in uptake])
     return out
 
@@ -556,5 +604,5 @@ def times_to(solvers: Sequence[CarbonSolver], conditions: Sequence[SurfaceCondit
         batch.failed |= already  # a target met before the march starts: the single march answers it
         batch.advance(horizon, [conditions[k] for k in rows], until=until, threshold=threshold)
         for position, (time, carbon) in batch.land(until, threshold).items():
-            out[rows[position]] = (time, carbon)
+            out[rows[position]] = (time, batch.row(position, carbon))
     return out

@@ -53,6 +53,7 @@ NAMES = {"d_multiplier": ("diffusivity_multiplier", "D multiplier"),
          "n_multiplier": ("nitrogen_diffusivity_multiplier", "D_N multiplier"),
          "strength_multiplier": ("strength_multiplier", "Nitrides' HV ×"),
          "beta": ("beta_factor", "β factor")}
+_HARDNESS = ("hardness", "surface_hardness")  # the kinds read against the model's hardness
 OUTLIER_LOAD = 2.5  # a load's rms weighted residual over s beyond this is flagged
 OUTLIER_READING = 3.0
 BOUNDS = (math.log(0.1), math.log(10.0))
@@ -184,13 +185,22 @@ class _Model:
         return out
 
     def predictions(self, theta: np.ndarray) -> list[list[np.ndarray]]:
-        """The model's value at every reading, load by load and measurement by measurement."""
-        from ..plan import forward
+        """The model's value at every reading, load by load and measurement by measurement; the loads that split
+        their time alike are run together (:func:`casedepth.plan.evaluate.forward_many`: the same numbers as one
+        by one)."""
+        from ..plan.evaluate import forward_many
 
+        results: list = [None] * len(self.loads)
+        groups: dict = {}
+        for k, shares in enumerate(self.shares):
+            groups.setdefault(shares, []).append(k)
+        for shares, rows in groups.items():
+            for k, result in zip(rows, forward_many([self.values_at(self.plans[k], theta) for k in rows],
+                                                    [self.soaks[k] for k in rows], shares)):
+                results[k] = result
         out = []
-        for load, values, soak, shares in zip(self.loads, self.plans, self.soaks, self.shares):
-            result = forward(self.values_at(values, theta), soak, shares=shares)
-            depth, carbon, hardness = _profiles(result)
+        for load, result in zip(self.loads, results):
+            depth, carbon, hardness = _profiles(result, any(m.kind in _HARDNESS for m in load.measurements))
             out.append([np.array([result.window_depth]) if m.kind in ("case_depth", "nitrided_depth") else
                         hardness[:1] if m.kind == "surface_hardness" else
                         np.interp([d for d, _ in m.points], depth, carbon if m.kind == "carbon" else hardness)
@@ -265,7 +275,7 @@ def depth_check(load: Load) -> DepthCheck:
     values, soak, shares = as_run(load)
     result = forward(values, soak, shares=shares)
     predicted = result.window_depth
-    depth, carbon, hardness = _profiles(result)
+    depth, carbon, hardness = _profiles(result, any(m.kind == "hardness" for m in load.measurements))
     found, how = None, ""
     for m in load.measurements:
         if m.kind in ("case_depth", "nitrided_depth"):
@@ -278,11 +288,13 @@ def depth_check(load: Load) -> DepthCheck:
     return DepthCheck(load.number, load.date, predicted, found, how if found is not None else "")
 
 
-def _profiles(result) -> tuple[np.ndarray, np.ndarray | None, np.ndarray]:
-    """(depth [m], carbon [wt %] or None, hardness [HV]) along a forward result's profile."""
+def _profiles(result, hardness: bool = True) -> tuple[np.ndarray, np.ndarray | None, np.ndarray | None]:
+    """(depth [m], carbon [wt %] or None, hardness [HV]) along a forward result's profile; a carburized profile's
+    hardness (the quench's cooling at every depth: the costly part) only with ``hardness``."""
     if hasattr(result, "profile"):  # carburizing
         from ..carburizing.outcome import hardness_along
-        return result.profile.depth, result.profile.carbon, hardness_along(result.setup, result.profile)
+        return (result.profile.depth, result.profile.carbon,
+                hardness_along(result.setup, result.profile) if hardness else None)
     return np.asarray(result.depth), None, np.asarray(result.hardness)
 
 
