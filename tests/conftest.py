@@ -11,8 +11,11 @@ sys.path.insert(0, str(Path(__file__).resolve().parent))
 @pytest.fixture(autouse=True)
 def scratch_record(tmp_path_factory, monkeypatch):
     """Every test's furnace record is a scratch file (CASEDEPTH_RECORD), never the user's own."""
+    from casedepth.shop import record
+
     path = tmp_path_factory.mktemp("record") / "record.sqlite"
     monkeypatch.setenv("CASEDEPTH_RECORD", str(path))
+    monkeypatch.setattr(record, "_chosen", None)  # a window's choice of file does not outlive its test
     return path
 
 

@@ -151,3 +151,25 @@ def test_the_record_view_keeps_a_furnaces_details(window, qtbot, scratch_record)
     view.show_loads()
     assert (view.oven_kind.text(), view.survey.currentData()) == ("pit", "3")
     view.close()
+
+
+def test_the_record_file_the_window_chose_is_the_one_plans_are_calibrated_from(window, qtbot, scratch_record,
+                                                                               tmp_path, monkeypatch):
+    """Another record file picked in the Furnace record view (its settings) is the one a furnace picked in the form
+    takes its fit from, not the default file (CASEDEPTH_RECORD here)."""
+    from PySide6.QtWidgets import QFileDialog
+
+    other = tmp_path / "other.sqlite"
+    with Record(other) as record:
+        record.describe_furnace("Pit 7")
+        record.save_calibration("Pit 7", "carburizing", {"diffusivity_multiplier": 0.8,
+                                                         "diffusivity_multiplier_ci": [0.7, 0.9]}, "2026-12-02")
+    window.record_dialog()
+    view = window.record_view
+    monkeypatch.setattr(QFileDialog, "getSaveFileName", lambda *a, **k: (str(other), ""))
+    view.choose_file()
+    assert view.furnace.currentText() == "Pit 7"
+    with qtbot.waitSignal(window.result_shown, timeout=20000):
+        window.plan.set("furnace", "Pit 7")
+    assert window.plan.d_multiplier == 0.8 and window.plan.calibration.startswith("Pit 7: record fit #1")
+    view.close()

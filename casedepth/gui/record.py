@@ -18,12 +18,20 @@ from PySide6.QtWidgets import (QComboBox, QDialog, QDialogButtonBox, QDoubleSpin
 from .. import formats
 from ..errors import CasedepthError, InputError
 from ..plan.fileformat import to_dict
-from ..shop.record import KINDS, SCALES, Measurement, Record, default_database, parse_measured, read_csv
+from ..shop.record import (KINDS, SCALES, Measurement, Record, default_database, parse_measured, read_csv,
+                           use_database)
 from ..units import format_duration
 
 
 def record_path(settings) -> Path:
     return Path(str(settings.value("record_path", str(default_database()))))
+
+
+def adopt_record_path(settings) -> None:
+    """Make the settings' record file the process's (:func:`casedepth.shop.record.use_database`): the file the
+    record views open is the one new plans that name a furnace are calibrated from."""
+    if settings.contains("record_path"):
+        use_database(record_path(settings))
 
 
 def _dates(ax) -> None:
@@ -257,6 +265,7 @@ class RecordDialog(QDialog):
                                               options=QFileDialog.DontConfirmOverwrite)
         if path:
             self.settings.setValue("record_path", path)
+            adopt_record_path(self.settings)  # plans naming a furnace are calibrated from this file from now on
             self.refresh()
 
     def add_coupon(self, path: str | None = None) -> bool:

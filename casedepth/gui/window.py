@@ -149,6 +149,9 @@ class MainWindow(QMainWindow):
     def __init__(self, plan: Plan | None = None, settings: QSettings | None = None, path: str | None = None):
         super().__init__()
         self.settings = settings if settings is not None else QSettings("casedepth", "casedepth")
+        from .record import adopt_record_path
+
+        adopt_record_path(self.settings)  # the record the settings chose is the one plans are calibrated from
         self.units = DisplayUnits(str(self.settings.value("units", "metric")))
         self.plan = plan if plan is not None else Plan()
         self.path: Path | None = Path(path) if path else None

@@ -144,9 +144,24 @@ ALTER TABLE measurements_3 RENAME TO measurements;
 }
 
 
+#: the record a window's settings chose for this process (:func:`use_database`), or None
+_chosen: Path | None = None
+
+
+def use_database(path: str | os.PathLike | None) -> None:
+    """Make ``path`` the record of this process: the one new plans that name a furnace are calibrated from and the
+    window's record views open (the window calls it with its settings' choice); None goes back to
+    ``CASEDEPTH_RECORD`` or the platform's folder."""
+    global _chosen
+    _chosen = None if path is None else Path(path)
+
+
 def default_database() -> Path:
-    """Where the record lives unless the settings say otherwise: the platform's application data folder (the same
-    folder Qt's ``QStandardPaths.AppDataLocation`` names), or ``CASEDEPTH_RECORD`` if set."""
+    """Where the record lives: the one this process chose (:func:`use_database`, a window's settings), else
+    ``CASEDEPTH_RECORD`` if set, else the platform's application data folder (the same folder Qt's
+    ``QStandardPaths.AppDataLocation`` names)."""
+    if _chosen is not None:
+        return _chosen
     if os.environ.get("CASEDEPTH_RECORD"):
         return Path(os.environ["CASEDEPTH_RECORD"])
     if sys.platform.startswith("win"):
