@@ -485,3 +485,22 @@ def test_a_furnace_has_a_type_a_survey_class_and_notes(scratch_record, capsys):
     assert main(["record", "furnace", "Pit 9", "--json"]) == 2  # shown only if it is there
     with Record(scratch_record) as record:
         assert record.furnace("IQ 1").notes == "rebuilt 2025"
+
+
+def test_a_plan_calibrated_by_a_fit_states_the_fits_uncertainty():
+    """A nitriding plan that took a furnace fit's D_N says how sure its depth is from the fit's interval (depth ∝
+    √D_N, time ∝ 1/D_N at one depth: Crank 1975 §3.3), not "±25 % until calibrated"; its load spread carries that
+    interval in the parts and adds no model uncertainty on top."""
+    from casedepth.plan import evaluate, load
+    from casedepth.shop.capability import Spread, capability
+
+    plan = load(NITRIDED)
+    plain = evaluate(plan)
+    assert "until calibrated" in plain.setup.uncertainty
+    plan.update(n_multiplier=0.85, spread_d_factor=1.21, calibration="Nitriding pit 1: record fit #4 of 2026-12-03")
+    calibrated = evaluate(plan)
+    assert calibrated.setup.uncertainty.startswith("depth ±10 %, time ±21 % from the furnace fit's D_N (95 %)")
+    assert calibrated.view().hardness.caption.endswith("(depth ±10 %)")
+    assert plain.view().hardness.caption.endswith("(depth ±25 % until calibrated)")
+    load_spread = capability(plan.values(), Spread(samples=32))
+    assert load_spread.model_uncertainty is None and load_spread.bands["n_multiplier"] == 1.21

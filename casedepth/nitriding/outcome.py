@@ -35,7 +35,8 @@ def nitriding_setup(values: Mapping[str, Any]) -> NitridingSetup:
     return NitridingSetup(steel_for(values["steel"], values["composition"]), values["temperature"], values["kn"],
                           values["core_hardness"], values["surface_hardness"], values["n_multiplier"],
                           values["layer_model"], values["zone_model"], values["n_diffusivity"], values["nitrided_limit"],
-                          values["strength_multiplier"])
+                          values["strength_multiplier"],
+                          values["spread_d_factor"] if values["calibration"] and values["spread_d_factor"] > 1.0 else None)
 
 
 def _curvature_warnings(values: Mapping[str, Any], depth: float) -> list[str]:
@@ -230,8 +231,7 @@ class NitridingOutcome(Outcome):
                          [Level(setup.hardness_limit, limit, "threshold")],
                          (setup.core - 80, max(setup.surface, setup.hardness_limit) + 80),
                          "Hardness " + when + (" (sharp-front model; measured profiles are smoother)" if sharp else
-                                               f" (depth {ZONE_MODELS[setup.zone_model].short_uncertainty} until "
-                                               f"calibrated)"), band, hrc_axis=True)
+                                               f" (depth {setup.short_uncertainty})"), band, hrc_axis=True)
         return ProfileView(self.profile_name, main, hardness, max(self.targets[2] * 1.8, final.nitrided_depth * 1.5),
                            self.targets)
 

@@ -128,6 +128,9 @@ class NitridingSetup:
     #: calibration factor on the hardness the nitrides add over the core (the zone's strength; 1 = the grade's
     #: constant, or the set surface hardness)
     strength_multiplier: float = 1.0
+    #: the factor within which a furnace fit the plan took knows D_N (the half-width of its 95 % interval), or None
+    #: for a plan not calibrated on the shop's sections
+    calibrated_within: float | None = None
 
     min_capacity = MIN_CAPACITY
 
@@ -270,8 +273,22 @@ class NitridingSetup:
 
     @property
     def uncertainty(self) -> str:
-        """How sure the nitrided depth is, in words (printed with every depth the zone model gives)."""
-        return ZONE_MODELS[self.zone_model].uncertainty
+        """How sure the nitrided depth is, in words (printed with every depth the zone model gives): the zone
+        model's own, or for a plan calibrated by a furnace fit what the fit's D_N interval gives (depth ∝ √D_N and
+        time ∝ 1/D_N at one depth, Crank 1975 §3.3)."""
+        if self.calibrated_within is None:
+            return ZONE_MODELS[self.zone_model].uncertainty
+        return f"depth {self.short_uncertainty}, time ±{self._within(1.0)} from the furnace fit's D_N (95 %); hardness ±60 HV"
+
+    @property
+    def short_uncertainty(self) -> str:
+        """The depth's uncertainty in a few words, for plot titles: ``±25 % until calibrated``."""
+        if self.calibrated_within is None:
+            return f"{ZONE_MODELS[self.zone_model].short_uncertainty} until calibrated"
+        return f"±{self._within(0.5)}"
+
+    def _within(self, power: float) -> str:
+        return f"{formats.trimmed(100.0 * (self.calibrated_within ** power - 1.0), 1)} %"
 
     def warnings(self) -> list[str]:
         out = []

@@ -636,9 +636,13 @@ def capability(values: Mapping[str, Any], spread: Spread = Spread(), soak: float
             sensitivity[key] = (nominal, nominal)
             if surface_window is not None:
                 surface_sensitivity[key] = (nominal_result.surface_carbon,) * 2
+    model_uncertainty = getattr(nominal_result, "uncertainty", None)
+    if model_uncertainty is not None and getattr(nominal_result.setup, "calibrated_within", None) is not None \
+            and bands.get("n_multiplier", 1.0) > 1.0:
+        # a furnace fit's D_N interval is the model's uncertainty, and the parts already spread over it
+        model_uncertainty = None
     return Capability(values, soak, nominal, depths, window, bands, spread, sensitivity, ranges, centred, figures, band,
-                      getattr(nominal_result, "uncertainty", None), tuple(zip(held, shares)), surface_window,
-                      surface_sensitivity)
+                      model_uncertainty, tuple(zip(held, shares)), surface_window, surface_sensitivity)
 
 
 def _profile_band(nominal, parts) -> tuple[np.ndarray, np.ndarray, np.ndarray] | None:
