@@ -27,7 +27,7 @@ from .nitride import NitridingResult, nitride, nitriding_time
 from .schedule import (TwoStageSchedule, compound_layer_advice, second_stage_potential, staged_layer,
                        staged_layer_at, two_stage_for_depth)
 from .setup import NitridingSetup, dissociation_for_potential
-from .zone import ZONE_MODELS, SharpFrontZone
+from .zone import SharpFrontZone
 
 
 def nitriding_setup(values: Mapping[str, Any]) -> NitridingSetup:
