@@ -259,3 +259,16 @@ def test_the_plans_chart_has_its_loads_band_around_its_own_curve():
     assert near[:, 1].max() == pytest.approx(pct["p95"] * 1e3, rel=0.02)
     plain = treatment.chart(values, temperatures=treatment.chart_temperatures(values))
     assert not [c for c in plain.pages[0].axes[0].collections if "parts" in c.get_label()]
+
+
+def test_the_sheet_names_the_furnace_fit_a_calibrated_plan_took():
+    """Issue 20: a plan whose multipliers came from the furnace record prints which fit and its date; a plan
+    without one prints nothing of the kind."""
+    plan = load(EXAMPLES / "piston-rod-nitrided.cdplan.json")
+    texts = " ".join(t.get_text() for page in process_sheet(plan, evaluate(plan.values())).pages for t in page.texts)
+    assert "furnace record" not in texts
+    plan.update(n_multiplier=0.85, spread_d_factor=1.21, calibration="Nitriding pit 1: record fit #4 of 2026-12-03 "
+                                                                     "(D_N × 0.85)")
+    texts = " ".join(t.get_text() for page in process_sheet(plan, evaluate(plan.values())).pages for t in page.texts)
+    assert "Calibrated on the furnace record: Nitriding pit 1: record fit #4 of 2026-12-03" in texts.replace("\n", " ")
+    assert "depth ±10 %, time ±21 % from the furnace fit's D_N" in texts.replace("\n", " ")

@@ -695,6 +695,9 @@ def _sheet_blocks(plan, outcome: Outcome, u: DisplayUnits) -> list:
                      f"{whole} (every stage in the setpoints)")
     elif spread is not None:
         lines.append(spread.sheet_line(u)[0].upper() + spread.sheet_line(u)[1:])
+    calibration = outcome.values.get("calibration")
+    if calibration:  # which of the furnace record's fits the multipliers came from, and its date
+        lines.append(f"Calibrated on the furnace record: {calibration}")
     if content.setpoints:
         header, rows = [*content.setpoint_header, "actual", "initials"], [[*r, "", ""] for r in content.setpoints]
     else:
