@@ -222,7 +222,8 @@ class RecordDialog(QDialog):
         self.survey.setCurrentIndex(max(self.survey.findData(oven.survey_class if oven else ""), 0))
         self.oven_notes.setText(oven.notes if oven else "")
         self.save_oven.setEnabled(oven is not None)
-        from ..shop.furnace_fit import depth_check, grade_of
+        from ..shop.furnace_fit import depth_check
+        from ..shop.record import grade_of
 
         self.table.setRowCount(len(self.loads))
         for r, load in enumerate(self.loads):

@@ -69,18 +69,17 @@ def batch_rows(solvers: Sequence[CarbonSolver], shape=lambda k: ()) -> list[list
     with the same ``shape(index)`` (e.g. the shape of their programs) and node counts within a factor of
     :data:`PADDING` of each other (a batch pads the shorter rows, :class:`BatchMarch`; wider groups would spend
     more on padding than the batch saves)."""
-    groups: dict[tuple, list[int]] = {}
+    by_shape: dict[tuple, list[int]] = {}
     for k in sorted((k for k, solver in enumerate(solvers) if batchable(solver)), key=lambda k: len(solvers[k].nodes)):
-        n = len(solvers[k].nodes)
-        key = shape(k)
-        group = groups.get(key)
-        if group is not None and n > PADDING * len(solvers[group[0]].nodes):
-            groups[(key, k)] = groups.pop(key)  # that group is closed; a new one starts here
-            group = None
-        if group is None:
-            groups[key] = group = []
-        group.append(k)
-    return [sorted(rows) for rows in groups.values()]
+        by_shape.setdefault(shape(k), []).append(k)
+    groups: list[list[int]] = []
+    for rows in by_shape.values():  # shortest first: a row too long for the open group starts the next
+        groups.append([rows[0]])
+        for k in rows[1:]:
+            if len(solvers[k].nodes) > PADDING * len(solvers[groups[-1][0]].nodes):
+                groups.append([])
+            groups[-1].append(k)
+    return [sorted(rows) for rows in groups]
 
 
 def threshold_depths(nodes: np.ndarray, carbon: np.ndarray, threshold: np.ndarray, half_section: np.ndarray) -> np.ndarray:

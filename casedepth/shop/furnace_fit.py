@@ -38,7 +38,7 @@ import numpy as np
 from .. import formats
 from ..errors import InputError, NotReachableError
 from .capability import shift_beta
-from .record import KINDS, Load
+from .record import KINDS, Load, grade_of, same_grade
 
 #: the usual scatter of a reading, by kind (common practice, from memory): weights of the least squares; a measured
 #: depth is compared with the model's depth of the drawing's kind (effective case depth, nitrided hardness depth)
@@ -228,15 +228,6 @@ def as_run(load: Load) -> tuple[dict, float, tuple[float, ...] | None]:
     outcome = evaluate(values)
     held = outcome.held_shares
     return values, (load.soak if load.soak is not None else outcome.soak_time), (held if len(held) > 1 else None)
-
-
-def grade_of(load: Load) -> str:
-    """The steel grade a load's plan names (as typed in the plan: a library grade or a composition)."""
-    return " ".join(str(load.plan.get("steel", "")).split())
-
-
-def same_grade(a: str | None, b: str | None) -> bool:
-    return a is not None and b is not None and " ".join(a.split()).casefold() == " ".join(b.split()).casefold()
 
 
 @dataclass

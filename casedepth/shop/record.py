@@ -455,8 +455,6 @@ class Record:
     def calibration(self, furnace: str, treatment: str, grade: str | None = None) -> "SavedCalibration | None":
         """The fit new plans of ``treatment`` for ``furnace`` take: the latest saved fit of the plan's steel ``grade``
         where there is one, else the latest of the furnace's every grade (None if neither, or no such furnace)."""
-        from .furnace_fit import same_grade
-
         fits = self.calibrations(furnace, treatment)[::-1]
         return (next((saved for saved in fits if same_grade(saved.grade, grade)), None)
                 or next((saved for saved in fits if saved.grade is None), None))
@@ -498,6 +496,16 @@ class Record:
                 load.measurements.append(Measurement(kind, points, coupon, scale, by, taken, id=m_id))
             out.append(load)
         return out
+
+
+def grade_of(load: Load) -> str:
+    """The steel grade a load's plan names (as typed in the plan: a library grade or a composition)."""
+    return " ".join(str(load.plan.get("steel", "")).split())
+
+
+def same_grade(a: str | None, b: str | None) -> bool:
+    """Whether two grade names are the same grade (spacing and case aside); None is no grade."""
+    return a is not None and b is not None and " ".join(a.split()).casefold() == " ".join(b.split()).casefold()
 
 
 @dataclass(frozen=True)
