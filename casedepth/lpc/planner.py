@@ -17,7 +17,7 @@ allowed time (or the number asked for).
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from functools import cached_property
 
 from .. import formats
@@ -55,7 +55,12 @@ PULSE_TIME_SCALE = 3 * 3600.0
 
 
 def _march(lpc: LpcSetup, solver=None) -> PulseMarch:
-    solver = lpc.carbon.solver(soak_time=PULSE_TIME_SCALE) if solver is None else solver
+    if solver is None:
+        # the first boost lasts minutes against the table's hours: it starts with a restart's first step, not the
+        # longer one a soak from the core's carbon may take (Accuracy.first_step)
+        accuracy = lpc.carbon.accuracy
+        carbon = replace(lpc.carbon, accuracy=replace(accuracy, first_step=accuracy.restart_step))
+        solver = carbon.solver(soak_time=PULSE_TIME_SCALE)
     return PulseMarch(solver, lpc.temperature, lpc.limit, lpc.influx)
 
 

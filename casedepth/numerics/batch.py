@@ -183,6 +183,7 @@ class BatchMarch:
         self.flux_integral = np.array([s.flux_integral for s in self.solvers], dtype=float)
         self.time_scale = np.array([s.time_scale for s in self.solvers])
         self.first_step = np.array([s.accuracy.first_step for s in self.solvers])
+        self.restart_step = np.array([s.accuracy.restart_step for s in self.solvers])
         self.growth = np.array([s.accuracy.step_growth for s in self.solvers])
         self.finite = np.array([s.geometry.finite for s in self.solvers])
         self.half_section = np.array([s.geometry.half_section for s in self.solvers])
@@ -340,7 +341,8 @@ class BatchMarch:
         changing = (T0 != T1) | (p0 != p1)
         start = self.time.copy()
         end = self.time + durations
-        dt = np.minimum(self.first_step * self.time_scale, max_steps)
+        fresh = np.all(self.carbon == self.core[:, None], axis=1)  # as CarbonSolver.fresh, row by row
+        dt = np.minimum(np.where(fresh, self.first_step, self.restart_step) * self.time_scale, max_steps)
         low, high = self._range(np.arange(N), self.carbon)
         reached = np.zeros(N, dtype=bool)
         if until is not None:

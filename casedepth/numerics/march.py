@@ -88,7 +88,7 @@ class March:
         threshold = self.threshold
 
         def reached(s: CarbonSolver) -> bool:
-            shallower = int(np.searchsorted(s.nodes, until)) - 1  # the last node above ``until``
+            shallower = s.last_node_above(until)
             if shallower >= 0 and s.carbon[shallower] < threshold:
                 return False
             return self.depth_after(self.steps) >= until
