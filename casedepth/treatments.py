@@ -171,6 +171,22 @@ class Treatment:
     #: whether a load's spread in the window also works out the centred time (twice the runs): off where every part is
     #: a whole run of its own that takes milliseconds (a low-pressure pulse table: 256 parts take seconds already)
     centres_spread: bool = True
+    #: (values list) -> each plan's soak_time [s], or the InputError it raises, worked out together where the treatment can
+    aim_soaks: Callable[[list[Mapping[str, Any]]], list] | None = None
+
+    def soaks_for_aims(self, values_list: list[Mapping[str, Any]]) -> list:
+        """Each plan's time at temperature for the drawing's aim [s] (what :attr:`evaluate` gives as its
+        ``soak_time``), or the :class:`InputError` it raises: together where the treatment has a way (the same
+        numbers to round-off), else each plan evaluated."""
+        if self.aim_soaks is not None:
+            return self.aim_soaks(values_list)
+        out = []
+        for values in values_list:
+            try:
+                out.append(self.evaluate(values).soak_time)
+            except InputError as error:
+                out.append(error)
+        return out
 
     def forward_each(self, values_list: list[Mapping[str, Any]], soaks: list[float],
                      shares: tuple[float, ...] | None = None) -> list:
@@ -201,7 +217,8 @@ TREATMENTS: dict[str, Treatment] = {t.key: t for t in (
         "effective case depth", "carburizing", _carburizing_steel,
         lambda values: safety.cautions(values["temperature"], gas=_furnace_gas(values)),
         (Option("--carbon-at", "with --time: also report the carbon at this depth (0.5mm)"),),
-        _on_first_use(".carburizing.outcome", "forward_many")),
+        _on_first_use(".carburizing.outcome", "forward_many"),
+        aim_soaks=_on_first_use(".carburizing.outcome", "aim_soaks")),
     Treatment(
         "nitriding", "Gas nitriding", "nitride",
         "Gas nitriding: the nitriding time for a nitrided hardness depth (core + 50 HV), the compound layer it "

@@ -20,8 +20,11 @@ import pytest
 
 import casedepth
 from casedepth.carburizing.cycle import Stage, run_recipe, run_recipes, shop_stages
+from casedepth.carburizing.planners import plan_single_soak, plan_single_soaks
 from casedepth.carburizing.soak import carburize, carburize_many, soak_time_for_case_depth, soak_times_many
 from casedepth.errors import InputError, NotReachableError
+from casedepth.plan import compare_temperatures, evaluate
+from casedepth.plan.fileformat import load
 from casedepth.numerics import batch
 from casedepth.numerics.geometry import Geometry
 from casedepth.numerics.solver import CarbonSolver, SurfaceCondition, threshold_depth
@@ -101,6 +104,45 @@ def test_recipes_with_the_shops_ramps_batched_as_alone():
         assert all(same(a, b) for a, b in zip(result.stage_start, alone.stage_start))
 
 
+def test_single_soaks_with_the_shops_stages_batched_as_alone():
+    """The soak for a depth at the end of the whole cycle (heat-up, soak, drop, equalize counted): the heat-ups and
+    every round of the searches' trials run together give each row the soak it gets alone; a diffusivity without
+    the exponential form is solved alone, a depth out of reach is refused in its place."""
+    rng = np.random.default_rng(12)
+    setups, aims, befores, afters = [], [], [], []
+    for k in range(9):
+        geometry = {} if k % 3 else {"geometry": "cylinder", "diameter": "30mm"}
+        model = "agren" if k == 4 else "tibbetts"
+        setup = casedepth.setup("8620" if k % 2 else "20MnCr5", f"{rng.uniform(890, 1000):.1f}C",
+                                f"{rng.uniform(0.8, 1.1):.3f}", beta="inf" if k % 5 == 0 else "1.5e-5cm/s",
+                                diffusivity=model, **geometry)
+        before, after = shop_stages(ShopDefaults(), setup.temperature, setup.carbon_potential, None)
+        setups.append(setup)
+        aims.append(float(rng.uniform(0.5e-3, 2.0e-3)) if k != 7 else 30e-3)  # k = 7: not reached within the longest soak
+        befores.append(tuple(before) if k != 2 else ())  # k = 2: a load already at heat
+        afters.append(tuple(after))
+    together = plan_single_soaks(setups, aims, befores, afters)
+    for k, (setup, aim, before, after) in enumerate(zip(setups, aims, befores, afters)):
+        if k == 7:
+            assert isinstance(together[k], NotReachableError)
+            continue
+        alone = plan_single_soak(setup, [aim], before, after, cycle_for=0)
+        assert same(together[k], alone.soak_times[0]), k
+
+
+@pytest.mark.parametrize("example", ["pinion-shaft", "ring-gear-boost-diffuse"])
+def test_the_temperature_comparison_is_the_plan_evaluated_at_each_temperature(example):
+    """casedepth.plan.compare_temperatures works the soaks out together (the shop's stages counted, or boost and
+    diffuse planned one by one): each is what casedepth.plan.evaluate gives at that temperature, to round-off; a
+    temperature below the steel's Ac3 is left out."""
+    values = load(f"resources/examples/{example}.cdplan.json").values()
+    temperatures = [T + 273.15 for T in (700.0, 900.0, 940.0, 990.0)]
+    pairs = compare_temperatures(values, temperatures)
+    assert [T for T, _ in pairs] == temperatures[1:]
+    for T, soak in pairs:
+        assert same(soak, evaluate({**values, "temperature": T}).soak_time), T
+
+
 def test_a_row_that_needs_what_only_a_single_march_does_is_left_to_it():
     """A grid sized for a far shorter soak: the carbon reaches its far end, which a single march extends
     and a batch does not; the batch marks the row, the others go on."""
@@ -144,7 +186,6 @@ def test_capability_is_the_same_as_its_parts_one_by_one(monkeypatch, example):
     """The load's parts (with the shop's ramped heat-up and drop counted; one soak, or boost and diffuse in the
     plan's split), run in one batch, give what casedepth.plan.forward gives each."""
     evaluation = importlib.import_module("casedepth.plan.evaluate")
-    from casedepth.plan.fileformat import load
     from casedepth.shop.capability import Spread, capability
 
     values = load(f"resources/examples/{example}.cdplan.json").values()

@@ -184,14 +184,16 @@ def test_quote_adds_up():
 
 
 def test_temperature_comparison_is_monotone_and_keeps_the_plan_s_policy():
-    """Hotter is faster; and the plan's own temperature gives exactly the plan's soak (the same evaluation)."""
+    """Hotter is faster; and the plan's own temperature gives the plan's soak (the same evaluation; the temperatures
+    are marched together, so to round-off)."""
     plan = Plan(case_min=1.0e-3, case_max=1.0e-3)
     pairs = compare_temperatures(plan, [T + K for T in (900, 925, 950, 980)])
     times = [t for _, t in pairs]
     assert all(a > b for a, b in zip(times, times[1:]))
-    assert dict(pairs)[T925] == evaluate(plan).soak_time
+    assert dict(pairs)[T925] == pytest.approx(evaluate(plan).soak_time, rel=1e-12)
     alone = Plan(case_min=1.0e-3, case_max=1.0e-3, count_shop_stages=False)
-    assert dict(compare_temperatures(alone, [T925]))[T925] == evaluate(alone).soak_time > times[1]
+    soak = dict(compare_temperatures(alone, [T925]))[T925]
+    assert soak == pytest.approx(evaluate(alone).soak_time, rel=1e-12) and soak > times[1]
 
 
 def test_cli_surface_target(capsys):

@@ -264,17 +264,23 @@ def run_recipe(setup: CarburizingSetup, stages: list[Stage], start_temperature: 
                        warnings)
 
 
-def run_recipes(setups: list[CarburizingSetup], recipes: list[list[Stage]]) -> list[CycleResult]:
-    """:func:`run_recipe` of each setup's recipe, marched together where they can be
-    (:func:`casedepth.numerics.batch.run_programs`): the same results, except that a batched result's history
-    holds only the start and the end. A recipe that cannot be run raises as :func:`run_recipe` does."""
+def run_recipes(setups: list[CarburizingSetup], recipes: list[list[Stage]],
+                start_temperatures: list[float | None] | None = None,
+                solvers: list[CarbonSolver] | None = None) -> list[CycleResult]:
+    """:func:`run_recipe` of each setup's recipe (from its start temperature and solver, where given), marched
+    together where they can be (:func:`casedepth.numerics.batch.run_programs`): the same results, except that a
+    batched result's history holds only the start and the end. A recipe that cannot be run raises as
+    :func:`run_recipe` does. A given solver is not moved where its recipe was batched."""
+    starts = start_temperatures or [None] * len(setups)
     warnings = [check_recipe(setup, stages) for setup, stages in zip(setups, recipes)]
-    solvers = [_recipe_solver(setup, stages) for setup, stages in zip(setups, recipes)]
-    programs = [recipe_program(setup, stages) for setup, stages in zip(setups, recipes)]
+    if solvers is None:
+        solvers = [_recipe_solver(setup, stages) for setup, stages in zip(setups, recipes)]
+    programs = [recipe_program(setup, stages, start) for setup, stages, start in zip(setups, recipes, starts)]
     results = []
-    for setup, stages, solver, marched, warned in zip(setups, recipes, solvers, run_programs(solvers, programs), warnings):
+    for setup, stages, start, solver, marched, warned in zip(setups, recipes, starts, solvers,
+                                                              run_programs(solvers, programs), warnings):
         if marched is None:  # not batched (another diffusivity), or it needed what only a single march does
-            results.append(run_recipe(setup, stages, solver=solver))
+            results.append(run_recipe(setup, stages, start, solver=solver))
             continue
         half = setup.geometry.half_section
         profile = Profile(solver.nodes.copy(), marched.carbon, marched.time, half)

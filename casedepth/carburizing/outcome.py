@@ -33,11 +33,11 @@ from ..shop.quote import Quote, ShopDefaults, quote_lines
 from ..units import DisplayUnits, Threshold, format_clock, format_duration
 from .cycle import (CycleResult, Stage, describe_counted, run_recipe, run_recipes, shop_stages, stage_from_dict, stage_lines,
                     stage_to_dict, timeline)
-from .planners import plan_boost_diffuse, plan_single_soak
+from .planners import plan_boost_diffuse, plan_single_soak, plan_single_soaks
 from .hardening import DEFAULT_HARDNESS_DEPTH, Hardening, core_depth, hardness_at
 from .setup import CarburizingSetup, case_warnings
 from .soak import (CarburizingResult, carburize, carburize_many, check_probe_depth, check_soak,
-                   soak_times_for_case_depths)
+                   soak_times_for_case_depths, soak_times_many)
 
 
 # -- plan values -> setup ------------------------------------------------------------------------------------
@@ -262,6 +262,13 @@ CYCLES: dict[str, Cycle] = {
 _PLANNER_FIELDS = {"target": "case_max"}
 
 
+def _planner_error(cycle: Cycle, error: InputError) -> InputError:
+    """A planner's error named after the plan's parameter it stands for."""
+    if error.field == "stages" and cycle.key != "stages":
+        return InputError("shop", f"a stage from the shop's times: {error.message}")
+    return error.renamed(_PLANNER_FIELDS[error.field]) if error.field in _PLANNER_FIELDS else error
+
+
 def evaluate(values: Mapping[str, Any]) -> "CarburizingOutcome":
     """A carburizing plan's outcome; :class:`InputError` (or :class:`NotReachableError`) naming the parameter."""
     cycle = CYCLES[values["process"]]
@@ -271,9 +278,7 @@ def evaluate(values: Mapping[str, Any]) -> "CarburizingOutcome":
     try:
         planned = cycle.plan(setup, values, shop, targets)
     except InputError as error:
-        if error.field == "stages" and cycle.key != "stages":
-            raise InputError("shop", f"a stage from the shop's times: {error.message}") from None
-        raise (error.renamed(_PLANNER_FIELDS[error.field]) if error.field in _PLANNER_FIELDS else error) from None
+        raise _planner_error(cycle, error) from None
     gas = FurnaceGas.of(values)
     outcome = CarburizingOutcome(
         values=dict(values), setup=setup, cycle_kind=cycle.key, planned=planned, targets=targets,
@@ -283,6 +288,48 @@ def evaluate(values: Mapping[str, Any]) -> "CarburizingOutcome":
     if outcome.hardened is not None:
         outcome.warnings += outcome.hardened.warnings(values)
     return outcome
+
+
+def aim_soaks(values_list: list[Mapping[str, Any]]) -> list[float | InputError]:
+    """What :func:`evaluate` gives as each plan's :attr:`~casedepth.outcome.Outcome.soak_time` (the time at
+    temperature for the drawing's aim), without the rest of the outcome (the window's ends, hardness, quote): the
+    plans of one soak marched together, the shop's stages counted or not (:func:`soak_times_many`,
+    :func:`~casedepth.carburizing.planners.plan_single_soaks`), the others planned one by one. The same numbers to
+    round-off; a plan that cannot be planned gets its :class:`InputError` in its place."""
+    out: list[float | InputError | None] = [None] * len(values_list)
+    alone, counted, isothermal = [], [], []
+    for k, values in enumerate(values_list):
+        try:
+            cycle = CYCLES[values["process"]]
+            setup = carburizing_setup(values)
+            shop = shop_of(values)
+            targets = drawing_window(values)
+            if cycle.key != "single":
+                alone.append((k, cycle, setup, values, shop, targets))
+                continue
+            _, _, before, after = _counted_stages(values, shop, setup, setup.carbon_potential)
+        except InputError as error:
+            out[k] = error
+            continue
+        (counted if before or after else isothermal).append((k, setup, targets[1], before, after))
+    for k, cycle, setup, values, shop, targets in alone:
+        try:
+            out[k] = cycle.plan(setup, values, shop, targets).soak_times[1]
+        except InputError as error:
+            out[k] = _planner_error(cycle, error)
+    if isothermal:
+        found = soak_times_many([row[1] for row in isothermal], [row[2] for row in isothermal], errors="return")
+        for (k, *_), result in zip(isothermal, found):
+            out[k] = _planner_error(CYCLES["single"], result) if isinstance(result, InputError) else result.soak_time
+    if counted:
+        found = plan_single_soaks(*(list(column) for column in zip(*(row[1:] for row in counted))))
+        for (k, *_), result in zip(counted, found):
+            if isinstance(result, InputError):
+                result = _planner_error(CYCLES["single"], result)
+            elif isinstance(result, Exception):
+                raise result
+            out[k] = result
+    return out
 
 
 # -- what a soak gives ---------------------------------------------------------------------------------------

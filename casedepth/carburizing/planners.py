@@ -19,13 +19,13 @@ from dataclasses import dataclass
 import numpy as np
 
 from .. import formats
-from ..errors import InputError, NotReachableError
+from ..errors import InputError, NotReachableError, SolverError
 from ..models.austenite import saturation_carbon
 from ..numerics.march import March
-from ..numerics.roots import illinois, secant_on_squares
+from ..numerics.roots import illinois, secant_on_squares, secant_on_squares_many
 from ..numerics.solver import CarbonSolver, History, SurfaceCondition
 from ..units import both_lengths, both_temperatures, format_duration
-from .cycle import MAX_STAGE, CycleResult, Stage, check_recipe, run_recipe
+from .cycle import MAX_STAGE, CycleResult, Stage, check_recipe, run_recipe, run_recipes
 from .setup import POTENTIAL_RANGE, CarburizingSetup
 
 #: a surface-carbon target given as one value means value ± this, wt % (common practice for callouts)
@@ -220,6 +220,86 @@ def plan_single_soak(setup: CarburizingSetup, targets: list[float], before: tupl
         cycle.warnings.append(f"The heat-up and drop alone give more than {formats.length(min(targets))} at "
                               f"{setup.threshold}: that target needs no soak at all")
     return SoakPlan(times, cycle)
+
+
+def plan_single_soaks(setups: list[CarburizingSetup], aims: list[float], befores: list[tuple[Stage, ...]],
+                      afters: list[tuple[Stage, ...]]) -> list[float | Exception]:
+    """For each setup, the soak [s] :func:`plan_single_soak` finds for the depth ``aims`` [m] with its ``befores`` and
+    ``afters`` stages counted (the target it lands to 1e-6), without the cycle it returns. The heat-ups and every
+    round of the searches' trials (the stages after the soak) run together (:func:`run_recipes`), each row the very
+    march it takes alone: the same soaks to round-off. A row the single path refuses gets the error it raises."""
+    out: list[float | Exception | None] = [None] * len(setups)
+    rows: list[int] = []
+    solvers: dict[int, CarbonSolver] = {}
+    for k, (setup, aim, before, after) in enumerate(zip(setups, aims, befores, afters)):
+        try:
+            check_recipe(setup, [*before, Stage("soak", 1.0, setup.temperature, setup.carbon_potential), *after])
+            solvers[k] = setup.solver(case_depth=aim)
+        except (InputError, SolverError) as error:
+            out[k] = error
+            continue
+        rows.append(k)
+    heated = [k for k in rows if befores[k]]
+    try:
+        heads = run_recipes([setups[k] for k in heated], [list(befores[k]) for k in heated],
+                            solvers=[solvers[k] for k in heated])
+    except (InputError, SolverError):
+        return _alone(setups, aims, befores, afters)
+    for k, head in zip(heated, heads):
+        solvers[k] = solvers[k].fork(head.profile.carbon, head.profile.time)  # where the heat-up left it
+    marches: dict[int, March] = {}
+    for k in rows:
+        soaking = March(solvers[k], setups[k].threshold_carbon)
+        try:
+            if not soaking.advance(MAX_STAGE, setups[k].surface_condition, until=aims[k]):
+                raise NotReachableError("target", f"{both_lengths(aims[k])} is not reached within "
+                                                  f"{MAX_STAGE / 3600:g} h of soak")
+        except (InputError, SolverError) as error:
+            out[k] = error
+            continue
+        marches[k] = soaking
+    searched = list(marches)
+
+    def trials(open_: list[int], xs: list[float]) -> list:
+        forks = []
+        for position, x in zip(open_, xs):
+            k = searched[position]
+            time = marches[k].time_to(math.sqrt(max(x, 0.0)))
+            forks.append((k, time, marches[k].fork(time)))
+        ending = [(k, state) for k, _, state in forks if afters[k]]
+        try:
+            ends = run_recipes([setups[k] for k, _ in ending], [list(afters[k]) for k, _ in ending],
+                               [setups[k].temperature for k, _ in ending], [state.fork() for _, state in ending])
+        except (InputError, SolverError):
+            ends = [None] * len(ending)
+        final = {k: end for (k, _), end in zip(ending, ends)}
+        results = []
+        for k, time, state in forks:
+            thr = setups[k].threshold_carbon
+            try:
+                depth = (state.threshold_depth(thr) if not afters[k] else final[k].case_depth if final[k] is not None
+                         else _ending(setups[k], afters[k], setups[k].temperature, state)[0])
+            except (InputError, SolverError) as error:
+                results.append(error)
+                continue
+            results.append((depth, state.threshold_depth(thr) ** 2, time - marches[k].start_time))
+        return results
+
+    found = secant_on_squares_many(trials, [aims[k] for k in searched], [0.0] * len(searched),
+                                   [marches[k].depths[0] ** 2 for k in searched], [aims[k] ** 2 for k in searched], 1e-6)
+    for k, result in zip(searched, found):
+        out[k] = result if isinstance(result, Exception) else result[0]
+    return out
+
+
+def _alone(setups, aims, befores, afters) -> list[float | Exception]:
+    out: list[float | Exception] = []
+    for setup, aim, before, after in zip(setups, aims, befores, afters):
+        try:
+            out.append(plan_single_soak(setup, [aim], before, after, cycle_for=0).soak_times[0])
+        except (InputError, SolverError) as error:
+            out.append(error)
+    return out
 
 
 def _joined_cycle(setup, stages, head, soaking: March, ts, uptake_at_start, state, tail) -> CycleResult:

@@ -2,7 +2,8 @@
 
 * :func:`illinois` — a bracketed root of a scalar function (regula falsi, Illinois variant);
 * :func:`secant_on_squares` — where to stop a stage so that the case *at the end of the cycle* lands
-  on a target, when later stages (a drop, an equalize) add depth nearly in quadrature;
+  on a target, when later stages (a drop, an equalize) add depth nearly in quadrature
+  (:func:`secant_on_squares_many`: several such searches whose trials run together);
 * :func:`bracket_and_solve` — a root of a rising function from a first guess, no bracket known.
 """
 
@@ -59,6 +60,35 @@ def illinois(f: Callable[[float], float], a: float, fa: float, b: float, fb: flo
     return x
 
 
+class SquaresSecant:
+    """The iterates of :func:`secant_on_squares` for one search, one trial at a time: try :attr:`x`, then
+    :meth:`tell` what it gave. Shared by the one-search and many-search drivers so both take the same trials."""
+
+    def __init__(self, goal: float, offset: float, floor: float, ceiling: float, rtol: float):
+        self.goal, self.floor, self.ceiling, self.rtol = goal, floor, ceiling, rtol
+        self.offset = offset
+        self.x = min(max(goal**2 - offset, floor), ceiling)
+        self._previous: tuple[float, float] | None = None
+
+    def tell(self, final: float, used: float) -> bool:
+        """The trial at :attr:`x` ended at depth ``final`` [m] having stopped at depth² ``used``: True if that is the
+        answer, else :attr:`x` moves to the next trial."""
+        goal, floor = self.goal, self.floor
+        self.offset = final**2 - used
+        if abs(final - goal) <= self.rtol * goal or (used <= floor * (1 + 1e-12) and final >= goal):
+            return True
+        previous = self._previous
+        slope = 1.0 if previous is None or previous[0] == used else (final**2 - previous[1]) / (used - previous[0])
+        self._previous = (used, final**2)
+        self.x = min(max(used + (goal**2 - final**2) / max(slope, 0.1), floor), self.ceiling)
+        return False
+
+
+def _not_converged(goal: float, tries: int) -> SolverError:
+    return SolverError(f"the stop for a final depth of {formats.typed(goal * 1e3, 'mm')} did not converge in {tries} "
+                       "trials")
+
+
 def secant_on_squares(trial: Callable[[float], tuple[float, float, Any]], goal: float, offset: float,
                       floor: float, ceiling: float, rtol: float, tries: int = 12) -> tuple[Any, float]:
     """Where to stop a stage so that the final depth is ``goal`` [m], when what follows adds depth
@@ -78,18 +108,41 @@ def secant_on_squares(trial: Callable[[float], tuple[float, float, Any]], goal: 
     >>> payload, round(c, 6)
     ('stop at 0.7000', 0.3)
     """
-    x = min(max(goal**2 - offset, floor), ceiling)
-    previous = None
+    search = SquaresSecant(goal, offset, floor, ceiling, rtol)
     for _ in range(tries):
-        final, used, payload = trial(x)
-        offset = final**2 - used
-        if abs(final - goal) <= rtol * goal or (used <= floor * (1 + 1e-12) and final >= goal):
-            return payload, offset
-        slope = 1.0 if previous is None or previous[0] == used else (final**2 - previous[1]) / (used - previous[0])
-        previous = (used, final**2)
-        x = min(max(used + (goal**2 - final**2) / max(slope, 0.1), floor), ceiling)
-    raise SolverError(f"the stop for a final depth of {formats.typed(goal * 1e3, 'mm')} did not converge in {tries} "
-                      "trials")
+        final, used, payload = trial(search.x)
+        if search.tell(final, used):
+            return payload, search.offset
+    raise _not_converged(goal, tries)
+
+
+def secant_on_squares_many(trials: Callable[[list[int], list[float]], list[tuple[float, float, Any] | Exception]],
+                           goals: list[float], offsets: list[float], floors: list[float], ceilings: list[float],
+                           rtol: float, tries: int = 12) -> list[tuple[Any, float] | Exception]:
+    """:func:`secant_on_squares` for several searches at once, each taking the very trials it takes alone:
+    ``trials(indices, xs)`` runs the open searches' trials together (e.g. their stages after the stop in one batch)
+    and returns each one's ``(final depth, depth² it stopped at, payload)``, or the exception it raised, which ends
+    that search. Returns each search's (payload, c), or its exception."""
+    searches = [SquaresSecant(*row, rtol) for row in zip(goals, offsets, floors, ceilings)]
+    out: list[tuple[Any, float] | Exception | None] = [None] * len(searches)
+    open_ = list(range(len(searches)))
+    for _ in range(tries):
+        if not open_:
+            break
+        check()
+        results = trials(open_, [searches[k].x for k in open_])
+        still = []
+        for k, result in zip(open_, results):
+            if isinstance(result, Exception):
+                out[k] = result
+            elif searches[k].tell(result[0], result[1]):
+                out[k] = (result[2], searches[k].offset)
+            else:
+                still.append(k)
+        open_ = still
+    for k in open_:
+        out[k] = _not_converged(goals[k], tries)
+    return out
 
 
 def bracket_and_solve(f: Callable[[float], float], x: float, lowest: float, highest: float, xtol: float, ftol: float,

@@ -64,18 +64,23 @@ def forward_many(plans: list[Plan | Mapping[str, Any]], soaks: list[float],
 def compare_temperatures(plan: Plan | Mapping[str, Any], temperatures: list[float]) -> list[tuple[float, float]]:
     """The soak [s] for the plan's aim at each of ``temperatures`` [K], the plan otherwise unchanged (its
     cycle and its policy on the shop's stages too): ``(temperature, soak)`` pairs, temperatures the plan
-    cannot run at left out."""
+    cannot run at left out. The same soaks as :func:`evaluate` at each temperature, worked out together where the
+    treatment can (:meth:`~casedepth.treatments.Treatment.soaks_for_aims`)."""
     values = _values(plan)
     if not PARAMETERS["temperature"].used_by(values):
         raise InputError("temperature", f"no comparison: the furnace temperature plays a part only in "
                                         f"{PARAMETERS['temperature'].when}")
-    pairs = []
+    rows = []
     for T in temperatures:
         try:
-            pairs.append((T, evaluate({**values, "temperature": T}).soak_time))
+            at = _values({**values, "temperature": T})
+            check_ranges(at)
         except InputError:
-            continue  # below this steel's Ac3, or out of reach: left out of the comparison
-    return pairs
+            continue  # outside the treatment's temperatures: left out of the comparison
+        rows.append((T, at))
+    soaks = treatment_of(values).soaks_for_aims([at for _, at in rows])
+    # a plan that cannot run at a temperature (below this steel's Ac3, or out of reach) is left out
+    return [(T, soak) for (T, _), soak in zip(rows, soaks) if not isinstance(soak, InputError)]
 
 
 def plan_from_options(treatment: str, options: Mapping[str, str], **values) -> tuple[Plan, dict[str, str]]:
