@@ -11,6 +11,8 @@ What it measures, in one run, each the median of ``REPEATS`` interleaved repeats
 2. **Capability.** ``capability`` of the pinion-shaft example and of the ring gear's boost and diffuse
    (256 parts, the shop's ramped heat-up and drop counted) and with ``optimize``, against the plan's nominal ``evaluate``. Goals (issue
    "process capability"): at most ``GOAL_CAPABILITY`` and ``GOAL_OPTIMIZE`` times the nominal.
+3. **Temperatures compared.** ``compare_temperatures`` of the same two plans at six temperatures (the soaks worked
+   out together), against evaluating the plan at each temperature one by one.
 
 How to run
 ----------
@@ -32,7 +34,7 @@ sys.path.insert(0, os.path.dirname(os.path.dirname(os.path.abspath(__file__))))
 
 import casedepth  # noqa: E402
 from casedepth.carburizing.soak import soak_time_for_case_depth, soak_times_many  # noqa: E402
-from casedepth.plan.evaluate import evaluate  # noqa: E402
+from casedepth.plan.evaluate import compare_temperatures, evaluate  # noqa: E402
 from casedepth.plan.fileformat import load  # noqa: E402
 from casedepth.shop.capability import Spread, capability  # noqa: E402
 
@@ -41,6 +43,8 @@ REPEATS = 5
 GOAL_MANY = 40.0
 GOAL_CAPABILITY = 30.0
 GOAL_OPTIMIZE = 100.0
+#: the temperatures compared [K] (the window's Temperatures page: the carburizing row's six and the plans' own 925 °C)
+COMPARED = [T + 273.15 for T in (880.0, 900.0, 925.0, 950.0, 980.0, 1000.0)]
 EXAMPLES = os.path.join(os.path.dirname(os.path.dirname(os.path.abspath(__file__))), "resources", "examples")
 #: the plans whose capability is timed: a soak with the shop's stages, and a boost and diffuse in the plan's split
 PLANS = {"pinion shaft": "pinion-shaft.cdplan.json", "ring gear (boost, diffuse)": "ring-gear-boost-diffuse.cdplan.json"}
@@ -83,6 +87,10 @@ def main() -> None:
             times.setdefault(f"{name}: capability", []).append(timed(lambda: capability(values, spread)))
             times.setdefault(f"{name}: capability --optimize", []).append(
                 timed(lambda: capability(values, spread, optimize=True)))
+            times.setdefault(f"{name}: compare temperatures", []).append(
+                timed(lambda: compare_temperatures(values, COMPARED)))
+            times.setdefault(f"{name}: evaluate at each temperature", []).append(
+                timed(lambda: [evaluate({**values, "temperature": T}) for T in COMPARED]))
     median = {k: statistics.median(v) for k, v in times.items()}
     print(f"\n{'':42}{'median':>12}")
     for key, value in median.items():
@@ -99,6 +107,8 @@ def main() -> None:
               f"{'met' if cap <= GOAL_CAPABILITY else 'NOT met'})")
         print(f"{name}: capability --optimize / nominal evaluate    {opt:6.1f}x   (goal <= {GOAL_OPTIMIZE:g}x: "
               f"{'met' if opt <= GOAL_OPTIMIZE else 'NOT met'})")
+        each = median[f"{name}: evaluate at each temperature"] / median[f"{name}: compare temperatures"]
+        print(f"{name}: {len(COMPARED)} temperatures compared, {each:.1f}x faster than evaluating the plan at each")
 
 if __name__ == "__main__":
     main()

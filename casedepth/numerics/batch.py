@@ -40,19 +40,32 @@ from ..constants import GAS_CONSTANT
 from ..models.diffusivity import ExponentialForms
 from .budget import MAX_STEPS, check
 from ..errors import SolverError
-from .solver import _GAMMA, CarbonSolver, Ramp, SurfaceCondition, _tridiagonal
+from .solver import _GAMMA, CarbonSolver, Ramp, SurfaceCondition, _factored, _tridiagonal
 
-def _solve(below: np.ndarray, diagonal: np.ndarray, above: np.ndarray, rhs: np.ndarray, keep: bool) -> np.ndarray:
-    """Solve the rows' tridiagonal systems (each row one system) in one ``dgtsv`` call
-    (:func:`casedepth.numerics.solver._tridiagonal`), end to end with no coupling between rows. ``rhs`` is
-    overwritten; the matrix too unless ``keep``. A singular system raises :class:`SolverError`: the caller marks
-    the rows failed and solves them alone."""
+def _end_to_end(below: np.ndarray, diagonal: np.ndarray, above: np.ndarray):
+    """The rows' tridiagonal systems laid end to end as one, with no coupling between rows: (below, diagonal,
+    above) of the whole."""
     m, n = diagonal.shape
     dl = np.zeros((m, n))
     dl[:, :-1] = below
     du = np.zeros((m, n))
     du[:, :-1] = above
-    return _tridiagonal(dl.ravel()[:-1], diagonal.reshape(-1), du.ravel()[:-1], rhs.reshape(-1), keep).reshape(m, n)
+    return dl.ravel()[:-1], diagonal.reshape(-1), du.ravel()[:-1]
+
+
+def _solve(below: np.ndarray, diagonal: np.ndarray, above: np.ndarray, rhs: np.ndarray) -> np.ndarray:
+    """Solve the rows' tridiagonal systems (each row one system) in one ``dgtsv`` call
+    (:func:`casedepth.numerics.solver._tridiagonal`), end to end with no coupling between rows. ``rhs`` and the
+    matrix are overwritten. A singular system raises :class:`SolverError`: the caller marks the rows failed and
+    solves them alone."""
+    return _tridiagonal(*_end_to_end(below, diagonal, above), rhs.reshape(-1), keep=False).reshape(rhs.shape)
+
+
+def _factored_rows(below: np.ndarray, diagonal: np.ndarray, above: np.ndarray):
+    """The rows' systems factored once, end to end (:func:`casedepth.numerics.solver._factored`, as a single march
+    factors its own): called with the rows' right-hand sides it overwrites them with the solutions."""
+    solve = _factored(*_end_to_end(below, diagonal, above))
+    return lambda rhs: solve(rhs.reshape(-1)).reshape(rhs.shape)
 
 
 #: the most nodes a batch's longest row may have over its shortest's (the rest is padding)
@@ -280,7 +293,7 @@ class BatchMarch:
         inflow0 = self._inflow(flow, None if held else surface0)
         if smoothing and not held:  # linearly implicit Euler, extrapolated (CarbonSolver._smoothing_step)
             def euler(c, h, inflow, surface):
-                k = _solve(*self._system(idx, upper, lower, h, inflow, h, beta, held), keep=False)
+                k = _solve(*self._system(idx, upper, lower, h, inflow, h, beta, held))
                 return np.add(c, k), h * surface + h * slope * k[:, j]
 
             whole, through_whole = euler(c0, dt, inflow0, surface0)
@@ -294,9 +307,10 @@ class BatchMarch:
         g = (1.0 if smoothing else _GAMMA) * dt
         below, diagonal, above, rhs1 = self._system(idx, upper, lower, g, inflow0, dt, beta, held)
         if smoothing:  # plain linearly implicit Euler after a held surface's jump
-            k1 = _solve(below, diagonal, above, rhs1, keep=False)
+            k1 = _solve(below, diagonal, above, rhs1)
             return np.add(c0, k1), flux + dt * surface0 + g * slope * k1[:, j]
-        k1 = _solve(below, diagonal, above, rhs1, keep=True)
+        solve = _factored_rows(below, diagonal, above)
+        k1 = solve(rhs1)
         mid = np.add(c0, k1)
         flow1, _, _ = self._flows(mid, kernel, False)
         surface1 = -flow1[:, 0] if held else area * beta * (ceq - mid[:, 0])
@@ -305,7 +319,7 @@ class BatchMarch:
         rhs2 -= self._twice_volume[idx] * k1
         if held:
             rhs2[:, 0] = 0.0
-        k2 = _solve(below, diagonal, above, rhs2, keep=False)
+        k2 = solve(rhs2)
         flux += 0.5 * (dt * surface0 + g * slope * k1[:, j]) + 0.5 * (dt * surface1 + g * slope * k2[:, j])
         carbon = np.multiply(k1, 1.5)
         carbon += c0

@@ -582,7 +582,7 @@ class CarbonSolver:
                 continue
             state = (self.carbon, self.flux_integral)
             self.carbon, self.flux_integral = carbon, self.flux_integral + flux
-            if self._far_end_touched(cond):
+            if not self._finite and self._far_end_touched(cond):
                 self.carbon, self.flux_integral = state
                 self._extend()
                 continue
