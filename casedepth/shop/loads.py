@@ -18,6 +18,7 @@ from ..constants import ZERO_CELSIUS
 from ..errors import InputError
 from ..parameters import label
 from ..plan import Plan, evaluate
+from ..plan.evaluate import forward_many
 from ..treatments import treatment_of
 from ..units import both_lengths, format_duration
 
@@ -113,7 +114,7 @@ def plan_load(plans: list[Plan]) -> LoadPlan:
     warnings = []
     if any(plan.shop != plans[0].shop for plan in plans[1:]):
         warnings.append("The plans hold different shop times; each part's case is computed with its own.")
-    parts, outcomes = [], []
+    parts = []
     for plan in plans:
         try:
             outcome = evaluate(plan)
@@ -122,7 +123,6 @@ def plan_load(plans: list[Plan]) -> LoadPlan:
         low, _, high = outcome.soak_window
         soak_range = (low, high)
         parts.append(LoadPart(plan, soak_range, outcome.targets))
-        outcomes.append(outcome)
     lo = max(p.soak_range[0] for p in parts)
     hi = min(p.soak_range[1] for p in parts)
     common = (lo, hi) if lo <= hi else None
@@ -134,8 +134,9 @@ def plan_load(plans: list[Plan]) -> LoadPlan:
         warnings.append(f"No soak suits every part: {tight.plan.title!r} is done by {format_duration(tight.soak_range[1])}, "
                         f"{late.plan.title!r} needs {format_duration(late.soak_range[0])}; split the load.")
     else:
-        for part, outcome in zip(parts, outcomes):
-            part.case_depth = outcome.depth_after(soak)
+        # every part's case at the load's soak, its stages counted as its plan counts them, marched together
+        for part, run in zip(parts, forward_many([part.plan for part in parts], [soak] * len(parts))):
+            part.case_depth = run.window_depth
             if not part.inside:
                 warnings.append(f"{part.plan.title!r} ends at {both_lengths(part.case_depth)}, outside its window.")
     return LoadPlan(parts, common, soak, first[0], warnings)
