@@ -20,7 +20,8 @@ import pytest
 
 import casedepth
 from casedepth.carburizing.cycle import Stage, run_recipe, run_recipes, shop_stages
-from casedepth.carburizing.planners import plan_single_soak, plan_single_soaks
+from casedepth.carburizing.planners import (boost_diffuse_times, plan_boost_diffuse, plan_single_soak,
+                                            plan_single_soaks)
 from casedepth.carburizing.soak import carburize, carburize_many, soak_time_for_case_depth, soak_times_many
 from casedepth.errors import InputError, NotReachableError
 from casedepth.plan import compare_temperatures, evaluate
@@ -128,6 +129,25 @@ def test_single_soaks_with_the_shops_stages_batched_as_alone():
             continue
         alone = plan_single_soak(setup, [aim], before, after, cycle_for=0)
         assert same(together[k], alone.soak_times[0]), k
+
+
+def test_boost_and_diffuse_searched_together_as_alone():
+    """Boost and diffuse times for a depth and a surface window at the end of the cycle (the shop's heat-up, drop
+    and equalize counted): the searches' trials run together give each row the times it gets alone; a boost above
+    saturation is refused in its place, as the single planner refuses it."""
+    rows = []
+    for k, T in enumerate((900.0, 925.0, 955.0, 980.0, 1010.0)):
+        setup = casedepth.setup("8620", f"{T}C", 1.0, beta="1.5e-5cm/s", **({} if k % 2 else {"geometry": "cylinder", "diameter": "25mm"}))
+        before, after = shop_stages(ShopDefaults(), setup.temperature, 0.80, None)
+        boost = 1.15 if k != 3 else 1.9  # k = 3: above the saturation of austenite
+        rows.append((setup, 1.0e-3 + 0.2e-3 * k, (0.75, 0.85), boost, 0.80, tuple(before), tuple(after)))
+    together = boost_diffuse_times(rows)
+    for k, row in enumerate(rows):
+        if k == 3:
+            assert isinstance(together[k], InputError) and together[k].field == "boost_potential"
+            continue
+        alone = plan_boost_diffuse(*row[:5], before=row[5], after=row[6])
+        assert same(together[k][0], alone.boost_time) and same(together[k][1], alone.diffuse_time), k
 
 
 @pytest.mark.parametrize("example", ["pinion-shaft", "ring-gear-boost-diffuse"])

@@ -33,7 +33,7 @@ from ..shop.quote import Quote, ShopDefaults, quote_lines
 from ..units import DisplayUnits, Threshold, format_clock, format_duration
 from .cycle import (CycleResult, Stage, describe_counted, run_recipe, run_recipes, shop_stages, stage_from_dict, stage_lines,
                     stage_to_dict, timeline)
-from .planners import plan_boost_diffuse, plan_single_soak, plan_single_soaks
+from .planners import boost_diffuse_times, plan_boost_diffuse, plan_single_soak, plan_single_soaks
 from .hardening import DEFAULT_HARDNESS_DEPTH, Hardening, core_depth, hardness_at
 from .setup import CarburizingSetup, case_warnings
 from .soak import (CarburizingResult, carburize, carburize_many, check_probe_depth, check_soak,
@@ -293,17 +293,23 @@ def evaluate(values: Mapping[str, Any]) -> "CarburizingOutcome":
 def aim_soaks(values_list: list[Mapping[str, Any]]) -> list[float | InputError]:
     """What :func:`evaluate` gives as each plan's :attr:`~casedepth.outcome.Outcome.soak_time` (the time at
     temperature for the drawing's aim), without the rest of the outcome (the window's ends, hardness, quote): the
-    plans of one soak marched together, the shop's stages counted or not (:func:`soak_times_many`,
-    :func:`~casedepth.carburizing.planners.plan_single_soaks`), the others planned one by one. The same numbers to
+    plans of one soak and of boost and diffuse searched together, the shop's stages counted or not
+    (:func:`soak_times_many`, :func:`~casedepth.carburizing.planners.plan_single_soaks`,
+    :func:`~casedepth.carburizing.planners.boost_diffuse_times`), plans of one's own stages run one by one. The same numbers to
     round-off; a plan that cannot be planned gets its :class:`InputError` in its place."""
     out: list[float | InputError | None] = [None] * len(values_list)
-    alone, counted, isothermal = [], [], []
+    alone, counted, isothermal, split = [], [], [], []
     for k, values in enumerate(values_list):
         try:
             cycle = CYCLES[values["process"]]
             setup = carburizing_setup(values)
             shop = shop_of(values)
             targets = drawing_window(values)
+            if cycle.key == "boost-diffuse":
+                _, _, before, after = _counted_stages(values, shop, setup, values["boost_potential"])
+                split.append((k, (setup, targets[1], (values["surface_min"], values["surface_max"]),
+                                  values["boost_potential"], values["diffuse_potential"], before, after)))
+                continue
             if cycle.key != "single":
                 alone.append((k, cycle, setup, values, shop, targets))
                 continue
@@ -317,6 +323,13 @@ def aim_soaks(values_list: list[Mapping[str, Any]]) -> list[float | InputError]:
             out[k] = cycle.plan(setup, values, shop, targets).soak_times[1]
         except InputError as error:
             out[k] = _planner_error(cycle, error)
+    for (k, _), result in zip(split, boost_diffuse_times([row for _, row in split]) if split else []):
+        if isinstance(result, InputError):
+            out[k] = _planner_error(CYCLES["boost-diffuse"], result)
+        elif isinstance(result, Exception):
+            raise result
+        else:
+            out[k] = result[0] + result[1]
     if isothermal:
         found = soak_times_many([row[1] for row in isothermal], [row[2] for row in isothermal], errors="return")
         for (k, *_), result in zip(isothermal, found):

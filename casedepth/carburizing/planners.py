@@ -14,6 +14,7 @@ squares (:func:`~casedepth.numerics.roots.secant_on_squares`), started from the 
 from __future__ import annotations
 
 import math
+from collections.abc import Generator
 from dataclasses import dataclass
 
 import numpy as np
@@ -22,7 +23,8 @@ from .. import formats
 from ..errors import InputError, NotReachableError, SolverError
 from ..models.austenite import saturation_carbon
 from ..numerics.march import March
-from ..numerics.roots import illinois, secant_on_squares, secant_on_squares_many
+from ..numerics.budget import check
+from ..numerics.roots import illinois_steps, secant_on_squares_steps
 from ..numerics.solver import CarbonSolver, History, SurfaceCondition
 from ..units import both_lengths, both_temperatures, format_duration
 from .cycle import MAX_STAGE, CycleResult, Stage, check_recipe, run_recipe, run_recipes
@@ -55,13 +57,85 @@ def surface_window(surface_target: float | tuple[float, float]) -> tuple[float, 
     return float(low), float(high)
 
 
-def _ending(setup: CarburizingSetup, after: tuple[Stage, ...], temperature: float,
-            state: CarbonSolver) -> tuple[float, float, CycleResult | None]:
-    """Case depth [m] and surface carbon [wt %] after the ``after`` stages run from ``state`` (a fork of it),
-    and their run (None if there are none)."""
+# -- the searches, written once for one plan and for several ------------------------------------------------------
+# A planner's search is a generator: where it needs the stages after a stop run (a drop, an equalize: the costly
+# part of every trial), it yields an :class:`_Ending` and is sent the run. :func:`_alone` serves each request at
+# once; :func:`_together` serves the requests of several searches in one batch (run_recipes), so each search takes
+# the very trials it takes alone and gives its numbers to round-off.
+@dataclass(frozen=True)
+class _Ending:
+    """A search's request: run its stages after the stop from ``state`` (on a fork of it)."""
+
+    state: CarbonSolver
+
+
+@dataclass(frozen=True)
+class _Search:
+    """A planner's search and what its requests need: the setup, the stages after the stop and their start
+    temperature [K]."""
+
+    setup: CarburizingSetup
+    after: tuple[Stage, ...]
+    temperature: float
+    steps: Generator
+
+
+def _alone(search: _Search):
+    """Run one search, serving each of its requests at once; what it returns."""
+    steps = search.steps
+    try:
+        request = next(steps)
+        while True:
+            request = steps.send(run_recipe(search.setup, list(search.after), search.temperature,
+                                            solver=request.state.fork()))
+    except StopIteration as stop:
+        return stop.value
+
+
+def _together(searches: list[_Search]) -> list:
+    """Run several searches, each round's requests served in one batch (run_recipes); what each returns, or the
+    :class:`InputError` or :class:`SolverError` it raises (as it would alone)."""
+    out: list = [None] * len(searches)
+    pending: dict[int, _Ending] = {}
+
+    def advance(k: int, sent) -> None:
+        try:
+            pending[k] = searches[k].steps.send(sent)
+        except StopIteration as stop:
+            out[k] = stop.value
+        except (InputError, SolverError) as error:
+            out[k] = error
+
+    for k in range(len(searches)):
+        advance(k, None)
+    while pending:
+        check()
+        keys = list(pending)
+        requests = [pending.pop(k) for k in keys]
+        rows = [searches[k] for k in keys]
+        try:
+            ends = run_recipes([r.setup for r in rows], [list(r.after) for r in rows], [r.temperature for r in rows],
+                               [q.state.fork() for q in requests])
+        except (InputError, SolverError):  # one of them cannot run: each alone, its error its own
+            ends = [None] * len(keys)
+        for k, search, request, end in zip(keys, rows, requests, ends):
+            if end is None:
+                try:
+                    end = run_recipe(search.setup, list(search.after), search.temperature, solver=request.state.fork())
+                except (InputError, SolverError) as error:
+                    out[k] = error
+                    searches[k].steps.close()
+                    continue
+            advance(k, end)
+    return out
+
+
+def _ending(after: tuple[Stage, ...], state: CarbonSolver, threshold: float):
+    """The case depth [m] and surface carbon [wt %] after the ``after`` stages run from ``state``, and their run (None
+    if there are none): a generator step that asks for the run (see :class:`_Ending`)."""
     if not after:
-        return state.threshold_depth(setup.threshold_carbon), float(state.carbon[0]), None
-    end = run_recipe(setup, list(after), temperature, solver=state.fork())
+        return state.threshold_depth(threshold), float(state.carbon[0]), None
+    end = yield _Ending(state)
     return end.case_depth, end.surface_carbon, end
 
 
@@ -79,6 +153,29 @@ def plan_boost_diffuse(setup: CarburizingSetup, target_depth: float, surface_tar
     carbon at the end is the one aimed at.
     """
     T = setup.temperature if temperature is None else temperature
+    tb, td, window, aim = _alone(_Search(setup, after, T, _boost_diffuse_steps(
+        setup, target_depth, surface_target, boost_potential, diffuse_potential, T, before, after)))
+    stages = [*before, Stage("boost", tb, T, boost_potential), Stage("diffuse", td, T, diffuse_potential), *after]
+    cycle = run_recipe(setup, stages)
+    return BoostDiffusePlan(tb, td, cycle, window, target_depth, aim)
+
+
+def boost_diffuse_times(rows: list[tuple]) -> list[tuple[float, float] | Exception]:
+    """The boost and diffuse times [s] :func:`plan_boost_diffuse` finds for each row of its arguments ``(setup,
+    target_depth, surface_target, boost_potential, diffuse_potential, before, after)``, without the cycle it runs: the
+    searches' trials run together, the same times to round-off; a row the single planner refuses gets its error."""
+    searches, out = [], [None] * len(rows)
+    for setup, target, surface, boost, diffuse, before, after in rows:
+        searches.append(_Search(setup, after, setup.temperature, _boost_diffuse_steps(
+            setup, target, surface, boost, diffuse, setup.temperature, before, after)))
+    for k, result in enumerate(_together(searches)):
+        out[k] = result if isinstance(result, Exception) else result[:2]
+    return out
+
+
+def _boost_diffuse_steps(setup, target_depth, surface_target, boost_potential, diffuse_potential, T, before, after):
+    """The search of :func:`plan_boost_diffuse` (a generator, see :class:`_Ending`): returns (boost time [s], diffuse
+    time [s], the surface window, the surface aimed at)."""
     low, high = surface_window(surface_target)
     if not (0.05 <= low <= high <= 2.0):
         raise InputError("surface_min", f"{formats.typed_range(low, high, '%C')} is not a carbon window within "
@@ -123,32 +220,37 @@ def plan_boost_diffuse(setup: CarburizingSetup, target_depth: float, surface_tar
 
     offset = [0.0]  # c = final depth² − depth² where the diffuse stops, from the last trial (varies slowly)
 
-    def finish(tb: float) -> tuple[float, float]:
+    def finish(tb: float):
         """Diffuse time and final surface carbon for boost time ``tb``, the case landing on target at the end."""
         state = boosting.fork(boost_start + tb)
 
         def trial(x: float):
             stop = diffuse_to(state, x)
-            depth, surface, _ = _ending(setup, after, T, stop)
+            depth, surface, _ = yield from _ending(after, stop, thr)
             return depth, stop.threshold_depth(thr) ** 2, (stop, surface)
 
-        (stop, surface), offset[0] = secant_on_squares(trial, target_depth, offset[0], state.threshold_depth(thr) ** 2,
-                                                       math.inf, 1e-6, tries=8)
+        (stop, surface), offset[0] = yield from secant_on_squares_steps(
+            trial, target_depth, offset[0], state.threshold_depth(thr) ** 2, math.inf, 1e-6, tries=8)
         return stop.time - state.time, surface
+
+    def surface_miss(tb: float):
+        _, surface = yield from finish(tb)
+        return surface - aim
 
     # the longest boost: with no diffuse at all, the case ends on target (after the 'after' stages)
     if after:
-        def overshoot(tb: float) -> float:
-            return _ending(setup, after, T, boosting.fork(boost_start + tb))[0] - target_depth
+        def overshoot(tb: float):
+            depth, _, _ = yield from _ending(after, boosting.fork(boost_start + tb), thr)
+            return depth - target_depth
 
-        f_full = overshoot(t_full)
-        f_none = overshoot(0.0)
-        tb_max = t_full if f_full <= 0 else (0.0 if f_none >= 0 else
-                                             illinois(overshoot, 0.0, f_none, t_full, f_full, 1e-6 * t_full, 1e-7 * target_depth))
+        f_full = yield from overshoot(t_full)
+        f_none = yield from overshoot(0.0)
+        tb_max = t_full if f_full <= 0 else (0.0 if f_none >= 0 else (yield from illinois_steps(
+            overshoot, 0.0, f_none, t_full, f_full, 1e-6 * t_full, 1e-7 * target_depth)))
     else:
         tb_max = t_full
-    _, surface_low = finish(0.0)
-    _, surface_high = finish(tb_max)
+    _, surface_low = yield from finish(0.0)
+    _, surface_high = yield from finish(tb_max)
     lo, hi = max(low, surface_low), min(high, surface_high)
     if lo > hi:
         raise NotReachableError("surface_min", f"{formats.typed_range(low, high, '%C')} cannot be reached: with these "
@@ -160,11 +262,10 @@ def plan_boost_diffuse(setup: CarburizingSetup, target_depth: float, surface_tar
     elif aim >= surface_high:
         tb = tb_max
     else:
-        tb = illinois(lambda t: finish(t)[1] - aim, 0.0, surface_low - aim, tb_max, surface_high - aim, 1e-6 * tb_max, 2e-4)
-    td, _ = finish(tb)
-    stages = [*before, Stage("boost", tb, T, boost_potential), Stage("diffuse", td, T, diffuse_potential), *after]
-    cycle = run_recipe(setup, stages)
-    return BoostDiffusePlan(tb, td, cycle, (low, high), target_depth, aim)
+        tb = yield from illinois_steps(surface_miss, 0.0, surface_low - aim, tb_max, surface_high - aim,
+                                       1e-6 * tb_max, 2e-4)
+    td, _ = yield from finish(tb)
+    return tb, td, (low, high), aim
 
 
 @dataclass
@@ -187,6 +288,31 @@ def plan_single_soak(setup: CarburizingSetup, targets: list[float], before: tupl
     solver's own accuracy).
     """
     T = setup.temperature
+    times, (ts, state, tail), head, soaking, uptake_at_start = _alone(_Search(
+        setup, after, T, _single_soak_steps(setup, targets, before, after, cycle_for)))
+    stages = [*before, Stage("soak", ts, T, setup.carbon_potential), *after]
+    cycle = _joined_cycle(setup, stages, head, soaking, ts, uptake_at_start, state, tail)
+    if 0.0 in times:
+        cycle.warnings.append(f"The heat-up and drop alone give more than {formats.length(min(targets))} at "
+                              f"{setup.threshold}: that target needs no soak at all")
+    return SoakPlan(times, cycle)
+
+
+def plan_single_soaks(setups: list[CarburizingSetup], aims: list[float], befores: list[tuple[Stage, ...]],
+                      afters: list[tuple[Stage, ...]]) -> list[float | Exception]:
+    """For each setup, the soak [s] :func:`plan_single_soak` finds for the depth ``aims`` [m] with its ``befores`` and
+    ``afters`` stages counted, without the cycle it returns: the searches' trials (the stages after the soak) run
+    together, so the same soaks to round-off. A row the single planner refuses gets the error it raises."""
+    searches = [_Search(setup, after, setup.temperature, _single_soak_steps(setup, [aim], before, after, 0))
+                for setup, aim, before, after in zip(setups, aims, befores, afters)]
+    return [result if isinstance(result, Exception) else result[0][0] for result in _together(searches)]
+
+
+def _single_soak_steps(setup: CarburizingSetup, targets: list[float], before, after, cycle_for: int):
+    """The search of :func:`plan_single_soak` (a generator, see :class:`_Ending`): returns the soaks [s], the chosen
+    target's (soak, state at its end, run of the stages after), the heat-up's run, the soak's march and the carbon
+    taken up before it."""
+    T = setup.temperature
     thr = setup.threshold_carbon
     check_recipe(setup, [*before, Stage("soak", 1.0, T, setup.carbon_potential), *after])
     deepest = max(targets)
@@ -202,104 +328,18 @@ def plan_single_soak(setup: CarburizingSetup, targets: list[float], before: tupl
     def trial(x: float):
         time = soaking.time_to(math.sqrt(max(x, 0.0)))
         state = soaking.fork(time)
-        final, _, end = _ending(setup, after, T, state) if after else (state.threshold_depth(thr), None, None)
+        final, _, end = yield from _ending(after, state, thr)
         return final, state.threshold_depth(thr) ** 2, (time - start, state, end)
 
     order = [cycle_for] + [i for i in range(len(targets)) if i != cycle_for]
     times, offset, chosen = [0.0] * len(targets), 0.0, None
     for i in order:
-        found, offset = secant_on_squares(trial, targets[i], offset, floor, deepest**2,
-                                          1e-6 if i == cycle_for else 1e-4)
+        found, offset = yield from secant_on_squares_steps(trial, targets[i], offset, floor, deepest**2,
+                                                           1e-6 if i == cycle_for else 1e-4)
         times[i] = found[0]
         if i == cycle_for:
             chosen = found
-    ts, state, tail = chosen
-    stages = [*before, Stage("soak", ts, T, setup.carbon_potential), *after]
-    cycle = _joined_cycle(setup, stages, head, soaking, ts, uptake_at_start, state, tail)
-    if 0.0 in times:
-        cycle.warnings.append(f"The heat-up and drop alone give more than {formats.length(min(targets))} at "
-                              f"{setup.threshold}: that target needs no soak at all")
-    return SoakPlan(times, cycle)
-
-
-def plan_single_soaks(setups: list[CarburizingSetup], aims: list[float], befores: list[tuple[Stage, ...]],
-                      afters: list[tuple[Stage, ...]]) -> list[float | Exception]:
-    """For each setup, the soak [s] :func:`plan_single_soak` finds for the depth ``aims`` [m] with its ``befores`` and
-    ``afters`` stages counted (the target it lands to 1e-6), without the cycle it returns. The heat-ups and every
-    round of the searches' trials (the stages after the soak) run together (:func:`run_recipes`), each row the very
-    march it takes alone: the same soaks to round-off. A row the single path refuses gets the error it raises."""
-    out: list[float | Exception | None] = [None] * len(setups)
-    rows: list[int] = []
-    solvers: dict[int, CarbonSolver] = {}
-    for k, (setup, aim, before, after) in enumerate(zip(setups, aims, befores, afters)):
-        try:
-            check_recipe(setup, [*before, Stage("soak", 1.0, setup.temperature, setup.carbon_potential), *after])
-            solvers[k] = setup.solver(case_depth=aim)
-        except (InputError, SolverError) as error:
-            out[k] = error
-            continue
-        rows.append(k)
-    heated = [k for k in rows if befores[k]]
-    try:
-        heads = run_recipes([setups[k] for k in heated], [list(befores[k]) for k in heated],
-                            solvers=[solvers[k] for k in heated])
-    except (InputError, SolverError):
-        return _alone(setups, aims, befores, afters)
-    for k, head in zip(heated, heads):
-        solvers[k] = solvers[k].fork(head.profile.carbon, head.profile.time)  # where the heat-up left it
-    marches: dict[int, March] = {}
-    for k in rows:
-        soaking = March(solvers[k], setups[k].threshold_carbon)
-        try:
-            if not soaking.advance(MAX_STAGE, setups[k].surface_condition, until=aims[k]):
-                raise NotReachableError("target", f"{both_lengths(aims[k])} is not reached within "
-                                                  f"{MAX_STAGE / 3600:g} h of soak")
-        except (InputError, SolverError) as error:
-            out[k] = error
-            continue
-        marches[k] = soaking
-    searched = list(marches)
-
-    def trials(open_: list[int], xs: list[float]) -> list:
-        forks = []
-        for position, x in zip(open_, xs):
-            k = searched[position]
-            time = marches[k].time_to(math.sqrt(max(x, 0.0)))
-            forks.append((k, time, marches[k].fork(time)))
-        ending = [(k, state) for k, _, state in forks if afters[k]]
-        try:
-            ends = run_recipes([setups[k] for k, _ in ending], [list(afters[k]) for k, _ in ending],
-                               [setups[k].temperature for k, _ in ending], [state.fork() for _, state in ending])
-        except (InputError, SolverError):
-            ends = [None] * len(ending)
-        final = {k: end for (k, _), end in zip(ending, ends)}
-        results = []
-        for k, time, state in forks:
-            thr = setups[k].threshold_carbon
-            try:
-                depth = (state.threshold_depth(thr) if not afters[k] else final[k].case_depth if final[k] is not None
-                         else _ending(setups[k], afters[k], setups[k].temperature, state)[0])
-            except (InputError, SolverError) as error:
-                results.append(error)
-                continue
-            results.append((depth, state.threshold_depth(thr) ** 2, time - marches[k].start_time))
-        return results
-
-    found = secant_on_squares_many(trials, [aims[k] for k in searched], [0.0] * len(searched),
-                                   [marches[k].depths[0] ** 2 for k in searched], [aims[k] ** 2 for k in searched], 1e-6)
-    for k, result in zip(searched, found):
-        out[k] = result if isinstance(result, Exception) else result[0]
-    return out
-
-
-def _alone(setups, aims, befores, afters) -> list[float | Exception]:
-    out: list[float | Exception] = []
-    for setup, aim, before, after in zip(setups, aims, befores, afters):
-        try:
-            out.append(plan_single_soak(setup, [aim], before, after, cycle_for=0).soak_times[0])
-        except (InputError, SolverError) as error:
-            out.append(error)
-    return out
+    return times, chosen, head, soaking, uptake_at_start
 
 
 def _joined_cycle(setup, stages, head, soaking: March, ts, uptake_at_start, state, tail) -> CycleResult:

@@ -2,19 +2,62 @@
 
 * :func:`illinois` — a bracketed root of a scalar function (regula falsi, Illinois variant);
 * :func:`secant_on_squares` — where to stop a stage so that the case *at the end of the cycle* lands
-  on a target, when later stages (a drop, an equalize) add depth nearly in quadrature
-  (:func:`secant_on_squares_many`: several such searches whose trials run together);
+  on a target, when later stages (a drop, an equalize) add depth nearly in quadrature;
+* :func:`illinois_steps`, :func:`secant_on_squares_steps` — the same searches for trials that are generators,
+  so that a planner can hand its work out and several planners' work be done together;
 * :func:`bracket_and_solve` — a root of a rising function from a first guess, no bracket known.
 """
 
 from __future__ import annotations
 
 import math  # noqa: F401 (the example below uses it)
-from typing import Any, Callable
+from typing import Any, Callable, Generator
 
 from .. import formats
 from ..errors import SolverError
 from .budget import check
+
+
+class Illinois:
+    """The iterates of :func:`illinois`, one trial at a time: evaluate f at :attr:`x` (unless :attr:`done`: an end
+    was the root already), then :meth:`tell` the value; True when :attr:`x` is the root. Shared by :func:`illinois`
+    and by planners that run the trials of several searches together, so both take the same trials."""
+
+    def __init__(self, a: float, fa: float, b: float, fb: float, xtol: float, ftol: float):
+        self.xtol, self.ftol = xtol, ftol
+        self.done = fa == 0.0 or fb == 0.0
+        if self.done:
+            self.x = a if fa == 0.0 else b
+            return
+        if not (fa * fb < 0):
+            raise SolverError(f"the root is not bracketed between {a:g} and {b:g}")
+        self._bracket = (a, fa, b, fb)
+        self._side = 0
+        self._trials = 0
+        self.x = (fa * b - fb * a) / (fa - fb)
+
+    def tell(self, fx: float) -> bool:
+        """f at :attr:`x` is ``fx``: True if :attr:`x` is the root (|f| ≤ ftol, the bracket narrower than xtol, or 200
+        trials), else :attr:`x` moves to the next trial."""
+        a, fa, b, fb = self._bracket
+        self._trials += 1
+        x = self.x
+        if abs(fx) <= self.ftol or abs(b - a) <= self.xtol or self._trials >= 200:
+            self.done = True
+            return True
+        if fx * fb > 0:  # same side as b: move b, and halve the stale end if it was kept twice
+            b, fb = x, fx
+            if self._side == -1:
+                fa *= 0.5
+            self._side = -1
+        else:
+            a, fa = x, fx
+            if self._side == 1:
+                fb *= 0.5
+            self._side = 1
+        self._bracket = (a, fa, b, fb)
+        self.x = (fa * b - fb * a) / (fa - fb)
+        return False
 
 
 def illinois(f: Callable[[float], float], a: float, fa: float, b: float, fb: float, xtol: float, ftol: float) -> float:
@@ -34,30 +77,22 @@ def illinois(f: Callable[[float], float], a: float, fa: float, b: float, fb: flo
     .. [1] Dowell, M., and P. Jarratt. "A modified regula falsi method for computing the root of an
        equation." BIT Numerical Mathematics 11 (1971): 168–174.
     """
-    if fa == 0.0:
-        return a
-    if fb == 0.0:
-        return b
-    if not (fa * fb < 0):
-        raise SolverError(f"the root is not bracketed between {a:g} and {b:g}")
-    side, x = 0, b
-    for _ in range(200):
+    search = Illinois(a, fa, b, fb, xtol, ftol)
+    while not search.done:
         check()
-        x = (fa * b - fb * a) / (fa - fb)
-        fx = f(x)
-        if abs(fx) <= ftol or abs(b - a) <= xtol:
-            return x
-        if fx * fb > 0:  # same side as b: move b, and halve the stale end if it was kept twice
-            b, fb = x, fx
-            if side == -1:
-                fa *= 0.5
-            side = -1
-        else:
-            a, fa = x, fx
-            if side == 1:
-                fb *= 0.5
-            side = 1
-    return x
+        search.tell(f(search.x))
+    return search.x
+
+
+def illinois_steps(f: Callable[[float], Generator[Any, Any, float]], a: float, fa: float, b: float, fb: float,
+                   xtol: float, ftol: float):
+    """:func:`illinois` for an ``f`` that is itself a generator (see :func:`secant_on_squares_steps`): a generator
+    yielding f's requests and returning the root."""
+    search = Illinois(a, fa, b, fb, xtol, ftol)
+    while not search.done:
+        check()
+        search.tell((yield from f(search.x)))
+    return search.x
 
 
 class SquaresSecant:
@@ -116,33 +151,18 @@ def secant_on_squares(trial: Callable[[float], tuple[float, float, Any]], goal: 
     raise _not_converged(goal, tries)
 
 
-def secant_on_squares_many(trials: Callable[[list[int], list[float]], list[tuple[float, float, Any] | Exception]],
-                           goals: list[float], offsets: list[float], floors: list[float], ceilings: list[float],
-                           rtol: float, tries: int = 12) -> list[tuple[Any, float] | Exception]:
-    """:func:`secant_on_squares` for several searches at once, each taking the very trials it takes alone:
-    ``trials(indices, xs)`` runs the open searches' trials together (e.g. their stages after the stop in one batch)
-    and returns each one's ``(final depth, depth² it stopped at, payload)``, or the exception it raised, which ends
-    that search. Returns each search's (payload, c), or its exception."""
-    searches = [SquaresSecant(*row, rtol) for row in zip(goals, offsets, floors, ceilings)]
-    out: list[tuple[Any, float] | Exception | None] = [None] * len(searches)
-    open_ = list(range(len(searches)))
+def secant_on_squares_steps(trial: Callable[[float], Generator[Any, Any, tuple[float, float, Any]]], goal: float,
+                            offset: float, floor: float, ceiling: float, rtol: float, tries: int = 12):
+    """:func:`secant_on_squares` for a ``trial`` that is itself a generator (it yields the work it needs done, and
+    returns what ``trial`` returns there): a generator yielding the trials' requests and returning (payload, c).
+    A planner written with it runs alone or with others whose requests are served together, taking the same
+    trials either way."""
+    search = SquaresSecant(goal, offset, floor, ceiling, rtol)
     for _ in range(tries):
-        if not open_:
-            break
-        check()
-        results = trials(open_, [searches[k].x for k in open_])
-        still = []
-        for k, result in zip(open_, results):
-            if isinstance(result, Exception):
-                out[k] = result
-            elif searches[k].tell(result[0], result[1]):
-                out[k] = (result[2], searches[k].offset)
-            else:
-                still.append(k)
-        open_ = still
-    for k in open_:
-        out[k] = _not_converged(goals[k], tries)
-    return out
+        final, used, payload = yield from trial(search.x)
+        if search.tell(final, used):
+            return payload, search.offset
+    raise _not_converged(goal, tries)
 
 
 def bracket_and_solve(f: Callable[[float], float], x: float, lowest: float, highest: float, xtol: float, ftol: float,
