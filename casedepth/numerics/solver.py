@@ -328,7 +328,6 @@ class CarbonSolver:
                                     geometry.half_section))
         self._ratio = accuracy.stretch ** (1.0 / max(accuracy.cells - 1, 1))
         self._evaluations: list = []
-        self._kernel = None
         self.carbon = np.full(len(self.nodes), self.core_carbon)
         self.history_time: list[float] = [0.0]
         self.history_carbon: list[np.ndarray] = [self.carbon]
@@ -348,6 +347,7 @@ class CarbonSolver:
         self._twice_volume = 2.0 * self.volume
         self.surface_area = float(g.area(0.0))
         self._work = _Work(len(nodes))
+        self._kernel = None  # (T [K], the faces' (k·A, s/2)) for this grid, see _face_kernel
         self._shallower = None  # (depth, the last node above it) for March's test of a depth not yet reached
 
     def _extend(self) -> None:
@@ -377,18 +377,18 @@ class CarbonSolver:
     def _face_kernel(self, T: float):
         """(k·A, s/2) for D = A·exp(s·C) on the faces at ``T`` [K] (k the faces' conductance), or None where
         the model has no such form; cached per temperature and grid."""
-        key = (T, len(self.nodes))
-        if self._kernel is None or self._kernel[0] != key:
+        if self._kernel is None or self._kernel[0] != T:
             form = self.diffusivity.exponential_form(T)
             value = None if form is None else (self.conductance * form[0], 0.5 * form[1])
-            self._kernel = (key, value)
+            self._kernel = (T, value)
         return self._kernel[1]
 
     def _face_flows(self, c: np.ndarray, T: float, jacobian: bool, out: list[np.ndarray] | None = None):
         """Flow into each node from the next one through their face, k·D·(c[i+1] − c[i]), and with
         ``jacobian`` its slopes in c[i+1] and −c[i] (D taken at the faces' mean carbon, dD/dC included).
         Without ``jacobian`` the flow may be written into ``out[1]`` (``out[0]`` is used on the way)."""
-        kernel = self._face_kernel(T)
+        cached = self._kernel
+        kernel = cached[1] if cached is not None and cached[0] == T else self._face_kernel(T)
         kD = np.add(c[1:], c[:-1], out=None if out is None else out[0])
         if kernel is not None:  # D = A·exp(s·C): one exponential gives D and dD/dC = s·D
             kA, half_s = kernel
@@ -497,8 +497,11 @@ class CarbonSolver:
             k1 = _tridiagonal(below, diagonal, above, rhs1, keep=False)
             return np.add(c0, k1), flux + dt * surface0 + g * slope * k1[j]
         w = self._work
-        solve = _factored(below, diagonal, above)
-        k1 = solve(rhs1)
+        _, dgttrf, dgttrs = _lapack or _load_lapack()  # the matrix factored once for both stages
+        dl, d, du, du2, ipiv, info = dgttrf(below, diagonal, above, 1, 1, 1)
+        if info != 0:
+            raise _singular()
+        k1 = dgttrs(dl, d, du, du2, ipiv, rhs1, "N", 1)[0]
         mid = np.add(c0, k1, out=w.mid)
         flow1, _, _ = self._face_flows(mid, cond.temperature, False, w.faces)
         surface1 = self._surface_flow(flow1, float(mid[0]), cond)
@@ -507,7 +510,7 @@ class CarbonSolver:
         rhs2 -= np.multiply(self._twice_volume, k1, out=w.mid)
         if held:
             rhs2[0] = 0.0
-        k2 = solve(rhs2)
+        k2 = dgttrs(dl, d, du, du2, ipiv, rhs2, "N", 1)[0]
         # the same combination of the two stage equations, summed over all volumes (internal
         # fluxes cancel), gives the carbon that crossed the surface
         flux += 0.5 * (dt * surface0 + g * slope * k1[j]) + 0.5 * (dt * surface1 + g * slope * k2[j])
