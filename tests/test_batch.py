@@ -171,7 +171,7 @@ def test_a_row_that_needs_what_only_a_single_march_does_is_left_to_it():
     right = CarbonSolver(Geometry(), d, 0.2, math.sqrt(3e-11 * 3600 * 8), 3600 * 8)
     short = CarbonSolver(Geometry(), d, 0.2, math.sqrt(3e-11 * 60), 60)
     program = batch.Program(1, (batch.Segment(0, 3600 * 8, condition),))
-    out = batch.run_programs([right, short], [program, program])
+    out = batch.run_programs([right, short], [program, program], min_rows=1)
     assert out[1] is None and out[0] is not None
     batch.run_program(right, program)
     assert np.allclose(out[0].carbon, right.carbon, rtol=ROUND_OFF, atol=0)
@@ -182,13 +182,23 @@ def test_a_held_surface_with_constant_d_batched_follows_the_error_function():
     threshold is 2√(Dt) erfc⁻¹((thr − C_core)/(C_s − C_core)). The solver's own tolerance (0.1 %) applies."""
     from scipy.special import erfcinv
 
-    setups = [casedepth.setup("1018", f"{T}C", 1.0, beta="inf", diffusivity="arrhenius") for T in (900, 925, 950)]
+    setups = [casedepth.setup("1018", f"{T}C", 1.0, beta="inf", diffusivity="arrhenius") for T in (900, 925, 950, 975)]
     soak = 6 * 3600.0
-    for setup, result in zip(setups, carburize_many(setups, [soak] * 3)):
+    assert len(setups) >= batch.MIN_ROWS  # marched as a batch
+    for setup, result in zip(setups, carburize_many(setups, [soak] * len(setups))):
         D = float(setup.diffusivity(0.5, setup.temperature))
         core, surface = setup.steel.carbon, setup.equilibrium_carbon
         exact = 2 * math.sqrt(D * soak) * float(erfcinv((setup.threshold_carbon - core) / (surface - core)))
         assert abs(result.case_depth / exact - 1) < 1e-3
+
+
+def test_too_few_rows_for_a_batch_are_marched_alone():
+    """Below batch.MIN_ROWS rows a batch's fixed cost per step is more than it saves: such groups are left to the
+    callers, which march them alone (the same numbers to round-off either way)."""
+    solvers = [casedepth.setup("8620", f"{T}C", 1.0).solver(soak_time=3600.0 * 6) for T in (900, 925, 950, 975)]
+    assert batch.batch_rows(solvers) == [[0, 1, 2, 3]]
+    assert batch.batch_rows(solvers[:batch.MIN_ROWS - 1]) == []
+    assert batch.batch_rows(solvers[:2], min_rows=1) == [[0, 1]]
 
 
 def test_a_case_the_single_path_refuses_is_refused_in_place():
