@@ -632,6 +632,7 @@ class CarbonSolver:
         twin._history_steps = []
         twin._history_flux = []
         twin._evaluations = []
+        twin._work = _Work(len(self.nodes))  # its own: the two may step on different threads
         return twin
 
     def snapshot(self, index: int) -> np.ndarray:

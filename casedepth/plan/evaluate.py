@@ -65,7 +65,9 @@ def compare_temperatures(plan: Plan | Mapping[str, Any], temperatures: list[floa
     """The soak [s] for the plan's aim at each of ``temperatures`` [K], the plan otherwise unchanged (its
     cycle and its policy on the shop's stages too): ``(temperature, soak)`` pairs, temperatures the plan
     cannot run at left out. The same soaks as :func:`evaluate` at each temperature, worked out together where the
-    treatment can (:meth:`~casedepth.treatments.Treatment.soaks_for_aims`)."""
+    treatment can (:meth:`~casedepth.treatments.Treatment.soaks_for_aims`); a carburizing plan's soak is worked out
+    for the aim alone, so a temperature where the aim is reached but the drawing's deepest end is not (in 200 h) is
+    kept, where :func:`evaluate` would refuse the plan."""
     values = _values(plan)
     if not PARAMETERS["temperature"].used_by(values):
         raise InputError("temperature", f"no comparison: the furnace temperature plays a part only in "
