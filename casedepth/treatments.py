@@ -183,7 +183,7 @@ class Treatment:
         out = []
         for values in values_list:
             try:
-                out.append(self.evaluate(values).soak_time)
+                out.append(float(self.evaluate(values).soak_time))
             except InputError as error:
                 out.append(error)
         return out
