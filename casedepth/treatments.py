@@ -247,7 +247,8 @@ TREATMENTS: dict[str, Treatment] = {t.key: t for t in (
         "Hotter is faster, and low-pressure furnaces run hotter than atmosphere ones, but above about 980 °C steels "
         "without grain-refining additions coarsen their grain (common practice).",
         "effective case depth", "carburizing", _carburizing_steel,
-        lambda values: safety.lpc_cautions(values["temperature"]), centres_spread=False),
+        lambda values: safety.lpc_cautions(values["temperature"]), centres_spread=False,
+        aim_soaks=_on_first_use(".lpc.outcome", "aim_soaks")),
 )}
 
 

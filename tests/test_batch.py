@@ -150,10 +150,34 @@ def test_boost_and_diffuse_searched_together_as_alone():
         assert same(together[k][0], alone.boost_time) and same(together[k][1], alone.diffuse_time), k
 
 
+def test_pulse_tables_searched_together_as_alone():
+    """Low-pressure pulse tables for the example's callout at four temperatures: the searches side by side, each
+    round's drops and equalizes in one batch, give each row the table it gets alone; a surface window above the
+    limit is refused in its place, as the single planner refuses it."""
+    from casedepth.lpc.outcome import lpc_of
+    from casedepth.lpc.planner import plan_pulses, pulse_tables
+
+    values = load("resources/examples/pinion-lpc.cdplan.json").values()
+    rows = []
+    for T in (930.0, 950.0, 970.0, 990.0):
+        lpc = lpc_of({**values, "temperature": T + 273.15})
+        rows.append((lpc, 0.9e-3, (0.70, 0.80), None, 180.0))
+    rows.insert(2, (rows[0][0], 0.9e-3, (0.70, 2.5), None, 180.0))  # above the limit
+    together = pulse_tables(rows)
+    assert isinstance(together[2], InputError) and together[2].field == "surface_min"
+    for k, row in enumerate(rows):
+        if k == 2:
+            continue
+        alone = plan_pulses(*row)
+        assert len(together[k].pulses) == len(alone.pulses), k
+        assert all(same(a.boost, b.boost) and same(a.diffuse, b.diffuse)
+                   for a, b in zip(together[k].pulses, alone.pulses)), k
+
+
 @pytest.mark.parametrize("example", ["pinion-shaft", "ring-gear-boost-diffuse", "pinion-lpc"])
 def test_the_temperature_comparison_is_the_plan_evaluated_at_each_temperature(example):
     """casedepth.plan.compare_temperatures works the soaks out together (one soak with the shop's stages counted,
-    boost and diffuse; a low-pressure plan is evaluated at each temperature): each is what casedepth.plan.evaluate
+    boost and diffuse, low-pressure pulse tables): each is what casedepth.plan.evaluate
     gives at that temperature, to round-off, as a plain float; a temperature below the steel's Ac3 is left out."""
     values = load(f"resources/examples/{example}.cdplan.json").values()
     temperatures = [T + 273.15 for T in (700.0, 900.0, 940.0, 990.0)]

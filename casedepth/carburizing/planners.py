@@ -23,7 +23,7 @@ from .. import formats
 from ..errors import InputError, NotReachableError, SolverError
 from ..models.austenite import saturation_carbon
 from ..numerics.march import March
-from ..numerics.budget import check
+from ..numerics import searches
 from ..numerics.roots import illinois_steps, secant_on_squares_steps
 from ..numerics.solver import CarbonSolver, History, SurfaceCondition
 from ..units import both_lengths, both_temperatures, format_duration
@@ -58,10 +58,10 @@ def surface_window(surface_target: float | tuple[float, float]) -> tuple[float, 
 
 
 # -- the searches, written once for one plan and for several ------------------------------------------------------
-# A planner's search is a generator: where it needs the stages after a stop run (a drop, an equalize: the costly
-# part of every trial), it yields an :class:`_Ending` and is sent the run. :func:`_alone` serves each request at
-# once; :func:`_together` serves the requests of several searches in one batch (run_recipes), so each search takes
-# the very trials it takes alone and gives its numbers to round-off.
+# A planner's search is a generator (casedepth.numerics.searches): where it needs the stages after a stop run (a drop,
+# an equalize: the costly part of every trial), it yields an :class:`_Ending` and is sent the run. :func:`_alone`
+# serves each request at once; :func:`_together` serves a round's requests of several searches in one batch
+# (run_recipes), so each search takes the very trials it takes alone and gives its numbers to round-off.
 @dataclass(frozen=True)
 class _Ending:
     """A search's request: run its stages after the stop from ``state`` (on a fork of it)."""
@@ -80,54 +80,34 @@ class _Search:
     steps: Generator
 
 
+def _serve(search: _Search, request: _Ending) -> CycleResult:
+    return run_recipe(search.setup, list(search.after), search.temperature, solver=request.state.fork())
+
+
 def _alone(search: _Search):
     """Run one search, serving each of its requests at once; what it returns."""
-    steps = search.steps
-    try:
-        request = next(steps)
-        while True:
-            request = steps.send(run_recipe(search.setup, list(search.after), search.temperature,
-                                            solver=request.state.fork()))
-    except StopIteration as stop:
-        return stop.value
+    return searches.alone(search.steps, lambda request: _serve(search, request))
 
 
-def _together(searches: list[_Search]) -> list:
+def _together(rows: list[_Search]) -> list:
     """Run several searches, each round's requests served in one batch (run_recipes); what each returns, or the
     :class:`InputError` or :class:`SolverError` it raises (as it would alone)."""
-    out: list = [None] * len(searches)
-    pending: dict[int, _Ending] = {}
 
-    def advance(k: int, sent) -> None:
+    def serve_many(keys: list[int], requests: list[_Ending]) -> list:
+        chosen = [rows[k] for k in keys]
         try:
-            pending[k] = searches[k].steps.send(sent)
-        except StopIteration as stop:
-            out[k] = stop.value
-        except (InputError, SolverError) as error:
-            out[k] = error
-
-    for k in range(len(searches)):
-        advance(k, None)
-    while pending:
-        check()
-        keys = list(pending)
-        requests = [pending.pop(k) for k in keys]
-        rows = [searches[k] for k in keys]
-        try:
-            ends = run_recipes([r.setup for r in rows], [list(r.after) for r in rows], [r.temperature for r in rows],
-                               [q.state.fork() for q in requests])
+            return run_recipes([r.setup for r in chosen], [list(r.after) for r in chosen],
+                               [r.temperature for r in chosen], [q.state.fork() for q in requests])
         except (InputError, SolverError):  # one of them cannot run: each alone, its error its own
-            ends = [None] * len(keys)
-        for k, search, request, end in zip(keys, rows, requests, ends):
-            if end is None:
+            out = []
+            for search, request in zip(chosen, requests):
                 try:
-                    end = run_recipe(search.setup, list(search.after), search.temperature, solver=request.state.fork())
+                    out.append(_serve(search, request))
                 except (InputError, SolverError) as error:
-                    out[k] = error
-                    searches[k].steps.close()
-                    continue
-            advance(k, end)
-    return out
+                    out.append(error)
+            return out
+
+    return searches.together([search.steps for search in rows], serve_many)
 
 
 def _ending(after: tuple[Stage, ...], state: CarbonSolver, threshold: float):

@@ -26,7 +26,7 @@ from ..outcome import Curve, Fact, Level, Outcome, Panel, ProfileView, SheetCont
 from ..parameters import drawing_window
 from ..shop.quote import Quote, ShopDefaults, quote_lines
 from ..units import DisplayUnits, format_clock, format_duration
-from .planner import PulsePlan, plan_pulses, run_pulses
+from .planner import PulsePlan, plan_pulses, pulse_tables, run_pulses
 from .pulses import Pulse, PulseRun, carbon_mass
 from .schedule import format_schedule, parse_schedule
 from .setup import LpcSetup, lpc_setup, saturation_of
@@ -140,6 +140,38 @@ class LpcResult:
     def text(self, units: DisplayUnits) -> str:
         return (f"{len(self.run.pulses)} pulses, {format_duration(self.soak_time)} at temperature: case "
                 f"{units.format_length(self.run.case_depth)}, surface {formats.carbon(self.surface_carbon)}")
+
+
+def aim_soaks(values_list: list[Mapping[str, Any]]) -> list[float | InputError]:
+    """What :func:`evaluate` gives as each plan's ``soak_time`` (its boosts and diffuses together), without the rest of
+    the outcome (the table with one pulse fewer, the re-run, hardness and quote): the plans that plan their table
+    searched side by side, each round's drops and equalizes in one batch (:func:`~casedepth.lpc.planner.pulse_tables`),
+    the same times to round-off; a plan that gives its own table runs it. A plan that cannot be planned gets its
+    :class:`InputError` in its place."""
+    out: list[float | InputError | None] = [None] * len(values_list)
+    rows, keys = [], []
+    for k, values in enumerate(values_list):
+        try:
+            lpc = lpc_of(values)
+            aim = drawing_window(values)[1]
+            if values["schedule"].strip():
+                out[k] = float(run_pulses(lpc, parse_schedule(values["schedule"])).held_time)
+                continue
+        except InputError as error:
+            out[k] = error
+            continue
+        count = values["pulse_count"]
+        rows.append((lpc, aim, (values["surface_min"], values["surface_max"]), None if count is None else int(count),
+                     values["max_hold"]))
+        keys.append(k)
+    for k, result in zip(keys, pulse_tables(rows)):
+        if isinstance(result, InputError):
+            out[k] = result
+        elif isinstance(result, Exception):
+            raise result
+        else:
+            out[k] = float(sum(p.boost + p.diffuse for p in result.pulses))  # PulseRun.held_time of its table
+    return out
 
 
 def forward(values: Mapping[str, Any], soak: float, probe_depth: float | None = None,

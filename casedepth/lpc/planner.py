@@ -23,9 +23,12 @@ from functools import cached_property
 from .. import formats
 from ..errors import InputError, NotReachableError, SolverError
 from ..numerics.march import March
-from ..numerics.roots import bracket_and_solve, secant_on_squares
+from ..numerics import searches
+from ..numerics.batch import run_programs
+from ..numerics.roots import bracket_and_solve_steps, secant_on_squares_steps
+from ..numerics.solver import CarbonSolver, threshold_depth
 from ..units import both_lengths, format_duration
-from .pulses import Pulse, PulseMarch, PulseRun, check_pulses, finish
+from .pulses import Pulse, PulseMarch, PulseRun, check_pulses, cool_program, finish
 from .setup import LpcSetup
 
 #: the longest a boost holds the surface at the limit by default, s (common practice, from memory: boosts of a few
@@ -91,18 +94,13 @@ class _Missed(Exception):
         self.miss = miss
 
 
-def _last_diffuse(lpc: LpcSetup, march: PulseMarch, target: float, aim: float,
-                  offset: list[float]) -> tuple[float, float]:
+def _last_diffuse(lpc: LpcSetup, march: PulseMarch, target: float, aim: float, offset: list[float]):
     """Diffuse until the case, after the drop and equalize, is at ``target`` [m]: the diffuse's length [s] and the
-    surface carbon [wt %] the load ends with (:class:`_Missed`, measured against the surface ``aim``, if it cannot)."""
+    surface carbon [wt %] the load ends with (:class:`_Missed`, measured against the surface ``aim``, if it cannot).
+    A search (see :class:`_Cool`)."""
     thr = lpc.threshold_carbon
     solver = march.solver
     start = solver.time
-
-    def ending(state) -> tuple[float, float]:
-        cooled = _march(lpc, state.fork())
-        cooled.cool(lpc.hardening_temperature, lpc.drop_time, lpc.equalize_time)
-        return cooled.solver.threshold_depth(thr), float(cooled.solver.carbon[0])
 
     if solver.threshold_depth(thr) >= target:  # past it before the drop adds its part: too much carbon, a miss above 0
         raise _Missed(MISSED + max(float(solver.carbon[0]) - aim, 0.0) + solver.threshold_depth(thr) / target - 1.0)
@@ -113,13 +111,14 @@ def _last_diffuse(lpc: LpcSetup, march: PulseMarch, target: float, aim: float,
     def trial(x: float):
         time = diffusing.time_to(math.sqrt(max(x, 0.0)))
         state = diffusing.fork(time)
-        depth, surface = ending(state)
+        depth, surface = yield _Cool(state)
         return depth, state.threshold_depth(thr) ** 2, (time, surface, depth)
 
     floor = diffusing.depths[0] ** 2
     try:
         # the drop's share of the depth² (``offset``) varies slowly from trial to trial: the last one starts the search
-        (time, surface, depth), offset[0] = secant_on_squares(trial, target, offset[0], floor, target**2, 1e-6)
+        (time, surface, depth), offset[0] = yield from secant_on_squares_steps(trial, target, offset[0], floor,
+                                                                              target**2, 1e-6)
     except SolverError:  # the drop spreads the case back below the target whatever the stop: too little carbon
         raise _Missed(-MISSED - 0.5) from None
     if depth > target * (1 + 1e-4):  # the drop alone takes it past the target with no diffuse: too much carbon
@@ -128,15 +127,15 @@ def _last_diffuse(lpc: LpcSetup, march: PulseMarch, target: float, aim: float,
 
 
 def _trial(lpc: LpcSetup, target: float, count: int, hold: float, reboost: float,
-           aim: float, offset: list[float] | None = None) -> tuple[list[Pulse], float]:
+           aim: float, offset: list[float] | None = None):
     """The table of ``count`` pulses each holding the limit ``hold`` [s] (see the module notes), and the surface carbon
-    [wt %] it ends with when the case is at ``target``."""
+    [wt %] it ends with when the case is at ``target``. A search (see :class:`_Cool`)."""
     march = _march(lpc)
     pulses = []
     for _ in range(count - 1):
         pulses.append(Pulse(march.boost(hold=hold), march.diffuse(until_surface=reboost)))
     boost = march.boost(hold=hold)
-    diffuse, surface = _last_diffuse(lpc, march, target, aim, [0.0] if offset is None else offset)
+    diffuse, surface = yield from _last_diffuse(lpc, march, target, aim, [0.0] if offset is None else offset)
     return [*pulses, Pulse(boost, diffuse)], surface
 
 
@@ -182,18 +181,17 @@ def _hold_guess(lpc: LpcSetup, target: float, aim: float, reboost: float, count:
     return min(max((per_boost / (2.0 * (limit - reboost) * math.sqrt(D / math.pi))) ** 2, 5.0), 3600.0)
 
 
-def _for_count(lpc: LpcSetup, target: float, window: tuple[float, float], count: int,
-               guess: float | None = None) -> PulsePlan:
+def _for_count(lpc: LpcSetup, target: float, window: tuple[float, float], count: int, guess: float | None = None):
     """The table of ``count`` pulses that ends on the target with the surface at the middle of ``window`` (the search
-    for the hold starts at ``guess`` [s])."""
+    for the hold starts at ``guess`` [s]). A search (see :class:`_Cool`) returning a :class:`PulsePlan`."""
     aim = 0.5 * (window[0] + window[1])
     reboost = lpc.limit - REBOOST_SHARE * (lpc.limit - aim)
     found: dict[float, tuple[list[Pulse], float]] = {}
     offset = [0.0]  # what the drop adds to the depth², from the last trial
 
-    def miss(hold: float) -> float:
+    def miss(hold: float):
         try:
-            found[hold] = _trial(lpc, target, count, hold, reboost, aim, offset)
+            found[hold] = yield from _trial(lpc, target, count, hold, reboost, aim, offset)
         except _Missed as missed:
             return missed.miss
         return found[hold][1] - aim
@@ -201,7 +199,7 @@ def _for_count(lpc: LpcSetup, target: float, window: tuple[float, float], count:
     shortest = 0.0 if math.isfinite(lpc.carbon_flux) else 1.0  # an unlimited flux puts nothing in without a hold
     if guess is None:
         guess = _hold_guess(lpc, target, aim, reboost, count)
-    hold = bracket_and_solve(miss, max(guess, shortest), shortest, LONGEST_HOLD, 1.0, 5e-4,
+    hold = yield from bracket_and_solve_steps(miss, max(guess, shortest), shortest, LONGEST_HOLD, 1.0, 5e-4,
                              lambda: NotReachableError(
                                  "case_max", f"{both_lengths(target)} with the surface at {formats.carbon(aim)} needs "
                                  f"boosts of over 2 h at the limit with {count} pulses: plan more pulses"),
@@ -210,7 +208,7 @@ def _for_count(lpc: LpcSetup, target: float, window: tuple[float, float], count:
                                  f"put in more carbon than {both_lengths(target)} takes with the surface at "
                                  f"{formats.carbon(aim)}: plan fewer pulses"))
     if hold not in found:
-        miss(hold)
+        yield from miss(hold)
     if hold not in found or abs(found[hold][1] - aim) > LANDED:
         raise NotReachableError("case_max", f"no hold of the limit lands {both_lengths(target)} with the surface at "
                                 f"{formats.carbon(aim)} with {count} pulses")
@@ -223,6 +221,54 @@ def plan_pulses(lpc: LpcSetup, target: float, window: tuple[float, float], count
     """The pulse table for a case of ``target`` [m] at the threshold with the final surface carbon in ``window``
     [wt %] (see the module notes): ``count`` pulses, or the fewest whose boosts hold the limit no longer than
     ``max_hold`` [s]. Its :attr:`PulsePlan.fewer` is the same callout with one pulse fewer."""
+    return searches.alone(_plan_steps(lpc, target, window, count, max_hold, fewer=True), lambda r: _cooled(lpc, r))
+
+
+def pulse_tables(rows: list[tuple]) -> list[PulsePlan | Exception]:
+    """:func:`plan_pulses` of each row of its arguments ``(lpc, target, window, count, max_hold)``, without the table
+    with one pulse fewer (:attr:`PulsePlan.fewer` is None): the searches run side by side, each round's drops and
+    equalizes marched in one batch (:func:`casedepth.numerics.batch.run_programs`), so the same tables to round-off;
+    a row the single planner refuses gets its error in its place."""
+    setups = [row[0] for row in rows]
+
+    def serve_many(keys: list[int], requests: list[_Cool]) -> list:
+        solvers = [request.state.fork() for request in requests]
+        programs = [cool_program(setups[k].temperature, setups[k].limit, setups[k].hardening_temperature,
+                                 setups[k].drop_time, setups[k].equalize_time) for k in keys]
+        out = []
+        for k, solver, request, marched in zip(keys, solvers, requests, run_programs(solvers, programs)):
+            if marched is None:  # not batched: alone, as the single planner runs it
+                try:
+                    out.append(_cooled(setups[k], request))
+                except (InputError, SolverError) as error:
+                    out.append(error)
+                continue
+            lpc = setups[k]
+            out.append((threshold_depth(solver.nodes, marched.carbon, lpc.threshold_carbon,
+                                        solver.geometry.half_section), float(marched.carbon[0])))
+        return out
+
+    return searches.together([_plan_steps(*row, fewer=False) for row in rows], serve_many)
+
+
+@dataclass(frozen=True)
+class _Cool:
+    """A search's request: the drop and equalize from ``state`` (on a fork of it); answered with the case depth [m]
+    and the surface carbon [wt %] after them. The planner's searches are generators that yield these
+    (:mod:`casedepth.numerics.searches`): served at once for one plan, in one batch for several."""
+
+    state: CarbonSolver
+
+
+def _cooled(lpc: LpcSetup, request: _Cool) -> tuple[float, float]:
+    cooled = _march(lpc, request.state.fork())
+    cooled.cool(lpc.hardening_temperature, lpc.drop_time, lpc.equalize_time)
+    return cooled.solver.threshold_depth(lpc.threshold_carbon), float(cooled.solver.carbon[0])
+
+
+def _plan_steps(lpc: LpcSetup, target: float, window: tuple[float, float], count: int | None, max_hold: float,
+                fewer: bool):
+    """The search of :func:`plan_pulses` (see :class:`_Cool`); with ``fewer``, also the table with one pulse fewer."""
     low, high = window
     if not (lpc.steel.carbon < low <= high < lpc.limit):
         raise InputError("surface_min", f"{formats.typed_range(low, high, '%C')} must lie between the core carbon "
@@ -233,36 +279,36 @@ def plan_pulses(lpc: LpcSetup, target: float, window: tuple[float, float], count
     if count is not None:
         if not (1 <= count <= MAX_PULSES):
             raise InputError("pulse_count", f"{count} is outside 1–{MAX_PULSES} pulses")
-        plan = _for_count(lpc, target, window, count)
+        plan = yield from _for_count(lpc, target, window, count)
     else:
-        plan = _fewest(lpc, target, window, max_hold, plans)
+        plan = yield from _fewest(lpc, target, window, max_hold, plans)
     if count is not None and plan.hold > max_hold:
         plan.warnings.append(f"Each boost holds the surface at the limit {format_duration(plan.hold)}, longer than "
                              f"{format_duration(max_hold)}: carbides may form at the surface; plan more pulses.")
     n = len(plan.pulses)
-    if n > 1:
+    if n > 1 and fewer:
         if n - 1 in plans:
             plan.fewer = plans[n - 1]
         else:
             try:
-                plan.fewer = _for_count(lpc, target, window, n - 1, guess=plan.hold * n / (n - 1))
+                plan.fewer = yield from _for_count(lpc, target, window, n - 1, guess=plan.hold * n / (n - 1))
             except (NotReachableError, InputError):
                 plan.fewer = None
     return plan
 
 
 def _fewest(lpc: LpcSetup, target: float, window: tuple[float, float], max_hold: float,
-            plans: dict[int, PulsePlan | None]) -> PulsePlan:
+            plans: dict[int, PulsePlan | None]):
     """The plan with the fewest pulses whose hold is within ``max_hold`` [s]: a first guess from one pulse's hold,
     then one pulse more or fewer until it is the fewest that fits (every count tried is left in ``plans``)."""
 
-    def plan_for(n: int) -> PulsePlan | None:
+    def plan_for(n: int):
         if n not in plans:
             # the carbon a boost puts in grows about as its hold: a known count's hold, shared out, starts the search
             known = min(plans.items(), key=lambda kv: abs(kv[0] - n) if kv[1] is not None else math.inf, default=None)
             guess = known[1].hold * known[0] / n if known is not None and known[1] is not None else None
             try:
-                plans[n] = _for_count(lpc, target, window, n, guess=guess)
+                plans[n] = yield from _for_count(lpc, target, window, n, guess=guess)
             except NotReachableError:
                 plans[n] = None
         return plans[n]
@@ -270,7 +316,7 @@ def _fewest(lpc: LpcSetup, target: float, window: tuple[float, float], max_hold:
     # the hold falls about as a power of the count (:data:`HOLD_EXPONENT`): from the first count that lands (5, else
     # 1, 15), predict the count, refit the power on the counts known, then step to the fewest that fits
     for ref_n in FIRST_COUNTS:
-        ref = plan_for(ref_n)
+        ref = yield from plan_for(ref_n)
         if ref is not None:
             break
     else:
@@ -284,16 +330,16 @@ def _fewest(lpc: LpcSetup, target: float, window: tuple[float, float], max_hold:
         if guess == n:
             break
         n = guess
-        while plan_for(n) is None and n != ref_n:  # no table of that count lands: back toward the one that did
+        while (yield from plan_for(n)) is None and n != ref_n:  # no table of that count lands: back toward the one that did
             n += 1 if n < ref_n else -1
         if n == ref_n:
             break
         exponent = max(math.log(ref.hold / plans[n].hold) / math.log(n / ref_n), 0.3)
-    while n < MAX_PULSES and plans[n].hold > max_hold and plan_for(n + 1) is not None:
+    while n < MAX_PULSES and plans[n].hold > max_hold and (yield from plan_for(n + 1)) is not None:
         n += 1
-    while n > 1 and plan_for(n - 1) is not None and plans[n - 1].hold <= max_hold:
+    while n > 1 and (yield from plan_for(n - 1)) is not None and plans[n - 1].hold <= max_hold:
         n -= 1
-    chosen = plan_for(n)
+    chosen = yield from plan_for(n)
     if chosen is None:
         raise NotReachableError("case_max", f"no table of up to {MAX_PULSES} pulses ends at {both_lengths(target)} with the "
                                 f"surface in {formats.carbon_range(*window)}")

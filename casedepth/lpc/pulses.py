@@ -29,6 +29,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from ..errors import InputError
+from ..numerics.batch import Program, Segment, run_program
 from ..numerics.roots import illinois
 from ..numerics.solver import CarbonSolver, History, Profile, Ramp, SurfaceCondition
 
@@ -70,6 +71,18 @@ def check_pulses(pulses: list[Pulse], field: str = "schedule") -> None:
                 raise InputError(field, f"pulse {number}: {name} {length!r} s is not a time of 0–10 h")
         if pulse.boost <= 0.0:
             raise InputError(field, f"pulse {number}: a boost of no time puts no carbon in; leave the pulse out")
+
+
+def cool_program(temperature: float, limit: float, to: float, drop: float, equalize: float) -> Program:
+    """The march of the drop from ``temperature`` to the hardening temperature ``to`` [K] in ``drop`` [s] (stage 0) and
+    the equalize there [s] (stage 1), in nitrogen: no carbon through the surface (``limit`` [wt %] only bounds the
+    solver's range check). A drop of no time or to no lower temperature is left out, as is an equalize of none."""
+    segments = []
+    if to < temperature - 1e-9 and drop > 0.0:
+        segments.append(Segment(0, drop, Ramp(temperature, to, limit, limit, 1.0, 0.0, drop), drop / RAMP_STEPS))
+    if equalize > 0.0:
+        segments.append(Segment(1, equalize, SurfaceCondition(min(to, temperature), limit, 0.0)))
+    return Program(2, tuple(segments))
 
 
 class PulseMarch:
@@ -155,17 +168,16 @@ class PulseMarch:
         return s.time - start
 
     def cool(self, to: float, drop: float, equalize: float) -> None:
-        """The drop to the hardening temperature ``to`` [K] in ``drop`` [s] and the equalize there [s], in nitrogen."""
+        """The drop to the hardening temperature ``to`` [K] in ``drop`` [s] and the equalize there [s], in nitrogen
+        (:func:`cool_program`)."""
         s = self.solver
-        if to < self.temperature - 1e-9 and drop > 0.0:
-            start = s.time
-            ramp = Ramp(self.temperature, to, self.limit, self.limit, 1.0, 0.0, drop)
-            s.advance(drop, ramp, max_step=drop / RAMP_STEPS)
-            self.segments.append(("drop", start, s.time))
-        if equalize > 0.0:
-            start = s.time
-            s.advance(equalize, self._closed(min(to, self.temperature)))
-            self.segments.append(("equalize", start, s.time))
+        program = cool_program(self.temperature, self.limit, to, drop, equalize)
+        marched = run_program(s, program)
+        ends = [*marched.stage_start[1:], s.time]
+        present = {segment.stage for segment in program.segments}
+        for stage, name in enumerate(("drop", "equalize")):
+            if stage in present:
+                self.segments.append((name, marched.stage_start[stage], ends[stage]))
 
     # -- what it gives ---------------------------------------------------------------------------------------------
     def surface_history(self) -> tuple[np.ndarray, np.ndarray]:

@@ -3,8 +3,9 @@
 * :func:`illinois` — a bracketed root of a scalar function (regula falsi, Illinois variant);
 * :func:`secant_on_squares` — where to stop a stage so that the case *at the end of the cycle* lands
   on a target, when later stages (a drop, an equalize) add depth nearly in quadrature;
-* :func:`illinois_steps`, :func:`secant_on_squares_steps` — the same searches for trials that are generators,
-  so that a planner can hand its work out and several planners' work be done together;
+* :func:`illinois_steps`, :func:`secant_on_squares_steps`, :func:`bracket_and_solve_steps` — the same searches
+  for trials that are generators, so that a planner can hand its work out and several planners' work be done
+  together (:mod:`casedepth.numerics.searches`);
 * :func:`bracket_and_solve` — a root of a rising function from a first guess, no bracket known.
 """
 
@@ -165,6 +166,21 @@ def secant_on_squares_steps(trial: Callable[[float], Generator[Any, Any, tuple[f
     raise _not_converged(goal, tries)
 
 
+def _at_once(value):
+    """A generator that returns ``value`` without yielding: a plain function's result in a generator search."""
+    return value
+    yield  # pragma: no cover (makes this a generator)
+
+
+def _run(steps):
+    """The result of a generator search that never yields (its trials are plain functions)."""
+    try:
+        next(steps)
+    except StopIteration as stop:
+        return stop.value
+    raise RuntimeError("a search with plain trials asked for work")  # pragma: no cover
+
+
 def bracket_and_solve(f: Callable[[float], float], x: float, lowest: float, highest: float, xtol: float, ftol: float,
                       too_high: Callable[[], Exception], too_low: Callable[[], Exception]) -> float:
     """A root of ``f``, which rises with its argument, from a first guess ``x`` in [``lowest``, ``highest``]: secant
@@ -177,7 +193,15 @@ def bracket_and_solve(f: Callable[[float], float], x: float, lowest: float, high
     >>> round(bracket_and_solve(lambda t: t * t - 2.0, 10.0, 0.0, 100.0, 1e-12, 1e-12, ValueError, ValueError), 9)
     1.414213562
     """
-    fx = f(x)
+    return _run(bracket_and_solve_steps(lambda t: _at_once(f(t)), x, lowest, highest, xtol, ftol, too_high, too_low))
+
+
+def bracket_and_solve_steps(f: Callable[[float], Generator[Any, Any, float]], x: float, lowest: float, highest: float,
+                            xtol: float, ftol: float, too_high: Callable[[], Exception],
+                            too_low: Callable[[], Exception]):
+    """:func:`bracket_and_solve` for an ``f`` that is itself a generator (see :func:`secant_on_squares_steps`): a
+    generator yielding f's requests and returning the root; the one copy of the search."""
+    fx = yield from f(x)
     if abs(fx) <= ftol:
         return x
     low = high = previous = None
@@ -188,7 +212,7 @@ def bracket_and_solve(f: Callable[[float], float], x: float, lowest: float, high
         else:
             high, f_high = x, fx
         if low is not None and high is not None:
-            return illinois(f, low, f_low, high, f_high, xtol, ftol)
+            return (yield from illinois_steps(f, low, f_low, high, f_high, xtol, ftol))
         if fx < 0.0 and x > highest:
             raise too_high()
         if fx >= 0.0 and x <= lowest:
@@ -200,4 +224,4 @@ def bracket_and_solve(f: Callable[[float], float], x: float, lowest: float, high
         previous = (x, fx)
         x = min(max(x + step, x / 3.0), 3.0 * x)
         x = x if x > lowest + xtol else lowest
-        fx = f(x)
+        fx = yield from f(x)
