@@ -144,13 +144,10 @@ def boost_diffuse_times(rows: list[tuple]) -> list[tuple[float, float] | Excepti
     """The boost and diffuse times [s] :func:`plan_boost_diffuse` finds for each row of its arguments ``(setup,
     target_depth, surface_target, boost_potential, diffuse_potential, before, after)``, without the cycle it runs: the
     searches' trials run together, the same times to round-off; a row the single planner refuses gets its error."""
-    searches, out = [], [None] * len(rows)
-    for setup, target, surface, boost, diffuse, before, after in rows:
-        searches.append(_Search(setup, after, setup.temperature, _boost_diffuse_steps(
-            setup, target, surface, boost, diffuse, setup.temperature, before, after)))
-    for k, result in enumerate(_together(searches)):
-        out[k] = result if isinstance(result, Exception) else result[:2]
-    return out
+    runs = _together([_Search(setup, after, setup.temperature, _boost_diffuse_steps(
+        setup, target, surface, boost, diffuse, setup.temperature, before, after))
+        for setup, target, surface, boost, diffuse, before, after in rows])
+    return [result if isinstance(result, Exception) else result[:2] for result in runs]
 
 
 def _boost_diffuse_steps(setup, target_depth, surface_target, boost_potential, diffuse_potential, T, before, after):
@@ -283,9 +280,9 @@ def plan_single_soaks(setups: list[CarburizingSetup], aims: list[float], befores
     """For each setup, the soak [s] :func:`plan_single_soak` finds for the depth ``aims`` [m] with its ``befores`` and
     ``afters`` stages counted, without the cycle it returns: the searches' trials (the stages after the soak) run
     together, so the same soaks to round-off. A row the single planner refuses gets the error it raises."""
-    searches = [_Search(setup, after, setup.temperature, _single_soak_steps(setup, [aim], before, after, 0))
-                for setup, aim, before, after in zip(setups, aims, befores, afters)]
-    return [result if isinstance(result, Exception) else result[0][0] for result in _together(searches)]
+    runs = _together([_Search(setup, after, setup.temperature, _single_soak_steps(setup, [aim], before, after, 0))
+                      for setup, aim, before, after in zip(setups, aims, befores, afters)])
+    return [result if isinstance(result, Exception) else result[0][0] for result in runs]
 
 
 def _single_soak_steps(setup: CarburizingSetup, targets: list[float], before, after, cycle_for: int):

@@ -27,7 +27,7 @@ from ..parameters import drawing_window
 from ..shop.quote import Quote, ShopDefaults, quote_lines
 from ..units import DisplayUnits, format_clock, format_duration
 from .planner import PulsePlan, plan_pulses, pulse_tables, run_pulses
-from .pulses import Pulse, PulseRun, carbon_mass
+from .pulses import Pulse, PulseRun, carbon_mass, held_time
 from .schedule import format_schedule, parse_schedule
 from .setup import LpcSetup, lpc_setup, saturation_of
 
@@ -170,7 +170,7 @@ def aim_soaks(values_list: list[Mapping[str, Any]]) -> list[float | InputError]:
         elif isinstance(result, Exception):
             raise result
         else:
-            out[k] = float(sum(p.boost + p.diffuse for p in result.pulses))  # PulseRun.held_time of its table
+            out[k] = float(held_time(result.pulses))
     return out
 
 

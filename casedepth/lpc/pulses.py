@@ -61,6 +61,11 @@ class Pulse:
         return {"boost_s": self.boost, "diffuse_s": self.diffuse}
 
 
+def held_time(pulses: list[Pulse]) -> float:
+    """A table's boosts and diffuses together [s] (the time at carburizing temperature)."""
+    return sum(p.boost + p.diffuse for p in pulses)
+
+
 def check_pulses(pulses: list[Pulse], field: str = "schedule") -> None:
     """Refuse a pulse table that cannot be run: no pulse, or a length that is not a time of 0–10 h."""
     if not pulses:
@@ -222,7 +227,7 @@ class PulseRun:
     @property
     def held_time(self) -> float:
         """Boosts and diffuses together [s] (the time at carburizing temperature)."""
-        return sum(p.boost + p.diffuse for p in self.pulses)
+        return held_time(self.pulses)
 
 
 def finish(march: PulseMarch, pulses: list[Pulse], threshold: float) -> PulseRun:

@@ -19,46 +19,19 @@ from ..errors import SolverError
 from .budget import check
 
 
-class Illinois:
-    """The iterates of :func:`illinois`, one trial at a time: evaluate f at :attr:`x` (unless :attr:`done`: an end
-    was the root already), then :meth:`tell` the value; True when :attr:`x` is the root. Shared by :func:`illinois`
-    and by planners that run the trials of several searches together, so both take the same trials."""
+def _at_once(value):
+    """A generator that returns ``value`` without yielding: a plain function's result in a generator search."""
+    return value
+    yield  # pragma: no cover (makes this a generator)
 
-    def __init__(self, a: float, fa: float, b: float, fb: float, xtol: float, ftol: float):
-        self.xtol, self.ftol = xtol, ftol
-        self.done = fa == 0.0 or fb == 0.0
-        if self.done:
-            self.x = a if fa == 0.0 else b
-            return
-        if not (fa * fb < 0):
-            raise SolverError(f"the root is not bracketed between {a:g} and {b:g}")
-        self._bracket = (a, fa, b, fb)
-        self._side = 0
-        self._trials = 0
-        self.x = (fa * b - fb * a) / (fa - fb)
 
-    def tell(self, fx: float) -> bool:
-        """f at :attr:`x` is ``fx``: True if :attr:`x` is the root (|f| ≤ ftol, the bracket narrower than xtol, or 200
-        trials), else :attr:`x` moves to the next trial."""
-        a, fa, b, fb = self._bracket
-        self._trials += 1
-        x = self.x
-        if abs(fx) <= self.ftol or abs(b - a) <= self.xtol or self._trials >= 200:
-            self.done = True
-            return True
-        if fx * fb > 0:  # same side as b: move b, and halve the stale end if it was kept twice
-            b, fb = x, fx
-            if self._side == -1:
-                fa *= 0.5
-            self._side = -1
-        else:
-            a, fa = x, fx
-            if self._side == 1:
-                fb *= 0.5
-            self._side = 1
-        self._bracket = (a, fa, b, fb)
-        self.x = (fa * b - fb * a) / (fa - fb)
-        return False
+def _run(steps):
+    """The result of a generator search that never yields (its trials are plain functions)."""
+    try:
+        next(steps)
+    except StopIteration as stop:
+        return stop.value
+    raise RuntimeError("a search with plain trials asked for work")  # pragma: no cover
 
 
 def illinois(f: Callable[[float], float], a: float, fa: float, b: float, fb: float, xtol: float, ftol: float) -> float:
@@ -78,51 +51,37 @@ def illinois(f: Callable[[float], float], a: float, fa: float, b: float, fb: flo
     .. [1] Dowell, M., and P. Jarratt. "A modified regula falsi method for computing the root of an
        equation." BIT Numerical Mathematics 11 (1971): 168–174.
     """
-    search = Illinois(a, fa, b, fb, xtol, ftol)
-    while not search.done:
-        check()
-        search.tell(f(search.x))
-    return search.x
+    return _run(illinois_steps(lambda x: _at_once(f(x)), a, fa, b, fb, xtol, ftol))
 
 
 def illinois_steps(f: Callable[[float], Generator[Any, Any, float]], a: float, fa: float, b: float, fb: float,
                    xtol: float, ftol: float):
     """:func:`illinois` for an ``f`` that is itself a generator (see :func:`secant_on_squares_steps`): a generator
-    yielding f's requests and returning the root."""
-    search = Illinois(a, fa, b, fb, xtol, ftol)
-    while not search.done:
+    yielding f's requests and returning the root; the one copy of the search."""
+    if fa == 0.0:
+        return a
+    if fb == 0.0:
+        return b
+    if not (fa * fb < 0):
+        raise SolverError(f"the root is not bracketed between {a:g} and {b:g}")
+    side, x = 0, b
+    for _ in range(200):
         check()
-        search.tell((yield from f(search.x)))
-    return search.x
-
-
-class SquaresSecant:
-    """The iterates of :func:`secant_on_squares` for one search, one trial at a time: try :attr:`x`, then
-    :meth:`tell` what it gave. Shared by the one-search and many-search drivers so both take the same trials."""
-
-    def __init__(self, goal: float, offset: float, floor: float, ceiling: float, rtol: float):
-        self.goal, self.floor, self.ceiling, self.rtol = goal, floor, ceiling, rtol
-        self.offset = offset
-        self.x = min(max(goal**2 - offset, floor), ceiling)
-        self._previous: tuple[float, float] | None = None
-
-    def tell(self, final: float, used: float) -> bool:
-        """The trial at :attr:`x` ended at depth ``final`` [m] having stopped at depth² ``used``: True if that is the
-        answer, else :attr:`x` moves to the next trial."""
-        goal, floor = self.goal, self.floor
-        self.offset = final**2 - used
-        if abs(final - goal) <= self.rtol * goal or (used <= floor * (1 + 1e-12) and final >= goal):
-            return True
-        previous = self._previous
-        slope = 1.0 if previous is None or previous[0] == used else (final**2 - previous[1]) / (used - previous[0])
-        self._previous = (used, final**2)
-        self.x = min(max(used + (goal**2 - final**2) / max(slope, 0.1), floor), self.ceiling)
-        return False
-
-
-def _not_converged(goal: float, tries: int) -> SolverError:
-    return SolverError(f"the stop for a final depth of {formats.typed(goal * 1e3, 'mm')} did not converge in {tries} "
-                       "trials")
+        x = (fa * b - fb * a) / (fa - fb)
+        fx = yield from f(x)
+        if abs(fx) <= ftol or abs(b - a) <= xtol:
+            return x
+        if fx * fb > 0:  # same side as b: move b, and halve the stale end if it was kept twice
+            b, fb = x, fx
+            if side == -1:
+                fa *= 0.5
+            side = -1
+        else:
+            a, fa = x, fx
+            if side == 1:
+                fb *= 0.5
+            side = 1
+    return x
 
 
 def secant_on_squares(trial: Callable[[float], tuple[float, float, Any]], goal: float, offset: float,
@@ -144,41 +103,27 @@ def secant_on_squares(trial: Callable[[float], tuple[float, float, Any]], goal: 
     >>> payload, round(c, 6)
     ('stop at 0.7000', 0.3)
     """
-    search = SquaresSecant(goal, offset, floor, ceiling, rtol)
-    for _ in range(tries):
-        final, used, payload = trial(search.x)
-        if search.tell(final, used):
-            return payload, search.offset
-    raise _not_converged(goal, tries)
+    return _run(secant_on_squares_steps(lambda x: _at_once(trial(x)), goal, offset, floor, ceiling, rtol, tries))
 
 
 def secant_on_squares_steps(trial: Callable[[float], Generator[Any, Any, tuple[float, float, Any]]], goal: float,
                             offset: float, floor: float, ceiling: float, rtol: float, tries: int = 12):
     """:func:`secant_on_squares` for a ``trial`` that is itself a generator (it yields the work it needs done, and
-    returns what ``trial`` returns there): a generator yielding the trials' requests and returning (payload, c).
-    A planner written with it runs alone or with others whose requests are served together, taking the same
-    trials either way."""
-    search = SquaresSecant(goal, offset, floor, ceiling, rtol)
+    returns what ``trial`` returns there): a generator yielding the trials' requests and returning (payload, c); the
+    one copy of the search. A planner written with it runs alone or with others whose requests are served together
+    (:mod:`casedepth.numerics.searches`), taking the same trials either way."""
+    x = min(max(goal**2 - offset, floor), ceiling)
+    previous = None
     for _ in range(tries):
-        final, used, payload = yield from trial(search.x)
-        if search.tell(final, used):
-            return payload, search.offset
-    raise _not_converged(goal, tries)
-
-
-def _at_once(value):
-    """A generator that returns ``value`` without yielding: a plain function's result in a generator search."""
-    return value
-    yield  # pragma: no cover (makes this a generator)
-
-
-def _run(steps):
-    """The result of a generator search that never yields (its trials are plain functions)."""
-    try:
-        next(steps)
-    except StopIteration as stop:
-        return stop.value
-    raise RuntimeError("a search with plain trials asked for work")  # pragma: no cover
+        final, used, payload = yield from trial(x)
+        offset = final**2 - used
+        if abs(final - goal) <= rtol * goal or (used <= floor * (1 + 1e-12) and final >= goal):
+            return payload, offset
+        slope = 1.0 if previous is None or previous[0] == used else (final**2 - previous[1]) / (used - previous[0])
+        previous = (used, final**2)
+        x = min(max(used + (goal**2 - final**2) / max(slope, 0.1), floor), ceiling)
+    raise SolverError(f"the stop for a final depth of {formats.typed(goal * 1e3, 'mm')} did not converge in {tries} "
+                      "trials")
 
 
 def bracket_and_solve(f: Callable[[float], float], x: float, lowest: float, highest: float, xtol: float, ftol: float,

@@ -497,11 +497,8 @@ class CarbonSolver:
             k1 = _tridiagonal(below, diagonal, above, rhs1, keep=False)
             return np.add(c0, k1), flux + dt * surface0 + g * slope * k1[j]
         w = self._work
-        _, dgttrf, dgttrs = _lapack or _load_lapack()  # the matrix factored once for both stages
-        dl, d, du, du2, ipiv, info = dgttrf(below, diagonal, above, 1, 1, 1)
-        if info != 0:
-            raise _singular()
-        k1 = dgttrs(dl, d, du, du2, ipiv, rhs1, "N", 1)[0]
+        solve = _factored(below, diagonal, above)  # the matrix factored once for both stages
+        k1 = solve(rhs1)
         mid = np.add(c0, k1, out=w.mid)
         flow1, _, _ = self._face_flows(mid, cond.temperature, False, w.faces)
         surface1 = self._surface_flow(flow1, float(mid[0]), cond)
@@ -510,7 +507,7 @@ class CarbonSolver:
         rhs2 -= np.multiply(self._twice_volume, k1, out=w.mid)
         if held:
             rhs2[0] = 0.0
-        k2 = dgttrs(dl, d, du, du2, ipiv, rhs2, "N", 1)[0]
+        k2 = solve(rhs2)
         # the same combination of the two stage equations, summed over all volumes (internal
         # fluxes cancel), gives the carbon that crossed the surface
         flux += 0.5 * (dt * surface0 + g * slope * k1[j]) + 0.5 * (dt * surface1 + g * slope * k2[j])
