@@ -67,6 +67,23 @@ def evaluated(values, temperature: float):
         return error
 
 
+def lapack_per_step(rows: int = 64, nodes: int = 161) -> float:
+    """Seconds per case that the LAPACK calls of one ROS2 step take (``dgttrf`` once, ``dgttrs`` twice) with
+    ``rows`` cases of ``nodes`` nodes laid end to end: 64 rows was the cheapest per case of 1–1000 on this machine
+    (a longer system leaves the cache, a shorter one pays the call). The median of 15, on a diffusion-like,
+    diagonally dominant system. Nothing else of a step is counted: this is the floor of a step however lean the
+    rest, set by the elimination's own arithmetic."""
+    from scipy.linalg.lapack import dgttrf, dgttrs
+
+    n = rows * nodes
+    below, above, diagonal, rhs = np.full(n - 1, -0.5), np.full(n - 1, -0.5), np.full(n, 2.0), np.ones(n)
+    factors = dgttrf(below.copy(), diagonal.copy(), above.copy(), 1, 1, 1)[:5]
+    factor = statistics.median(timed(lambda: dgttrf(below.copy(), diagonal.copy(), above.copy(), 1, 1, 1))
+                               for _ in range(15))
+    solve = statistics.median(timed(lambda: dgttrs(*factors, rhs.copy(), "N", 1)) for _ in range(15))
+    return (factor + 2.0 * solve) / rows
+
+
 def timed(fn) -> float:
     start = time.perf_counter()
     fn()
@@ -111,6 +128,11 @@ def main() -> None:
           f"{'met' if many <= GOAL_MANY else 'NOT met'})")
     print(f"{CASES} one by one / in one batch              "
           f"{median[f'{CASES} one by one'] / median[f'{CASES} in one batch']:6.1f}x")
+    steps = statistics.mean(len(r.history.times) - 1 for r in alone)  # each case's march, its landing not counted
+    floor = CASES * steps * lapack_per_step()
+    print(f"floor: the LAPACK calls alone of {CASES} marches ({steps:.1f} steps each on average) take {floor * 1e3:.0f} "
+          f"ms at best, {floor / median['one inverse']:.0f}x one inverse: the {GOAL_MANY:g}x goal is below the "
+          f"elimination's own arithmetic")
     for name in plans:
         cap = median[f"{name}: capability"] / median[f"{name}: nominal evaluate"]
         opt = median[f"{name}: capability --optimize"] / median[f"{name}: nominal evaluate"]

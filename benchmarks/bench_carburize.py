@@ -21,6 +21,11 @@ against ``refined(8)`` and, independently, against a finely resolved run of the 
   ``CN_GROWTHS`` with the fewest steps whose soak-time errors on the case and its neighbours stay
   within casedepth's own worst error there: the same accuracy.
 
+A floor (:mod:`peer_bare`, inverse only) is casedepth's own method for this case with nothing around it: the same
+grid, steps, smoothing start and ROS2 stages, no history, checks, profile or warnings, landing on a node. It shows
+what the method's numpy and LAPACK calls cost at 161 nodes, so how much of casedepth's time is its bookkeeping
+and which goal the method cannot reach in numpy however lean the code.
+
 All codes are timed in the same run, interleaved repeat by repeat so that load from other
 processes hits them alike; the table gives the median wall time of ``REPEATS`` runs. The goals
 (issue "fast where the user waits"): casedepth's inverse at least ``GOAL_BDF`` times faster than
@@ -47,6 +52,7 @@ import time
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
 
+from peer_bare import BareRos2  # noqa: E402
 from peer_cn import CrankNicolsonPeer  # noqa: E402
 from peer_mol import MolPeer, domain_depth  # noqa: E402
 
@@ -210,6 +216,8 @@ def main() -> None:
     # -- timing, interleaved -------------------------------------------------------------------------
     methods["hand-written Crank–Nicolson"] = (None, lambda: cn.inverse(TARGET))
     methods["Crank–Nicolson held to domain"] = (None, lambda: cn_domain.inverse(TARGET))
+    bare = BareRos2(setup)
+    methods["casedepth's method, bare (floor)"] = (None, lambda: bare.inverse(TARGET))
     values = {name: (fwd() if fwd else math.nan, inv()) for name, (fwd, inv) in methods.items()}  # also warms up
     times = {name: ([], []) for name in methods}
     for _ in range(REPEATS):
@@ -246,6 +254,11 @@ def main() -> None:
           f"goal at most {GOAL_CN:g}x: {'met' if ratio_cn <= GOAL_CN else 'NOT met'}")
     print(f"inverse: casedepth takes {ratio_domain:.2f}x the Crank–Nicolson's time held to the domain; "
           f"goal at most {GOAL_CN:g}x: {'met' if ratio_domain <= GOAL_CN else 'NOT met'}")
+    floor = by_name["casedepth's method, bare (floor)"]
+    print(f"floor: casedepth takes {cd[2] / floor[2]:.2f}x its own method written bare ({bare.steps} steps); the BDF "
+          f"peer takes {bdf[2] / floor[2]:.1f}x the bare method's time, so {GOAL_BDF:g}x is out of the method's reach in "
+          f"numpy, and the bare method takes {floor[2] / by_name['Crank–Nicolson held to domain'][2]:.2f}x the "
+          f"Crank–Nicolson held to the domain")
 
 
 if __name__ == "__main__":

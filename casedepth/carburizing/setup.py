@@ -120,17 +120,17 @@ class CarburizingSetup:
                              f"threshold or raise the potential")
 
     # -- derived quantities ---------------------------------------------------------------
-    @property
+    @cached_property  # read several times by every solve's set-up
     def alloy_factor(self) -> float:
         """Equilibrium surface carbon of this steel over that of plain carbon steel, [-]."""
         return Gunnarson_alloy_factor(self.steel.composition) if self.alloy_factor_on else 1.0
 
-    @property
+    @cached_property
     def equilibrium_carbon(self) -> float:
         """Surface carbon the atmosphere would bring the steel to, [wt %]."""
         return equilibrium_surface_carbon(self.carbon_potential, self.alloy_factor)
 
-    @property
+    @cached_property
     def saturation_carbon(self) -> float:
         """Carbon saturation (Acm) of this steel's austenite at the temperature, [wt %]."""
         return steel_saturation_carbon(self.temperature, self.alloy_factor)
@@ -168,6 +168,10 @@ class CarburizingSetup:
 
     def warnings(self) -> list[str]:
         """Plain-language cautions about the furnace step (not errors: the result is still given)."""
+        return list(self._warnings)
+
+    @cached_property  # the same for every solve of this setup
+    def _warnings(self) -> tuple[str, ...]:
         out = []
         sat = self.saturation_carbon
         if self.equilibrium_carbon > sat:
@@ -196,7 +200,7 @@ class CarburizingSetup:
                 out.append("This is a plain-carbon grade: its case hardens through to the threshold only with a fast "
                            "(water or brine) quench or in thin sections; after an oil quench the hardness depth may "
                            "fall short of this carbon-based estimate (common practice). Confirm on a test section.")
-        return out
+        return tuple(out)
 
     # -- in words ------------------------------------------------------------------------------------
     def threshold_meaning(self) -> str:
@@ -251,11 +255,14 @@ class CarburizingSetup:
             return case_depth**2 / D
         h = self.beta / D
 
+        held = math.isinf(h)
+
         def fraction(t):
-            u = case_depth / (2.0 * math.sqrt(D * t))
-            if math.isinf(h):
+            root = math.sqrt(D * t)
+            u = case_depth / (2.0 * root)
+            if held:
                 return math.erfc(u)
-            return math.erfc(u) - math.exp(-u * u) * erfcx(u + h * math.sqrt(D * t))
+            return math.erfc(u) - math.exp(-u * u) * erfcx(u + h * root)
 
         t = case_depth**2 / D
         for _ in range(60):  # bisection in log t: cheap and cannot fail

@@ -35,8 +35,18 @@ def stoppable(stop: threading.Event):
         _state.stop = previous
 
 
-def check() -> None:
-    """Raise :class:`Stopped` if the calculation running on this thread has been asked to stop."""
-    stop = getattr(_state, "stop", None)
+def signal() -> threading.Event | None:
+    """The stop signal of the calculation running on this thread (None outside :func:`stoppable`). A loop that
+    checks at every turn reads it once and calls :func:`check_signal` with it."""
+    return getattr(_state, "stop", None)
+
+
+def check_signal(stop: threading.Event | None) -> None:
+    """Raise :class:`Stopped` if ``stop`` (from :func:`signal`) is set."""
     if stop is not None and stop.is_set():
         raise Stopped("stopped: a newer calculation replaced this one")
+
+
+def check() -> None:
+    """Raise :class:`Stopped` if the calculation running on this thread has been asked to stop."""
+    check_signal(getattr(_state, "stop", None))

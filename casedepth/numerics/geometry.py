@@ -18,6 +18,7 @@ shape             what it is                                          size
 
 from __future__ import annotations
 
+import functools
 import math
 from dataclasses import dataclass
 
@@ -111,12 +112,22 @@ def graded_nodes(depth: float, cells: int, stretch: float, section: float = math
     grid of a semi-infinite body over ``depth``; :func:`extend_nodes` continues it.
     """
     span = min(depth, section)
-    ratio = stretch ** (1.0 / max(cells - 1, 1))
-    widths = ratio ** np.arange(cells)
-    nodes = np.concatenate(([0.0], np.cumsum(widths) * (span / widths.sum())))
+    ratio, sums, total = _cell_sums(cells, stretch)
+    nodes = np.concatenate(([0.0], sums * (span / total)))
     if math.isfinite(section) and section > span:
         nodes = extend_nodes(nodes, section, ratio, finite=True)
     return nodes
+
+
+@functools.lru_cache(maxsize=16)
+def _cell_sums(cells: int, stretch: float) -> tuple[float, np.ndarray, float]:
+    """(ratio of neighbouring cells, the cells' running sum, their sum) for :func:`graded_nodes`, in units of the
+    first cell; the same for every solve at one accuracy, so kept (read-only)."""
+    ratio = stretch ** (1.0 / max(cells - 1, 1))
+    widths = ratio ** np.arange(cells)
+    sums = np.cumsum(widths)
+    sums.flags.writeable = False
+    return ratio, sums, float(widths.sum())
 
 
 def extend_nodes(nodes: np.ndarray, depth: float, ratio: float, finite: bool) -> np.ndarray:

@@ -9,10 +9,10 @@ re-taking that step with the shorter length, so every answer is as accurate as t
 
 from __future__ import annotations
 
+import bisect
 import math
 from collections.abc import Callable
 
-import numpy as np
 
 from .roots import illinois
 from .solver import CarbonSolver, History, Profile, SurfaceCondition, threshold_depth
@@ -86,9 +86,12 @@ class March:
             self.solver.advance(duration, condition, None, max_step)
             return False
         threshold = self.threshold
+        grid, shallower = None, -1  # the grid the index is for (a far end reached extends it)
 
         def reached(s: CarbonSolver) -> bool:
-            shallower = s.last_node_above(until)
+            nonlocal grid, shallower
+            if s.nodes is not grid:
+                grid, shallower = s.nodes, s.last_node_above(until)
             if shallower >= 0 and s.carbon[shallower] < threshold:
                 return False
             return self.depth_after(self.steps) >= until
@@ -102,10 +105,13 @@ class March:
         """The time [s] at which the threshold depth reached ``depth`` [m] (the start time if it was there
         already). ``depth`` must not exceed :attr:`depth`."""
         # the first step after which the depth is at least ``depth``, by bisection: the case grows through a
-        # march, so only a few of the steps' depths need working out
+        # march, so only a few of the steps' depths need working out; a march stopped on reaching the depth
+        # crossed it in its last step, which is tried first
         low, high = 0, self.steps
         if self.depth_after(0) >= depth:
             return self.start_time
+        if high > 1 and self.depth_after(high - 1) < depth:
+            low = high - 1
         while high - low > 1:
             mid = (low + high) // 2
             low, high = (low, mid) if self.depth_after(mid) >= depth else (mid, high)
@@ -122,12 +128,13 @@ class March:
         return t0 + tau
 
     def _index(self, time: float) -> int:
-        return int(np.clip(np.searchsorted(self.solver.history_time, time), 1, len(self.solver.history_time) - 1))
+        times = self.solver.history_time  # a list, sorted: bisect is what np.searchsorted does, without converting it
+        return min(max(bisect.bisect_left(times, time), 1), len(times) - 1)
 
     def profile_at(self, time: float) -> Profile:
         """The profile at ``time`` [s] within the march, the step that spans it re-taken to it."""
         solver = self.solver
-        k = int(np.searchsorted(solver.history_time, time))
+        k = bisect.bisect_left(solver.history_time, time)
         if k < len(solver.history_time) and solver.history_time[k] == time:
             return Profile(solver.nodes, solver.snapshot(k), float(time), solver.geometry.half_section)
         k = self._index(time)
@@ -139,7 +146,7 @@ class March:
     def history(self, time: float, profile: Profile | None = None) -> History:
         """The history from the solver's start up to ``time`` [s], ending with the exact profile there
         (``profile``, if the caller has it already)."""
-        k = int(np.searchsorted(self.solver.history_time, time))
+        k = bisect.bisect_left(self.solver.history_time, time)
         if k < len(self.solver.history_time) and self.solver.history_time[k] == time:
             return self.solver.history(k)
         return self.solver.history(self._index(time), profile or self.profile_at(time))

@@ -42,7 +42,7 @@ import numpy as np
 from ..errors import SolverError
 from ..models.diffusivity import Diffusivity
 from ..models.surface import beta_at
-from .budget import MAX_STEPS, check
+from .budget import MAX_STEPS, check_signal, signal
 from .geometry import Geometry, extend_nodes, graded_nodes
 
 # ROS2: both roots of 2γ² - 4γ + 1 = 0 give an L-stable method; the smaller has the much smaller
@@ -250,7 +250,7 @@ def _factored(below: np.ndarray, diagonal: np.ndarray, above: np.ndarray):
 
 def threshold_depth(depth: np.ndarray, c: np.ndarray, carbon: float, half_section: float = math.inf) -> float:
     """Depth [m] where the profile ``c`` on nodes ``depth`` first falls to ``carbon``; see :meth:`Profile.depth_at`."""
-    i = int(np.argmax(c < carbon))  # the first node under the threshold (0 if there is none, or the surface is)
+    i = int((c < carbon).argmax())  # the first node under the threshold (0 if there is none, or the surface is)
     if i == 0:
         return 0.0 if c[0] < carbon else float(min(depth[-1], half_section))
     # the few nodes around the crossing as Python floats: scalar arithmetic on them is several times
@@ -276,11 +276,19 @@ def threshold_depth(depth: np.ndarray, c: np.ndarray, carbon: float, half_sectio
 
 class _Work:
     """Arrays a step writes into and reads back within itself, kept between steps (allocating them each step
-    cost as much as the arithmetic at the usual 160 nodes)."""
+    cost as much as the arithmetic at the usual 160 nodes).
+
+    ``flows`` holds, for the stage being worked out, the flow through every face in the direction of the
+    surface: [−surface inflow, flow through face 0, …, flow through face n−2, 0 (the far end's wall)], so that
+    the net inflow of every control volume is one difference of it (:meth:`CarbonSolver._net_inflow`)."""
 
     def __init__(self, n: int):
-        self.faces = [np.empty(n - 1) for _ in range(4)]  # kD and flow at a stage, then the matrix's off-diagonals
+        self.faces = [np.empty(n - 1) for _ in range(4)]  # kD at a stage, then the matrix's off-diagonals
+        self.flows = np.zeros(n + 1)
+        # views, made once: a slice costs as much as a small ufunc call
+        self.flow, self.flows_in, self.flows_out = self.flows[1:-1], self.flows[1:], self.flows[:-1]
         self.diagonal = np.empty(n)
+        self.diagonal_head, self.diagonal_tail = self.diagonal[:-1], self.diagonal[1:]
         self.rhs = np.empty(n)
         self.rhs2 = np.empty(n)
         self.mid = np.empty(n)
@@ -328,7 +336,7 @@ class CarbonSolver:
                                     geometry.half_section))
         self._ratio = accuracy.stretch ** (1.0 / max(accuracy.cells - 1, 1))
         self._evaluations: list = []
-        self.carbon = np.full(len(self.nodes), self.core_carbon)
+        self.carbon = self._uniform = np.full(len(self.nodes), self.core_carbon)
         self.history_time: list[float] = [0.0]
         self.history_carbon: list[np.ndarray] = [self.carbon]
         self._history_steps: list[tuple[SurfaceCondition, bool]] = []
@@ -344,7 +352,7 @@ class CarbonSolver:
         self.conductance = self.face_area / self.spacing
         bounds = np.concatenate(([0.0], faces, [nodes[-1]]))
         self.volume = g.volume(bounds[:-1], bounds[1:])
-        self._twice_volume = 2.0 * self.volume
+        self._volume_head, self._volume_last = self.volume[:-1], float(self.volume[-1])
         self.surface_area = float(g.area(0.0))
         self._work = _Work(len(nodes))
         self._kernel = None  # (T [K], the faces' (k·A, s/2)) for this grid, see _face_kernel
@@ -355,15 +363,6 @@ class CarbonSolver:
         self._set_grid(extend_nodes(self.nodes, 1.5 * self.nodes[-1], self._ratio, finite=False))
         self.carbon = np.concatenate((self.carbon, np.full(len(self.nodes) - old, self.core_carbon)))
         self._evaluations = []
-
-    @staticmethod
-    def _plausible(new_range: tuple[float, float], cond: SurfaceCondition, old_range: tuple[float, float]) -> bool:
-        """True if the new carbon's (min, max) stays within the range spanned by the old profile and the
-        atmosphere (NaN fails both comparisons, so a blown-up step is caught too)."""
-        low = min(old_range[0], cond.equilibrium_carbon)
-        high = max(old_range[1], cond.equilibrium_carbon)
-        slack = 1e-3 * max(high - low, 1e-3)
-        return new_range[0] >= low - slack and new_range[1] <= high + slack
 
     def _far_end_touched(self, cond: SurfaceCondition) -> bool:
         if self._finite:
@@ -383,13 +382,14 @@ class CarbonSolver:
             self._kernel = (T, value)
         return self._kernel[1]
 
-    def _face_flows(self, c: np.ndarray, T: float, jacobian: bool, out: list[np.ndarray] | None = None):
-        """Flow into each node from the next one through their face, k·D·(c[i+1] − c[i]), and with
-        ``jacobian`` its slopes in c[i+1] and −c[i] (D taken at the faces' mean carbon, dD/dC included).
-        Without ``jacobian`` the flow may be written into ``out[1]`` (``out[0]`` is used on the way)."""
+    def _face_flows(self, c: np.ndarray, T: float, jacobian: bool, out: np.ndarray | None = None):
+        """Flow into each node from the next one through their face, k·D·(c[i+1] − c[i]), written into ``out`` if
+        given, and with ``jacobian`` its slopes in c[i+1] and −c[i] (D taken at the faces' mean carbon, dD/dC
+        included)."""
         cached = self._kernel
         kernel = cached[1] if cached is not None and cached[0] == T else self._face_kernel(T)
-        kD = np.add(c[1:], c[:-1], out=None if out is None else out[0])
+        inner, outer = c[1:], c[:-1]
+        kD = np.add(inner, outer, out=self._work.faces[0])
         if kernel is not None:  # D = A·exp(s·C): one exponential gives D and dD/dC = s·D
             kA, half_s = kernel
             np.multiply(kD, half_s, out=kD)
@@ -399,7 +399,7 @@ class CarbonSolver:
             np.multiply(kD, 0.5, out=kD)
             D, dD = self.diffusivity.with_derivative(kD, T) if jacobian else (self.diffusivity(kD, T), None)
             kD = self.conductance * D
-        flow = np.subtract(c[1:], c[:-1], out=None if out is None else out[1])
+        flow = np.subtract(inner, outer, out=out)
         np.multiply(flow, kD, out=flow)
         if not jacobian:
             return flow, None, None
@@ -407,7 +407,7 @@ class CarbonSolver:
         if kernel is not None:
             u = np.multiply(flow, kernel[1])
         else:
-            u = np.subtract(c[1:], c[:-1])
+            u = np.subtract(inner, outer)
             u *= 0.5 * self.conductance * dD
         return flow, np.add(kD, u), np.subtract(kD, u, out=u)
 
@@ -418,17 +418,13 @@ class CarbonSolver:
             return self.surface_area * (cond.beta * (cond.equilibrium_carbon - c0) + cond.influx)
         return -float(flow[0])
 
-    @staticmethod
-    def _net_inflow(flow: np.ndarray, surface: float, held: bool, out: np.ndarray | None = None) -> np.ndarray:
-        """Net inflow of each control volume from the flows through its faces (and the surface), written into
-        ``out`` if given."""
-        inflow = np.empty(len(flow) + 1) if out is None else out
-        inflow[:-1] = flow
-        inflow[-1] = 0.0
-        inflow[1:] -= flow
-        if not held:
-            inflow[0] += surface
-        return inflow
+    def _net_inflow(self, surface: float, held: bool, out: np.ndarray | None = None) -> np.ndarray:
+        """Net inflow of each control volume from the flows through its faces, :attr:`_Work.flow` (written there by
+        :meth:`_face_flows`), and the surface (not for a held surface, whose row is replaced), written into ``out``
+        if given."""
+        w = self._work
+        w.flows[0] = 0.0 if held else -surface
+        return np.subtract(w.flows_in, w.flows_out, out=out)
 
     def _evaluate(self, c: np.ndarray, cond: SurfaceCondition):
         """Inflow, the Jacobian's couplings to the next node (``upper``) and from the node before (``lower``),
@@ -437,10 +433,10 @@ class CarbonSolver:
         for key, value in self._evaluations:
             if key[0] is c and key[1] == cond:
                 return value
-        flow, upper, lower = self._face_flows(c, cond.temperature, True)
+        flow, upper, lower = self._face_flows(c, cond.temperature, True, self._work.flow)
         held = not math.isfinite(cond.beta)
         surface = self._surface_flow(flow, float(c[0]), cond)
-        inflow = self._net_inflow(flow, surface, held)
+        inflow = self._net_inflow(surface, held)
         # d surface / d c[0] at a finite β; a held surface's flow changes with c[1]
         slope = (1, -float(upper[0])) if held else (0, -self.surface_area * cond.beta)
         value = (inflow, upper, lower, surface, slope)
@@ -455,9 +451,9 @@ class CarbonSolver:
         above = np.multiply(upper, -g, out=w.faces[2])
         below = np.multiply(lower, -g, out=w.faces[3])
         diagonal = w.diagonal
-        np.subtract(self.volume[:-1], below, out=diagonal[:-1])
-        diagonal[-1] = self.volume[-1]
-        diagonal[1:] -= above
+        np.subtract(self._volume_head, below, out=w.diagonal_head)
+        diagonal[-1] = self._volume_last
+        np.subtract(w.diagonal_tail, above, out=w.diagonal_tail)
         rhs = np.multiply(inflow, dt, out=w.rhs)
         if math.isfinite(cond.beta):
             diagonal[0] += g * self.surface_area * cond.beta
@@ -473,7 +469,8 @@ class CarbonSolver:
         y_(n+1) = y_n + 3/2 k1 + 1/2 k2.
         J couples node i to i+1 by upper[i] and node i+1 to i by lower[i]; its diagonal is
         −lower[i] − upper[i−1] (− β·A at a surface with finite β). The matrix is factored once for both
-        stages.
+        stages, and the second is solved for k2/2 directly (its right-hand side halved, exactly in binary
+        floating point, so the numbers are those of solving for k2 and halving).
         """
         c0 = self.carbon if start is None else start
         flux = 0.0
@@ -500,21 +497,20 @@ class CarbonSolver:
         solve = _factored(below, diagonal, above)  # the matrix factored once for both stages
         k1 = solve(rhs1)
         mid = np.add(c0, k1, out=w.mid)
-        flow1, _, _ = self._face_flows(mid, cond.temperature, False, w.faces)
+        flow1, _, _ = self._face_flows(mid, cond.temperature, False, w.flow)
         surface1 = self._surface_flow(flow1, float(mid[0]), cond)
-        rhs2 = self._net_inflow(flow1, surface1, held, w.rhs2)
-        rhs2 *= dt
-        rhs2 -= np.multiply(self._twice_volume, k1, out=w.mid)
+        rhs2 = self._net_inflow(surface1, held, w.rhs2)
+        rhs2 *= 0.5 * dt
+        rhs2 -= np.multiply(self.volume, k1, out=w.mid)
         if held:
             rhs2[0] = 0.0
-        k2 = solve(rhs2)
+        half_k2 = solve(rhs2)
         # the same combination of the two stage equations, summed over all volumes (internal
         # fluxes cancel), gives the carbon that crossed the surface
-        flux += 0.5 * (dt * surface0 + g * slope * k1[j]) + 0.5 * (dt * surface1 + g * slope * k2[j])
+        flux += 0.5 * (dt * surface0 + g * slope * k1[j]) + 0.5 * (dt * surface1 + g * slope * (2.0 * half_k2[j]))
         carbon = np.multiply(k1, 1.5)
         carbon += c0
-        k2 *= 0.5
-        carbon += k2
+        carbon += half_k2
         return carbon, flux
 
     def _euler(self, c: np.ndarray, h: float, cond: SurfaceCondition, evaluation) -> tuple[np.ndarray, float]:
@@ -532,10 +528,10 @@ class CarbonSolver:
         evaluation = self._evaluate(c0, cond)
         whole, through_whole = self._euler(c0, dt, cond, evaluation)
         half, through_1 = self._euler(c0, 0.5 * dt, cond, evaluation)
-        flow, _, _ = self._face_flows(half, cond.temperature, False, self._work.faces)
+        flow, _, _ = self._face_flows(half, cond.temperature, False, self._work.flow)
         surface = self._surface_flow(flow, float(half[0]), cond)
         held = not math.isfinite(cond.beta)
-        at_half = (self._net_inflow(flow, surface, held), *evaluation[1:3], surface, evaluation[4])
+        at_half = (self._net_inflow(surface, held), *evaluation[1:3], surface, evaluation[4])
         two, through_2 = self._euler(half, 0.5 * dt, cond, at_half)
         two *= 2.0
         two -= whole
@@ -559,10 +555,12 @@ class CarbonSolver:
         end = self.time + duration
         dt = min(acc.start_step(self.fresh) * self.time_scale, max_step)
         smoothing = self.SMOOTHING_STEPS
-        carbon_range = (float(self.carbon.min()), float(self.carbon.max()))
+        low, high = float(self.carbon.min()), float(self.carbon.max())  # the range the profile has spanned
+        stop = signal()
         steps = 0
         while end - self.time > 1e-12 * max(end, 1.0):
-            check()
+            if stop is not None:
+                check_signal(stop)
             steps += 1
             if steps > MAX_STEPS:
                 raise SolverError(f"the carbon solver took over {MAX_STEPS} steps for one stage of "
@@ -571,8 +569,14 @@ class CarbonSolver:
             h = min(dt, end - self.time)
             cond = condition if isinstance(condition, SurfaceCondition) else condition(self.time - start + h / 2)
             carbon, flux = self._step(h, cond, euler)
-            new_range = (float(np.minimum.reduce(carbon)), float(np.maximum.reduce(carbon)))
-            if not self._plausible(new_range, cond, carbon_range):
+            # plausible if the new carbon stays within the range spanned by the profile so far and the atmosphere,
+            # with a slack of 1e-3 of it (NaN fails both comparisons, so a blown-up step is caught too)
+            new_low, new_high = float(np.minimum.reduce(carbon)), float(np.maximum.reduce(carbon))
+            equilibrium = cond.equilibrium_carbon
+            bottom = low if low < equilibrium else equilibrium
+            top = high if high > equilibrium else equilibrium
+            slack = 1e-3 * max(top - bottom, 1e-3)
+            if not (new_low >= bottom - slack and new_high <= top + slack):
                 # carbon outside the range the surface and the part allow: the step was too
                 # long for the data (a maximum principle holds for diffusion); take half of it
                 if h < 1e-9 * max(self.time_scale, 1.0):
@@ -582,12 +586,15 @@ class CarbonSolver:
                 continue
             state = (self.carbon, self.flux_integral)
             self.carbon, self.flux_integral = carbon, self.flux_integral + flux
-            if not self._finite and self._far_end_touched(cond):
+            if not self._finite and carbon[-1] != self.core_carbon and self._far_end_touched(cond):
                 self.carbon, self.flux_integral = state
                 self._extend()
                 continue
             smoothing -= 1
-            carbon_range = (min(carbon_range[0], new_range[0]), max(carbon_range[1], new_range[1]))
+            if new_low < low:
+                low = new_low
+            if new_high > high:
+                high = new_high
             self.time += h
             self.history_time.append(self.time)
             self.history_carbon.append(carbon)
@@ -607,6 +614,8 @@ class CarbonSolver:
     def fresh(self) -> bool:
         """Whether the carbon is still the core's, the same everywhere (a march from here takes
         :attr:`Accuracy.first_step`)."""
+        if self.carbon is self._uniform:  # the start's own array (a solver never changes its carbon in place)
+            return True
         return bool(np.all(self.carbon == self.core_carbon))
 
     def wait(self, duration: float) -> None:
@@ -667,12 +676,15 @@ class CarbonSolver:
         """The history up to step ``last`` (default: all of it), on the present grid; with ``final``, the
         steps before ``last`` and then that profile (a step re-taken to a shorter length)."""
         last = len(self.history_time) - 1 if last is None else last
+        n = len(self.nodes)
+        kept = last + 1 if final is None else last
+        # as snapshot() gives them: a profile from before the grid was extended padded with the core's carbon
+        carbon = [c if len(c) == n else self.snapshot(k) for k, c in enumerate(self.history_carbon[:kept])]
         if final is None:
             times = self.history_time[:last + 1]
-            carbon = [self.snapshot(k) for k in range(last + 1)]
         else:
             times = [*self.history_time[:last], final.time]
-            carbon = [*(self.snapshot(k) for k in range(last)), final.carbon]
+            carbon.append(final.carbon)
         return History(self.nodes.copy(), np.array(times), carbon, self.geometry.half_section)
 
     def threshold_depth(self, carbon: float) -> float:

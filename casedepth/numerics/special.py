@@ -168,6 +168,8 @@ def erfcx(x):
     >>> round(erfcx(1.0), 10)
     0.4275835762
     """
+    if isinstance(x, float):  # numpy's float64 too
+        return _erfcx_one(float(x))
     if not isinstance(x, np.ndarray) and np.ndim(x) == 0:
         return _erfcx_one(float(x))
     return np.asarray(_erfcx(np.asarray(x, dtype=float)), dtype=float)
