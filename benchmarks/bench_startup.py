@@ -6,7 +6,11 @@ of ``REPEATS`` runs, read from the children's resource usage.
 
 Goals (issue "fast where the user waits"): ``casedepth --help`` at most 2x ``python -c "import numpy"``,
 and a solving command (``casedepth carburize …``) at most 1.3x ``python -c "import scipy.linalg"``.
-``python -X importtime -m casedepth …`` shows where the rest goes.
+After the table it shows where the solving command's time over its yardstick goes, each from one run:
+casedepth's own modules' import time (``python -X importtime``, the self times summed) and how much of it is
+building dataclasses (their methods are compiled from source when a class is made), the command's work in a
+process that has already imported everything, and the user and system time of the command and of its
+yardstick.
 
 How to run, from the repository root::
 
@@ -44,6 +48,52 @@ def cpu_seconds(command: list[str]) -> float:
     return (after.ru_utime - before.ru_utime) + (after.ru_stime - before.ru_stime)
 
 
+#: run in a child: the command once with the dataclass builder timed, then again with everything imported
+_PROBE = """
+import contextlib, dataclasses, io, sys, time
+build = dataclasses._process_class
+spent = [0.0, 0]
+def timed(*args, **kwargs):
+    start = time.perf_counter()
+    try:
+        return build(*args, **kwargs)
+    finally:
+        spent[0] += time.perf_counter() - start
+        spent[1] += 1
+dataclasses._process_class = timed
+from casedepth import cli
+with contextlib.redirect_stdout(io.StringIO()):
+    cli.main(sys.argv[1:])
+start = time.process_time()
+with contextlib.redirect_stdout(io.StringIO()):
+    cli.main(sys.argv[1:])
+print(spent[0], spent[1], time.process_time() - start)
+"""
+
+
+def breakdown(command: list[str], yardstick: list[str]) -> None:
+    """Print where ``command`` (``python -m casedepth …``) spends its time over ``yardstick``."""
+    trace = subprocess.run([PY, "-X", "importtime", *command[1:]], capture_output=True, text=True, env=ENV).stderr
+    own = [int(line.split("|")[0].split(":")[1]) for line in trace.splitlines()
+           if line.startswith("import time:") and line.split("|")[-1].strip().startswith("casedepth")]
+    building, classes, work = (float(x) for x in
+                               subprocess.run([PY, "-c", _PROBE, *command[3:]], capture_output=True, text=True,
+                                              env=ENV, check=True).stdout.split())
+    print(f"\nwhere casedepth carburize's time goes (one run each): casedepth's {len(own)} modules import in "
+          f"{sum(own) / 1e3:.0f} ms, {building * 1e3:.0f} ms of it building {classes:.0f} dataclasses; the command's "
+          f"work, everything imported: {work * 1e3:.0f} ms")
+    for name, cmd in (("casedepth carburize", command), ("import scipy.linalg", yardstick)):
+        usage = [], []
+        for _ in range(REPEATS):
+            before = resource.getrusage(resource.RUSAGE_CHILDREN)
+            subprocess.run(cmd, stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL, check=True, env=ENV)
+            after = resource.getrusage(resource.RUSAGE_CHILDREN)
+            usage[0].append(after.ru_utime - before.ru_utime)
+            usage[1].append(after.ru_stime - before.ru_stime)
+        print(f"  {name:22s} user {statistics.median(usage[0]):.3f} s, system {statistics.median(usage[1]):.3f} s "
+              f"(medians of {REPEATS})")
+
+
 def main() -> None:
     for command in COMMANDS.values():  # warm the file cache and write the byte-code, as an installed program has it
         subprocess.run(command, stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL, check=True, env=ENV)
@@ -61,6 +111,7 @@ def main() -> None:
     print(f"\ncasedepth --help: {help_ratio:.2f}x import numpy; goal at most 2x: {'met' if help_ratio <= 2 else 'NOT met'}")
     print(f"casedepth carburize: {solve_ratio:.2f}x import scipy.linalg; goal at most 1.3x: "
           f"{'met' if solve_ratio <= 1.3 else 'NOT met'}")
+    breakdown(COMMANDS["casedepth carburize"], COMMANDS["python -c 'import scipy.linalg'"])
 
 
 if __name__ == "__main__":
