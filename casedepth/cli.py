@@ -24,7 +24,7 @@ from .models.atmosphere import (DEFAULT_CARRIER, DEFAULT_GAS_DATA, GAS_DATA, REA
                                 check_carrier, convert_reading)
 from .models.steels import library
 from .parameters import PARAMETERS, OptionError, label, option_for, options_for
-from .shop.record import SCALES
+from .models.hardness import SCALES
 from .plan import Plan, compare_temperatures, evaluate, forward, load, plan_from_options, save
 from .treatments import TREATMENTS
 from .units import DisplayUnits, check_text, format_duration, parse_length, parse_number, parse_temperature, parse_time

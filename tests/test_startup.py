@@ -22,7 +22,8 @@ with contextlib.redirect_stdout(io.StringIO()), contextlib.redirect_stderr(io.St
     except SystemExit:
         pass
 print(json.dumps(sorted(m for m in sys.modules if m.split(".")[0] in ("scipy", "matplotlib", "PySide6")
-                        or m.startswith(("casedepth.lpc", "casedepth.nitriding", "casedepth.shop.capability")))))
+                        or m.startswith(("casedepth.lpc", "casedepth.nitriding", "casedepth.shop.capability",
+                                         "casedepth.shop.record", "sqlite3")))))
 """
 
 
@@ -43,8 +44,10 @@ def test_a_solve_imports_no_matplotlib_and_no_interpolation_or_optimization():
                            "--target", "1.0mm"])
     assert "scipy.linalg" in modules  # the solver's LAPACK
     assert not any(m.startswith(("matplotlib", "PySide6", "scipy.interpolate", "scipy.optimize")) for m in modules)
-    # nor the other treatments' modules, nor the load spread's (a plan keeping their choices' defaults)
-    assert not any(m.startswith(("casedepth.lpc", "casedepth.nitriding", "casedepth.shop.capability")) for m in modules)
+    # nor the other treatments' modules, nor the load spread's (a plan keeping their choices' defaults), nor the furnace
+    # record's database (a plan not calibrated from it)
+    assert not any(m.startswith(("casedepth.lpc", "casedepth.nitriding", "casedepth.shop.capability",
+                                 "casedepth.shop.record", "sqlite3")) for m in modules)
 
 
 def test_import_casedepth_loads_nothing_heavy():

@@ -18,7 +18,8 @@ from PySide6.QtWidgets import (QComboBox, QDialog, QDialogButtonBox, QDoubleSpin
 from .. import formats
 from ..errors import CasedepthError, InputError
 from ..plan.fileformat import to_dict
-from ..shop.record import (KINDS, SCALES, Measurement, Record, default_database, parse_measured, read_csv,
+from ..models.hardness import SCALES
+from ..shop.record import (KINDS, Measurement, Record, default_database, parse_measured, read_csv,
                            use_database)
 from ..units import format_duration
 

@@ -31,6 +31,9 @@ _HV = np.array([
 
 HV_RANGE = (float(_HV[0]), float(_HV[-1]))
 HRC_RANGE = (float(_HRC[0]), float(_HRC[-1]))
+#: hardness methods a traverse is read with (ISO 6507 Vickers loads, and Rockwell C); HRC readings are turned into
+#: HV (ASTM E140) where they are stored
+SCALES = ("HV0.1", "HV0.3", "HV0.5", "HV1", "HV5", "HV10", "HRC")
 
 
 def ASTM_E140_hrc_to_hv(hrc):

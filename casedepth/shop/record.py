@@ -41,6 +41,7 @@ from typing import Iterable
 
 from .. import formats
 from ..errors import InputError
+from ..models.hardness import SCALES
 
 SCHEMA_VERSION = 3
 
@@ -69,8 +70,6 @@ KINDS: dict[str, Kind] = {k.key: k for k in (
     Kind("surface_hardness", "surface hardness", False, "HV", 1.0, 100.0, 1500.0),
     Kind("core_hardness", "core hardness", False, "HV", 1.0, 100.0, 1000.0),
 )}
-#: hardness methods a traverse is read with; HRC readings are turned into HV (ASTM E140) when stored
-SCALES = ("HV0.1", "HV0.3", "HV0.5", "HV1", "HV5", "HV10", "HRC")
 DEPTH_RANGE = (0.0, 20e-3)  # m from the surface
 
 SCHEMA_1 = """
