@@ -254,7 +254,6 @@ class CarburizingSetup:
         if not 0.0 < wanted < 1.0:
             return case_depth**2 / D
         h = self.beta / D
-
         held = math.isinf(h)
 
         def fraction(t):

@@ -13,7 +13,6 @@ import bisect
 import math
 from collections.abc import Callable
 
-
 from .roots import illinois
 from .solver import CarbonSolver, History, Profile, SurfaceCondition, threshold_depth
 
