@@ -18,7 +18,7 @@ import math
 import numpy as np
 from scipy.linalg.lapack import dgttrf, dgttrs, dgtsv
 
-from peer_common import HandWritten, land
+from peer_common import HandWritten
 
 GAMMA = 1.0 - 1.0 / math.sqrt(2.0)
 
@@ -32,7 +32,7 @@ class BareRos2(HandWritten):
     def inverse(self, target: float) -> float:
         """Soak [s] for an effective case depth of ``target`` [m]."""
         st = self.setup
-        c_core, c_eq, beta, thr = st.steel.carbon, st.equilibrium_carbon, st.beta, st.threshold_carbon
+        c_eq, beta = st.equilibrium_carbon, st.beta
         x, k, scale = self.grid(target)
         kA = self.A / np.diff(x)
         V = np.diff(np.concatenate(([0.0], 0.5 * (x[1:] + x[:-1]), [x[-1]])))
@@ -82,12 +82,4 @@ class BareRos2(HandWritten):
             out += half_k2
             return out
 
-        c = np.full(n, c_core)
-        t, h, steps = 0.0, self.first_step * scale, 0
-        while True:
-            steps += 1
-            new = step(c, h, steps <= 2)
-            if new[k] >= thr:
-                self.steps = steps
-                return t + land(lambda tau: step(c, tau, steps <= 2)[k], h, c[k], new[k], thr)
-            c, t, h = new, t + h, h * self.growth
+        return self.march(step, n, k, scale)

@@ -21,7 +21,7 @@ from __future__ import annotations
 import numpy as np
 from scipy.linalg.lapack import dgtsv
 
-from peer_common import HandWritten, land
+from peer_common import HandWritten
 
 
 class CrankNicolsonPeer(HandWritten):
@@ -34,7 +34,7 @@ class CrankNicolsonPeer(HandWritten):
     def inverse(self, target: float) -> float:
         """Soak [s] for an effective case depth of ``target`` [m]."""
         st = self.setup
-        c_core, c_eq, beta, thr = st.steel.carbon, st.equilibrium_carbon, st.beta, st.threshold_carbon
+        c_eq, beta = st.equilibrium_carbon, st.beta
         x, k, scale = self.grid(target)
         faces = 0.5 * (x[1:] + x[:-1])
         kA = self.A / np.diff(x)  # conductance × A
@@ -43,7 +43,8 @@ class CrankNicolsonPeer(HandWritten):
         n = len(x)
         diag = np.empty(n)
 
-        def step(c, h, theta):
+        def step(c, h, start):
+            theta = 1.0 if start else 0.5  # linearly implicit Euler for the first steps, then Crank–Nicolson
             kD = np.add(c[1:], c[:-1])
             kD *= half_s
             np.exp(kD, out=kD)
@@ -70,13 +71,4 @@ class CrankNicolsonPeer(HandWritten):
             dc += c
             return dc
 
-        c = np.full(n, c_core)
-        t, h, steps = 0.0, self.first_step * scale, 0
-        while True:
-            steps += 1
-            theta = 1.0 if steps <= 2 else 0.5
-            new = step(c, h, theta)
-            if new[k] >= thr:
-                self.steps = steps
-                return t + land(lambda tau: step(c, tau, theta)[k], h, c[k], new[k], thr)
-            c, t, h = new, t + h, h * self.growth
+        return self.march(step, n, k, scale)

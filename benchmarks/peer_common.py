@@ -28,6 +28,23 @@ class HandWritten:
         """:func:`plate_grid` for ``target`` [m] with this peer's settings: (nodes [m], the target node, rough soak [s])."""
         return plate_grid(self.setup, target, self.A, self.s, self.cells, self.stretch, self.domain)
 
+    def march(self, step, n: int, k: int, scale: float) -> float:
+        """The time [s] at which the carbon at node ``k`` of ``n`` reaches the threshold, from the core's carbon:
+        steps from ``first_step`` × ``scale`` [s] growing by ``growth``, ``step(c, h, start)`` giving the carbon after
+        a step of ``h`` [s] from ``c`` (``start``: one of the first two, which smooth the sudden start), the step that
+        crosses re-taken shorter (:func:`land`)."""
+        st = self.setup
+        c = np.full(n, st.steel.carbon)
+        t, h, steps = 0.0, self.first_step * scale, 0
+        while True:
+            steps += 1
+            start = steps <= 2
+            new = step(c, h, start)
+            if new[k] >= st.threshold_carbon:
+                self.steps = steps
+                return t + land(lambda tau: step(c, tau, start)[k], h, c[k], new[k], st.threshold_carbon)
+            c, t, h = new, t + h, h * self.growth
+
 
 def tibbetts(temperature: float) -> tuple[float, float]:
     """(A [m²/s], s [per wt %]) of Tibbetts' (1980) D = A·exp(s·C) at ``temperature`` [K]: 0.47 cm²/s ×

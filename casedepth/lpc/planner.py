@@ -221,7 +221,7 @@ def plan_pulses(lpc: LpcSetup, target: float, window: tuple[float, float], count
     """The pulse table for a case of ``target`` [m] at the threshold with the final surface carbon in ``window``
     [wt %] (see the module notes): ``count`` pulses, or the fewest whose boosts hold the limit no longer than
     ``max_hold`` [s]. Its :attr:`PulsePlan.fewer` is the same callout with one pulse fewer."""
-    return searches.alone(_plan_steps(lpc, target, window, count, max_hold, fewer=True), lambda r: _cooled(lpc, r))
+    return searches.alone(_plan_steps(lpc, target, window, count, max_hold, fewer=True), lambda r: _cooled(lpc, r.state.fork()))
 
 
 def pulse_tables(rows: list[tuple]) -> list[PulsePlan | Exception]:
@@ -236,10 +236,10 @@ def pulse_tables(rows: list[tuple]) -> list[PulsePlan | Exception]:
         programs = [cool_program(setups[k].temperature, setups[k].limit, setups[k].hardening_temperature,
                                  setups[k].drop_time, setups[k].equalize_time) for k in keys]
         out = []
-        for k, solver, request, marched in zip(keys, solvers, requests, run_programs(solvers, programs)):
+        for k, solver, marched in zip(keys, solvers, run_programs(solvers, programs)):
             if marched is None:  # not batched: alone, as the single planner runs it
                 try:
-                    out.append(_cooled(setups[k], request))
+                    out.append(_cooled(setups[k], solver))  # run_programs did not move it
                 except (InputError, SolverError) as error:
                     out.append(error)
                 continue
@@ -260,8 +260,10 @@ class _Cool:
     state: CarbonSolver
 
 
-def _cooled(lpc: LpcSetup, request: _Cool) -> tuple[float, float]:
-    cooled = _march(lpc, request.state.fork())
+def _cooled(lpc: LpcSetup, solver: CarbonSolver) -> tuple[float, float]:
+    """The case depth [m] and surface carbon [wt %] after the drop and equalize, marching ``solver`` (a fork of a
+    request's state) through them."""
+    cooled = _march(lpc, solver)
     cooled.cool(lpc.hardening_temperature, lpc.drop_time, lpc.equalize_time)
     return cooled.solver.threshold_depth(lpc.threshold_carbon), float(cooled.solver.carbon[0])
 

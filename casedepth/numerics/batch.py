@@ -58,7 +58,7 @@ def _solve(below: np.ndarray, diagonal: np.ndarray, above: np.ndarray, rhs: np.n
     (:func:`casedepth.numerics.solver._tridiagonal`), end to end with no coupling between rows. ``rhs`` and the
     matrix are overwritten. A singular system raises :class:`SolverError`: the caller marks the rows failed and
     solves them alone."""
-    return _tridiagonal(*_end_to_end(below, diagonal, above), rhs.reshape(-1), keep=False).reshape(rhs.shape)
+    return _tridiagonal(*_end_to_end(below, diagonal, above), rhs.reshape(-1)).reshape(rhs.shape)
 
 
 def _factored_rows(below: np.ndarray, diagonal: np.ndarray, above: np.ndarray):

@@ -222,13 +222,12 @@ def _singular() -> SolverError:
     return SolverError("singular matrix in the carbon solver; the furnace step may be outside the models' range")
 
 
-def _tridiagonal(below: np.ndarray, diagonal: np.ndarray, above: np.ndarray, rhs: np.ndarray,
-                 keep: bool = True) -> np.ndarray:
-    """Solve a tridiagonal system (LAPACK dgtsv, Gaussian elimination with partial pivoting). The
-    right-hand side is overwritten with the solution; the matrix is kept if ``keep`` (for a second
-    solve), else overwritten too."""
+def _tridiagonal(below: np.ndarray, diagonal: np.ndarray, above: np.ndarray, rhs: np.ndarray) -> np.ndarray:
+    """Solve a tridiagonal system (LAPACK dgtsv, Gaussian elimination with partial pivoting). The matrix and the
+    right-hand side are overwritten, the right-hand side with the solution (a matrix solved twice is factored once,
+    :func:`_factored`)."""
     dgtsv = (_lapack or _load_lapack())[0]
-    _, _, _, x, info = dgtsv(below, diagonal, above, rhs, 0 if keep else 1, 0 if keep else 1, 0 if keep else 1, 1)
+    _, _, _, x, info = dgtsv(below, diagonal, above, rhs, 1, 1, 1, 1)
     if info != 0:
         raise _singular()
     return x
@@ -283,7 +282,8 @@ class _Work:
     the net inflow of every control volume is one difference of it (:meth:`CarbonSolver._net_inflow`)."""
 
     def __init__(self, n: int):
-        self.faces = [np.empty(n - 1) for _ in range(4)]  # kD at a stage, then the matrix's off-diagonals
+        self.kD = np.empty(n - 1)  # the faces' conductance times D at a stage
+        self.above, self.below = np.empty(n - 1), np.empty(n - 1)  # the matrix's off-diagonals
         self.flows = np.zeros(n + 1)
         # views, made once: a slice costs as much as a small ufunc call
         self.flow, self.flows_in, self.flows_out = self.flows[1:-1], self.flows[1:], self.flows[:-1]
@@ -365,8 +365,7 @@ class CarbonSolver:
         self._evaluations = []
 
     def _far_end_touched(self, cond: SurfaceCondition) -> bool:
-        if self._finite:
-            return False
+        """Whether a semi-infinite part's carbon has reached the far end of its grid (see FAR_FIELD_TOLERANCE)."""
         core = self.core_carbon
         first, last = float(self.carbon[0]), float(self.carbon[-1])
         scale = max(abs(cond.equilibrium_carbon - core), abs(first - core), 1e-12)
@@ -389,7 +388,7 @@ class CarbonSolver:
         cached = self._kernel
         kernel = cached[1] if cached is not None and cached[0] == T else self._face_kernel(T)
         inner, outer = c[1:], c[:-1]
-        kD = np.add(inner, outer, out=self._work.faces[0])
+        kD = np.add(inner, outer, out=self._work.kD)
         if kernel is not None:  # D = A·exp(s·C): one exponential gives D and dD/dC = s·D
             kA, half_s = kernel
             np.multiply(kD, half_s, out=kD)
@@ -448,8 +447,8 @@ class CarbonSolver:
         """The tridiagonal system (M − g J) k = dt F of one stage: (below, diagonal, above, right-hand side), in
         the step's work arrays (good until the next system); a held surface's row says k[0] = 0."""
         w = self._work
-        above = np.multiply(upper, -g, out=w.faces[2])
-        below = np.multiply(lower, -g, out=w.faces[3])
+        above = np.multiply(upper, -g, out=w.above)
+        below = np.multiply(lower, -g, out=w.below)
         diagonal = w.diagonal
         np.subtract(self._volume_head, below, out=w.diagonal_head)
         diagonal[-1] = self._volume_last
@@ -491,7 +490,7 @@ class CarbonSolver:
             # ROS2 (whose internal stage overshoots on rough data) takes over. Extrapolating it, as
             # for a finite β, assumes a smooth solution and made the start worse after a jump
             # (0.12 % instead of 0.04 % on a held 20MnCr5 shaft, tests/test_accuracy_domain.py)
-            k1 = _tridiagonal(below, diagonal, above, rhs1, keep=False)
+            k1 = _tridiagonal(below, diagonal, above, rhs1)
             return np.add(c0, k1), flux + dt * surface0 + g * slope * k1[j]
         w = self._work
         solve = _factored(below, diagonal, above)  # the matrix factored once for both stages
@@ -517,7 +516,7 @@ class CarbonSolver:
         """One linearly implicit Euler step of ``h`` [s] from ``c`` with the Jacobian of ``evaluation`` and the
         inflow at ``c``: (carbon, carbon through the surface)."""
         inflow, upper, lower, surface, (j, slope) = evaluation
-        k = _tridiagonal(*self._system(upper, lower, h, inflow, h, cond), keep=False)
+        k = _tridiagonal(*self._system(upper, lower, h, inflow, h, cond))
         return np.add(c, k), h * surface + h * slope * k[j]
 
     def _smoothing_step(self, c0: np.ndarray, dt: float, cond: SurfaceCondition, flux: float):

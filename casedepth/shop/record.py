@@ -41,7 +41,7 @@ from typing import Iterable
 
 from .. import formats
 from ..errors import InputError
-from ..models.hardness import SCALES
+from ..models.hardness import SCALES, ASTM_E140_hrc_to_hv
 
 SCHEMA_VERSION = 3
 
@@ -240,7 +240,6 @@ def check_points(kind: str, points: Iterable[tuple[float, float]], field: str = 
 def parse_measured(kind: str, text: str) -> float:
     """A single measured value as typed, in the stored units: a depth (0.95mm, 0.037in) [m], a layer (8um) [m] or a
     hardness (60HRC by ASTM E140, or 720HV) [HV]; :class:`InputError` naming ``kind``."""
-    from ..models.hardness import ASTM_E140_hrc_to_hv
     from ..units import parse_length, parse_number
 
     if kind in ("case_depth", "nitrided_depth"):
@@ -260,8 +259,6 @@ def read_csv(text: str, kind: str, scale: str = "", field: str = "csv") -> list[
     """Readings from a lab's CSV: a header row, then depth [mm] and value per row (carbon wt %, or hardness in
     ``scale``: HV, or HRC turned into HV by ASTM E140). Commas, semicolons (decimal commas allowed) or tabs.
     A bad row is refused naming its row number (the header is row 1)."""
-    from ..models.hardness import ASTM_E140_hrc_to_hv
-
     lines = [line for line in text.splitlines()]
     if not lines or not lines[0].strip():
         raise InputError(field, "the file is empty: a header row, then depth in mm and the value per row")
